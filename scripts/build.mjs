@@ -1,0 +1,48 @@
+// Bundles the command line, the language server (and its worker) and the VS Code client with esbuild.
+import { build } from 'esbuild';
+import { existsSync, mkdirSync } from 'node:fs';
+
+const production = process.argv.includes('--production');
+mkdirSync('dist', { recursive: true });
+
+const common = {
+  bundle: true,
+  platform: 'node',
+  target: 'node20',
+  format: 'cjs',
+  sourcemap: !production,
+  minify: production,
+  logLevel: 'warning',
+};
+
+const entries = [
+  { in: 'server/src/cli/main.ts', out: 'dist/cli.js', banner: '#!/usr/bin/env node' },
+  { in: 'server/src/lsp/main.ts', out: 'dist/server.js' },
+  { in: 'server/src/lsp/worker.ts', out: 'dist/worker.js' },
+  { in: 'client/src/extension.ts', out: 'dist/extension.js', external: ['vscode'] },
+];
+
+await Promise.all(
+  entries
+    .filter((e) => existsSync(e.in))
+    .map((e) =>
+      build({
+        ...common,
+        entryPoints: [e.in],
+        outfile: e.out,
+        external: e.external ?? [],
+        banner: e.banner ? { js: e.banner } : undefined,
+      }),
+    ),
+);
+
+if (existsSync('client/webview/main.ts')) {
+  await build({
+    ...common,
+    platform: 'browser',
+    format: 'iife',
+    target: 'es2022',
+    entryPoints: ['client/webview/main.ts'],
+    outfile: 'dist/webview/panel.js',
+  });
+}
