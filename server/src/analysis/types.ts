@@ -1,0 +1,85 @@
+/**
+ * The result of analysing one `.qstate` file: what every front end (command line, language server,
+ * panel) shows. Energies are in the file's energy unit (or natural units), lengths in its length
+ * unit, times in its time unit (or the internal hbar/energy unit when the file names none).
+ */
+import type { EngineDiagnostic } from '../language/catalogue';
+import type { QFile } from '../language/ast';
+
+/** One level of the expansion. */
+export interface LevelResult {
+  n: number;
+  energy: number;
+  /** Estimated absolute error of the energy (numerical systems only). */
+  uncertainty?: number;
+  /** c_n = <phi_n|psi> for the normalised state. */
+  re: number;
+  im: number;
+  /** |c_n|^2. */
+  weight: number;
+}
+
+/** How the coefficients decay with n, fitted over the tail. */
+export interface DecayResult {
+  /** p in |c_n| ~ n^-p (algebraic), or null when the decay is faster than any power. */
+  exponent: number | null;
+  classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
+  /** Where a detected jump or kink sits (file length unit), if found. */
+  at: number | null;
+}
+
+/** Time evolution on a grid of times. */
+export interface EvolutionResult {
+  times: number[];
+  meanX: number[];
+  meanP: number[];
+  survival: number[];
+  /** Revival time (spectrum-based or the first revival of the survival probability), or null. */
+  revival: number | null;
+  /** |psi(x, t)|^2 on `samples.x` for each time (panel only; omitted from the command line's JSON). */
+  density?: number[][];
+}
+
+/** Samples for plots (panel only). */
+export interface SampleResult {
+  x: number[];
+  re: number[];
+  im: number[];
+  /** The potential on x (finite values; hard walls marked by `walls`). */
+  potential: number[];
+  /** The eigenfunctions on x, phi[k][j] for level index k (capped in count); the panel builds partial sums from these. */
+  phi: number[][];
+  walls: [number, number] | null;
+}
+
+/** Everything known about a file after analysis. */
+export interface AnalysisResult {
+  /** The parsed file (null only if parsing itself was skipped). */
+  file: QFile | null;
+  diagnostics: EngineDiagnostic[];
+  units: { length: string | null; energy: string | null; time: string | null };
+  system: {
+    kind: 'box' | 'well' | 'oscillator' | 'potential';
+    /** The first levels' energies (for hovers on the system line), at most 20. */
+    energies: number[];
+    uncertainties?: number[];
+    boundCount?: number;
+    center: number | null;
+  } | null;
+  levels: LevelResult[];
+  /** Integral of |psi|^2 as written (file units). */
+  norm: number | null;
+  /** Sum of weights over the levels computed. */
+  captured: number | null;
+  energy: { mean: number | null; spread: number | null } | null;
+  parity: 'even' | 'odd' | 'mixed' | null;
+  /** Finite well only: 1 - sum of bound-state weights. */
+  continuum?: number;
+  decay: DecayResult | null;
+  /** The smallest number of levels whose weights add up to 0.999 of the state, if reached. */
+  levelsFor999: number | null;
+  evolution: EvolutionResult | null;
+  samples: SampleResult | null;
+  /** Milliseconds spent. */
+  elapsedMs: number;
+}

@@ -1,0 +1,68 @@
+/**
+ * The syntax tree of a `.qstate` file.
+ * Every node carries document offsets (half-open [start, end)); expression texts are kept verbatim
+ * together with their offset so the expression layer can report exact ranges.
+ */
+
+/** A range in the document. */
+export interface Span {
+  start: number;
+  end: number;
+}
+
+/** The text of one math expression and where it sits in the document. */
+export interface ExprText extends Span {
+  /** The expression exactly as written (continuation lines joined as in the source, newlines kept). */
+  text: string;
+}
+
+/** One argument of a system or state constructor: `name = expr` or a bare `expr`. */
+export interface Arg extends Span {
+  name: string | null;
+  nameSpan: Span | null;
+  value: ExprText;
+}
+
+/** The system part shared by `system ...` and `state eigen(N) of ...`. */
+export type SystemSpec =
+  | { kind: 'box'; span: Span; keywordSpan: Span; args: Arg[] }
+  | { kind: 'well'; span: Span; keywordSpan: Span; args: Arg[] }
+  | { kind: 'oscillator'; span: Span; keywordSpan: Span; args: Arg[] }
+  | { kind: 'potential'; span: Span; keywordSpan: Span; expr: ExprText; from: ExprText; to: ExprText };
+
+/** The state part of a `state` statement. */
+export type StateSpec =
+  | { kind: 'psi'; span: Span; expr: ExprText }
+  | { kind: 'eigen'; span: Span; level: ExprText; system: SystemSpec }
+  | { kind: 'gaussian'; span: Span; keywordSpan: Span; args: Arg[] };
+
+/** A comparison at the end of an `expect` line. */
+export type Comparison =
+  | { kind: 'tolerance'; span: Span; value: ExprText; tolerance: ExprText }
+  | { kind: 'atLeast'; span: Span; value: ExprText }
+  | { kind: 'atMost'; span: Span; value: ExprText };
+
+/** What an `expect` line asserts. */
+export type Expectation =
+  | { kind: 'norm'; comparison: Comparison }
+  | { kind: 'parity'; value: 'even' | 'odd' | 'mixed'; valueSpan: Span }
+  | { kind: 'weight'; from: ExprText; to: ExprText | null; comparison: Comparison }
+  | { kind: 'energy'; comparison: Comparison }
+  | { kind: 'spread'; comparison: Comparison };
+
+/** One statement; `span` covers the whole statement including continuation lines, `keywordSpan` its keyword. */
+export type Statement =
+  | { kind: 'units'; span: Span; keywordSpan: Span; units: { name: string; span: Span }[] }
+  | { kind: 'mass'; span: Span; keywordSpan: Span; expr: ExprText }
+  | { kind: 'let'; span: Span; keywordSpan: Span; name: string; nameSpan: Span; expr: ExprText }
+  | { kind: 'system'; span: Span; keywordSpan: Span; system: SystemSpec }
+  | { kind: 'state'; span: Span; keywordSpan: Span; state: StateSpec }
+  | { kind: 'basis'; span: Span; keywordSpan: Span; expr: ExprText }
+  | { kind: 'expect'; span: Span; keywordSpan: Span; expectation: Expectation }
+  | { kind: 'evolve'; span: Span; keywordSpan: Span; to: ExprText; steps: ExprText | null };
+
+/** A parsed file: the statements that parsed (in order) and the text they came from. */
+export interface QFile {
+  text: string;
+  statements: Statement[];
+}

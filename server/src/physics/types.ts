@@ -1,0 +1,40 @@
+/**
+ * Contracts of the physics layer. All quantities are in internal units: hbar = 1, the particle mass
+ * is `mass`, lengths and energies in the file's units (or natural units).
+ */
+
+/** The energy eigenbasis of a one-dimensional system. */
+export interface Eigenbasis {
+  kind: 'box' | 'well' | 'oscillator' | 'potential';
+  /** How many levels the basis holds. */
+  count: number;
+  /** The label n of index 0 (1 for box, well and potential; 0 for the oscillator). */
+  firstLabel: number;
+  /** Energies by index, ascending. */
+  energies: Float64Array;
+  /** Estimated absolute error of each energy (numerical systems only). */
+  uncertainty?: Float64Array;
+  /** The particle mass (internal units). */
+  mass: number;
+  /** Centre of symmetry of the potential, or null when it has none. */
+  center: number | null;
+  /** Hard walls (box, potential), or null on the whole line. */
+  walls: [number, number] | null;
+  /** An interval holding all but ~1e-16 of the weight of every level in the basis. */
+  support: [number, number];
+  /** Points where the potential jumps (finite well edges, steps); eigenfunctions have a jump in phi'' there. */
+  breakpoints: number[];
+  /** The potential energy at x (internal units); +Infinity outside hard walls. */
+  potential(x: number): number;
+  /**
+   * Fills out[k * xs.length + j] with phi_k(xs[j]) for k < levels (and the derivatives when given):
+   * the whole table at once, because recurrences make that much cheaper than level by level.
+   */
+  table(xs: Float64Array, levels: number, out: Float64Array, d1?: Float64Array, d2?: Float64Array): void;
+}
+
+/** A quadrature rule: nodes and weights. */
+export interface Quadrature {
+  x: Float64Array;
+  w: Float64Array;
+}

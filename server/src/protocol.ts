@@ -1,0 +1,28 @@
+/**
+ * The custom messages between the language server and the VS Code client (and its panel).
+ * This is the only file both sides import; keep it free of runtime dependencies.
+ */
+import type { AnalysisResult } from './analysis/types';
+
+/** Server to client: the full analysis of a document version, for the panel and the status bar. */
+export const RESULT_NOTIFICATION = 'eigenspan/result';
+
+/** The payload of `eigenspan/result`. */
+export interface ResultParams {
+  uri: string;
+  version: number;
+  /** The analysis without the syntax tree (not serialisable cheaply and not needed by the panel). */
+  result: Omit<AnalysisResult, 'file'>;
+}
+
+/** Messages from the extension host to the panel (webview). */
+export type HostToPanel =
+  | { type: 'result'; uri: string; version: number; fileName: string; result: Omit<AnalysisResult, 'file'> }
+  | { type: 'theme'; kind: 'light' | 'dark' | 'high-contrast' | 'high-contrast-light' }
+  | { type: 'empty'; reason: string };
+
+/** Messages from the panel to the extension host. */
+export type PanelToHost =
+  | { type: 'ready' }
+  | { type: 'export'; format: 'png' | 'svg'; view: string; data: string }
+  | { type: 'reveal'; line: number };
