@@ -26,3 +26,18 @@ export type PanelToHost =
   | { type: 'ready' }
   | { type: 'export'; format: 'png' | 'svg'; view: string; data: string }
   | { type: 'reveal'; line: number };
+
+/** Client to server: the workspace became trusted, so expressions may now be evaluated (no reload). */
+export const SET_TRUST_NOTIFICATION = 'eigenspan/setTrust';
+
+/** The payload of `eigenspan/setTrust`. */
+export interface SetTrustParams {
+  trusted: boolean;
+}
+
+/** Host to panel: display preferences taken from the `eigenspan.*` settings. */
+export interface PanelSettingsMessage {
+  type: 'settings';
+  /** Initial scale of the spectrum view when the panel has no saved choice of its own. */
+  plotScale: 'linear' | 'log';
+}
