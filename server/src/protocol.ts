@@ -17,7 +17,15 @@ export interface ResultParams {
 
 /** Messages from the extension host to the panel (webview). */
 export type HostToPanel =
-  | { type: 'result'; uri: string; version: number; fileName: string; result: Omit<AnalysisResult, 'file'> }
+  | {
+      type: 'result';
+      uri: string;
+      version: number;
+      fileName: string;
+      result: Omit<AnalysisResult, 'file'>;
+      /** Optional: the 0-based line of each diagnostic's start, in order, so the panel can offer to reveal it. */
+      diagnosticLines?: number[];
+    }
   | { type: 'theme'; kind: 'light' | 'dark' | 'high-contrast' | 'high-contrast-light' }
   | { type: 'empty'; reason: string };
 
