@@ -1,16 +1,25 @@
 /**
  * The one function every front end calls: text in, expansion and diagnostics out.
- * (Contract stub: the implementation lands with the core engine.)
+ * `analyseStatic` is the cheap stage (syntax, names, units) run on every keystroke; `analyse` adds the
+ * numerics. Both are pure and never throw.
  */
-import type { AnalysisResult } from './types';
-import type { EngineDiagnostic } from '../language/catalogue';
+import type { AnalysisResult, EvolutionResult, LevelResult, SampleResult } from './types';
+import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { QFile } from '../language/ast';
+import { parse } from '../language/parser';
+import { buildModel, fmt, type Model } from './model';
+import { buildBasis, buildState, MissingLevel, type BuiltBasis, type StateFunction } from './systems';
+import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEnergy, parityParts, replaceFix, warn } from './expand';
+import { checkExpects } from './expects';
+import { evolve, revivalTime } from '../physics/evolution';
+import { timeToDisplay } from '../expr/units';
+import type { Eigenbasis } from '../physics/types';
 
 /** Options of `analyse`, with their defaults. */
 export interface AnalyseOptions {
   /** Levels to project on when the file has no `basis` line (default 40). */
   defaultBasis?: number;
-  /** When false, only syntax, name and unit checks run (untrusted workspaces). Default true. */
+  /** When false, only syntax checks run (untrusted workspaces). Default true. */
   evaluate?: boolean;
   /** Include plot samples (`samples`, `evolution.density`) for the panel. Default false. */
   samples?: boolean;
@@ -34,7 +43,7 @@ export interface Limits {
 /** Safe defaults for `Limits`. */
 export const DEFAULT_LIMITS: Limits = {
   maxBasis: 5000,
-  maxGridPoints: 1 << 17,
+  maxGridPoints: 1 << 18,
   maxExpressionLength: 10_000,
   maxNesting: 200,
   maxFileBytes: 256 * 1024,
@@ -42,19 +51,63 @@ export const DEFAULT_LIMITS: Limits = {
   maxEvolveSteps: 10_000,
 };
 
-/** Syntax, name and unit checks only: cheap enough to run on every keystroke. */
-export function analyseStatic(text: string, options: AnalyseOptions = {}): { file: QFile; diagnostics: EngineDiagnostic[] } {
-  void options;
-  return { file: { text, statements: [] }, diagnostics: [] };
+/** Default number of levels when a file has no `basis` line. */
+export const DEFAULT_BASIS = 40;
+
+/** Tolerance of the norm, capture and parity checks. */
+const TOL = 1e-6;
+
+interface StaticStage {
+  file: QFile;
+  diagnostics: EngineDiagnostic[];
+  model: Model | null;
+  limits: Limits;
 }
 
-/** Parses, checks and expands a `.qstate` file. Never throws. */
-export function analyse(text: string, options: AnalyseOptions = {}): AnalysisResult {
-  const started = performance.now();
-  const s = analyseStatic(text, options);
+function staticStage(text: string, options: AnalyseOptions): StaticStage {
+  const limits = { ...DEFAULT_LIMITS, ...options.limits };
+  const diagnostics: EngineDiagnostic[] = [];
+  if (text.length > limits.maxFileBytes) {
+    diagnostics.push(
+      diagnostic('limits', 0, Math.min(text.length, 1), `The file is ${text.length} characters long, above the limit of ${limits.maxFileBytes}; it is not analysed.`),
+    );
+    return { file: { text, statements: [] }, diagnostics, model: null, limits };
+  }
+  const parsed = parse(text);
+  diagnostics.push(...parsed.diagnostics);
+  let file = parsed.file;
+  if (file.statements.length > limits.maxStatements) {
+    const s = file.statements[limits.maxStatements]!;
+    diagnostics.push(diagnostic('limits', s.span.start, s.span.end, `The file has ${file.statements.length} statements, above the limit of ${limits.maxStatements}; the rest are ignored.`));
+    file = { text, statements: file.statements.slice(0, limits.maxStatements) };
+  }
+  const model = buildModel(
+    file,
+    {
+      defaultBasis: options.defaultBasis ?? DEFAULT_BASIS,
+      maxBasis: limits.maxBasis,
+      maxEvolveSteps: limits.maxEvolveSteps,
+      evaluate: options.evaluate !== false,
+    },
+    diagnostics,
+  );
+  return { file, diagnostics, model, limits };
+}
+
+/** Syntax, name and unit checks only: cheap enough to run on every keystroke. Never throws. */
+export function analyseStatic(text: string, options: AnalyseOptions = {}): { file: QFile; diagnostics: EngineDiagnostic[] } {
+  try {
+    const s = staticStage(text, options);
+    return { file: s.file, diagnostics: sortDiagnostics(s.diagnostics) };
+  } catch (err) {
+    return { file: { text, statements: [] }, diagnostics: [internalError(err, text)] };
+  }
+}
+
+function emptyResult(file: QFile | null, diagnostics: EngineDiagnostic[], started: number): AnalysisResult {
   return {
-    file: s.file,
-    diagnostics: s.diagnostics,
+    file,
+    diagnostics,
     units: { length: null, energy: null, time: null },
     system: null,
     levels: [],
@@ -68,4 +121,506 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
     samples: null,
     elapsedMs: performance.now() - started,
   };
+}
+
+function internalError(err: unknown, text: string): EngineDiagnostic {
+  const msg = err instanceof Error ? err.message : String(err);
+  return diagnostic('evaluation', 0, Math.min(1, text.length), `The analysis stopped on an internal error (${msg}); please report this file.`);
+}
+
+function sortDiagnostics(d: EngineDiagnostic[]): EngineDiagnostic[] {
+  return d.sort((a, b) => a.start - b.start || a.end - b.end);
+}
+
+/** Parses, checks and expands a `.qstate` file. Never throws. */
+export function analyse(text: string, options: AnalyseOptions = {}): AnalysisResult {
+  const started = performance.now();
+  let stage: StaticStage;
+  try {
+    stage = staticStage(text, options);
+  } catch (err) {
+    return emptyResult(null, [internalError(err, text)], started);
+  }
+  const result = emptyResult(stage.file, stage.diagnostics, started);
+  try {
+    if (stage.model && options.evaluate !== false) numericStage(stage.model, stage, options, result);
+  } catch (err) {
+    if (err instanceof BadValue) {
+      const st = stage.model?.state?.stmt;
+      const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
+      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${fmt(err.value)} at x = ${fmt(err.x)}; it must be finite everywhere.`));
+    } else {
+      result.diagnostics.push(internalError(err, text));
+    }
+  }
+  result.diagnostics = sortDiagnostics(result.diagnostics);
+  result.elapsedMs = performance.now() - started;
+  return result;
+}
+
+function unitNames(model: Model): AnalysisResult['units'] {
+  const u = model.units;
+  if (u.mode === 'natural') return { length: null, energy: null, time: null };
+  return { length: u.length.name, energy: u.energy.name, time: u.time ? u.time.name : null };
+}
+
+function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions, result: AnalysisResult): void {
+  const out = result.diagnostics;
+  result.units = unitNames(model);
+  if (!model.system) {
+    if (model.state && model.ok) {
+      const st = model.state.stmt;
+      out.push(diagnostic('name', st.keywordSpan.start, st.keywordSpan.end, 'The file has a state but no system to expand it in; add a `system` line.'));
+    }
+    return;
+  }
+  const limits = stage.limits;
+  const sys = model.system.model;
+  const sysStmt = model.system.stmt;
+  let count = model.basis.value;
+  const built = buildBasis(sys, model.mass, count, out, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+  if (!built) return;
+  const basis = built.basis;
+  reportBasisFacts(built, model, sysStmt.span, count, out);
+  count = Math.min(count, basis.count);
+  const energiesShown = Array.from(basis.energies.subarray(0, Math.min(20, basis.count)));
+  result.system = {
+    kind: basis.kind,
+    energies: energiesShown,
+    center: basis.center,
+  };
+  if (basis.uncertainty) result.system.uncertainties = Array.from(basis.uncertainty.subarray(0, energiesShown.length));
+  if (basis.kind === 'well') result.system.boundCount = basis.count;
+  if (!model.state || options.cancelled?.()) return;
+
+  const stateStmt = model.state.stmt;
+  const stateSpan = stateStmt.kind === 'state' && stateStmt.state.kind === 'psi' ? stateStmt.state.expr : stateStmt.span;
+  const state = buildState(model.state.model, basis, model.mass, out, stateSpan, { maxGridPoints: limits.maxGridPoints });
+  if (!state) return;
+
+  // The integration window: the walls for hard-walled systems, a scanned window on the line otherwise.
+  let window: [number, number];
+  if (basis.walls) window = [basis.walls[0], basis.walls[1]];
+  else {
+    const w = findWindowSafe(state, basis);
+    if (!w) {
+      out.push(warn('norm', stateSpan, 'The state does not fall off away from the system: |psi|^2 cannot be integrated over the line.', undefined, 'error'));
+      return;
+    }
+    window = w;
+  }
+
+  let ex: ReturnType<typeof expandState>;
+  try {
+    ex = expandState(state, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+  } catch (err) {
+    if (err instanceof MissingLevel) {
+      out.push(warn('evaluation', stateSpan, `phi(${err.level}, x) is not a level of this system: levels run from ${basis.firstLabel} to ${basis.firstLabel + basis.count - 1}${basis.kind === 'well' ? '' : ' (raise `basis`)'}.`));
+      return;
+    }
+    throw err;
+  }
+  if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
+  const norm = ex.norm;
+  if (!(norm > 0)) {
+    out.push(warn('norm', stateSpan, 'The state is zero everywhere in the system; there is nothing to expand.', undefined, 'error'));
+    return;
+  }
+  result.norm = norm;
+  const s = 1 / Math.sqrt(norm);
+  const levels: LevelResult[] = [];
+  let captured = 0;
+  const weights = new Float64Array(count);
+  for (let k = 0; k < count; k++) {
+    const re = ex.re[k]! * s;
+    const im = ex.im[k]! * s;
+    const w = re * re + im * im;
+    weights[k] = w;
+    captured += w;
+    const lv: LevelResult = { n: k + basis.firstLabel, energy: basis.energies[k]!, re, im, weight: w };
+    if (basis.uncertainty) lv.uncertainty = basis.uncertainty[k]!;
+    levels.push(lv);
+  }
+  result.levels = levels;
+  result.captured = captured;
+  let acc = 0;
+  for (let k = 0; k < count; k++) {
+    acc += weights[k]!;
+    if (acc >= 0.999) {
+      result.levelsFor999 = k + 1;
+      break;
+    }
+  }
+
+  // Norm.
+  if (model.state.model.kind === 'psi' && Math.abs(norm - 1) > TOL) {
+    const factor = 1 / Math.sqrt(norm);
+    const expr = model.state.model.expr;
+    const factorText = formatFactor(factor);
+    out.push(
+      warn('norm', stateSpan, `The integral of |psi|^2 is ${fmt(norm)}, not 1; results are for the normalised state. Multiply psi by ${factorText} to normalise it.`, [
+        replaceFix('Normalise the state', expr, `${factorText} * (${expr.text})`),
+      ]),
+    );
+  }
+
+  // Hard walls: the state's value at the walls and weight outside them.
+  const scalePsi = maxAbs(ex.values.re, ex.values.im) || 1;
+  const scaleD = maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
+  let wallBreak = false;
+  if (basis.walls) wallBreak = checkWalls(state, basis, norm, stateSpan, scalePsi, out, sys.kind === 'potential' ? sysStmt : null);
+
+  const { jumps, kinks } = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
+
+  // Energy: from the grid, with divergence decided by jumps, kinks and wall values.
+  let meanFromLevels = 0;
+  for (let k = 0; k < count; k++) meanFromLevels += weights[k]! * basis.energies[k]!;
+  const g = gridEnergy(basis, ex.q, ex.values, norm);
+  let mean: number | null = g.mean;
+  let spread: number | null = Math.sqrt(Math.max(0, g.meanSquare - g.mean * g.mean));
+  const decay = decayOf(basis, weights);
+  if (decay) decay.at = jumps[0] ?? kinks[0] ?? null;
+  if (wallBreak || jumps.length > 0 || decay?.classification === 'jump') {
+    mean = null;
+    spread = null;
+  } else if (kinks.length > 0 || decay?.classification === 'kink') {
+    spread = null;
+  }
+  result.energy = { mean, spread };
+  result.decay = decay;
+  reportConvergence(basis, decay, jumps, kinks, wallBreak, mean, meanFromLevels, captured, stateSpan, out);
+
+  // Parity.
+  if (basis.center !== null) {
+    const p = parityParts(state, ex.q, ex.values, basis.center);
+    const total = p.even + p.odd;
+    const minor = Math.min(p.even, p.odd) / total;
+    const parity = p.odd / total < 1e-10 ? 'even' : p.even / total < 1e-10 ? 'odd' : 'mixed';
+    result.parity = parity;
+    reportParity(basis, parity, minor, p.odd < p.even ? 'even' : 'odd', stateSpan, out);
+    if (parity !== 'mixed') {
+      // Levels of the other parity vanish by symmetry; make their zeros exact.
+      for (const lv of levels) {
+        const k = lv.n - basis.firstLabel;
+        const levelEven = basis.kind === 'oscillator' ? k % 2 === 0 : k % 2 === 0;
+        if ((parity === 'even') !== levelEven && lv.weight < 1e-20) {
+          captured -= lv.weight;
+          lv.re = 0;
+          lv.im = 0;
+          lv.weight = 0;
+        }
+      }
+      result.captured = captured;
+    }
+  }
+
+  // Capture: basis too small, or weight in a well's continuum.
+  if (basis.kind === 'well') {
+    const cont = Math.max(0, 1 - captured);
+    result.continuum = cont;
+    if (cont > TOL) {
+      out.push(
+        warn('continuum', stateSpan, `${pct(cont)} of the state lies outside the ${basis.count} bound state${basis.count === 1 ? '' : 's'} (in the continuum of unbound states); the bound levels capture ${pct(captured)}.`),
+      );
+    }
+  } else if (captured < 1 - TOL && !wallBreak) {
+    const need = levelsNeeded(state, basis, sys, model, window, limits, options);
+    const basisStmt = model.basis.stmt;
+    const fixes = need !== null && need <= limits.maxBasis
+      ? [basisStmt && basisStmt.kind === 'basis'
+          ? replaceFix(`Raise basis to ${need}`, basisStmt.expr, String(need))
+          : { kind: 'insert' as const, title: `Add basis ${need}`, at: sysStmt.span.end, text: `\nbasis ${need}` }]
+      : undefined;
+    const span = basisStmt ? basisStmt.span : stateSpan;
+    out.push(
+      warn('basis', span, `The ${count} levels capture ${pct(captured)} of the state (short by ${fmt(1 - captured)}).${need !== null ? ` About ${need} levels capture all but 1e-6.` : ''}`, fixes),
+    );
+  }
+
+  if (options.cancelled?.()) return;
+  checkExpects(model, result, out);
+
+  if (model.evolve) result.evolution = evolution(model, basis, levels, ex, options);
+  if (options.samples) result.samples = samples(state, basis, window, norm, levels);
+}
+
+function findWindowSafe(state: StateFunction, basis: Eigenbasis): [number, number] | null {
+  return findWindow(state, basis);
+}
+
+function reportBasisFacts(built: BuiltBasis, model: Model, sysSpan: { start: number; end: number }, asked: number, out: EngineDiagnostic[]): void {
+  const basis = built.basis;
+  if (basis.kind === 'well' && model.basis.stmt && asked > basis.count) {
+    out.push(
+      warn('basis', model.basis.stmt.span, `The well holds ${basis.count} bound state${basis.count === 1 ? '' : 's'}; basis ${asked} is capped at ${basis.count}.`, undefined, 'info'),
+    );
+  }
+  if (built.unresolved !== undefined && built.unresolved !== null) {
+    out.push(
+      warn('limits', sysSpan, `The grid cap stopped refinement: level ${built.unresolved + basis.firstLabel} and above are not resolved to 1e-9.`),
+    );
+  }
+  if (built.wallArtefacts && built.wallArtefacts.length > 0) {
+    const first = built.wallArtefacts[0]! + basis.firstLabel;
+    out.push(
+      warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential at both walls: they are the walls' box-quantised continuum, not bound states of the potential.`, undefined, 'info'),
+    );
+  }
+}
+
+function checkWalls(
+  state: StateFunction,
+  basis: Eigenbasis,
+  norm: number,
+  span: { start: number; end: number },
+  scalePsi: number,
+  out: EngineDiagnostic[],
+  potentialStmt: import('../language/ast').Statement | null,
+): boolean {
+  const [a, b] = basis.walls!;
+  const L = b - a;
+  const v = state.evaluate(new Float64Array([a, b]), 0);
+  const va = Math.hypot(v.re[0]!, v.im[0]!);
+  const vb = Math.hypot(v.re[1]!, v.im[1]!);
+  let broken = false;
+  const tol = 1e-6 * scalePsi;
+  if (va > tol || vb > tol) {
+    broken = true;
+    const where = va > tol && vb > tol ? `psi(${fmt(a)}) = ${fmt(va / Math.sqrt(norm))} and psi(${fmt(b)}) = ${fmt(vb / Math.sqrt(norm))} (normalised)` : va > tol ? `psi(${fmt(a)}) = ${fmt(va / Math.sqrt(norm))} (normalised) at the left wall` : `psi(${fmt(b)}) = ${fmt(vb / Math.sqrt(norm))} (normalised) at the right wall`;
+    out.push(
+      warn('boundary', span, `The state is not zero at the hard wall: ${where}. Its coefficients fall off only as 1/n and its energy mean is infinite.`),
+    );
+  }
+  // Weight outside the walls is dropped.
+  if (!state.support || state.support[0] < a - 1e-12 * L || state.support[1] > b + 1e-12 * L) {
+    const lo = state.support ? state.support[0] : a - L;
+    const hi = state.support ? state.support[1] : b + L;
+    let outside = 0;
+    for (const [x0, x1] of [
+      [lo, a],
+      [b, hi],
+    ] as const) {
+      if (x1 - x0 <= 1e-12 * L) continue;
+      const n = 2001;
+      const xs = new Float64Array(n);
+      for (let j = 0; j < n; j++) xs[j] = x0 + ((x1 - x0) * (j + 0.5)) / n;
+      const w = state.evaluate(xs, 0);
+      let sum = 0;
+      for (let j = 0; j < n; j++) {
+        const r = w.re[j]!;
+        const i = w.im[j]!;
+        if (Number.isFinite(r) && Number.isFinite(i)) sum += r * r + i * i;
+      }
+      outside += (sum * (x1 - x0)) / n;
+    }
+    const frac = outside / (outside + norm);
+    if (frac > 1e-9) {
+      broken = true;
+      out.push(warn('boundary', span, `${pct(frac)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)}; that part is dropped and the rest is renormalised.`));
+    }
+  }
+  // Numerical systems: weight piled against a wall means the interval cuts the state.
+  if (potentialStmt && !broken && potentialStmt.kind === 'system' && potentialStmt.system.kind === 'potential') {
+    const edge = 0.02 * L;
+    let near = 0;
+    let total = 0;
+    const n = 4000;
+    const xs = new Float64Array(n);
+    for (let j = 0; j < n; j++) xs[j] = a + (L * (j + 0.5)) / n;
+    const w = state.evaluate(xs, 0);
+    for (let j = 0; j < n; j++) {
+      const p = w.re[j]! ** 2 + w.im[j]! ** 2;
+      total += p;
+      if (xs[j]! < a + edge || xs[j]! > b - edge) near += p;
+    }
+    if (total > 0 && near / total > 1e-8) {
+      const spec = potentialStmt.system;
+      const fixes = [
+        replaceFix('Widen the interval', { start: spec.from.start, end: spec.to.end }, `${widen(spec.from.text, -1, L)}, ${widen(spec.to.text, 1, L)}`),
+      ];
+      out.push(warn('boundary', span, `${pct(near / total)} of |psi|^2 lies within 2% of the walls: the walls cut the state. Widen the interval.`, fixes));
+      broken = true;
+    }
+  }
+  return broken;
+}
+
+function widen(text: string, sign: number, L: number): string {
+  const half = L / 2;
+  return sign < 0 ? `(${text}) - ${fmt(half)}` : `(${text}) + ${fmt(half)}`;
+}
+
+function reportConvergence(
+  basis: Eigenbasis,
+  decay: AnalysisResult['decay'],
+  jumps: number[],
+  kinks: number[],
+  wallBreak: boolean,
+  mean: number | null,
+  meanFromLevels: number,
+  captured: number,
+  span: { start: number; end: number },
+  out: EngineDiagnostic[],
+): void {
+  const p = decay?.exponent != null ? ` |c_n| falls off as n^-${fmt(decay.exponent)}.` : '';
+  if (jumps.length > 0) {
+    out.push(warn('convergence', span, `The state jumps at x = ${fmt(jumps[0]!)}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`));
+    return;
+  }
+  if (wallBreak) return; // Already explained by the boundary diagnostic.
+  if (kinks.length > 0) {
+    out.push(warn('convergence', span, `The state has a kink at x = ${fmt(kinks[0]!)}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info'));
+    return;
+  }
+  if (decay && (decay.classification === 'jump' || decay.classification === 'kink')) {
+    out.push(warn('convergence', span, `The coefficients decay slowly, as for a ${decay.classification}:${p} ${decay.classification === 'jump' ? 'the energy mean is infinite.' : 'the energy spread is infinite.'}`));
+    return;
+  }
+  if (mean !== null && basis.kind !== 'well' && captured > 1 - 1e-3) {
+    const scale = Math.max(Math.abs(mean), Math.abs(basis.energies[0]!), 1e-300);
+    const rel = Math.abs(meanFromLevels / captured - mean) / scale;
+    if (rel > 1e-3) {
+      out.push(
+        warn('convergence', span, `The energy mean from the levels computed (${fmt(meanFromLevels / captured)}) differs from <psi|H|psi> (${fmt(mean)}) by ${pct(rel)}: the high levels carry energy the basis leaves out; raise \`basis\`.`),
+      );
+    }
+  }
+}
+
+function reportParity(
+  basis: Eigenbasis,
+  parity: 'even' | 'odd' | 'mixed',
+  minor: number,
+  major: 'even' | 'odd',
+  span: { start: number; end: number },
+  out: EngineDiagnostic[],
+): void {
+  const c = fmt(basis.center!);
+  // Levels of even parity: n = 1, 3, ... (first label 1) or n = 0, 2, ... (oscillator).
+  const vanish = (p: 'even' | 'odd'): string => {
+    const first = basis.firstLabel + (p === 'even' ? 1 : 0);
+    return `n = ${first}, ${first + 2}, ${first + 4}, ...`;
+  };
+  if (parity !== 'mixed') {
+    out.push(warn('parity', span, `The state is ${parity} about x = ${c}: the levels ${vanish(parity)} vanish by symmetry.`, undefined, 'info'));
+  } else if (minor < 1e-3) {
+    out.push(
+      warn('parity', span, `The state is almost ${major} about x = ${c} but not quite: the ${major === 'even' ? 'odd' : 'even'} part carries ${pct(minor)} of the weight.`, undefined, 'warning'),
+    );
+  }
+}
+
+function levelsNeeded(
+  state: StateFunction,
+  basis: Eigenbasis,
+  sys: import('./model').SystemModel,
+  model: Model,
+  window: [number, number],
+  limits: Limits,
+  options: AnalyseOptions,
+): number | null {
+  // Project on more levels until the captured weight reaches 1 - TOL or the limit is hit.
+  let n = Math.min(limits.maxBasis, Math.max(2 * basis.count, 100));
+  for (let attempt = 0; attempt < 3; attempt++) {
+    if (options.cancelled?.()) return null;
+    const scratch: EngineDiagnostic[] = [];
+    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, scratch, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+    if (!b) return null;
+    const m = Math.min(n, b.basis.count);
+    const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+    let acc = 0;
+    for (let k = 0; k < m; k++) {
+      acc += (ex.re[k]! ** 2 + ex.im[k]! ** 2) / ex.norm;
+      if (acc >= 1 - TOL) return k + 1;
+    }
+    if (n >= limits.maxBasis || m < n) return null;
+    n = Math.min(limits.maxBasis, n * 4);
+  }
+  return null;
+}
+
+function evolution(
+  model: Model,
+  basis: Eigenbasis,
+  levels: LevelResult[],
+  ex: ReturnType<typeof expandState>,
+  options: AnalyseOptions,
+): EvolutionResult {
+  const ev = model.evolve!;
+  const k = levels.length;
+  const cRe = new Float64Array(k);
+  const cIm = new Float64Array(k);
+  levels.forEach((l, i) => {
+    cRe[i] = l.re;
+    cIm[i] = l.im;
+  });
+  const times = new Float64Array(ev.steps + 1);
+  for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
+  const r = evolve(basis, cRe, cIm, times, { density: options.samples ? sampleGrid(basis, ex) : undefined });
+  const rev = revivalTime(basis, cRe, cIm);
+  const t = (x: number): number => timeToDisplay(x, model.units);
+  const res: EvolutionResult = {
+    times: Array.from(times, t),
+    meanX: Array.from(r.meanX),
+    meanP: Array.from(r.meanP),
+    survival: Array.from(r.survival),
+    revival: rev === null ? null : t(rev),
+  };
+  if (r.density) res.density = r.density.map((d: Float64Array) => Array.from(d));
+  return res;
+}
+
+function sampleGrid(basis: Eigenbasis, ex: ReturnType<typeof expandState>): Float64Array {
+  void ex;
+  const [a, b] = basis.walls ?? basis.support;
+  const n = 400;
+  const xs = new Float64Array(n);
+  for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
+  return xs;
+}
+
+function samples(state: StateFunction, basis: Eigenbasis, window: [number, number], norm: number, levels: LevelResult[]): SampleResult {
+  const [a, b] = basis.walls ?? window;
+  const n = 400;
+  const xs = new Float64Array(n);
+  for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
+  const v = state.evaluate(xs, 0);
+  const s = 1 / Math.sqrt(norm);
+  const kmax = Math.min(levels.length, 100);
+  const table = new Float64Array(kmax * n);
+  basis.table(xs, kmax, table);
+  const phi: number[][] = [];
+  for (let k = 0; k < kmax; k++) phi.push(Array.from(table.subarray(k * n, (k + 1) * n)));
+  const pot: number[] = [];
+  for (let j = 0; j < n; j++) {
+    const p = basis.potential(xs[j]!);
+    pot.push(Number.isFinite(p) ? p : 0);
+  }
+  return {
+    x: Array.from(xs),
+    re: Array.from(v.re, (r) => r * s),
+    im: Array.from(v.im, (r) => r * s),
+    potential: pot,
+    phi,
+    walls: basis.walls,
+  };
+}
+
+function maxAbs(re: Float64Array, im: Float64Array): number {
+  let m = 0;
+  for (let j = 0; j < re.length; j++) m = Math.max(m, Math.hypot(re[j]!, im[j]!));
+  return m;
+}
+
+/** A percentage for messages, with enough digits to be useful for tiny and large fractions. */
+export function pct(f: number): string {
+  const p = f * 100;
+  if (p >= 1) return `${Number(p.toPrecision(4))}%`;
+  if (p >= 1e-3) return `${Number(p.toPrecision(3))}%`;
+  return `${p.toExponential(2).replace('e+', 'e')}%`;
+}
+
+/** A normalising factor as text, exact to 12 significant digits. */
+function formatFactor(f: number): string {
+  return String(Number(f.toPrecision(12)));
 }

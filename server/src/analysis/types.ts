@@ -82,4 +82,10 @@ export interface AnalysisResult {
   samples: SampleResult | null;
   /** Milliseconds spent. */
   elapsedMs: number;
+  /**
+   * The value of each `let` name in the file's units (for hovers and inlay hints), in file order.
+   * Optional: front ends show the expression text when it is absent. `unit` is the unit the value is
+   * shown in (null for natural units or a dimensionless value).
+   */
+  values?: { name: string; re: number; im: number; unit: string | null }[];
 }

@@ -1,0 +1,277 @@
+/**
+ * The numerical stage: the state on a quadrature grid fine enough for both the state and the basis,
+ * its norm, its coefficients, its energy (two independent ways), parity, decay, and the physics
+ * diagnostics that follow from them.
+ */
+import type { Eigenbasis, Quadrature } from '../physics/types';
+import type { GridValues } from '../expr/types';
+import { compositeGaussLegendre } from '../physics/quadrature';
+import { project } from '../physics/project';
+import { fitDecay } from '../physics/decay';
+import { diagnostic, type EngineDiagnostic, type FixData } from '../language/catalogue';
+import type { Span } from '../language/ast';
+import type { StateFunction } from './systems';
+import { fmt } from './model';
+
+/** Options of `expandState`. */
+export interface ExpandOptions {
+  maxGridPoints: number;
+  cancelled?: () => boolean;
+}
+
+/** What the numerical stage computed (internal units). */
+export interface Expansion {
+  norm: number;
+  /** Coefficients of the normalised state by level index. */
+  re: Float64Array;
+  im: Float64Array;
+  weights: Float64Array;
+  captured: number;
+  /** <H> and Delta H of the normalised state, null where they diverge. */
+  mean: number | null;
+  spread: number | null;
+  /** Sum of E_n |c_n|^2 over the levels computed (normalised state). */
+  meanFromLevels: number;
+  parity: 'even' | 'odd' | 'mixed' | null;
+  /** Weight of the minor parity part relative to the norm (null without a centre). */
+  parityMinor: number | null;
+  decay: { exponent: number | null; classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown'; at: number | null } | null;
+  /** The window the state was integrated over. */
+  window: [number, number];
+  quadrature: Quadrature;
+  /** Values of the state (not normalised) on the quadrature nodes. */
+  values: GridValues;
+  /** Fraction of |psi|^2 outside hard walls (dropped), if any. */
+  outside: number;
+  /** |psi|^2 L / norm at each wall. */
+  wallValues: [number, number] | null;
+  /** Interior points where the state jumps or has a kink. */
+  jumps: number[];
+  kinks: number[];
+  /** Weight within 2% of the interval length from each wall (numerical systems). */
+  nearWalls: [number, number] | null;
+}
+
+const ORDER = 20;
+
+/** A point inside [a, b] where the state cannot be evaluated. */
+export class BadValue extends Error {
+  constructor(
+    readonly x: number,
+    readonly value: number,
+  ) {
+    super(`bad value ${value} at ${x}`);
+  }
+}
+
+function checkFinite(xs: Float64Array, v: GridValues): void {
+  for (let j = 0; j < xs.length; j++) {
+    const r = v.re[j]!;
+    const i = v.im[j]!;
+    if (!Number.isFinite(r) || !Number.isFinite(i)) throw new BadValue(xs[j]!, Number.isFinite(r) ? i : r);
+  }
+}
+
+function integrateAbs2(q: Quadrature, v: GridValues): number {
+  let s = 0;
+  for (let j = 0; j < q.x.length; j++) s += q.w[j]! * (v.re[j]! * v.re[j]! + v.im[j]! * v.im[j]!);
+  return s;
+}
+
+/**
+ * Finds a window that holds essentially all of |psi|^2 for a state on the whole line, by scanning
+ * outward from the basis's support. Returns null when the state does not fall off (not normalisable).
+ */
+export function findWindow(state: StateFunction, basis: Eigenbasis): [number, number] | null {
+  const [s0, s1] = basis.support;
+  const c = basis.center ?? (s0 + s1) / 2;
+  let lo = s0;
+  let hi = s1;
+  if (state.window) {
+    lo = Math.min(lo, state.window[0]);
+    hi = Math.max(hi, state.window[1]);
+  }
+  const w = Math.max(hi - lo, 1e-300);
+  // Scan a wide range with a coarse grid to find where |psi|^2 becomes negligible.
+  for (const span of [4, 16, 64, 256]) {
+    const a = lo - span * w;
+    const b = hi + span * w;
+    const n = 4001;
+    const xs = new Float64Array(n);
+    for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
+    const v = state.evaluate(xs, 0);
+    checkFinite(xs, v);
+    let max = 0;
+    for (let j = 0; j < n; j++) max = Math.max(max, v.re[j]! ** 2 + v.im[j]! ** 2);
+    if (max === 0) return [lo, hi];
+    const thr = max * 1e-24;
+    let first = -1;
+    let last = -1;
+    for (let j = 0; j < n; j++) {
+      if (v.re[j]! ** 2 + v.im[j]! ** 2 > thr) {
+        if (first < 0) first = j;
+        last = j;
+      }
+    }
+    if (first > 0 && last < n - 1) {
+      const x0 = Math.min(lo, xs[first - 1]!);
+      const x1 = Math.max(hi, xs[last + 1]!);
+      if (basis.center !== null) {
+        const r = Math.max(c - x0, x1 - c);
+        return [c - r, c + r];
+      }
+      return [x0, x1];
+    }
+  }
+  return null;
+}
+
+/** The largest local wave number of the basis levels (sets the panel width). */
+function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number, number]): number {
+  const eMax = basis.energies[Math.min(levels, basis.count) - 1] ?? 0;
+  let vMin = Infinity;
+  const n = 257;
+  for (let j = 0; j < n; j++) {
+    const x = window[0] + ((window[1] - window[0]) * (j + 0.5)) / n;
+    const v = basis.potential(x);
+    if (Number.isFinite(v)) vMin = Math.min(vMin, v);
+  }
+  if (!Number.isFinite(vMin)) vMin = 0;
+  return Math.sqrt(Math.max(0, 2 * basis.mass * (eMax - vMin)));
+}
+
+function quadratureFor(window: [number, number], breakpoints: number[], panels: number): Quadrature {
+  return compositeGaussLegendre(window[0], window[1], { breakpoints, panels, order: ORDER });
+}
+
+/**
+ * Projects the state on the first `levels` levels of `basis` over `window`, refining the grid until
+ * the coefficients agree between two grids to 1e-12 of the norm (or the grid cap is hit).
+ */
+export function expandState(
+  state: StateFunction,
+  basis: Eigenbasis,
+  levels: number,
+  window: [number, number],
+  options: ExpandOptions,
+): { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number; capped: boolean } {
+  const bps = new Set<number>();
+  for (const x of state.breakpoints(window[0], window[1])) bps.add(x);
+  for (const x of basis.breakpoints) if (x > window[0] && x < window[1]) bps.add(x);
+  if (state.walls) for (const x of state.walls) if (x > window[0] && x < window[1]) bps.add(x);
+  const breakpoints = [...bps].sort((a, b) => a - b);
+  const k = maxWaveNumber(basis, levels, window);
+  const width = window[1] - window[0];
+  let panels = Math.max(16, Math.ceil((k * width) / 2), breakpoints.length + 1);
+  const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
+  panels = Math.min(panels, maxPanels);
+  let prev: { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number } | null = null;
+  for (;;) {
+    const q = quadratureFor(window, breakpoints, panels);
+    const values = state.evaluate(q.x, 2);
+    checkFinite(q.x, values);
+    const norm = integrateAbs2(q, values);
+    const c = project(basis, q, values.re, values.im, levels);
+    const cur = { q, values, re: c.re, im: c.im, norm };
+    if (prev) {
+      let diff = Math.abs(prev.norm - norm);
+      for (let j = 0; j < levels; j++) diff = Math.max(diff, Math.hypot(prev.re[j]! - c.re[j]!, prev.im[j]! - c.im[j]!) ** 1);
+      if (diff <= 1e-12 * Math.max(norm, 1e-300) ** 0.5 || diff <= 1e-13 * Math.max(norm, 1e-300)) return { ...cur, capped: false };
+    }
+    if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: prev !== null && panels * 2 > maxPanels };
+    prev = cur;
+    panels *= 2;
+  }
+}
+
+/** Left and right values and slopes of the state at interior breakpoints: jumps and kinks. */
+export function classifyBreakpoints(
+  state: StateFunction,
+  window: [number, number],
+  scale: { psi: number; dpsi: number },
+): { jumps: number[]; kinks: number[] } {
+  const jumps: number[] = [];
+  const kinks: number[] = [];
+  const pts = state.breakpoints(window[0], window[1]);
+  if (state.walls) for (const w of state.walls) if (w > window[0] && w < window[1]) pts.push(w);
+  if (pts.length === 0) return { jumps, kinks };
+  const h = 1e-7 * (window[1] - window[0]);
+  const xs = new Float64Array(pts.length * 2);
+  pts.forEach((x, i) => {
+    xs[2 * i] = x - h;
+    xs[2 * i + 1] = x + h;
+  });
+  const v = state.evaluate(xs, 1);
+  pts.forEach((x, i) => {
+    const dv = Math.hypot(v.re[2 * i + 1]! - v.re[2 * i]!, v.im[2 * i + 1]! - v.im[2 * i]!);
+    const dd = Math.hypot(v.d1re![2 * i + 1]! - v.d1re![2 * i]!, v.d1im![2 * i + 1]! - v.d1im![2 * i]!);
+    if (dv > 1e-5 * scale.psi) jumps.push(x);
+    else if (dd > 1e-4 * scale.dpsi) kinks.push(x);
+  });
+  return { jumps, kinks };
+}
+
+/** Even and odd weights of the state about `c`, from values at mirrored nodes. */
+export function parityParts(state: StateFunction, q: Quadrature, values: GridValues, c: number): { even: number; odd: number } {
+  const mx = new Float64Array(q.x.length);
+  for (let j = 0; j < mx.length; j++) mx[j] = 2 * c - q.x[j]!;
+  const m = state.evaluate(mx, 0);
+  let even = 0;
+  let odd = 0;
+  for (let j = 0; j < mx.length; j++) {
+    const er = (values.re[j]! + m.re[j]!) / 2;
+    const ei = (values.im[j]! + m.im[j]!) / 2;
+    const or = (values.re[j]! - m.re[j]!) / 2;
+    const oi = (values.im[j]! - m.im[j]!) / 2;
+    even += q.w[j]! * (er * er + ei * ei);
+    odd += q.w[j]! * (or * or + oi * oi);
+  }
+  return { even, odd };
+}
+
+/**
+ * <H> and <H^2> of the state on the grid: <H> = integral of |psi'|^2/(2m) + V |psi|^2,
+ * <H^2> = integral of |-psi''/(2m) + V psi|^2 (valid for states in the operator's domain; the caller
+ * decides divergence from jumps, kinks and wall values). Divided by the norm.
+ */
+export function gridEnergy(basis: Eigenbasis, q: Quadrature, v: GridValues, norm: number): { mean: number; meanSquare: number } {
+  let t = 0;
+  let h2 = 0;
+  const m = basis.mass;
+  for (let j = 0; j < q.x.length; j++) {
+    let V = basis.potential(q.x[j]!);
+    if (!Number.isFinite(V)) V = 0;
+    const w = q.w[j]!;
+    const r = v.re[j]!;
+    const i = v.im[j]!;
+    t += w * ((v.d1re![j]! ** 2 + v.d1im![j]! ** 2) / (2 * m) + V * (r * r + i * i));
+    const hr = -v.d2re![j]! / (2 * m) + V * r;
+    const hi = -v.d2im![j]! / (2 * m) + V * i;
+    h2 += w * (hr * hr + hi * hi);
+  }
+  return { mean: t / norm, meanSquare: h2 / norm };
+}
+
+/** Decay of |c_n| fitted over the tail, for systems whose levels are sine-like (box, potential). */
+export function decayOf(basis: Eigenbasis, weights: Float64Array): Expansion['decay'] {
+  if (basis.kind === 'well' || weights.length < 12) return null;
+  const labels = new Float64Array(weights.length);
+  for (let k = 0; k < labels.length; k++) labels[k] = k + basis.firstLabel;
+  const f = fitDecay(labels, weights, {});
+  if (!f) return null;
+  let classification = f.classification as 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
+  if (basis.kind === 'oscillator' && (classification === 'jump' || classification === 'kink')) classification = 'algebraic';
+  return { exponent: f.exponent ?? null, classification, at: null };
+}
+
+/** Quick fix: replace a span's text. */
+export function replaceFix(title: string, span: Span, text: string): FixData {
+  return { kind: 'replace', title, start: span.start, end: span.end, text };
+}
+
+/** Builds a warning (or other severity) diagnostic on a span. */
+export function warn(code: Parameters<typeof diagnostic>[0], span: Span, message: string, fixes?: FixData[], severity?: 'error' | 'warning' | 'info'): EngineDiagnostic {
+  return diagnostic(code, span.start, span.end, message, { fixes, severity });
+}
+
+export { fmt };

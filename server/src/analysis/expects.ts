@@ -1,0 +1,91 @@
+/**
+ * Checking `expect` lines against the measured results.
+ */
+import type { AnalysisResult } from './types';
+import type { EngineDiagnostic } from '../language/catalogue';
+import type { ComparisonModel, Model } from './model';
+import { fmt } from './model';
+import { replaceFix, warn } from './expand';
+
+/** Appends an `expect` error for every expect line the result does not satisfy. */
+export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[]): void {
+  const eu = model.units.mode === 'physical' ? ` ${model.units.energy.name}` : '';
+  for (const x of model.expects) {
+    const span = x.stmt.span;
+    switch (x.kind) {
+      case 'parity': {
+        const got = result.parity;
+        if (got === null) out.push(warn('expect', span, 'Expected parity ' + x.value + ', but the system has no centre of symmetry.'));
+        else if (got !== x.value) out.push(warn('expect', span, `Expected parity ${x.value}, measured ${got}.`));
+        break;
+      }
+      case 'norm':
+        compare(x.comparison, result.norm, 'the norm', '', span, out);
+        break;
+      case 'energy':
+        compare(x.comparison, result.energy?.mean ?? null, 'the energy mean', eu, span, out);
+        break;
+      case 'spread':
+        compare(x.comparison, result.energy?.spread ?? null, 'the energy spread', eu, span, out);
+        break;
+      case 'weight': {
+        let sum = 0;
+        let found = 0;
+        for (const l of result.levels) {
+          if (l.n >= x.from && l.n <= x.to) {
+            sum += l.weight;
+            found++;
+          }
+        }
+        const what = x.from === x.to ? `the weight of level ${x.from}` : `the weight of levels ${x.from}..${x.to}`;
+        if (found < x.to - x.from + 1 && result.levels.length > 0) {
+          const last = result.levels[result.levels.length - 1]!.n;
+          if (x.to > last) {
+            out.push(warn('expect', span, `${cap(what)} cannot be checked: the expansion stops at level ${last} (raise \`basis\`).`));
+            break;
+          }
+        }
+        compare(x.comparison, result.levels.length > 0 ? sum : null, what, '', span, out);
+        break;
+      }
+    }
+  }
+}
+
+function compare(c: ComparisonModel, measured: number | null, what: string, unit: string, span: { start: number; end: number }, out: EngineDiagnostic[]): void {
+  if (measured === null) {
+    out.push(warn('expect', span, `${cap(what)} could not be measured (it diverges or the analysis stopped), so the expectation fails.`));
+    return;
+  }
+  let ok: boolean;
+  let wanted: string;
+  switch (c.kind) {
+    case 'tolerance':
+      ok = Math.abs(measured - c.value) <= c.tolerance;
+      wanted = `${fmt(c.value)}${unit} ± ${fmt(c.tolerance)}${unit}`;
+      break;
+    case 'atLeast':
+      ok = measured >= c.value;
+      wanted = `at least ${fmt(c.value)}${unit}`;
+      break;
+    case 'atMost':
+      ok = measured <= c.value;
+      wanted = `at most ${fmt(c.value)}${unit}`;
+      break;
+  }
+  if (!ok) {
+    const text = `${measuredText(measured)}${unit}`;
+    out.push(
+      warn('expect', span, `Expected ${what} ${wanted}, measured ${measuredText(measured)}${unit}.`, c.kind === 'tolerance' ? [replaceFix(`Set the expected value to ${text}`, c.valueText, text)] : undefined),
+    );
+  }
+}
+
+/** A measured value with 10 significant digits (enough for a tolerance of 1e-9 relative). */
+function measuredText(v: number): string {
+  return String(Number(v.toPrecision(10)));
+}
+
+function cap(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}

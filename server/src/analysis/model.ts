@@ -1,0 +1,492 @@
+/**
+ * From a parsed file to a checked model: every expression parsed in the sandbox, its names resolved,
+ * its dimension checked, and constants evaluated to numbers in internal units (hbar = 1).
+ * This is the static stage: cheap, run on every keystroke.
+ */
+import type { Arg, ExprText, QFile, Span, Statement, StateSpec, SystemSpec } from '../language/ast';
+import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
+import type { Complex, CompiledFunction, Dimension, Expr, Scope, UnitSystem } from '../expr/types';
+import { parseExpression } from '../expr/sandbox';
+import { checkExpression } from '../expr/check';
+import { evaluateConstant, compileFunction } from '../expr/compile';
+import { makeUnitSystem, createScope, toInternal } from '../expr/units';
+import { dimensionOf, type ValueKind } from './dimensions';
+
+/** A system with its parameters evaluated (internal units). */
+export type SystemModel =
+  | { kind: 'box'; a: number; b: number; span: Span }
+  | { kind: 'well'; depth: number; width: number; center: number; span: Span }
+  | { kind: 'oscillator'; omega: number; center: number; span: Span }
+  | { kind: 'potential'; V: CompiledFunction; a: number; b: number; span: Span; exprSpan: Span };
+
+/** A state with its parameters evaluated or compiled. */
+export type StateModel =
+  | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean }
+  | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
+  | { kind: 'gaussian'; center: number; width: number; momentum: number };
+
+/** A checked `expect` line. */
+export type ExpectModel =
+  | { kind: 'norm' | 'energy' | 'spread'; stmt: Statement; comparison: ComparisonModel }
+  | { kind: 'parity'; stmt: Statement; value: 'even' | 'odd' | 'mixed' }
+  | { kind: 'weight'; stmt: Statement; from: number; to: number; comparison: ComparisonModel };
+
+/** A comparison with its numbers in internal units. */
+export interface ComparisonModel {
+  kind: 'tolerance' | 'atLeast' | 'atMost';
+  value: number;
+  tolerance: number;
+  /** The written value, to be replaced by a quick fix. */
+  valueText: ExprText;
+}
+
+/** Everything the numerical stage needs. */
+export interface Model {
+  units: UnitSystem;
+  mass: number;
+  system: { model: SystemModel; stmt: Statement } | null;
+  state: { model: StateModel; stmt: Statement } | null;
+  basis: { value: number; stmt: Statement | null };
+  expects: ExpectModel[];
+  evolve: { to: number; steps: number; stmt: Statement } | null;
+  /** Names defined by `let`, with their values (internal units) and where they are defined. */
+  lets: Map<string, { value: Complex; dimension: Dimension; span: Span; valueSpan: Span }>;
+  /** True when no error-severity diagnostic was found. */
+  ok: boolean;
+}
+
+/** Options of `buildModel`. */
+export interface ModelOptions {
+  defaultBasis: number;
+  maxBasis: number;
+  maxEvolveSteps: number;
+  /** When false only syntax and sandbox checks run; no value is evaluated. */
+  evaluate: boolean;
+}
+
+const NO_SPAN: Span = { start: 0, end: 0 };
+
+/**
+ * Checks every statement of a parsed file and evaluates what can be evaluated without numerics.
+ * Diagnostics are appended to `out`. Never throws.
+ */
+export function buildModel(file: QFile, options: ModelOptions, out: EngineDiagnostic[]): Model {
+  const b = new ModelBuilder(file, options, out);
+  return b.run();
+}
+
+class ModelBuilder {
+  private units: UnitSystem = { mode: 'natural' };
+  private scope!: Scope;
+  private errors = 0;
+  private readonly lets: Model['lets'] = new Map();
+
+  constructor(
+    private readonly file: QFile,
+    private readonly options: ModelOptions,
+    private readonly out: EngineDiagnostic[],
+  ) {}
+
+  private push(d: EngineDiagnostic[]): void {
+    for (const x of d) {
+      this.out.push(x);
+      if (x.severity === 'error') this.errors++;
+    }
+  }
+
+  private error(code: Parameters<typeof diagnostic>[0], span: Span, message: string): void {
+    this.push([diagnostic(code, span.start, span.end, message, { severity: 'error' })]);
+  }
+
+  run(): Model {
+    const statements = this.file.statements;
+    const unitsStmt = statements.find((s) => s.kind === 'units');
+    if (unitsStmt && unitsStmt.kind === 'units') {
+      const u = makeUnitSystem(unitsStmt.units);
+      this.push(u.diagnostics);
+      if (u.result) this.units = u.result;
+    }
+    this.scope = createScope(this.units);
+
+    let mass = 1;
+    let system: Model['system'] = null;
+    let state: Model['state'] = null;
+    let basis: Model['basis'] = { value: this.options.defaultBasis, stmt: null };
+    const expects: ExpectModel[] = [];
+    let evolve: Model['evolve'] = null;
+    // A physical file defaults to the electron mass.
+    const me = this.scope.values.get('m_e');
+    if (this.units.mode === 'physical' && me) mass = me.value.re;
+
+    for (const stmt of statements) {
+      switch (stmt.kind) {
+        case 'units':
+          break;
+        case 'mass': {
+          const v = this.constant(stmt.expr, 'mass', 'the mass');
+          if (v !== null) {
+            if (!(v > 0) || !Number.isFinite(v)) this.error('evaluation', stmt.expr, 'The mass must be positive and finite.');
+            else mass = v;
+          }
+          break;
+        }
+        case 'let': {
+          if (!this.options.evaluate) {
+            this.syntaxOnly(stmt.expr);
+            break;
+          }
+          const e = this.expr(stmt.expr);
+          if (!e) break;
+          const checked = checkExpression(e, this.scope, null, `'${stmt.name}'`);
+          this.push(checked.diagnostics);
+          if (checked.dimension === null) break;
+          const v = evaluateConstant(e, this.scope);
+          this.push(v.diagnostics);
+          if (!v.result) break;
+          this.scope.values.set(stmt.name, {
+            value: v.result.value,
+            dimension: v.result.dimension,
+            definedAt: stmt.nameSpan,
+          });
+          this.lets.set(stmt.name, {
+            value: v.result.value,
+            dimension: v.result.dimension,
+            span: stmt.nameSpan,
+            valueSpan: stmt.expr,
+          });
+          break;
+        }
+        case 'system': {
+          const m = this.system(stmt.system);
+          if (m) system = { model: m, stmt };
+          break;
+        }
+        case 'state':
+          break; // Handled after all statements, when the system (for phi) is known.
+        case 'basis': {
+          const n = this.integer(stmt.expr, 'the basis size', 1, this.options.maxBasis);
+          if (n !== null) basis = { value: n, stmt };
+          break;
+        }
+        case 'expect': {
+          const m = this.expect(stmt);
+          if (m) expects.push(m);
+          break;
+        }
+        case 'evolve': {
+          const t = this.constant(stmt.to, 'time', 'the evolution time');
+          let steps = 200;
+          if (stmt.steps) {
+            const k = this.integer(stmt.steps, 'the number of steps', 1, this.options.maxEvolveSteps);
+            if (k !== null) steps = k;
+          }
+          if (t !== null) {
+            if (!(t > 0) || !Number.isFinite(t)) this.error('evaluation', stmt.to, 'The evolution time must be positive and finite.');
+            else evolve = { to: t, steps, stmt };
+          }
+          break;
+        }
+      }
+    }
+    const stateStmt = statements.find((s) => s.kind === 'state');
+    if (stateStmt && stateStmt.kind === 'state') {
+      const m = this.state(stateStmt.state, system !== null);
+      if (m) state = { model: m, stmt: stateStmt };
+    }
+    return {
+      units: this.units,
+      mass,
+      system,
+      state,
+      basis,
+      expects,
+      evolve,
+      lets: this.lets,
+      ok: this.errors === 0,
+    };
+  }
+
+  private expr(src: ExprText): Expr | null {
+    const p = parseExpression(src);
+    this.push(p.diagnostics);
+    return p.result;
+  }
+
+  private syntaxOnly(src: ExprText): void {
+    this.expr(src);
+  }
+
+  /** Parses, checks and evaluates a constant of the given kind; returns its real value or null. */
+  private constant(src: ExprText, kind: ValueKind, what: string): number | null {
+    const e = this.expr(src);
+    if (!e || !this.options.evaluate) return null;
+    const checked = checkExpression(e, this.scope, dimensionOf(kind, this.units), what);
+    this.push(checked.diagnostics);
+    if (checked.dimension === null || checked.diagnostics.some((d) => d.severity === 'error')) return null;
+    const v = evaluateConstant(e, this.scope);
+    this.push(v.diagnostics);
+    if (!v.result) return null;
+    const { re, im } = v.result.value;
+    if (!Number.isFinite(re) || !Number.isFinite(im)) {
+      this.error('evaluation', src, `${capital(what)} is not a finite number.`);
+      return null;
+    }
+    if (Math.abs(im) > 1e-12 * Math.max(1, Math.abs(re))) {
+      this.error('evaluation', src, `${capital(what)} must be real, but it is complex (${fmt(re)} + ${fmt(im)} i).`);
+      return null;
+    }
+    let value = re;
+    if (kind === 'frequency') value *= 2 * Math.PI;
+    return value;
+  }
+
+  private integer(src: ExprText, what: string, min: number, max: number): number | null {
+    const v = this.constant(src, 'dimensionless', what);
+    if (v === null) return null;
+    if (!Number.isInteger(v)) {
+      this.error('evaluation', src, `${capital(what)} must be a whole number, not ${fmt(v)}.`);
+      return null;
+    }
+    if (v < min) {
+      this.error('evaluation', src, `${capital(what)} must be at least ${min}.`);
+      return null;
+    }
+    if (v > max) {
+      this.error('limits', src, `${capital(what)} ${v} is above the limit of ${max}.`);
+      return null;
+    }
+    return v;
+  }
+
+  private args(args: Arg[]): Map<string, Arg> {
+    const m = new Map<string, Arg>();
+    for (const a of args) if (a.name) m.set(a.name, a);
+    return m;
+  }
+
+  private system(spec: SystemSpec): SystemModel | null {
+    if (!this.options.evaluate) {
+      if (spec.kind === 'potential') {
+        this.syntaxOnly(spec.expr);
+        this.syntaxOnly(spec.from);
+        this.syntaxOnly(spec.to);
+      } else for (const a of spec.args) this.syntaxOnly(a.value);
+      return null;
+    }
+    switch (spec.kind) {
+      case 'box': {
+        const pos = spec.args.filter((a) => a.name === null);
+        const named = this.args(spec.args);
+        const aArg = pos[0] ?? named.get('from');
+        const bArg = pos[1] ?? named.get('to');
+        if (!aArg || !bArg) return null;
+        const a = this.constant(aArg.value, 'length', "the box's left end");
+        const b = this.constant(bArg.value, 'length', "the box's right end");
+        if (a === null || b === null) return null;
+        if (!(b > a)) {
+          this.error('evaluation', spec.span, `The box's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
+          return null;
+        }
+        return { kind: 'box', a, b, span: spec.span };
+      }
+      case 'well': {
+        const named = this.args(spec.args);
+        const d = named.get('depth');
+        const w = named.get('width');
+        if (!d || !w) return null;
+        const depth = this.constant(d.value, 'energy', "the well's depth");
+        const width = this.constant(w.value, 'length', "the well's width");
+        const c = named.get('center');
+        const center = c ? this.constant(c.value, 'length', "the well's centre") : 0;
+        if (depth === null || width === null || center === null) return null;
+        if (!(depth > 0)) {
+          this.error('evaluation', d.value, `The well's depth must be positive (it is the potential outside the well), not ${fmt(depth)}.`);
+          return null;
+        }
+        if (!(width > 0)) {
+          this.error('evaluation', w.value, `The well's width must be positive, not ${fmt(width)}.`);
+          return null;
+        }
+        return { kind: 'well', depth, width, center, span: spec.span };
+      }
+      case 'oscillator': {
+        const named = this.args(spec.args);
+        let omega: number | null = null;
+        const o = named.get('omega');
+        const f = named.get('frequency');
+        const q = named.get('quantum');
+        const given = o ?? f ?? q;
+        if (!given) return null;
+        if (o) omega = this.constant(o.value, 'angularFrequency', 'the angular frequency');
+        else if (f) omega = this.constant(f.value, 'frequency', 'the frequency');
+        else if (q) omega = this.constant(q.value, 'energy', 'the oscillator quantum'); // hbar = 1 internally
+        const c = named.get('center');
+        const center = c ? this.constant(c.value, 'length', "the oscillator's centre") : 0;
+        if (omega === null || center === null) return null;
+        if (!(omega > 0)) {
+          this.error('evaluation', given.value, `The oscillator's frequency must be positive, not ${fmt(omega)}.`);
+          return null;
+        }
+        return { kind: 'oscillator', omega, center, span: spec.span };
+      }
+      case 'potential': {
+        const a = this.constant(spec.from, 'length', "the interval's left end");
+        const b = this.constant(spec.to, 'length', "the interval's right end");
+        const e = this.expr(spec.expr);
+        if (!e) return null;
+        const scope: Scope = { ...this.scope, hasX: true, hasPhi: false };
+        const checked = checkExpression(e, scope, dimensionOf('energy', this.units), 'the potential');
+        this.push(checked.diagnostics);
+        if (checked.dimension === null || a === null || b === null) return null;
+        if (!(b > a)) {
+          this.error('evaluation', spec.span, `The interval's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
+          return null;
+        }
+        const c = compileFunction(e, scope);
+        this.push(c.diagnostics);
+        if (!c.result) return null;
+        return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr };
+      }
+    }
+  }
+
+  private state(spec: StateSpec, hasSystem: boolean): StateModel | null {
+    if (!this.options.evaluate) {
+      if (spec.kind === 'psi') this.syntaxOnly(spec.expr);
+      else if (spec.kind === 'eigen') {
+        this.syntaxOnly(spec.level);
+        this.system(spec.system);
+      } else for (const a of spec.args) this.syntaxOnly(a.value);
+      return null;
+    }
+    switch (spec.kind) {
+      case 'psi': {
+        const e = this.expr(spec.expr);
+        if (!e) return null;
+        const scope: Scope = { ...this.scope, hasX: true, hasPhi: hasSystem };
+        const checked = checkExpression(e, scope, null, 'the state');
+        this.push(checked.diagnostics);
+        if (checked.dimension === null) return null;
+        const c = compileFunction(e, scope);
+        this.push(c.diagnostics);
+        if (!c.result) return null;
+        return { kind: 'psi', fn: c.result, expr: spec.expr, usesPhi: usesName(e, 'phi') };
+      }
+      case 'eigen': {
+        const level = this.integer(spec.level, 'the level', 0, this.options.maxBasis);
+        const system = this.system(spec.system);
+        if (level === null || system === null) return null;
+        if (system.kind === 'oscillator' ? false : level < 1) {
+          this.error('evaluation', spec.level, 'Levels of this system are numbered from 1.');
+          return null;
+        }
+        return { kind: 'eigen', level, levelSpan: spec.level, system };
+      }
+      case 'gaussian': {
+        const named = this.args(spec.args);
+        const c = named.get('center');
+        const w = named.get('width');
+        const k = named.get('momentum');
+        if (!c || !w) return null;
+        const center = this.constant(c.value, 'length', "the packet's centre");
+        const width = this.constant(w.value, 'length', "the packet's width");
+        const momentum = k ? this.constant(k.value, 'wavenumber', "the packet's momentum") : 0;
+        if (center === null || width === null || momentum === null) return null;
+        if (!(width > 0)) {
+          this.error('evaluation', w.value, `The packet's width must be positive, not ${fmt(width)}.`);
+          return null;
+        }
+        return { kind: 'gaussian', center, width, momentum };
+      }
+    }
+  }
+
+  private comparison(c: import('../language/ast').Comparison, kind: ValueKind, what: string): ComparisonModel | null {
+    const value = this.constant(c.value, kind, what);
+    if (value === null) return null;
+    if (c.kind === 'tolerance') {
+      const tol = this.constant(c.tolerance, kind, 'the tolerance');
+      if (tol === null) return null;
+      if (!(tol >= 0)) {
+        this.error('evaluation', c.tolerance, 'The tolerance must not be negative.');
+        return null;
+      }
+      return { kind: 'tolerance', value, tolerance: tol, valueText: c.value };
+    }
+    return { kind: c.kind, value, tolerance: 0, valueText: c.value };
+  }
+
+  private expect(stmt: Statement): ExpectModel | null {
+    if (stmt.kind !== 'expect') return null;
+    const x = stmt.expectation;
+    if (!this.options.evaluate) {
+      if (x.kind === 'norm' || x.kind === 'energy' || x.kind === 'spread' || x.kind === 'weight') {
+        this.syntaxOnly(x.comparison.value);
+        if (x.comparison.kind === 'tolerance') this.syntaxOnly(x.comparison.tolerance);
+      }
+      if (x.kind === 'weight') {
+        this.syntaxOnly(x.from);
+        if (x.to) this.syntaxOnly(x.to);
+      }
+      return null;
+    }
+    switch (x.kind) {
+      case 'parity':
+        return { kind: 'parity', stmt, value: x.value };
+      case 'norm': {
+        const c = this.comparison(x.comparison, 'dimensionless', 'the expected norm');
+        return c ? { kind: 'norm', stmt, comparison: c } : null;
+      }
+      case 'energy':
+      case 'spread': {
+        const c = this.comparison(x.comparison, 'energy', x.kind === 'energy' ? 'the expected energy' : 'the expected spread');
+        return c ? { kind: x.kind, stmt, comparison: c } : null;
+      }
+      case 'weight': {
+        const from = this.integer(x.from, 'the first level', 0, this.options.maxBasis);
+        const to = x.to ? this.integer(x.to, 'the last level', 0, this.options.maxBasis) : from;
+        const c = this.comparison(x.comparison, 'dimensionless', 'the expected weight');
+        if (from === null || to === null || c === null) return null;
+        if (to < from) {
+          this.error('evaluation', x.to ?? x.from, `The level range ${from}..${to} is empty.`);
+          return null;
+        }
+        return { kind: 'weight', stmt, from, to, comparison: c };
+      }
+    }
+  }
+}
+
+/** True when the expression mentions `name` as a symbol or a call. */
+export function usesName(e: Expr, name: string): boolean {
+  switch (e.type) {
+    case 'number':
+      return false;
+    case 'symbol':
+      return e.name === name;
+    case 'unary':
+      return usesName(e.arg, name);
+    case 'binary':
+      return usesName(e.left, name) || usesName(e.right, name);
+    case 'call':
+      return e.name === name || e.args.some((a) => usesName(a, name));
+    case 'conditional':
+      return usesName(e.test, name) || usesName(e.then, name) || usesName(e.otherwise, name);
+  }
+}
+
+function capital(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+/** Formats a number for messages: up to 6 significant digits. */
+export function fmt(v: number): string {
+  if (!Number.isFinite(v)) return String(v);
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  if (a >= 1e-3 && a < 1e6) return String(Number(v.toPrecision(6)));
+  return v.toExponential(4).replace('e+', 'e');
+}
+
+void NO_SPAN;
+void toInternal;

@@ -1,0 +1,281 @@
+/**
+ * Turning a checked system into its eigenbasis, and a checked state into something that can be
+ * evaluated (with derivatives) on any grid.
+ */
+import type { Eigenbasis } from '../physics/types';
+import type { GridValues, PhiProvider } from '../expr/types';
+import { boxBasis } from '../physics/box';
+import { wellBasis } from '../physics/well';
+import { oscillatorBasis } from '../physics/oscillator';
+import { potentialBasis } from '../physics/potential';
+import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
+import type { StateModel, SystemModel } from './model';
+
+/** A built basis together with facts the diagnostics need. */
+export interface BuiltBasis {
+  basis: Eigenbasis;
+  /** Numerical systems: indices of levels above the potential at both walls (box-quantised continuum). */
+  wallArtefacts?: number[];
+  /** Numerical systems: the first level index not resolved to tolerance, or null. */
+  unresolved?: number | null;
+  /** Numerical systems: grid points used. */
+  points?: number;
+}
+
+/**
+ * Builds the eigenbasis of `system` with `count` levels (the finite well holds all its bound states).
+ * Returns null (with a diagnostic) when the system cannot be solved.
+ */
+export function buildBasis(
+  system: SystemModel,
+  mass: number,
+  count: number,
+  out: EngineDiagnostic[],
+  options: { maxGridPoints: number; cancelled?: () => boolean },
+): BuiltBasis | null {
+  switch (system.kind) {
+    case 'box':
+      return { basis: boxBasis(system.a, system.b, mass, count) };
+    case 'well':
+      return { basis: wellBasis(system.depth, system.width, system.center, mass) };
+    case 'oscillator':
+      return { basis: oscillatorBasis(system.omega, system.center, mass, count) };
+    case 'potential': {
+      const V = system.V;
+      let bad: { x: number; value: string } | null = null;
+      const evalV = (xs: Float64Array): Float64Array => {
+        const v = V.evaluate(xs, 0);
+        const re = v.re;
+        for (let j = 0; j < xs.length && bad === null; j++) {
+          if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: String(re[j]) };
+          else if (Math.abs(v.im[j]!) > 1e-12 * Math.max(1, Math.abs(re[j]!))) bad = { x: xs[j]!, value: 'complex' };
+        }
+        return re;
+      };
+      // Probe the potential before solving so a bad value is reported, not solved with.
+      const probe = new Float64Array(513);
+      for (let j = 0; j < probe.length; j++) probe[j] = system.a + ((j + 0.5) / probe.length) * (system.b - system.a);
+      evalV(probe);
+      if (bad !== null) {
+        const b = bad as { x: number; value: string };
+        out.push(
+          diagnostic(
+            'evaluation',
+            system.exprSpan.start,
+            system.exprSpan.end,
+            b.value === 'complex'
+              ? `The potential is complex at x = ${short(b.x)}; it must be real.`
+              : `The potential is ${b.value} at x = ${short(b.x)}; it must be finite inside the interval.`,
+          ),
+        );
+        return null;
+      }
+      const solved = potentialBasis(evalV, system.a, system.b, mass, count, {
+        maxPoints: options.maxGridPoints,
+      });
+      if (bad !== null) {
+        const b = bad as { x: number; value: string };
+        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
+        return null;
+      }
+      return {
+        basis: solved.basis,
+        wallArtefacts: solved.wallArtefacts ?? [],
+        unresolved: solved.unresolved,
+        points: solved.points,
+      };
+    }
+  }
+}
+
+/** Something that can be evaluated on a grid: the state as written (not normalised). */
+export interface StateFunction {
+  /** Values (and derivatives for order 1, 2) at xs. */
+  evaluate(xs: Float64Array, order: 0 | 1 | 2): GridValues;
+  /** Points in (a, b) where the state (or one of its derivatives) is not smooth. */
+  breakpoints(a: number, b: number): number[];
+  /** An interval outside which the state vanishes identically, or null when it extends over the line. */
+  support: [number, number] | null;
+  /** A window that holds essentially all of |psi|^2, when known without scanning. */
+  window: [number, number] | null;
+  /** Hard walls of the system the state came from (sudden changes), which are kinks of the state. */
+  walls: [number, number] | null;
+}
+
+/** Makes the `phi(n, x)` provider of a basis; levels beyond the basis are reported through `missing`. */
+export function phiProvider(basis: Eigenbasis, missing: (n: number) => void): PhiProvider {
+  return (n, xs, out, d1, d2) => {
+    const k = Math.round(n) - basis.firstLabel;
+    if (!(k >= 0 && k < basis.count) || !Number.isInteger(n)) {
+      missing(n);
+      out.fill(NaN);
+      d1?.fill(NaN);
+      d2?.fill(NaN);
+      return;
+    }
+    const len = xs.length;
+    const t = new Float64Array((k + 1) * len);
+    const t1 = d1 ? new Float64Array((k + 1) * len) : undefined;
+    const t2 = d2 ? new Float64Array((k + 1) * len) : undefined;
+    basis.table(xs, k + 1, t, t1, t2);
+    out.set(t.subarray(k * len, (k + 1) * len));
+    if (d1 && t1) d1.set(t1.subarray(k * len, (k + 1) * len));
+    if (d2 && t2) d2.set(t2.subarray(k * len, (k + 1) * len));
+  };
+}
+
+/**
+ * A normalised Gaussian packet exp(-(x - x0)^2 / (4 s^2) + i k x) / (2 pi s^2)^(1/4), with exact
+ * derivatives. Standard form (position spread s); common practice.
+ */
+export function gaussianState(x0: number, s: number, k: number): StateFunction {
+  const amp = Math.pow(2 * Math.PI * s * s, -0.25);
+  return {
+    evaluate(xs, order) {
+      const n = xs.length;
+      const re = new Float64Array(n);
+      const im = new Float64Array(n);
+      const out: GridValues = { re, im };
+      if (order >= 1) {
+        out.d1re = new Float64Array(n);
+        out.d1im = new Float64Array(n);
+      }
+      if (order >= 2) {
+        out.d2re = new Float64Array(n);
+        out.d2im = new Float64Array(n);
+      }
+      for (let j = 0; j < n; j++) {
+        const x = xs[j]!;
+        const u = x - x0;
+        const g = amp * Math.exp(-(u * u) / (4 * s * s));
+        const c = Math.cos(k * x);
+        const sn = Math.sin(k * x);
+        re[j] = g * c;
+        im[j] = g * sn;
+        if (order >= 1) {
+          // psi' = (-u/(2 s^2) + i k) psi
+          const ar = -u / (2 * s * s);
+          out.d1re![j] = ar * re[j]! - k * im[j]!;
+          out.d1im![j] = ar * im[j]! + k * re[j]!;
+          if (order >= 2) {
+            // psi'' = [(-u/(2 s^2) + i k)^2 - 1/(2 s^2)] psi
+            const br = ar * ar - k * k - 1 / (2 * s * s);
+            const bi = 2 * ar * k;
+            out.d2re![j] = br * re[j]! - bi * im[j]!;
+            out.d2im![j] = br * im[j]! + bi * re[j]!;
+          }
+        }
+      }
+      return out;
+    },
+    breakpoints: () => [],
+    support: null,
+    window: [x0 - 10 * s, x0 + 10 * s],
+    walls: null,
+  };
+}
+
+/** Level `k` (index) of a basis as a state. */
+export function eigenState(basis: Eigenbasis, k: number): StateFunction {
+  return {
+    evaluate(xs, order) {
+      const n = xs.length;
+      const t = new Float64Array((k + 1) * n);
+      const t1 = order >= 1 ? new Float64Array((k + 1) * n) : undefined;
+      const t2 = order >= 2 ? new Float64Array((k + 1) * n) : undefined;
+      basis.table(xs, k + 1, t, t1, t2);
+      const out: GridValues = { re: t.slice(k * n, (k + 1) * n), im: new Float64Array(n) };
+      if (t1) {
+        out.d1re = t1.slice(k * n, (k + 1) * n);
+        out.d1im = new Float64Array(n);
+      }
+      if (t2) {
+        out.d2re = t2.slice(k * n, (k + 1) * n);
+        out.d2im = new Float64Array(n);
+      }
+      return out;
+    },
+    breakpoints: (a, b) => {
+      const pts = [...basis.breakpoints];
+      if (basis.walls) pts.push(basis.walls[0], basis.walls[1]);
+      return pts.filter((x) => x > a && x < b).sort((p, q) => p - q);
+    },
+    support: basis.walls ? [basis.walls[0], basis.walls[1]] : null,
+    window: [basis.support[0], basis.support[1]],
+    walls: basis.walls,
+  };
+}
+
+/** Index of a level label in a basis. */
+export function levelIndex(basis: Eigenbasis, n: number): number {
+  return n - basis.firstLabel;
+}
+
+/** Builds the state function of a state model; `basis` is the target system's basis (for phi). */
+export function buildState(
+  state: StateModel,
+  target: Eigenbasis | null,
+  mass: number,
+  out: EngineDiagnostic[],
+  stateSpan: { start: number; end: number },
+  options: { maxGridPoints: number },
+): StateFunction | null {
+  switch (state.kind) {
+    case 'gaussian':
+      return gaussianState(state.center, state.width, state.momentum);
+    case 'eigen': {
+      const k0 = state.system.kind === 'oscillator' ? state.level : state.level - 1;
+      const built = buildBasis(state.system, mass, k0 + 1, out, options);
+      if (!built) return null;
+      if (k0 >= built.basis.count) {
+        out.push(
+          diagnostic(
+            'evaluation',
+            state.levelSpan.start,
+            state.levelSpan.end,
+            `Level ${state.level} does not exist: that system has ${built.basis.count} bound level${built.basis.count === 1 ? '' : 's'}.`,
+          ),
+        );
+        return null;
+      }
+      return eigenState(built.basis, k0);
+    }
+    case 'psi': {
+      const fn = state.fn;
+      let missingLevel: number | null = null;
+      const phi = target
+        ? phiProvider(target, (n) => {
+            if (missingLevel === null) missingLevel = n;
+          })
+        : undefined;
+      const f: StateFunction = {
+        evaluate(xs, order) {
+          const v = fn.evaluate(xs, order, phi);
+          if (missingLevel !== null) {
+            const n = missingLevel;
+            missingLevel = null;
+            throw new MissingLevel(n);
+          }
+          return v;
+        },
+        breakpoints: (a, b) => fn.breakpoints(a, b, phi),
+        support: null,
+        window: null,
+        walls: null,
+      };
+      void stateSpan;
+      return f;
+    }
+  }
+}
+
+/** Thrown (and caught by the analysis) when `phi(n, x)` names a level the basis does not hold. */
+export class MissingLevel extends Error {
+  constructor(readonly level: number) {
+    super(`phi(${level}, x) is not a level of this system`);
+  }
+}
+
+function short(x: number): string {
+  return Number(x.toPrecision(6)).toString();
+}

@@ -1,0 +1,216 @@
+/**
+ * The command line: a thin front end over `analyse`.
+ *
+ *   eigenspan expand FILE [--json | --table | --csv] [--basis N]
+ *   eigenspan check FILE|FOLDER... [--quiet]
+ *   eigenspan demo [FOLDER]
+ *
+ * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
+ */
+import { readFileSync, readdirSync, statSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import { analyse, DEFAULT_LIMITS } from '../analysis/index';
+import { lineIndex } from '../analysis/positions';
+import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
+
+const USAGE = `Usage:
+  eigenspan expand FILE [--json | --table | --csv] [--basis N]
+      Expand the state of FILE in its system's energy eigenbasis.
+      --json   one JSON object (levels, norm, captured, energy, parity, continuum, diagnostics)
+      --table  a readable table (the default)
+      --csv    one row a level: n, energy, re, im, weight
+      --basis N  levels to use when the file has no basis line (default 40)
+  eigenspan check FILE|FOLDER...
+      Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE.
+      Folders are searched for .qstate files. Exit 1 when an error or a failed expect is found.
+  eigenspan demo [FOLDER]
+      Analyse every .qstate file in FOLDER (default examples) and print each one's table.
+  eigenspan --help
+      Show this text.
+`;
+
+class UsageError extends Error {}
+
+interface Io {
+  out: (s: string) => void;
+  err: (s: string) => void;
+  isTTY: boolean;
+}
+
+/** Runs the command line with `argv` (without node and the script); returns the exit code. */
+export function run(argv: string[], io: Io): number {
+  try {
+    return dispatch(argv, io);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      io.err(`eigenspan: ${e.message}\n`);
+      return 2;
+    }
+    io.err(`eigenspan: internal error: ${e instanceof Error ? e.message : String(e)}\n`);
+    return 2;
+  }
+}
+
+function dispatch(argv: string[], io: Io): number {
+  if (argv.length === 0) throw new UsageError("no command given; try 'eigenspan --help'");
+  const [cmd, ...rest] = argv;
+  if (cmd === '--help' || cmd === '-h' || cmd === 'help') {
+    io.out(USAGE);
+    return 0;
+  }
+  switch (cmd) {
+    case 'expand':
+      return expand(rest, io);
+    case 'check':
+      return check(rest, io);
+    case 'demo':
+      return demo(rest, io);
+    default:
+      throw new UsageError(`unknown command '${cmd}'; try 'eigenspan --help'`);
+  }
+}
+
+function readText(path: string): string {
+  let st;
+  try {
+    st = statSync(path);
+  } catch {
+    throw new UsageError(`cannot read '${path}': no such file`);
+  }
+  if (st.isDirectory()) throw new UsageError(`'${path}' is a folder, not a file`);
+  if (st.size > DEFAULT_LIMITS.maxFileBytes * 4) throw new UsageError(`'${path}' is ${st.size} bytes, too large for a .qstate file`);
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (e) {
+    throw new UsageError(`cannot read '${path}': ${(e as NodeJS.ErrnoException).code ?? 'error'}`);
+  }
+}
+
+function expand(args: string[], io: Io): number {
+  let format: 'json' | 'table' | 'csv' = 'table';
+  let file: string | null = null;
+  let basis: number | undefined;
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i]!;
+    if (a === '--json') format = 'json';
+    else if (a === '--table') format = 'table';
+    else if (a === '--csv') format = 'csv';
+    else if (a === '--basis') {
+      const v = Number(args[++i]);
+      if (!Number.isInteger(v) || v < 1) throw new UsageError('--basis needs a whole number of levels');
+      basis = v;
+    } else if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for expand`);
+    else if (file === null) file = a;
+    else throw new UsageError('expand takes one file');
+  }
+  if (file === null) throw new UsageError('expand needs a file');
+  const text = readText(file);
+  const result = analyse(text, { defaultBasis: basis });
+  if (format === 'json') io.out(renderJson(result, text) + '\n');
+  else if (format === 'csv') io.out(renderCsv(result));
+  else io.out(renderTable(result, text, file));
+  return result.diagnostics.some((d) => d.severity === 'error') ? 1 : 0;
+}
+
+function collect(path: string, into: string[], problems: { path: string; message: string }[]): void {
+  let st;
+  try {
+    st = statSync(path);
+  } catch {
+    problems.push({ path, message: 'no such file or folder' });
+    return;
+  }
+  if (st.isDirectory()) {
+    let names: string[];
+    try {
+      names = readdirSync(path).sort();
+    } catch {
+      problems.push({ path, message: 'cannot list the folder' });
+      return;
+    }
+    for (const n of names) {
+      if (n === 'node_modules' || n.startsWith('.')) continue;
+      const p = join(path, n);
+      let s;
+      try {
+        s = statSync(p);
+      } catch {
+        continue;
+      }
+      if (s.isDirectory()) collect(p, into, problems);
+      else if (n.endsWith('.qstate')) into.push(p);
+    }
+  } else into.push(path);
+}
+
+function check(args: string[], io: Io): number {
+  const targets: string[] = [];
+  for (const a of args) {
+    if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for check`);
+    targets.push(a);
+  }
+  if (targets.length === 0) throw new UsageError('check needs at least one file or folder');
+  const files: string[] = [];
+  const problems: { path: string; message: string }[] = [];
+  for (const t of targets) collect(t, files, problems);
+  let failed = problems.length > 0;
+  for (const p of problems) io.out(`${p.path}:1:1: error[limits]: cannot check: ${p.message}.\n`);
+  files.forEach((f, i) => {
+    if (io.isTTY && files.length > 3) io.err(`\r[${i + 1}/${files.length}] ${f}\x1b[K`);
+    let text: string;
+    try {
+      const st = statSync(f);
+      if (st.size > DEFAULT_LIMITS.maxFileBytes) {
+        io.out(`${f}:1:1: error[limits]: the file is ${st.size} bytes, above the limit of ${DEFAULT_LIMITS.maxFileBytes}.\n`);
+        failed = true;
+        return;
+      }
+      const buf = readFileSync(f);
+      if (buf.includes(0)) {
+        io.out(`${f}:1:1: error[syntax]: the file is binary, not a .qstate text file.\n`);
+        failed = true;
+        return;
+      }
+      text = buf.toString('utf8');
+    } catch (e) {
+      io.out(`${f}:1:1: error[limits]: cannot read the file (${(e as NodeJS.ErrnoException).code ?? 'error'}).\n`);
+      failed = true;
+      return;
+    }
+    const result = analyse(text);
+    const lines = lineIndex(text);
+    for (const d of result.diagnostics) {
+      io.out(renderDiagnostic(f, d, lines) + '\n');
+      if (d.severity === 'error') failed = true;
+    }
+  });
+  if (io.isTTY && files.length > 3) io.err(`\r\x1b[K`);
+  return failed ? 1 : 0;
+}
+
+function demo(args: string[], io: Io): number {
+  const folder = args[0] ?? 'examples';
+  const files: string[] = [];
+  const problems: { path: string; message: string }[] = [];
+  collect(folder, files, problems);
+  if (problems.length > 0) throw new UsageError(`cannot read '${folder}'`);
+  if (files.length === 0) throw new UsageError(`no .qstate files in '${folder}'`);
+  let failed = false;
+  for (const f of files) {
+    const text = readText(f);
+    const result = analyse(text);
+    io.out(renderTable(result, text, relative(process.cwd(), f) || f));
+    io.out('\n');
+    if (result.diagnostics.some((d) => d.severity === 'error')) failed = true;
+  }
+  return failed ? 1 : 0;
+}
+
+if (require.main === module) {
+  const code = run(process.argv.slice(2), {
+    out: (s) => process.stdout.write(s),
+    err: (s) => process.stderr.write(s),
+    isTTY: Boolean(process.stderr.isTTY),
+  });
+  process.exitCode = code;
+}

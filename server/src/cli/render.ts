@@ -1,0 +1,123 @@
+/**
+ * Renderings of an analysis result for the command line: JSON (the fixed contract), CSV and a table.
+ */
+import type { AnalysisResult } from '../analysis/types';
+import type { EngineDiagnostic } from '../language/catalogue';
+import { lineIndex, positionOf } from '../analysis/positions';
+
+/** A diagnostic with 1-based lines and columns, as the JSON and `check` print them. */
+export interface LocatedDiagnostic {
+  line: number;
+  column: number;
+  endLine: number;
+  endColumn: number;
+  severity: EngineDiagnostic['severity'];
+  code: EngineDiagnostic['code'];
+  message: string;
+}
+
+/** Locates a diagnostic (1-based). */
+export function locate(d: EngineDiagnostic, lines: number[]): LocatedDiagnostic {
+  const s = positionOf(lines, d.start);
+  const e = positionOf(lines, d.end);
+  return {
+    line: s.line + 1,
+    column: s.character + 1,
+    endLine: e.line + 1,
+    endColumn: e.character + 1,
+    severity: d.severity,
+    code: d.code,
+    message: d.message,
+  };
+}
+
+/** `FILE:LINE:COL: SEVERITY[CODE]: MESSAGE`. */
+export function renderDiagnostic(file: string, d: EngineDiagnostic, lines: number[]): string {
+  const l = locate(d, lines);
+  return `${file}:${l.line}:${l.column}: ${l.severity}[${l.code}]: ${l.message.replace(/\s*\n\s*/g, ' ')}`;
+}
+
+/** The JSON object of `expand --json`. */
+export function toJson(result: AnalysisResult, text: string): Record<string, unknown> {
+  const lines = lineIndex(text);
+  const out: Record<string, unknown> = {
+    levels: result.levels.map((l) => {
+      const o: Record<string, number> = { n: l.n, energy: l.energy, re: l.re, im: l.im, weight: l.weight };
+      if (l.uncertainty !== undefined) o.uncertainty = l.uncertainty;
+      return o;
+    }),
+    norm: result.norm,
+    captured: result.captured,
+    energy: result.energy ?? { mean: null, spread: null },
+    parity: result.parity,
+  };
+  if (result.continuum !== undefined) out.continuum = result.continuum;
+  out.diagnostics = result.diagnostics.map((d) => locate(d, lines));
+  out.units = result.units;
+  out.system = result.system;
+  out.decay = result.decay;
+  out.levelsFor999 = result.levelsFor999;
+  if (result.evolution) {
+    const { density: _density, ...rest } = result.evolution;
+    void _density;
+    out.evolution = rest;
+  }
+  return out;
+}
+
+/** `expand --json`: one JSON object. */
+export function renderJson(result: AnalysisResult, text: string): string {
+  return JSON.stringify(toJson(result, text), (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2);
+}
+
+/** `expand --csv`: a header and one row a level. */
+export function renderCsv(result: AnalysisResult): string {
+  const rows = ['n,energy,re,im,weight'];
+  for (const l of result.levels) rows.push([l.n, l.energy, l.re, l.im, l.weight].map((v) => String(v)).join(','));
+  return rows.join('\n') + '\n';
+}
+
+function num(v: number | null | undefined, digits = 6): string {
+  if (v === null || v === undefined) return '—';
+  if (!Number.isFinite(v)) return String(v);
+  if (v === 0) return '0';
+  const a = Math.abs(v);
+  return a >= 1e-3 && a < 1e6 ? v.toPrecision(digits) : v.toExponential(digits - 1);
+}
+
+/** `expand --table` and `demo`: a readable summary with the levels table. */
+export function renderTable(result: AnalysisResult, text: string, file: string): string {
+  const eu = result.units.energy ?? '';
+  const lines: string[] = [];
+  lines.push(`== ${file}`);
+  if (result.system) {
+    lines.push(`system: ${result.system.kind}${result.system.boundCount !== undefined ? ` (${result.system.boundCount} bound states)` : ''}`);
+  }
+  if (result.levels.length > 0) {
+    const top = result.levels.filter((l) => l.weight > 1e-12);
+    const shown = top.slice(0, 12);
+    lines.push(`  ${'n'.padStart(4)}  ${('E_n' + (eu ? ` [${eu}]` : '')).padStart(16)}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${'|c_n|^2'.padStart(13)}`);
+    for (const l of shown) {
+      lines.push(`  ${String(l.n).padStart(4)}  ${num(l.energy, 8).padStart(16)}  ${num(l.re).padStart(13)}  ${num(l.im).padStart(13)}  ${num(l.weight).padStart(13)}`);
+    }
+    if (top.length > shown.length) lines.push(`  ... ${top.length - shown.length} more levels with weight above 1e-12 (of ${result.levels.length} computed)`);
+  }
+  if (result.norm !== null) lines.push(`norm (as written): ${num(result.norm, 10)}`);
+  if (result.captured !== null) lines.push(`captured weight: ${num(result.captured, 10)}${result.levelsFor999 !== null ? `   (99.9% within ${result.levelsFor999} levels)` : ''}`);
+  if (result.continuum !== undefined) lines.push(`continuum weight: ${num(result.continuum, 6)}`);
+  if (result.energy) {
+    lines.push(`energy mean: ${result.energy.mean === null ? 'diverges' : num(result.energy.mean, 10) + (eu ? ' ' + eu : '')}   spread: ${result.energy.spread === null ? 'diverges' : num(result.energy.spread, 10) + (eu ? ' ' + eu : '')}`);
+  }
+  if (result.parity) lines.push(`parity: ${result.parity}`);
+  if (result.decay && result.decay.exponent !== null) lines.push(`decay: |c_n| ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
+  if (result.evolution) {
+    lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${result.units.time ? ' ' + result.units.time : ''}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8)}`);
+  }
+  const idx = lineIndex(text);
+  if (result.diagnostics.length === 0) lines.push('diagnostics: none');
+  else {
+    lines.push('diagnostics:');
+    for (const d of result.diagnostics) lines.push('  ' + renderDiagnostic(file, d, idx));
+  }
+  return lines.join('\n') + '\n';
+}
