@@ -61,8 +61,20 @@ export type Statement =
   | { kind: 'expect'; span: Span; keywordSpan: Span; expectation: Expectation }
   | { kind: 'evolve'; span: Span; keywordSpan: Span; to: ExprText; steps: ExprText | null };
 
+/** A statement whose keyword was recognised but which was left out of `statements` because of an error. */
+export interface RejectedStatement {
+  keyword: Statement['kind'];
+  span: Span;
+  keywordSpan: Span;
+}
+
 /** A parsed file: the statements that parsed (in order) and the text they came from. */
 export interface QFile {
   text: string;
   statements: Statement[];
+  /**
+   * Statements with a known keyword that failed to parse (already reported). Later layers use it to
+   * avoid follow-up findings such as "no system" when the system line merely has a typo.
+   */
+  rejected?: RejectedStatement[];
 }
