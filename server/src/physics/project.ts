@@ -1,0 +1,63 @@
+/**
+ * Projection of a sampled state on an eigenbasis by quadrature.
+ */
+import type { Eigenbasis, Quadrature } from './types';
+
+/** Options of {@link project}. */
+export interface ProjectOptions {
+  /** Most doubles of eigenfunction table held at once (default 2^22, i.e. 32 MiB). */
+  maxTable?: number;
+}
+
+/**
+ * Coefficients c_k = <phi_k|psi> = sum_j w_j phi_k(x_j) psi(x_j), k < levels (real eigenfunctions,
+ * so no conjugate is needed), for a state sampled at the quadrature nodes (psiRe, psiIm at quad.x;
+ * psiIm may be null for a real state). The eigenfunction table is built in chunks of nodes, each of
+ * at most `maxTable` doubles, so memory stays bounded for any number of levels and nodes.
+ * Levels beyond basis.count come back as 0.
+ */
+export function project(
+  basis: Eigenbasis,
+  quad: Quadrature,
+  psiRe: Float64Array,
+  psiIm: Float64Array | null,
+  levels: number,
+  options: ProjectOptions = {},
+): { re: Float64Array; im: Float64Array } {
+  const lv = Math.max(0, Math.min(Math.floor(levels), basis.count));
+  const re = new Float64Array(Math.max(0, Math.floor(levels)));
+  const im = new Float64Array(re.length);
+  const nq = Math.min(quad.x.length, quad.w.length, psiRe.length);
+  if (lv === 0 || nq === 0) return { re, im };
+  const maxTable = Math.max(1, Math.floor(options.maxTable ?? 4194304));
+  const chunk = Math.max(1, Math.floor(maxTable / lv));
+  const table = new Float64Array(Math.min(chunk, nq) * lv);
+  for (let start = 0; start < nq; start += chunk) {
+    const end = Math.min(nq, start + chunk);
+    const m = end - start;
+    const xs = quad.x.subarray(start, end);
+    const t = m * lv === table.length ? table : table.subarray(0, m * lv);
+    basis.table(xs, lv, t);
+    // Weighted samples once per chunk.
+    const wr = new Float64Array(m);
+    const wi = new Float64Array(m);
+    for (let j = 0; j < m; j++) {
+      const w = quad.w[start + j];
+      wr[j] = w * psiRe[start + j];
+      wi[j] = psiIm ? w * psiIm[start + j] : 0;
+    }
+    for (let k = 0; k < lv; k++) {
+      let sr = 0;
+      let si = 0;
+      const base = k * m;
+      for (let j = 0; j < m; j++) {
+        const p = t[base + j];
+        sr += p * wr[j];
+        si += p * wi[j];
+      }
+      re[k] += sr;
+      im[k] += si;
+    }
+  }
+  return { re, im };
+}
