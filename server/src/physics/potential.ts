@@ -1,0 +1,403 @@
+/**
+ * The energy eigenbasis of any potential V(x) between hard walls at a and b, solved with the sine DVR
+ * (dvr.ts) on a grid chosen automatically and confirmed by solving at two sizes.
+ */
+import type { Eigenbasis } from './types';
+import { sineDvrGrid, sineDvrSolve, sineSeriesTable, type SineDvrSolution } from './dvr';
+
+/** A vectorised potential: V at every x of the array, in internal units. */
+export type PotentialFn = (xs: Float64Array) => Float64Array;
+
+/** Options of `potentialBasis`, with their defaults. */
+export interface PotentialOptions {
+  /** Relative energy tolerance each level must meet between two grid sizes (default 1e-9). */
+  tolerance?: number;
+  /** Cap on the number of grid intervals N (default 4096). */
+  maxPoints?: number;
+  /** Fewest grid intervals tried (default 32). */
+  minPoints?: number;
+  /** Grid points per shortest local wavelength for the first size (default 4). */
+  pointsPerWavelength?: number;
+  /** Factor between successive grid sizes (default 1.5). */
+  growth?: number;
+  /** Relative tolerance of the mirror test V(a + b - x) = V(x) (default 1e-12). */
+  symmetryTolerance?: number;
+  /** Samples of V used to estimate wavelengths, find jumps and test symmetry (default 4096). */
+  samples?: number;
+}
+
+/** Something the solver wants the analysis to know. */
+export interface PotentialNote {
+  /**
+   * `evaluation`: V gave NaN, -Infinity or the wrong length (no basis built); `input`: bad a, b, mass or
+   * levels; `cap`: the grid cap stopped refinement short; `clamped`: +Infinity values were replaced by a
+   * wall far above the spectrum; `walls`: levels lie above V at both ends (wall-quantised continuum);
+   * `jumps`: V jumps, so convergence is algebraic.
+   */
+  kind: 'evaluation' | 'input' | 'cap' | 'clamped' | 'walls' | 'jumps';
+  message: string;
+  /** A position the note is about (first bad x, first jump), if any. */
+  at?: number;
+}
+
+/** The result of `potentialBasis`. */
+export interface PotentialBasisResult {
+  basis: Eigenbasis;
+  /** Grid intervals N of the basis returned (N - 1 interior points, N - 1 sine terms). */
+  points: number;
+  /** Label n (1-based) of the first level not resolved to the tolerance, or null when all are. */
+  unresolved: number | null;
+  /** Indices (0-based) of levels above min(V(a+), V(b-)): artefacts of the walls, a box-quantised continuum. */
+  wallLevels: number[];
+  /**
+   * For each entry of `wallLevels`, the end(s) whose potential the level exceeds: 'both' means it is above
+   * V at both walls (unbound on both sides without them); 'left' or 'right' means only that wall confines
+   * it (e.g. a deliberate wall at 0 with V = F x, where the level is physical).
+   */
+  wallEnds: ('left' | 'right' | 'both')[];
+  notes: PotentialNote[];
+  /** Grid sizes solved, in order (for benchmarks and reports). */
+  sizes: number[];
+}
+
+const DEFAULTS = {
+  tolerance: 1e-9,
+  maxPoints: 4096,
+  minPoints: 32,
+  pointsPerWavelength: 4,
+  growth: 1.5,
+  symmetryTolerance: 1e-12,
+  samples: 4096,
+};
+
+/** A jump of V located by bisection, with the one-sided values. */
+interface Jump {
+  x: number;
+  left: number;
+  right: number;
+}
+
+function evalV(V: PotentialFn, xs: Float64Array): Float64Array | null {
+  try {
+    const out = V(xs);
+    if (!out || out.length !== xs.length) return null;
+    return out instanceof Float64Array ? out : Float64Array.from(out as ArrayLike<number>);
+  } catch {
+    return null;
+  }
+}
+
+function emptyBasis(a: number, b: number, mass: number, V: PotentialFn): Eigenbasis {
+  return makeBasis(null, a, b, mass, V, null, [], new Float64Array(0), new Float64Array(0));
+}
+
+function makeBasis(
+  sol: SineDvrSolution | null,
+  a: number,
+  b: number,
+  mass: number,
+  V: PotentialFn,
+  center: number | null,
+  breakpoints: number[],
+  energies: Float64Array,
+  uncertainty: Float64Array,
+): Eigenbasis {
+  return {
+    kind: 'potential',
+    count: energies.length,
+    firstLabel: 1,
+    energies,
+    uncertainty,
+    mass,
+    center,
+    walls: [a, b],
+    support: [a, b],
+    breakpoints,
+    potential(x: number): number {
+      if (!(x >= a && x <= b)) return Infinity;
+      const r = evalV(V, Float64Array.of(x));
+      return r ? r[0] : NaN;
+    },
+    table(xs, levels, out, d1, d2) {
+      if (!sol) return;
+      sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2);
+    },
+  };
+}
+
+/**
+ * Finds the energy E_K of level K by the WKB count with hard walls,
+ * n(E) = (1/pi) integral sqrt(2 m (E - V)_+) dx = K (Bohr-Sommerfeld; exact for the box), by bisection.
+ * Used only to size the first grid, so a rough value is enough.
+ */
+function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: number, L: number): number {
+  const count = (E: number): number => {
+    let s = 0;
+    for (let j = 0; j < vs.length; j++) if (E > vs[j]) s += Math.sqrt(2 * mass * (E - vs[j]));
+    return (s * h) / Math.PI;
+  };
+  let lo = vmin;
+  let hi = vmin + (Math.PI * Math.PI * K * K) / (2 * mass * L * L);
+  for (let i = 0; i < 200 && count(hi) < K; i++) hi = vmin + 2 * (hi - vmin);
+  for (let i = 0; i < 60; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (count(mid) < K) lo = mid;
+    else hi = mid;
+  }
+  return hi;
+}
+
+/**
+ * The lowest `levels` eigenpairs of H = -1/(2m) d^2/dx^2 + V(x) with hard walls at a and b (hbar = 1).
+ *
+ * Method: the sine DVR (Colbert & Miller, J. Chem. Phys. 96, 1982 (1992)). The first grid gives
+ * `pointsPerWavelength` points per shortest local wavelength 2 pi / sqrt(2 m (E_K - V_min)) at the WKB
+ * estimate of the highest level E_K; the grid then grows by `growth` until two successive sizes agree on
+ * every level to `tolerance` relative (relative to max(|E|, 1e-3 (E_K - V_min)), so levels near E = 0 are
+ * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
+ * `uncertainty` (a conservative bound while convergence is fast). For smooth V the error falls
+ * exponentially with N. When V jumps (steps, `?:` barriers) the cell holding a jump takes the exact cell
+ * average of the two sides, which makes the energy error O(N^-2) (measured: test/physics/potential.test.ts);
+ * when V'(wall) != 0 with the level non-negligible there (a wall at 0 with V = F x), the odd extension
+ * has a jump in phi'''' and the error falls algebraically, fast enough for 1e-9 in practice.
+ * A symmetric V (mirror test on the samples to `symmetryTolerance`) is split into even and odd blocks.
+ * Never throws: bad input or a bad V gives an empty basis and a note.
+ */
+export function potentialBasis(
+  V: PotentialFn,
+  a: number,
+  b: number,
+  mass: number,
+  levels: number,
+  options: PotentialOptions = {},
+): PotentialBasisResult {
+  const o = { ...DEFAULTS, ...options };
+  const notes: PotentialNote[] = [];
+  const fail = (note: PotentialNote): PotentialBasisResult => ({
+    basis: emptyBasis(a, b, mass, V),
+    points: 0,
+    unresolved: levels >= 1 ? 1 : null,
+    wallLevels: [],
+    wallEnds: [],
+    notes: [...notes, note],
+    sizes: [],
+  });
+  if (!(Number.isFinite(a) && Number.isFinite(b) && b > a) || !(mass > 0 && Number.isFinite(mass))) {
+    return fail({ kind: 'input', message: 'The interval must have finite ends a < b and the mass must be positive.' });
+  }
+  const K = Math.floor(levels);
+  if (!(K >= 1)) return fail({ kind: 'input', message: 'At least one level must be asked for.' });
+  const L = b - a;
+  const cap = Math.max(8, Math.floor(o.maxPoints));
+
+  // Samples: interior points a + j L/M, mirror pairs j <-> M - j.
+  const M = Math.max(64, Math.floor(o.samples));
+  const hs = L / M;
+  const sx = new Float64Array(M - 1);
+  for (let j = 1; j < M; j++) sx[j - 1] = a + j * hs;
+  const sv = evalV(V, sx);
+  if (!sv) return fail({ kind: 'evaluation', message: 'The potential could not be evaluated on the grid.' });
+  let vmin = Infinity;
+  let vmaxFinite = -Infinity;
+  let clamped = false;
+  for (let j = 0; j < sv.length; j++) {
+    const y = sv[j];
+    if (Number.isNaN(y) || y === -Infinity) {
+      return fail({ kind: 'evaluation', message: `The potential is ${Number.isNaN(y) ? 'NaN' : '-Infinity'} at x = ${sx[j]}.`, at: sx[j] });
+    }
+    if (y === Infinity) {
+      clamped = true;
+      continue;
+    }
+    if (y < vmin) vmin = y;
+    if (y > vmaxFinite) vmaxFinite = y;
+  }
+  if (!Number.isFinite(vmin)) {
+    return fail({ kind: 'evaluation', message: 'The potential is +Infinity everywhere inside the walls.' });
+  }
+  const vscale = Math.max(Math.abs(vmin), Math.abs(vmaxFinite));
+  // Mirror test V(a + b - x) = V(x).
+  let symmetric = true;
+  for (let j = 0; j < sv.length && symmetric; j++) {
+    const p = sv[j];
+    const q = sv[sv.length - 1 - j];
+    if (p === q) continue;
+    if (!(Math.abs(p - q) <= o.symmetryTolerance * Math.max(vscale, Number.MIN_VALUE))) symmetric = false;
+  }
+  const center = symmetric ? 0.5 * (a + b) : null;
+
+  // Jumps: a difference far above both neighbours, located by bisection.
+  const jumps: Jump[] = [];
+  const diff = (j: number): number => {
+    if (j < 0 || j + 1 >= sv.length) return 0;
+    const d = Math.abs(sv[j + 1] - sv[j]);
+    return Number.isFinite(d) ? d : 0;
+  };
+  for (let j = 0; j + 1 < sv.length && jumps.length < 64; j++) {
+    const dj = diff(j);
+    if (!(dj > 1e-10 * vscale)) continue;
+    const nb = Math.max(diff(j - 1), diff(j + 1), diff(j - 2), diff(j + 2));
+    if (dj <= 20 * nb) continue;
+    let lo = sx[j];
+    let hi = sx[j + 1];
+    let vlo = sv[j];
+    let vhi = sv[j + 1];
+    for (let it = 0; it < 60; it++) {
+      const mid = 0.5 * (lo + hi);
+      if (mid <= lo || mid >= hi) break;
+      const r = evalV(V, Float64Array.of(mid));
+      const vm = r ? r[0] : NaN;
+      if (!Number.isFinite(vm)) break;
+      if (Math.abs(vm - vlo) <= Math.abs(vm - vhi)) {
+        lo = mid;
+        vlo = vm;
+      } else {
+        hi = mid;
+        vhi = vm;
+      }
+    }
+    jumps.push({ x: 0.5 * (lo + hi), left: vlo, right: vhi });
+  }
+  if (jumps.length > 0) {
+    notes.push({
+      kind: 'jumps',
+      message: `The potential jumps at ${jumps.length} point(s); energies converge algebraically (about N^-2), not exponentially.`,
+      at: jumps[0].x,
+    });
+  }
+
+  // First grid from the shortest local wavelength at the WKB estimate of E_K.
+  const EK = wkbEnergy(sv.map((y) => (y === Infinity ? vmaxFinite + 1e300 : y)), hs, mass, K, vmin, L);
+  const kmax = Math.sqrt(2 * mass * Math.max(EK - vmin, 0));
+  let N = Math.ceil((o.pointsPerWavelength * L * kmax) / (2 * Math.PI)) + 16;
+  N = Math.max(N, Math.floor(o.minPoints), K + 8);
+  N = Math.min(N, cap);
+
+  const solveAt = (Nn: number): SineDvrSolution | null => {
+    const xs = sineDvrGrid(a, b, Nn);
+    const vv = evalV(V, xs);
+    if (!vv) return null;
+    const h = L / Nn;
+    const wall = Math.max(vmaxFinite, vmin + (4 * (Math.PI * Nn) ** 2) / (2 * mass * L * L));
+    for (let i = 0; i < vv.length; i++) {
+      if (vv[i] === Infinity) vv[i] = wall;
+      else if (!Number.isFinite(vv[i])) return null;
+    }
+    for (const jp of jumps) {
+      // The cell [x_i - h/2, x_i + h/2] holding the jump takes the exact average of the two sides.
+      const i = Math.round((jp.x - a) / h);
+      if (i < 1 || i > vv.length) continue;
+      const xi = a + i * h;
+      const wl = Math.min(Math.max((jp.x - (xi - h / 2)) / h, 0), 1);
+      const l = jp.left === Infinity ? wall : jp.left;
+      const r = jp.right === Infinity ? wall : jp.right;
+      vv[i - 1] = wl * l + (1 - wl) * r;
+    }
+    if (symmetric) {
+      for (let i = 0, j = vv.length - 1; i < j; i++, j--) {
+        const m = 0.5 * (vv[i] + vv[j]);
+        vv[i] = m;
+        vv[j] = m;
+      }
+    }
+    return sineDvrSolve(vv, a, b, mass, K, { symmetric });
+  };
+
+  const sizes: number[] = [];
+  let prev = solveAt(N);
+  if (!prev) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid.' });
+  sizes.push(N);
+  let cur = prev;
+  let diffs = new Float64Array(0);
+  let prevWorst: { ratio: number; N: number } | null = null;
+  let stoppedByCap = N >= cap;
+  const scaleOf = (E: Float64Array, k: number): number =>
+    Math.max(Math.abs(E[k]), 1e-3 * Math.abs(E[E.length - 1] - vmin), Number.MIN_VALUE);
+  while (N < cap) {
+    const N1 = Math.min(cap, Math.ceil(N * o.growth));
+    const next = solveAt(N1);
+    if (!next) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid.' });
+    sizes.push(N1);
+    const m = Math.min(prev.energies.length, next.energies.length);
+    diffs = new Float64Array(next.energies.length).fill(Infinity);
+    let worst = 0;
+    for (let k = 0; k < m; k++) {
+      diffs[k] = Math.abs(next.energies[k] - prev.energies[k]);
+      worst = Math.max(worst, diffs[k] / (o.tolerance * scaleOf(next.energies, k)));
+    }
+    cur = next;
+    N = N1;
+    if (worst <= 1) break;
+    if (N >= cap) {
+      stoppedByCap = true;
+      break;
+    }
+    // Algebraic convergence: stop once the observed order says the cap cannot reach the tolerance.
+    if (prevWorst && worst < prevWorst.ratio) {
+      const p = Math.log(prevWorst.ratio / worst) / Math.log(N / prevWorst.N);
+      if (p > 0 && p < 12 && N * Math.pow(worst, 1 / p) > cap) {
+        stoppedByCap = true;
+        notes.push({
+          kind: 'cap',
+          message: `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(N * Math.pow(worst, 1 / p))} grid points, over the cap of ${cap}.`,
+        });
+        break;
+      }
+    }
+    prevWorst = { ratio: worst, N };
+    prev = next;
+  }
+  const count = cur.energies.length;
+  const uncertainty = new Float64Array(count);
+  let unresolved: number | null = null;
+  for (let k = 0; k < count; k++) {
+    uncertainty[k] = k < diffs.length ? diffs[k] : Infinity;
+    if (unresolved === null && !(uncertainty[k] <= o.tolerance * scaleOf(cur.energies, k))) unresolved = k + 1;
+  }
+  if (count < K && unresolved === null) unresolved = count + 1;
+  if (stoppedByCap && unresolved !== null && !notes.some((n) => n.kind === 'cap')) {
+    notes.push({ kind: 'cap', message: `The grid cap of ${cap} points stopped refinement before level ${unresolved} met the tolerance.` });
+  }
+  if (clamped) {
+    notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
+  }
+
+  // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum.
+  const grid = sineDvrGrid(a, b, cur.intervals);
+  const vals = new Float64Array(count * grid.length);
+  sineSeriesTable(cur, grid, count, vals);
+  const nterms = cur.intervals - 1;
+  for (let k = 0; k < count; k++) {
+    let mx = 0;
+    for (let i = 0; i < grid.length; i++) mx = Math.max(mx, Math.abs(vals[k * grid.length + i]));
+    for (let i = 0; i < grid.length; i++) {
+      const y = vals[k * grid.length + i];
+      if (Math.abs(y) > 1e-6 * mx) {
+        if (y < 0) for (let t = 0; t < nterms; t++) cur.coefficients[k * nterms + t] *= -1;
+        break;
+      }
+    }
+  }
+
+  // Levels above the potential at both ends are quantised by the walls, not by V.
+  const ends = evalV(V, Float64Array.of(a + 1e-9 * L, b - 1e-9 * L));
+  const wallLevels: number[] = [];
+  const wallEnds: ('left' | 'right' | 'both')[] = [];
+  if (ends) {
+    const vend = Math.min(ends[0], ends[1]);
+    for (let k = 0; k < count; k++) {
+      const e = cur.energies[k];
+      if (!(e > vend)) continue;
+      wallLevels.push(k);
+      wallEnds.push(e > ends[0] && e > ends[1] ? 'both' : e > ends[0] ? 'left' : 'right');
+    }
+    if (wallLevels.length > 0) {
+      notes.push({
+        kind: 'walls',
+        message: `${wallLevels.length} level(s) lie above the potential at both walls (${vend}); they belong to a continuum quantised by the walls.`,
+      });
+    }
+  }
+  const basis = makeBasis(cur, a, b, mass, V, center, jumps.map((j) => j.x), cur.energies, uncertainty);
+  return { basis, points: cur.intervals, unresolved, wallLevels, wallEnds, notes, sizes };
+}

@@ -1,0 +1,297 @@
+/**
+ * Dense symmetric eigenproblems for the lowest few levels: Householder reduction to tridiagonal form,
+ * Sturm-sequence bisection for the eigenvalues and inverse iteration for the eigenvectors
+ * (Golub & Van Loan, Matrix Computations, 4th ed., sections 8.3.1, 8.4.1 and 8.2.2).
+ *
+ * Why this route and not full QL with accumulated rotations: the solver needs only the lowest k of n
+ * levels with k much smaller than n; bisection and inverse iteration cost O(n k) on the tridiagonal and
+ * O(n^2 k) to map the vectors back, so the O(4/3 n^3) reduction dominates and nothing else grows as n^3.
+ */
+
+/** A symmetric tridiagonal matrix: diagonal `d` (length n) and off-diagonal `e` (length n - 1, e[i] = T[i+1][i]). */
+export interface Tridiagonal {
+  d: Float64Array;
+  e: Float64Array;
+}
+
+/** The output of `householderTridiagonalize`: the tridiagonal and the reflectors that map back. */
+export interface TridiagonalReduction extends Tridiagonal {
+  n: number;
+  /** Reflector k is stored in `v[k * n + k + 1 .. k * n + n - 1]`, with factor `beta[k]` (H_k = I - beta v v^T). */
+  v: Float64Array;
+  beta: Float64Array;
+}
+
+/**
+ * Reduces a real symmetric matrix A (row-major, n x n, only the lower triangle read; destroyed) to
+ * tridiagonal T = Q^T A Q with Q = H_0 H_1 ... H_{n-3}, H_k = I - beta_k v_k v_k^T
+ * (Golub & Van Loan, Matrix Computations, Algorithm 8.3.1). Cost 4/3 n^3 flops: the trailing block is
+ * updated as S <- S - v w^T - w v^T with w = p - (beta p.v / 2) v, p = beta S v, on its lower triangle only.
+ */
+export function householderTridiagonalize(A: Float64Array, n: number): TridiagonalReduction {
+  const d = new Float64Array(n);
+  const e = new Float64Array(Math.max(0, n - 1));
+  const v = new Float64Array(n * n);
+  const beta = new Float64Array(Math.max(0, n));
+  const p = new Float64Array(n);
+  const x = new Float64Array(n);
+  for (let k = 0; k < n - 2; k++) {
+    // x = A[k+1.., k] (lower triangle: row i, column k).
+    let norm2 = 0;
+    for (let i = k + 1; i < n; i++) {
+      const a = A[i * n + k];
+      x[i] = a;
+      norm2 += a * a;
+    }
+    d[k] = A[k * n + k];
+    const norm = Math.sqrt(norm2);
+    const x0 = x[k + 1];
+    if (norm === 0 || norm2 - x0 * x0 === 0) {
+      // Already tridiagonal in this column.
+      e[k] = x0;
+      beta[k] = 0;
+      continue;
+    }
+    const alpha = x0 >= 0 ? -norm : norm;
+    x[k + 1] = x0 - alpha;
+    let vv = 0;
+    for (let i = k + 1; i < n; i++) vv += x[i] * x[i];
+    const b = 2 / vv;
+    beta[k] = b;
+    e[k] = alpha;
+    const vo = k * n;
+    for (let i = k + 1; i < n; i++) v[vo + i] = x[i];
+    // p = beta S v using the lower triangle of S = A[k+1.., k+1..].
+    for (let i = k + 1; i < n; i++) p[i] = 0;
+    for (let i = k + 1; i < n; i++) {
+      const row = i * n;
+      const xi = x[i];
+      let s = 0;
+      for (let j = k + 1; j < i; j++) {
+        const a = A[row + j];
+        s += a * x[j];
+        p[j] += a * xi;
+      }
+      p[i] += s + A[row + i] * xi;
+    }
+    let pv = 0;
+    for (let i = k + 1; i < n; i++) {
+      p[i] *= b;
+      pv += p[i] * x[i];
+    }
+    const half = 0.5 * b * pv;
+    for (let i = k + 1; i < n; i++) p[i] -= half * x[i];
+    // Rank-2 update of the lower triangle.
+    for (let i = k + 1; i < n; i++) {
+      const row = i * n;
+      const xi = x[i];
+      const wi = p[i];
+      for (let j = k + 1; j <= i; j++) A[row + j] -= xi * p[j] + wi * x[j];
+    }
+  }
+  if (n >= 2) {
+    d[n - 2] = A[(n - 2) * n + n - 2];
+    e[n - 2] = A[(n - 1) * n + n - 2];
+  }
+  if (n >= 1) d[n - 1] = A[(n - 1) * n + n - 1];
+  return { n, d, e, v, beta };
+}
+
+/** Number of eigenvalues of T strictly below `x` (Sturm sequence count of the LDL^T pivots; Golub & Van Loan 8.4.1). */
+export function sturmCount(t: Tridiagonal, x: number, pivmin: number): number {
+  const { d, e } = t;
+  const n = d.length;
+  let count = 0;
+  let q = d[0] - x;
+  if (Math.abs(q) < pivmin) q = -pivmin;
+  if (q < 0) count++;
+  for (let i = 1; i < n; i++) {
+    q = d[i] - x - (e[i - 1] * e[i - 1]) / q;
+    if (Math.abs(q) < pivmin) q = -pivmin;
+    if (q < 0) count++;
+  }
+  return count;
+}
+
+/** Gershgorin interval [lo, hi] holding every eigenvalue of T. */
+export function gershgorin(t: Tridiagonal): [number, number] {
+  const { d, e } = t;
+  const n = d.length;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    const r = (i > 0 ? Math.abs(e[i - 1]) : 0) + (i < n - 1 ? Math.abs(e[i]) : 0);
+    lo = Math.min(lo, d[i] - r);
+    hi = Math.max(hi, d[i] + r);
+  }
+  return [lo, hi];
+}
+
+/**
+ * The lowest `k` eigenvalues of T, ascending, by bisection on the Sturm count (Golub & Van Loan 8.4.1),
+ * each to about 2 eps max(|lo|, |hi|) + pivmin: the absolute accuracy eps ||T|| any backward-stable method has.
+ */
+export function lowestEigenvalues(t: Tridiagonal, k: number): Float64Array {
+  const n = t.d.length;
+  const m = Math.max(0, Math.min(k, n));
+  const out = new Float64Array(m);
+  if (m === 0) return out;
+  const [glo, ghi] = gershgorin(t);
+  const scale = Math.max(Math.abs(glo), Math.abs(ghi), Number.MIN_VALUE);
+  const pivmin = Number.MIN_VALUE * 1e10 + scale * 1e-300;
+  const eps = 2.220446049250313e-16;
+  // Lower brackets shared between eigenvalues: lower[j] is a point with count <= j.
+  let lo0 = glo - eps * scale * 4 - pivmin;
+  const hi0 = ghi + eps * scale * 4 + pivmin;
+  for (let j = 0; j < m; j++) {
+    let lo = lo0;
+    let hi = hi0;
+    for (let it = 0; it < 200; it++) {
+      const mid = 0.5 * (lo + hi);
+      if (hi - lo <= 2 * eps * Math.max(Math.abs(lo), Math.abs(hi)) + pivmin || mid === lo || mid === hi) break;
+      if (sturmCount(t, mid, pivmin) > j) hi = mid;
+      else lo = mid;
+    }
+    out[j] = 0.5 * (lo + hi);
+    lo0 = lo;
+  }
+  return out;
+}
+
+/**
+ * Eigenvectors of T for the given eigenvalues by inverse iteration with a tridiagonal LU with partial
+ * pivoting (Golub & Van Loan 8.2.2; Wilkinson, The Algebraic Eigenvalue Problem, ch. 9). Vectors of
+ * eigenvalues closer than 1e-3 ||T|| are kept orthogonal by Gram-Schmidt within the cluster, as is usual
+ * for inverse iteration. Returns the vectors row by row (vector j at [j * n, (j + 1) * n)), unit length.
+ */
+export function tridiagonalEigenvectors(t: Tridiagonal, values: Float64Array): Float64Array {
+  const { d, e } = t;
+  const n = d.length;
+  const m = values.length;
+  const out = new Float64Array(m * n);
+  if (n === 0) return out;
+  const [glo, ghi] = gershgorin(t);
+  const tnorm = Math.max(Math.abs(glo), Math.abs(ghi), Number.MIN_VALUE);
+  const tiny = 2.220446049250313e-16 * tnorm;
+  const U0 = new Float64Array(n);
+  const U1 = new Float64Array(n);
+  const U2 = new Float64Array(n);
+  const mult = new Float64Array(n);
+  const swapped = new Uint8Array(n);
+  const b = new Float64Array(n);
+  let clusterStart = 0;
+  let seed = 12345;
+  for (let j = 0; j < m; j++) {
+    const lambda = values[j];
+    if (j > 0 && Math.abs(lambda - values[j - 1]) > 1e-3 * tnorm) clusterStart = j;
+    // Factor T - lambda I = P L U.
+    let c0 = d[0] - lambda;
+    let c1 = n > 1 ? e[0] : 0;
+    for (let i = 0; i < n - 1; i++) {
+      const n0 = e[i];
+      const n1 = d[i + 1] - lambda;
+      const n2 = i + 1 < n - 1 ? e[i + 1] : 0;
+      if (Math.abs(c0) >= Math.abs(n0)) {
+        if (c0 === 0) c0 = tiny;
+        const mu = n0 / c0;
+        U0[i] = c0;
+        U1[i] = c1;
+        U2[i] = 0;
+        mult[i] = mu;
+        swapped[i] = 0;
+        c0 = n1 - mu * c1;
+        c1 = n2;
+      } else {
+        const mu = c0 / n0;
+        U0[i] = n0;
+        U1[i] = n1;
+        U2[i] = n2;
+        mult[i] = mu;
+        swapped[i] = 1;
+        c0 = c1 - mu * n1;
+        c1 = -mu * n2;
+      }
+      if (Math.abs(U0[i]) < tiny) U0[i] = U0[i] < 0 ? -tiny : tiny;
+    }
+    U0[n - 1] = Math.abs(c0) < tiny ? (c0 < 0 ? -tiny : tiny) : c0;
+    // Pseudo-random start so that no eigenvector is missed by a zero component.
+    for (let i = 0; i < n; i++) {
+      seed = (seed * 1103515245 + 12345) % 2147483648;
+      b[i] = seed / 2147483648 - 0.5;
+    }
+    const vec = out.subarray(j * n, (j + 1) * n);
+    for (let iter = 0; iter < 3; iter++) {
+      // Solve (T - lambda I) x = b.
+      for (let i = 0; i < n - 1; i++) {
+        if (swapped[i]) {
+          const tmp = b[i];
+          b[i] = b[i + 1];
+          b[i + 1] = tmp;
+        }
+        b[i + 1] -= mult[i] * b[i];
+      }
+      for (let i = n - 1; i >= 0; i--) {
+        let s = b[i];
+        if (i + 1 < n) s -= U1[i] * b[i + 1];
+        if (i + 2 < n) s -= U2[i] * b[i + 2];
+        b[i] = s / U0[i];
+      }
+      // Orthogonalise within the cluster.
+      for (let q = clusterStart; q < j; q++) {
+        const w = out.subarray(q * n, (q + 1) * n);
+        let dot = 0;
+        for (let i = 0; i < n; i++) dot += w[i] * b[i];
+        for (let i = 0; i < n; i++) b[i] -= dot * w[i];
+      }
+      let nrm = 0;
+      for (let i = 0; i < n; i++) nrm += b[i] * b[i];
+      nrm = Math.sqrt(nrm);
+      if (!(nrm > 0) || !Number.isFinite(nrm)) {
+        for (let i = 0; i < n; i++) b[i] = i === j % n ? 1 : 0;
+        continue;
+      }
+      for (let i = 0; i < n; i++) b[i] /= nrm;
+      // Once a solve amplifies a unit vector by ~1/(eps ||T||) the vector is converged.
+      if (iter >= 1 && nrm > 1e-4 / (tnorm * 2.220446049250313e-16)) break;
+    }
+    vec.set(b);
+  }
+  return out;
+}
+
+/** Maps an eigenvector y of T back to A: z = Q y = H_0 (H_1 (... H_{n-3} y)), in place. */
+export function backTransform(r: TridiagonalReduction, y: Float64Array): void {
+  const { n, v, beta } = r;
+  for (let k = n - 3; k >= 0; k--) {
+    const bk = beta[k];
+    if (bk === 0) continue;
+    const vo = k * n;
+    let dot = 0;
+    for (let i = k + 1; i < n; i++) dot += v[vo + i] * y[i];
+    dot *= bk;
+    for (let i = k + 1; i < n; i++) y[i] -= dot * v[vo + i];
+  }
+}
+
+/** Result of `symmetricLowest`. */
+export interface SymmetricEigen {
+  values: Float64Array;
+  /** Vector j (unit length) at [j * n, (j + 1) * n). */
+  vectors: Float64Array;
+}
+
+/**
+ * The lowest `k` eigenpairs of the real symmetric n x n matrix A (row-major; lower triangle read;
+ * A is destroyed). Householder tridiagonalisation, bisection, inverse iteration and back-transformation
+ * (Golub & Van Loan, Matrix Computations, 4th ed., ch. 8). Eigenvalues to about eps ||A|| absolute.
+ */
+export function symmetricLowest(A: Float64Array, n: number, k: number): SymmetricEigen {
+  if (n === 1) {
+    return { values: Float64Array.of(A[0]), vectors: Float64Array.of(1) };
+  }
+  const red = householderTridiagonalize(A, n);
+  const values = lowestEigenvalues(red, k);
+  const vectors = tridiagonalEigenvectors(red, values);
+  for (let j = 0; j < values.length; j++) backTransform(red, vectors.subarray(j * n, (j + 1) * n));
+  return { values, vectors };
+}
