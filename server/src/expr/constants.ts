@@ -1,0 +1,133 @@
+/**
+ * Physical constants and the unit table, in SI.
+ * Source: CODATA 2018 recommended values (NIST); units derived from them by definition.
+ * mathjs's own units are deliberately not used (its electronvolt rests on an older elementary charge).
+ */
+import type { Dimension } from './types';
+
+/** Dimension exponents [length, mass, time, charge]. */
+export const DIM = {
+  none: [0, 0, 0, 0] as Dimension,
+  length: [1, 0, 0, 0] as Dimension,
+  mass: [0, 1, 0, 0] as Dimension,
+  time: [0, 0, 1, 0] as Dimension,
+  charge: [0, 0, 0, 1] as Dimension,
+  energy: [2, 1, -2, 0] as Dimension,
+  frequency: [0, 0, -1, 0] as Dimension,
+  action: [2, 1, -1, 0] as Dimension,
+} as const;
+
+/** Reduced Planck constant in J s (exact). Source: CODATA 2018 recommended values (NIST). */
+export const HBAR_SI = 1.054571817e-34;
+/** Planck constant in J s (exact). Source: CODATA 2018 recommended values (NIST). */
+export const H_SI = 6.62607015e-34;
+/** Elementary charge in C (exact). Source: CODATA 2018 recommended values (NIST). */
+export const QE_SI = 1.602176634e-19;
+/** Electron mass in kg. Source: CODATA 2018 recommended values (NIST). */
+export const ME_SI = 9.1093837015e-31;
+/** Proton mass in kg. Source: CODATA 2018 recommended values (NIST). */
+export const MP_SI = 1.67262192369e-27;
+/** Atomic mass constant in kg. Source: CODATA 2018 recommended values (NIST). */
+export const U_SI = 1.6605390666e-27;
+/** Bohr radius in m. Source: CODATA 2018 recommended values (NIST). */
+export const A0_SI = 5.29177210903e-11;
+/** Hartree energy in J. Source: CODATA 2018 recommended values (NIST). */
+export const HARTREE_SI = 4.3597447222071e-18;
+/** Rydberg energy (half a hartree) in J. Source: CODATA 2018 recommended values (NIST). */
+export const RYDBERG_SI = HARTREE_SI / 2;
+/** The electronvolt in J: one elementary charge times one volt (exact since 2019). */
+export const EV_SI = QE_SI;
+
+/** What a unit measures; `kind` decides where it may appear on a `units` line. */
+export type UnitKind = 'length' | 'energy' | 'time' | 'frequency' | 'mass';
+
+/** One entry of the unit table. */
+export interface UnitInfo {
+  /** Value of one unit in SI. */
+  si: number;
+  dimension: Dimension;
+  kind: UnitKind;
+  /** One-line description for hover and completion. */
+  doc: string;
+}
+
+function unit(si: number, kind: UnitKind, doc: string): UnitInfo {
+  const dimension =
+    kind === 'length' ? DIM.length : kind === 'energy' ? DIM.energy : kind === 'time' ? DIM.time : kind === 'mass' ? DIM.mass : DIM.frequency;
+  return { si, dimension, kind, doc };
+}
+
+/**
+ * Every unit an expression may use, keyed by spelling. The micro prefix is accepted as `u`, the micro
+ * sign U+00B5 and the Greek letter mu U+03BC; the angstrom as `angstrom`, U+00C5 and U+212B.
+ */
+export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
+  ['m', unit(1, 'length', 'metre')],
+  ['cm', unit(1e-2, 'length', 'centimetre')],
+  ['mm', unit(1e-3, 'length', 'millimetre')],
+  ['um', unit(1e-6, 'length', 'micrometre')],
+  ['\u00B5m', unit(1e-6, 'length', 'micrometre')],
+  ['\u03BCm', unit(1e-6, 'length', 'micrometre')],
+  ['nm', unit(1e-9, 'length', 'nanometre')],
+  ['pm', unit(1e-12, 'length', 'picometre')],
+  ['fm', unit(1e-15, 'length', 'femtometre')],
+  ['\u00C5', unit(1e-10, 'length', 'angstrom, 1e-10 m')],
+  ['\u212B', unit(1e-10, 'length', 'angstrom, 1e-10 m')],
+  ['angstrom', unit(1e-10, 'length', 'angstrom, 1e-10 m')],
+  ['bohr', unit(A0_SI, 'length', 'Bohr radius (CODATA 2018)')],
+  ['a0', unit(A0_SI, 'length', 'Bohr radius (CODATA 2018)')],
+  ['J', unit(1, 'energy', 'joule')],
+  ['eV', unit(EV_SI, 'energy', 'electronvolt')],
+  ['meV', unit(EV_SI * 1e-3, 'energy', 'millielectronvolt')],
+  ['ueV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
+  ['\u00B5eV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
+  ['\u03BCeV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
+  ['keV', unit(EV_SI * 1e3, 'energy', 'kiloelectronvolt')],
+  ['MeV', unit(EV_SI * 1e6, 'energy', 'megaelectronvolt')],
+  ['Ha', unit(HARTREE_SI, 'energy', 'hartree (CODATA 2018)')],
+  ['hartree', unit(HARTREE_SI, 'energy', 'hartree (CODATA 2018)')],
+  ['Ry', unit(RYDBERG_SI, 'energy', 'rydberg, half a hartree')],
+  ['s', unit(1, 'time', 'second')],
+  ['ms', unit(1e-3, 'time', 'millisecond')],
+  ['us', unit(1e-6, 'time', 'microsecond')],
+  ['\u00B5s', unit(1e-6, 'time', 'microsecond')],
+  ['\u03BCs', unit(1e-6, 'time', 'microsecond')],
+  ['ns', unit(1e-9, 'time', 'nanosecond')],
+  ['ps', unit(1e-12, 'time', 'picosecond')],
+  ['fs', unit(1e-15, 'time', 'femtosecond')],
+  ['as', unit(1e-18, 'time', 'attosecond')],
+  ['Hz', unit(1, 'frequency', 'hertz')],
+  ['kHz', unit(1e3, 'frequency', 'kilohertz')],
+  ['MHz', unit(1e6, 'frequency', 'megahertz')],
+  ['GHz', unit(1e9, 'frequency', 'gigahertz')],
+  ['THz', unit(1e12, 'frequency', 'terahertz')],
+  ['kg', unit(1, 'mass', 'kilogram')],
+  ['g', unit(1e-3, 'mass', 'gram')],
+  ['m_e', unit(ME_SI, 'mass', 'electron mass (CODATA 2018)')],
+  ['m_p', unit(MP_SI, 'mass', 'proton mass (CODATA 2018)')],
+  ['u', unit(U_SI, 'mass', 'atomic mass constant (CODATA 2018)')],
+]);
+
+/** A named physical constant (not a unit: it never appears on a `units` line). */
+export interface ConstantInfo {
+  si: number;
+  dimension: Dimension;
+  doc: string;
+}
+
+/**
+ * Dimensional constants an expression may use in physical mode. The particle masses and the Bohr radius
+ * are also units (`UNITS`), with the same values. Source: CODATA 2018 recommended values (NIST).
+ */
+export const CONSTANTS: ReadonlyMap<string, ConstantInfo> = new Map<string, ConstantInfo>([
+  ['hbar', { si: HBAR_SI, dimension: DIM.action, doc: 'reduced Planck constant, 1.054571817e-34 J s (exact)' }],
+  ['h', { si: H_SI, dimension: DIM.action, doc: 'Planck constant, 6.62607015e-34 J s (exact)' }],
+  ['q_e', { si: QE_SI, dimension: DIM.charge, doc: 'elementary charge, 1.602176634e-19 C (exact)' }],
+]);
+
+/** Dimensionless built-in names, available in both modes: Euler's number, pi and the imaginary unit. */
+export const BUILTIN_NUMBERS: ReadonlyMap<string, { re: number; im: number; doc: string }> = new Map([
+  ['e', { re: Math.E, im: 0, doc: "Euler's number" }],
+  ['pi', { re: Math.PI, im: 0, doc: 'pi, the ratio of circumference to diameter' }],
+  ['i', { re: 0, im: 1, doc: 'the imaginary unit' }],
+]);
