@@ -257,8 +257,7 @@ export function decayOf(basis: Eigenbasis, weights: Float64Array): Expansion['de
   if (basis.kind === 'well' || weights.length < 12) return null;
   const labels = new Float64Array(weights.length);
   for (let k = 0; k < labels.length; k++) labels[k] = k + basis.firstLabel;
-  const f = fitDecay(labels, weights, {});
-  if (!f) return null;
+  const f = fitDecay(labels, weights, { block: 4 });
   let classification = f.classification as 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
   if (basis.kind === 'oscillator' && (classification === 'jump' || classification === 'kink')) classification = 'algebraic';
   return { exponent: f.exponent ?? null, classification, at: null };

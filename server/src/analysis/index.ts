@@ -357,7 +357,7 @@ function reportBasisFacts(built: BuiltBasis, model: Model, sysSpan: { start: num
   }
   if (built.unresolved !== undefined && built.unresolved !== null) {
     out.push(
-      warn('limits', sysSpan, `The grid cap stopped refinement: level ${built.unresolved + basis.firstLabel} and above are not resolved to 1e-9.`),
+      warn('limits', sysSpan, `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
     );
   }
   if (built.wallArtefacts && built.wallArtefacts.length > 0) {

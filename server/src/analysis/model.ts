@@ -277,8 +277,8 @@ class ModelBuilder {
       case 'box': {
         const pos = spec.args.filter((a) => a.name === null);
         const named = this.args(spec.args);
-        const aArg = pos[0] ?? named.get('from');
-        const bArg = pos[1] ?? named.get('to');
+        const aArg = pos[0] ?? named.get('left');
+        const bArg = pos[1] ?? named.get('right');
         if (!aArg || !bArg) return null;
         const a = this.constant(aArg.value, 'length', "the box's left end");
         const b = this.constant(bArg.value, 'length', "the box's right end");

@@ -70,9 +70,7 @@ export function buildBasis(
         );
         return null;
       }
-      const solved = potentialBasis(evalV, system.a, system.b, mass, count, {
-        maxPoints: options.maxGridPoints,
-      });
+      const solved = potentialBasis(evalV, system.a, system.b, mass, count, {});
       if (bad !== null) {
         const b = bad as { x: number; value: string };
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
@@ -80,7 +78,7 @@ export function buildBasis(
       }
       return {
         basis: solved.basis,
-        wallArtefacts: solved.wallArtefacts ?? [],
+        wallArtefacts: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
         unresolved: solved.unresolved,
         points: solved.points,
       };
