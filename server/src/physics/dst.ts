@@ -3,6 +3,16 @@
  */
 import { fftInPlace } from './fft';
 
+/** sin(pi j / N) for j <= N/2, cached for the most recent N. */
+let sineCache: { n: number; s: Float64Array } | null = null;
+function halfSines(N: number): Float64Array {
+  if (sineCache && sineCache.n === N) return sineCache.s;
+  const s = new Float64Array((N >> 1) + 1);
+  for (let j = 0; j < s.length; j++) s[j] = Math.sin((Math.PI * j) / N);
+  sineCache = { n: N, s };
+  return s;
+}
+
 /** Coefficients c_n = <phi_n|psi> of a box state, n = 1 ... count. */
 export interface BoxCoefficients {
   re: Float64Array;
@@ -17,9 +27,10 @@ export interface BoxCoefficients {
  * rule, which is the type-I discrete sine transform
  * c_n ~ sqrt(2/L) (L/N) sum_{j=1}^{N-1} sin(pi j n / N) psi_j
  * (the end samples drop out because the sine vanishes there). It is evaluated with one complex FFT of
- * length 2N of the odd extension, real and imaginary parts packed together: for odd real sequences
- * the transform is -2i times the sine sum (common practice; Press et al., Numerical Recipes, sine
- * transform section (from memory)).
+ * length N: each real sequence is folded into a length-N sequence whose cosine and sine sums give the
+ * odd and even sine coefficients (Press et al., Numerical Recipes, sine transform section (from
+ * memory)), and the real and imaginary parts share the transform as its real and imaginary inputs.
+ * The odd coefficients come from a running sum, so their rounding grows like sqrt(n) eps.
  *
  * Accuracy, honestly: the trapezoid rule on the odd periodic extension is spectrally accurate only if
  * that extension is smooth, i.e. psi vanishes at both walls together with its even derivatives
@@ -45,25 +56,59 @@ export function boxCoefficientsFromSamples(
   if (!(Number.isFinite(a) && Number.isFinite(b) && b > a)) return bad;
   const m = Math.max(0, Math.min(Math.floor(count), N - 1));
   const L = b - a;
-  const M = 2 * N;
-  const zr = new Float64Array(M);
-  const zi = new Float64Array(M);
+  // Pre-processing of the sine transform into a length-N DFT: y_j = sin(pi j/N) u_j + v_j / 2 with
+  // u_j = x_j + x_{N-j}, v_j = x_j - x_{N-j}. Then sum_j y_j sin(2 pi j k/N) = S_{2k} and
+  // sum_j y_j cos(2 pi j k/N) = S_{2k+1} - S_{2k-1} (Press et al., Numerical Recipes, sine transform
+  // section (from memory); rederived here). Both real sequences share one complex FFT (z = y^re + i y^im).
+  const zr = new Float64Array(N);
+  const zi = new Float64Array(N);
+  const sines = halfSines(N);
   for (let j = 1; j < N; j++) {
-    const r = samplesRe[j];
-    const i = samplesIm ? samplesIm[j] : 0;
-    zr[j] = r;
-    zi[j] = i;
-    zr[M - j] = -r;
-    zi[M - j] = -i;
+    const s = sines[j < N - j ? j : N - j];
+    const r1 = samplesRe[j];
+    const r2 = samplesRe[N - j];
+    zr[j] = s * (r1 + r2) + 0.5 * (r1 - r2);
+    if (samplesIm) {
+      const i1 = samplesIm[j];
+      const i2 = samplesIm[N - j];
+      zi[j] = s * (i1 + i2) + 0.5 * (i1 - i2);
+    }
   }
   fftInPlace(zr, zi);
-  // Z_n = -2i S^re_n + 2 S^im_n, so S^re = -Im Z / 2 and S^im = Re Z / 2.
-  const scale = Math.sqrt(2 / L) * (L / N) * 0.5;
+  const scale = Math.sqrt(2 / L) * (L / N);
   const re = new Float64Array(m);
   const im = new Float64Array(m);
-  for (let n = 1; n <= m; n++) {
-    re[n - 1] = -zi[n] * scale;
-    im[n - 1] = zr[n] * scale;
+  // Unpack: Y^re_k = (Z_k + conj Z_{N-k})/2, Y^im_k = (Z_k - conj Z_{N-k})/(2i); with Y = C - i D,
+  // S_{2k} = D_k and S_{2k+1} = S_{2k-1} + C_k, S_{-1} = -S_1.
+  let oddRe = 0;
+  let oddIm = 0;
+  for (let k = 0; 2 * k - 1 <= m; k++) {
+    const nk = k === 0 ? 0 : N - k;
+    const ar = zr[k];
+    const ai = zi[k];
+    const br = zr[nk];
+    const bi = zi[nk];
+    // Y^re = C^re - i D^re and Y^im = C^im - i D^im.
+    const cRe = 0.5 * (ar + br);
+    const dRe = -0.5 * (ai - bi);
+    const cIm = 0.5 * (ai + bi);
+    const dIm = 0.5 * (ar - br);
+    if (k > 0 && 2 * k <= m) {
+      re[2 * k - 1] = dRe * scale;
+      im[2 * k - 1] = dIm * scale;
+    }
+    if (k === 0) {
+      oddRe = 0.5 * cRe;
+      oddIm = 0.5 * cIm;
+    } else {
+      oddRe += cRe;
+      oddIm += cIm;
+    }
+    if (2 * k + 1 <= m) {
+      re[2 * k] = oddRe * scale;
+      im[2 * k] = samplesIm ? oddIm * scale : 0;
+    }
   }
+  if (!samplesIm) im.fill(0);
   return { re, im, ok: true };
 }

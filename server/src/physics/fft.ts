@@ -2,6 +2,24 @@
  * A radix-2 fast Fourier transform on split real/imaginary Float64Arrays.
  */
 
+/** Twiddle tables of the most recent size; recomputing them is a large share of a transform's cost. */
+let cached: { n: number; cosT: Float64Array; sinT: Float64Array } | null = null;
+
+/** cos and sin of -2 pi k / n for k < n/2, each from the library (no recurrence drift). */
+function twiddles(n: number): { cosT: Float64Array; sinT: Float64Array } {
+  if (cached && cached.n === n) return cached;
+  const half = n >> 1;
+  const cosT = new Float64Array(half);
+  const sinT = new Float64Array(half);
+  for (let k = 0; k < half; k++) {
+    const ang = (-2 * Math.PI * k) / n;
+    cosT[k] = Math.cos(ang);
+    sinT[k] = Math.sin(ang);
+  }
+  cached = { n, cosT, sinT };
+  return cached;
+}
+
 /**
  * In-place forward discrete Fourier transform X_k = sum_j x_j exp(-2 pi i j k / N) of the complex
  * sequence (re, im), N a power of two, by the iterative Cooley–Tukey radix-2 algorithm with
@@ -27,14 +45,7 @@ export function fftInPlace(re: Float64Array, im: Float64Array): boolean {
       im[j] = t;
     }
   }
-  const half = n >> 1;
-  const cosT = new Float64Array(half);
-  const sinT = new Float64Array(half);
-  for (let k = 0; k < half; k++) {
-    const ang = (-2 * Math.PI * k) / n;
-    cosT[k] = Math.cos(ang);
-    sinT[k] = Math.sin(ang);
-  }
+  const { cosT, sinT } = twiddles(n);
   for (let size = 2; size <= n; size <<= 1) {
     const h = size >> 1;
     const step = n / size;
