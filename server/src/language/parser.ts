@@ -245,7 +245,7 @@ function parseLet(ctx: Ctx, span: Span, kwSpan: Span, order: OrderState): Statem
   const name = m.slice(p, e);
   const nameSpan: Span = { start: p, end: e };
   const q = skipSpace(m, e, hi);
-  if (!isSingleEquals(m, q)) return unexpected(ctx, q, hi, nameSpan, `Expected '=' after '${name}'.`);
+  if (q >= hi || !isSingleEquals(m, q)) return unexpected(ctx, q, hi, nameSpan, `Expected '=' after '${name}'.`);
   if (isKeyword(name) || (INNER_WORDS as readonly string[]).includes(name) || (OPERATOR_WORDS as readonly string[]).includes(name)) {
     return fail(ctx, 'name', nameSpan, `'${name}' is a keyword of the format and cannot be a name.`);
   }
@@ -281,7 +281,7 @@ function parseState(ctx: Ctx, from: number, hi: number, anchor: Span): StateSpec
   }
   if (kind === 'eigen') {
     const open = skipSpace(m, e, hi);
-    if (m[open] !== '(') return unexpected(ctx, open, hi, kindSpan, "Expected '(' and a level after 'eigen', as in 'eigen(1) of box(0, 1)'.");
+    if (open >= hi || m[open] !== '(') return unexpected(ctx, open, hi, kindSpan, "Expected '(' and a level after 'eigen', as in 'eigen(1) of box(0, 1)'.");
     const close = matchClose(m, open, hi);
     if (close < 0 || m[close] !== ')') return fail(ctx, 'syntax', { start: open, end: open + 1 }, "This '(' is not closed.");
     const level = exprText(m, open + 1, close);
@@ -324,7 +324,7 @@ function parsePotential(ctx: Ctx, vSpan: Span, hi: number): SystemSpec | null {
   const head: Span = { start: vSpan.start, end: lastBefore(m, eq) };
   let over = -1;
   scanTop(m, eq + 1, hi, (k) => {
-    if (m.startsWith('over', k) && isSpace(m[k - 1]) && m[skipSpace(m, k + 4, hi)] === '[') over = k;
+    if (m.startsWith('over', k) && isSpace(m[k - 1]) && isOpenBracket(m, skipSpace(m, k + 4, hi), hi)) over = k;
     return false;
   });
   const exprEnd = over < 0 ? hi : over;
@@ -467,7 +467,7 @@ function parseComparison(ctx: Ctx, from: number, hi: number, anchor: Span): Comp
 function parseCall(ctx: Ctx, sig: Signature, nameSpan: Span, hi: number): Arg[] | null {
   const { m } = ctx;
   const open = skipSpace(m, nameSpan.end, hi);
-  if (m[open] !== '(') return unexpected(ctx, open, hi, nameSpan, `Expected '(' after '${sig.name}'.`);
+  if (open >= hi || m[open] !== '(') return unexpected(ctx, open, hi, nameSpan, `Expected '(' after '${sig.name}'.`);
   const close = matchClose(m, open, hi);
   if (close < 0 || m[close] !== ')') return fail(ctx, 'syntax', { start: open, end: open + 1 }, "This '(' is not closed.");
   const rest = skipSpace(m, close + 1, hi);
@@ -516,14 +516,14 @@ function expectXCall(ctx: Ctx, from: number, hi: number, nameSpan: Span, name: s
   const { m } = ctx;
   const form = `Expected '${name}(x) = ...'.`;
   const open = skipSpace(m, from, hi);
-  if (m[open] !== '(') return unexpected(ctx, open, hi, nameSpan, form) ?? -1;
+  if (open >= hi || m[open] !== '(') return unexpected(ctx, open, hi, nameSpan, form) ?? -1;
   const x = skipSpace(m, open + 1, hi);
   const xe = identEnd(m, x, hi);
   if (m.slice(x, xe) !== 'x') return unexpected(ctx, x, hi, { start: open, end: open + 1 }, `${form} The variable is always x.`) ?? -1;
   const close = skipSpace(m, xe, hi);
-  if (m[close] !== ')') return unexpected(ctx, close, hi, { start: x, end: xe }, `Expected ')' after '${name}(x'.`) ?? -1;
+  if (close >= hi || m[close] !== ')') return unexpected(ctx, close, hi, { start: x, end: xe }, `Expected ')' after '${name}(x'.`) ?? -1;
   const eq = skipSpace(m, close + 1, hi);
-  if (!isSingleEquals(m, eq)) return unexpected(ctx, eq, hi, { start: nameSpan.start, end: close + 1 }, `Expected '=' after '${name}(x)'.`) ?? -1;
+  if (eq >= hi || !isSingleEquals(m, eq)) return unexpected(ctx, eq, hi, { start: nameSpan.start, end: close + 1 }, `Expected '=' after '${name}(x)'.`) ?? -1;
   return eq;
 }
 
@@ -564,6 +564,10 @@ function commaNear(pieces: readonly [number, number][], k: number, fallback: Spa
 
 // ---------------------------------------------------------------------------------------------
 // Character helpers (all on the masked text, bounded by `hi`)
+
+function isOpenBracket(m: string, p: number, hi: number): boolean {
+  return p < hi && m[p] === '[';
+}
 
 function skipSpace(m: string, p: number, hi: number): number {
   while (p < hi && isSpace(m[p])) p++;

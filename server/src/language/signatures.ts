@@ -134,6 +134,8 @@ export function bindArguments(sig: Signature, args: readonly Arg[], call: Span):
       continue;
     }
     if (!sig.positional) {
+      // One report for the whole list: the fix (naming the arguments) is the same for all of them.
+      if (diagnostics.some((d) => d.code === 'syntax')) continue;
       diagnostics.push(
         diagnostic('syntax', arg.start, arg.end, `${sig.name} takes named arguments, for example ${sig.name}(${names[0]} = ...).`),
       );
