@@ -49,3 +49,15 @@ export interface PanelSettingsMessage {
   /** Initial scale of the spectrum view when the panel has no saved choice of its own. */
   plotScale: 'linear' | 'log';
 }
+
+/** `initializationOptions` the language server understands (all optional). */
+export interface ServerInitializationOptions {
+  /** False in untrusted workspaces: only static checks until `eigenspan/setTrust` with `trusted: true` turns evaluation on. Default true. */
+  evaluate?: boolean;
+  /** True when the client can show the spectrum panel (command `eigenspan.showPanel`); enables the "Show spectrum" lens. Default false. */
+  panel?: boolean;
+  /** Include plot samples in `eigenspan/result` (default true). */
+  samples?: boolean;
+  /** `push`, `pull` or `auto` (pull when the client supports pull diagnostics with refresh). Default `auto`. */
+  diagnostics?: 'push' | 'pull' | 'auto';
+}

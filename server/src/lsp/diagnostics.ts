@@ -1,0 +1,44 @@
+/**
+ * Engine diagnostics as LSP diagnostics: the catalogue code, source `eigenspan`, and the fixes in `data`.
+ */
+import { DiagnosticSeverity, type Diagnostic } from 'vscode-languageserver';
+import type { EngineDiagnostic, FixData, Severity } from '../language/catalogue';
+import { rangeOf, type LineTable } from './positions';
+
+/** What the server stores in `Diagnostic.data`: the version the offsets belong to and the fixes. */
+export interface DiagnosticData {
+  version: number;
+  fixes: FixData[];
+}
+
+const SEVERITY: Record<Severity, DiagnosticSeverity> = {
+  error: DiagnosticSeverity.Error,
+  warning: DiagnosticSeverity.Warning,
+  info: DiagnosticSeverity.Information,
+};
+
+/** Converts one engine diagnostic of document version `version`. */
+export function toLspDiagnostic(lines: LineTable, version: number, d: EngineDiagnostic): Diagnostic {
+  const out: Diagnostic = {
+    range: rangeOf(lines, d.start, d.end),
+    severity: SEVERITY[d.severity] ?? DiagnosticSeverity.Error,
+    code: d.code,
+    source: 'eigenspan',
+    message: d.message,
+  };
+  if (d.fixes && d.fixes.length > 0) out.data = { version, fixes: d.fixes } satisfies DiagnosticData;
+  return out;
+}
+
+/** Converts a list, dropping exact duplicates (static checks can be reported again by the full analysis). */
+export function toLspDiagnostics(lines: LineTable, version: number, list: EngineDiagnostic[]): Diagnostic[] {
+  const seen = new Set<string>();
+  const out: Diagnostic[] = [];
+  for (const d of list) {
+    const key = `${d.start}:${d.end}:${d.code}:${d.message}`;
+    if (seen.has(key)) continue;
+    seen.add(key);
+    out.push(toLspDiagnostic(lines, version, d));
+  }
+  return out;
+}

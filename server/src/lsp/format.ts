@@ -1,0 +1,36 @@
+/**
+ * Number formatting for hovers, lenses and hints.
+ */
+
+/** `x` with `digits` significant digits, trailing zeros dropped; exponent form outside [1e-4, 1e6). */
+export function fmt(x: number | null | undefined, digits = 6): string {
+  if (x === null || x === undefined || Number.isNaN(x)) return '—';
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : '-∞';
+  if (x === 0) return '0';
+  const a = Math.abs(x);
+  if (a >= 1e-4 && a < 1e6) {
+    const s = x.toPrecision(digits);
+    return s.includes('.') ? s.replace(/\.?0+$/, '') : s;
+  }
+  const [m, e] = x.toExponential(digits - 1).split('e');
+  return `${m!.includes('.') ? m!.replace(/\.?0+$/, '') : m}e${e}`;
+}
+
+/** A complex value; the imaginary part is shown only when it is not negligible. */
+export function fmtComplex(re: number, im: number, digits = 6): string {
+  if (Math.abs(im) <= 1e-12 * Math.max(1, Math.abs(re))) return fmt(re, digits);
+  if (Math.abs(re) <= 1e-12 * Math.abs(im)) return `${fmt(im, digits)} i`;
+  return `${fmt(re, digits)} ${im < 0 ? '-' : '+'} ${fmt(Math.abs(im), digits)} i`;
+}
+
+/** The phase of c = re + i im as a multiple of π, in (-1, 1]. */
+export function fmtPhase(re: number, im: number): string {
+  if (re === 0 && im === 0) return '—';
+  const p = Math.atan2(im, re) / Math.PI;
+  return Math.abs(p) < 5e-7 ? '0' : `${fmt(p, 4)}π`;
+}
+
+/** ` unit` or an empty string. */
+export function withUnit(unit: string | null | undefined): string {
+  return unit ? ` ${unit}` : '';
+}

@@ -1,0 +1,139 @@
+/**
+ * Hover: what the analysis knows about the statement under the cursor, as Markdown.
+ */
+import type { Hover, MarkupContent } from 'vscode-languageserver';
+import type { AnalysisResult, LevelResult } from '../analysis/types';
+import type { Comparison, Statement } from '../language/ast';
+import type { DocView } from './view';
+import { letNameAt, statementAt, letDefinitions } from './syntax';
+import { rangeOf } from './positions';
+import { fmt, fmtComplex, fmtPhase, withUnit } from './format';
+import { KEYWORDS } from './vocabulary';
+
+/** How many levels the state hover lists, and how many energies the system hover lists. */
+const TOP_LEVELS = 6;
+const SYSTEM_LEVELS = 8;
+
+function md(lines: string[]): MarkupContent {
+  return { kind: 'markdown', value: lines.join('\n') };
+}
+
+/** Why there is no full result to show. */
+function missing(view: DocView): string {
+  return view.evaluate ? '_The analysis of this version is not ready yet._' : '_Evaluation is off in this workspace (untrusted); only syntax, name and unit checks run._';
+}
+
+/** The level table: largest weights first, at most `TOP_LEVELS` rows. */
+function levelTable(result: AnalysisResult): string[] {
+  const unit = result.units.energy;
+  const top = [...result.levels].sort((a, b) => b.weight - a.weight || a.n - b.n).slice(0, TOP_LEVELS);
+  if (top.length === 0) return [];
+  const rows = top.map((l: LevelResult) => `| ${l.n} | ${fmt(l.energy)} | ${fmt(l.weight)} | ${fmtPhase(l.re, l.im)} |`);
+  return ['', `| n | E_n${unit ? ` (${unit})` : ''} | \\|c_n\\|² | phase |`, '|---:|---:|---:|---:|', ...rows];
+}
+
+function stateHover(view: DocView): string[] {
+  const r = view.result;
+  if (!r) return ['**state**', '', missing(view)];
+  const e = withUnit(r.units.energy);
+  const lines = ['**state**', ''];
+  lines.push(`norm ∫|ψ|² dx = ${fmt(r.norm)}  `);
+  lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  if (r.energy) {
+    const spread = r.energy.spread === null ? '' : ` ± ${fmt(r.energy.spread, 4)}`;
+    lines.push(`⟨E⟩ = ${r.energy.mean === null ? 'diverges' : fmt(r.energy.mean) + spread}${r.energy.mean === null ? '' : e}  `);
+  }
+  if (r.parity) lines.push(`parity ${r.parity}  `);
+  if (r.continuum !== undefined) lines.push(`continuum weight ${fmt(r.continuum)}  `);
+  if (r.levelsFor999 !== null) lines.push(`99.9% reached with ${r.levelsFor999} levels  `);
+  return [...lines, ...levelTable(r)];
+}
+
+function systemHover(view: DocView): string[] {
+  const r = view.result;
+  if (!r || !r.system) return ['**system**', '', missing(view)];
+  const s = r.system;
+  const e = withUnit(r.units.energy);
+  const first = r.levels.length > 0 ? r.levels[0]!.n : s.kind === 'oscillator' ? 0 : 1;
+  const lines = [`**system** ${s.kind}`, ''];
+  if (s.boundCount !== undefined) lines.push(`${s.boundCount} bound state${s.boundCount === 1 ? '' : 's'}  `);
+  if (s.center !== null) lines.push(`centre ${fmt(s.center)}${withUnit(r.units.length)}  `);
+  const shown = s.energies.slice(0, SYSTEM_LEVELS);
+  if (shown.length > 0) {
+    lines.push('', `| n | E_n${e ? ` (${e.trim()})` : ''} |${s.uncertainties ? ' ± |' : ''}`, `|---:|---:|${s.uncertainties ? '---:|' : ''}`);
+    shown.forEach((en, k) => {
+      const u = s.uncertainties ? ` ${fmt(s.uncertainties[k], 2)} |` : '';
+      lines.push(`| ${first + k} | ${fmt(en)} |${u}`);
+    });
+  }
+  return lines;
+}
+
+function comparisonText(c: Comparison): string {
+  if (c.kind === 'tolerance') return `${c.value.text.trim()} ± ${c.tolerance.text.trim()}`;
+  return `${c.kind === 'atLeast' ? '≥' : '≤'} ${c.value.text.trim()}`;
+}
+
+/** The integer written in a level bound (`expect weight 1..20`), or null. */
+function levelNumber(text: string): number | null {
+  const v = Number(text.trim());
+  return Number.isInteger(v) ? v : null;
+}
+
+function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): string[] {
+  const x = s.expectation;
+  const r = view.result;
+  const lines = [`**expect** ${x.kind}`, ''];
+  const expected = x.kind === 'parity' ? x.value : comparisonText(x.comparison);
+  let measured = '—';
+  if (r) {
+    const e = withUnit(r.units.energy);
+    if (x.kind === 'norm') measured = fmt(r.norm, 10);
+    else if (x.kind === 'parity') measured = r.parity ?? 'undefined (no centre of symmetry)';
+    else if (x.kind === 'energy') measured = r.energy?.mean === null || !r.energy ? 'diverges' : fmt(r.energy.mean, 8) + e;
+    else if (x.kind === 'spread') measured = r.energy?.spread === null || !r.energy ? 'diverges' : fmt(r.energy.spread, 8) + e;
+    else {
+      const from = levelNumber(x.from.text);
+      const to = x.to ? levelNumber(x.to.text) : from;
+      if (from !== null && to !== null) {
+        let sum = 0;
+        for (const l of r.levels) if (l.n >= from && l.n <= to) sum += l.weight;
+        measured = fmt(sum, 10);
+      }
+    }
+  }
+  lines.push(`expected ${expected}  `);
+  if (!r) return [...lines, '', missing(view)];
+  lines.push(`measured ${measured}  `);
+  const failed = view.diagnostics.some((d) => d.code === 'expect' && d.start < s.span.end && d.end >= s.span.start);
+  lines.push(failed ? '✗ does not hold' : '✓ holds');
+  return lines;
+}
+
+function letHover(view: DocView, name: string): string[] {
+  const def = letDefinitions(view.file).get(name);
+  const lines = [`**let** \`${name}\``];
+  if (def) lines.push('', '```', `${name} = ${def.expr.text.trim()}`, '```');
+  const v = view.result?.values?.find((x) => x.name === name);
+  if (v) lines.push('', `= ${fmtComplex(v.re, v.im, 8)}${withUnit(v.unit)}`);
+  else if (!view.result) lines.push('', missing(view));
+  return lines;
+}
+
+/** The hover at `offset`, or null when there is nothing to say. */
+export function hoverAt(view: DocView, offset: number): Hover | null {
+  const name = letNameAt(view.file, offset);
+  if (name) return { contents: md(letHover(view, name.name)), range: rangeOf(view.lines, name.span.start, name.span.end) };
+  const s = statementAt(view.file, offset);
+  if (!s) return null;
+  let lines: string[] | null = null;
+  if (s.kind === 'state') lines = stateHover(view);
+  else if (s.kind === 'system') lines = systemHover(view);
+  else if (s.kind === 'expect') lines = expectHover(view, s);
+  else if (offset >= s.keywordSpan.start && offset <= s.keywordSpan.end) {
+    const k = KEYWORDS.find((w) => w.name === s.kind);
+    if (k) lines = [`**${k.name}**`, '', k.doc];
+  }
+  if (!lines) return null;
+  return { contents: md(lines), range: rangeOf(view.lines, s.span.start, s.span.end) };
+}

@@ -1,0 +1,185 @@
+/**
+ * Runs full analyses in one worker thread: per-document debounce, a queue where the latest version of
+ * each document replaces older ones, cooperative cancellation of superseded work through a shared flag,
+ * a wall-clock budget past which the worker is terminated and restarted, and restart after a crash.
+ */
+import { Worker } from 'node:worker_threads';
+import type { AnalysisResult } from '../analysis/types';
+import type { AnalyseJob, WorkerReply } from './workerMessages';
+
+/** How a scheduled analysis ended. */
+export type Outcome =
+  | { kind: 'done'; result: AnalysisResult }
+  /** The time budget ran out; the worker was terminated. */
+  | { kind: 'timeout'; budgetMs: number }
+  /** The worker died (crash, out of memory) or the engine threw. */
+  | { kind: 'crashed'; message: string };
+
+/** Options of the scheduler. */
+export interface SchedulerOptions {
+  /** The bundled worker script (dist/worker.js). */
+  workerPath: string;
+  /** Where worker output and scheduler events go (the connection's log, never stdout). */
+  log: (message: string) => void;
+  /** Current debounce and budget, read at scheduling time. */
+  timing: () => { debounceMs: number; timeBudgetMs: number; defaultBasis: number };
+  /** Ask for plot samples (for the panel). */
+  samples: boolean;
+  /** Called once per analysis that ran to an end (not for cancelled ones). */
+  onOutcome: (uri: string, version: number, outcome: Outcome) => void;
+  /** Heap cap of the worker in MB (default 1024), so a runaway allocation cannot take the server down. */
+  maxHeapMb?: number;
+}
+
+interface Pending {
+  version: number;
+  text: string;
+}
+
+interface Running extends Pending {
+  id: number;
+  uri: string;
+  cancel: Int32Array;
+  budget: NodeJS.Timeout;
+}
+
+/** Schedules, cancels and supervises full analyses. */
+export class AnalysisScheduler {
+  private worker: Worker | null = null;
+  private readonly timers = new Map<string, NodeJS.Timeout>();
+  private readonly pending = new Map<string, Pending>();
+  private running: Running | null = null;
+  private nextId = 1;
+  private disposed = false;
+  /** How many workers have been started (for logs and tests). */
+  workerStarts = 0;
+
+  constructor(private readonly options: SchedulerOptions) {}
+
+  /** Analyse `text` as `version` of `uri` after the debounce; supersedes any earlier version. */
+  schedule(uri: string, version: number, text: string, immediate = false): void {
+    if (this.disposed) return;
+    const r = this.running;
+    if (r && r.uri === uri && r.version !== version) Atomics.store(r.cancel, 0, 1);
+    const old = this.timers.get(uri);
+    if (old) clearTimeout(old);
+    this.pending.delete(uri);
+    const go = (): void => {
+      this.timers.delete(uri);
+      this.pending.set(uri, { version, text });
+      this.pump();
+    };
+    const delay = immediate ? 0 : this.options.timing().debounceMs;
+    if (delay <= 0) go();
+    else this.timers.set(uri, setTimeout(go, delay));
+  }
+
+  /** Forgets a document: drops its timer and queue entry and cancels its running analysis. */
+  forget(uri: string): void {
+    const t = this.timers.get(uri);
+    if (t) clearTimeout(t);
+    this.timers.delete(uri);
+    this.pending.delete(uri);
+    if (this.running?.uri === uri) Atomics.store(this.running.cancel, 0, 1);
+  }
+
+  /** True while `uri` has an analysis waiting, debouncing or running. */
+  busy(uri: string): boolean {
+    return this.timers.has(uri) || this.pending.has(uri) || this.running?.uri === uri;
+  }
+
+  /** Stops everything (server shutdown). */
+  dispose(): void {
+    this.disposed = true;
+    for (const t of this.timers.values()) clearTimeout(t);
+    this.timers.clear();
+    this.pending.clear();
+    if (this.running) clearTimeout(this.running.budget);
+    this.running = null;
+    const w = this.worker;
+    this.worker = null;
+    if (w) void w.terminate();
+  }
+
+  private startWorker(): Worker {
+    const w = new Worker(this.options.workerPath, {
+      stdout: true,
+      stderr: true,
+      resourceLimits: { maxOldGenerationSizeMb: this.options.maxHeapMb ?? 1024 },
+    });
+    this.workerStarts++;
+    // The worker's console output belongs in the server log; stdout carries the protocol.
+    const forward = (stream: NodeJS.ReadableStream, tag: string): void => {
+      stream.setEncoding('utf8');
+      stream.on('data', (chunk: string) => this.options.log(`[worker ${tag}] ${chunk.replace(/\n$/, '')}`));
+    };
+    forward(w.stdout, 'stdout');
+    forward(w.stderr, 'stderr');
+    w.on('message', (m: WorkerReply) => this.onReply(w, m));
+    w.on('error', (e) => this.options.log(`[worker] error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`));
+    w.on('exit', (code) => this.onExit(w, code));
+    return w;
+  }
+
+  private pump(): void {
+    if (this.disposed || this.running) return;
+    const first = this.pending.entries().next();
+    if (first.done) return;
+    const [uri, job] = first.value;
+    this.pending.delete(uri);
+    if (!this.worker) this.worker = this.startWorker();
+    const { timeBudgetMs, defaultBasis } = this.options.timing();
+    const id = this.nextId++;
+    const cancel = new Int32Array(new SharedArrayBuffer(4));
+    const budget = setTimeout(() => this.onBudget(id), timeBudgetMs);
+    this.running = { ...job, id, uri, cancel, budget };
+    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, cancel };
+    this.worker.postMessage(message);
+  }
+
+  private finish(id: number): Running | null {
+    const r = this.running;
+    if (!r || r.id !== id) return null;
+    clearTimeout(r.budget);
+    this.running = null;
+    return r;
+  }
+
+  private onReply(w: Worker, m: WorkerReply): void {
+    if (w !== this.worker || m.type === 'ready') return;
+    const r = this.finish(m.id);
+    if (r) {
+      if (m.type === 'done') this.options.onOutcome(r.uri, r.version, { kind: 'done', result: m.result });
+      else if (m.type === 'failed') {
+        this.options.log(`analysis of ${r.uri} (version ${r.version}) threw: ${m.message}`);
+        this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: m.message.split('\n')[0] ?? 'unknown error' });
+      }
+    }
+    this.pump();
+  }
+
+  private onBudget(id: number): void {
+    const r = this.finish(id);
+    if (!r) return;
+    const { timeBudgetMs } = this.options.timing();
+    this.options.log(`analysis of ${r.uri} (version ${r.version}) exceeded ${timeBudgetMs} ms; restarting the worker`);
+    const w = this.worker;
+    this.worker = null;
+    if (w) void w.terminate();
+    this.options.onOutcome(r.uri, r.version, { kind: 'timeout', budgetMs: timeBudgetMs });
+    this.pump();
+  }
+
+  private onExit(w: Worker, code: number): void {
+    // A worker we terminated on purpose is already replaced; only an unexpected exit matters.
+    if (w !== this.worker) return;
+    this.worker = null;
+    this.options.log(`analysis worker exited unexpectedly (code ${code}); it will be restarted`);
+    const r = this.running;
+    if (r) {
+      this.finish(r.id);
+      this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: `the analysis worker stopped (exit code ${code})` });
+    }
+    this.pump();
+  }
+}

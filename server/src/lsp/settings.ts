@@ -1,0 +1,35 @@
+/**
+ * The server's settings (section `eigenspan` of `workspace/configuration`) and their defaults.
+ */
+
+/** Settings the server honours. */
+export interface Settings {
+  /** Quiet time after the last edit before the full analysis starts (default 100 ms). */
+  debounceMs: number;
+  /** Wall-clock budget of one full analysis; past it the worker is terminated (default 2000 ms). */
+  timeBudgetMs: number;
+  /** Levels to project on when a file has no `basis` line (default 40, as in the file format). */
+  defaultBasis: number;
+}
+
+/** The defaults, used when the client cannot answer `workspace/configuration`. */
+export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40 });
+
+/** Reads one number from an untrusted settings object, falling back when it is missing or out of range. */
+function num(raw: unknown, fallback: number, min: number, max: number): number {
+  const v = typeof raw === 'string' && raw.trim() !== '' ? Number(raw) : raw;
+  return typeof v === 'number' && Number.isFinite(v) && v >= min && v <= max ? v : fallback;
+}
+
+/**
+ * Turns whatever the client sent for section `eigenspan` into valid settings; unknown keys are ignored
+ * and bad values fall back to the defaults (never throws).
+ */
+export function readSettings(raw: unknown): Settings {
+  const o = raw !== null && typeof raw === 'object' ? (raw as Record<string, unknown>) : {};
+  return {
+    debounceMs: num(o.debounceMs, DEFAULT_SETTINGS.debounceMs, 0, 60_000),
+    timeBudgetMs: num(o.timeBudgetMs, DEFAULT_SETTINGS.timeBudgetMs, 10, 600_000),
+    defaultBasis: Math.round(num(o.defaultBasis, DEFAULT_SETTINGS.defaultBasis, 1, 100_000)),
+  };
+}

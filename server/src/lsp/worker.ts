@@ -1,0 +1,37 @@
+/**
+ * The analysis worker thread: runs the full (possibly slow) analysis off the server's main thread so
+ * that requests keep being answered. One job at a time; cancellation is cooperative through a shared
+ * flag, and a job that ignores it is ended from outside with `worker.terminate()`.
+ */
+import { parentPort } from 'node:worker_threads';
+import { analyse } from '../analysis/index';
+import type { AnalyseJob, WorkerReply } from './workerMessages';
+import { testHook } from './testHooks';
+
+function reply(message: WorkerReply): void {
+  parentPort?.postMessage(message);
+}
+
+function run(job: AnalyseJob): void {
+  const cancelled = (): boolean => Atomics.load(job.cancel, 0) !== 0;
+  try {
+    const hook = testHook(job.text);
+    if (hook) {
+      if (hook.kind === 'crash') process.exit(3);
+      const until = performance.now() + (hook.kind === 'hang' ? Infinity : hook.ms);
+      // A hang ignores the cancellation flag on purpose (a runaway); a slow job polls it.
+      while (performance.now() < until) if (hook.kind === 'slow' && cancelled()) return reply({ type: 'cancelled', id: job.id });
+    }
+    const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled });
+    if (cancelled()) reply({ type: 'cancelled', id: job.id });
+    else reply({ type: 'done', id: job.id, result });
+  } catch (e) {
+    // `analyse` never throws by contract; this keeps a broken engine from killing the worker.
+    reply({ type: 'failed', id: job.id, message: e instanceof Error ? (e.stack ?? e.message) : String(e) });
+  }
+}
+
+parentPort?.on('message', (m: AnalyseJob) => {
+  if (m && m.type === 'analyse') run(m);
+});
+reply({ type: 'ready' });

@@ -1,0 +1,23 @@
+/**
+ * Messages between the server's main thread and its analysis worker thread.
+ */
+import type { AnalysisResult } from '../analysis/types';
+
+/** Main thread to worker: analyse one document version. */
+export interface AnalyseJob {
+  type: 'analyse';
+  /** Unique per job; the answer carries it back. */
+  id: number;
+  text: string;
+  defaultBasis: number;
+  samples: boolean;
+  /** An Int32Array view of a SharedArrayBuffer; element 0 becomes 1 when the job is superseded. */
+  cancel: Int32Array;
+}
+
+/** Worker to main thread. */
+export type WorkerReply =
+  | { type: 'ready' }
+  | { type: 'done'; id: number; result: AnalysisResult }
+  | { type: 'cancelled'; id: number }
+  | { type: 'failed'; id: number; message: string };
