@@ -63,6 +63,17 @@ function levelAngle(z0: number, j: number): number {
   return u;
 }
 
+/** The finite well's basis, with what only this system has. */
+export interface WellBasis extends Eigenbasis {
+  /** The strength z0 = a sqrt(2 m V0). */
+  z0: number;
+  /**
+   * Binding energies V0 - E_n = kappa_n^2 / (2m), to full relative precision even where E_n
+   * rounds to V0 (a level just below the top, or any level of a very shallow well).
+   */
+  binding: Float64Array;
+}
+
 /** Per-level constants of an eigenfunction. */
 interface WellLevel {
   k: number;
@@ -84,10 +95,11 @@ interface WellLevel {
  * e^{-kappa (|s| - a)} outside (kappa = sqrt(2 m depth - k^2)), continuous in value and slope, with
  * A^2 [a +- sin(2 k a)/(2k) + (cos or sin)^2(k a)/kappa] = 1 (analytic normalisation) and the sign
  * making phi positive in the left tail (FORMAT.md convention). `support` holds all but 1e-16 of every
- * level's weight; `breakpoints` are the two edges, where phi'' jumps.
+ * level's weight; `breakpoints` are the two edges, where phi'' jumps. `binding` holds V0 - E_n
+ * accurately (energies are kept strictly below V0 even where that difference is under rounding).
  * Invalid input yields a basis with count 0 (never throws).
  */
-export function wellBasis(depth: number, width: number, center: number, mass: number, options: WellOptions = {}): Eigenbasis {
+export function wellBasis(depth: number, width: number, center: number, mass: number, options: WellOptions = {}): WellBasis {
   const z0 = wellStrength(depth, width, mass);
   const valid = z0 > 0 && Number.isFinite(center);
   const bound = valid ? wellBoundCount(depth, width, mass) : 0;
@@ -95,6 +107,7 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
   const a = 0.5 * width;
   const c = center;
   const energies = new Float64Array(n);
+  const binding = new Float64Array(n);
   const levels: WellLevel[] = [];
   let reach = 0;
   for (let i = 0; i < n; i++) {
@@ -104,7 +117,12 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
     const k = z / a;
     const kappa = (z0 * Math.sin(u)) / a;
     const even = j % 2 === 1;
-    energies[i] = (k * k) / (2 * mass);
+    binding[i] = (kappa * kappa) / (2 * mass);
+    // Near the top V0 - binding is the accurate form; keep E strictly below V0 even when the
+    // difference is below the rounding of V0 (the contract 0 < E < V0).
+    let E = binding[i] < 0.5 * depth ? depth - binding[i] : (k * k) / (2 * mass);
+    if (E >= depth) E = depth * (1 - Number.EPSILON);
+    energies[i] = E;
     const sz = Math.sin(z);
     const cz = Math.cos(z);
     // sin(2z)/(2k) = sz cz a / z, written so it stays accurate as z -> 0.
@@ -123,6 +141,8 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
   }
   return {
     kind: 'well',
+    z0: valid ? z0 : NaN,
+    binding,
     count: n,
     firstLabel: 1,
     energies,
