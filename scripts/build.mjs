@@ -1,6 +1,6 @@
 // Bundles the command line, the language server (and its worker) and the VS Code client with esbuild.
 import { build } from 'esbuild';
-import { existsSync, mkdirSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdirSync } from 'node:fs';
 
 const production = process.argv.includes('--production');
 mkdirSync('dist', { recursive: true });
@@ -45,4 +45,6 @@ if (existsSync('client/webview/main.ts')) {
     entryPoints: ['client/webview/main.ts'],
     outfile: 'dist/webview/panel.js',
   });
+  // The panel's style sheet goes beside its script: the webview may load styles only from dist/webview.
+  if (existsSync('client/webview/panel.css')) copyFileSync('client/webview/panel.css', 'dist/webview/panel.css');
 }

@@ -74,7 +74,7 @@ const sample = [
   'expect weight 1..20 >= 0.999',
   'expect energy 25 meV ± 0.5 meV',
   'expect spread 4 meV +- 1 meV',
-  'evolve 5 ps steps 200',
+  'evolve to 5 ps steps 200',
 ].join('\n');
 
 describe('qstate grammar', () => {
@@ -170,7 +170,7 @@ describe('qstate grammar', () => {
     ], 9);
     check(sample, [['energy', 'keyword.other.expectation.qstate'], ['±', 'keyword.operator.tolerance.qstate']], 10);
     check('expect weight 3 <= 0.01\nexpect parity odd', [['<=', 'keyword.operator.comparison.qstate'], ['odd', 'constant.language.parity.qstate']]);
-    check(sample, [['steps', 'keyword.other.evolve.qstate']], 12);
+    check(sample, [['to', 'keyword.other.evolve.qstate'], ['steps', 'keyword.other.evolve.qstate'], ['ps', 'support.constant.unit.qstate']], 12);
   });
 
   it('keeps an indented continuation line inside its statement and ends it at the next statement', () => {
