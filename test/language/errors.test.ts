@@ -229,6 +229,13 @@ system well(dpeth = 1, width = 2)
     expect(byText('nrom').message).toContain("'norm'");
   });
 
+  it("the word 'system' repeated after 'of'", () => {
+    check(`
+state eigen(1) of system box(0, 1)
+                  ^^^^^^ name
+`);
+  });
+
   it('a repeated named argument', () => {
     check(`
 state gaussian(center = 0, width = 1, center = 2)

@@ -59,6 +59,15 @@ describe('statement forms', () => {
     expect([s.name, at(text, s.nameSpan), s.expr.text]).toEqual(['L0', 'L0', '10 nm == 10 nm ? 1 : 2']);
   });
 
+  it('let: identifiers may use letters outside the basic plane', () => {
+    const text = 'let 𝛼2 = 1\nlet Δx = 𝛼2 / 2';
+    const s = clean(text);
+    expect(s.map((x) => (x.kind === 'let' ? [x.name, at(text, x.nameSpan)] : null))).toEqual([
+      ['𝛼2', '𝛼2'],
+      ['Δx', 'Δx'],
+    ]);
+  });
+
   it('system box: positional and named arguments', () => {
     const text = 'system box(-L/2, max(1, 2) * L)';
     const s = one(text);

@@ -312,6 +312,9 @@ function parseSystem(ctx: Ctx, from: number, hi: number, anchor: Span, after: st
     return { kind, span: { start: p, end: hi }, keywordSpan: kindSpan, args };
   }
   if (kind === 'V') return parsePotential(ctx, kindSpan, hi);
+  if (kind === 'system' && after === 'of') {
+    return fail(ctx, 'name', kindSpan, "Write the system without the word 'system', as in 'eigen(1) of box(0, 1)'.");
+  }
   unknownName(ctx, kindSpan, kind, SYSTEM_KINDS, `Unknown system '${kind}'; expected ${expected}.`);
   return null;
 }
@@ -576,10 +579,21 @@ function skipSpace(m: string, p: number, hi: number): number {
 
 /** End of the identifier starting at `p` (equal to `p` when there is none). */
 function identEnd(m: string, p: number, hi: number): number {
-  if (p >= hi || !IDENT_START.test(m[p]!)) return p;
-  let e = p + 1;
-  while (e < hi && IDENT_PART.test(m[e]!)) e++;
+  const first = charIn(m, p, hi, IDENT_START);
+  if (first === 0) return p;
+  let e = p + first;
+  for (let len = charIn(m, e, hi, IDENT_PART); len > 0; len = charIn(m, e, hi, IDENT_PART)) e += len;
   return e;
+}
+
+/** Length (1 or 2 code units) of the code point at `p` when it matches `re`, else 0. */
+function charIn(m: string, p: number, hi: number, re: RegExp): number {
+  if (p >= hi) return 0;
+  const c = m.codePointAt(p)!;
+  // Letters outside the basic plane (such as mathematical italic alpha) take two code units.
+  const len = c > 0xffff ? 2 : 1;
+  if (p + len > hi) return 0;
+  return re.test(len === 1 ? m[p]! : String.fromCodePoint(c)) ? len : 0;
 }
 
 /** End of the token at `p`: an identifier, a number-like run, or one code point. */
