@@ -160,7 +160,9 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
 /**
  * Estimated tail sum over n > N of n^power |c_n|^2 for |c_n| ~ A n^-p, a fraction `density` of the
  * levels being nonzero: density A^2 sum_{n > N} n^s with s = power - 2p, approximated by the
- * midpoint integral density A^2 (N + 1/2)^{s+1} / (-(s + 1)) (error O(N^{s-1}), common practice).
+ * midpoint integral density A^2 n0^{s+1} / (-(s + 1)), n0 = N + 1 - 1/(2 density) (each nonzero
+ * level stands for a stretch 1/density wide centred on it; n0 = N + 1/2 for density 1, N for
+ * every other level; at least N), error O(N^{s-1}) (common practice).
  * Infinity when s >= -1 (the series diverges), e.g. the box energy (power 2) with p <= 3/2.
  * Used to correct energy means computed from a truncated basis. NaN for invalid input.
  */
@@ -169,5 +171,6 @@ export function tailSum(p: number, A: number, fromN: number, power: number, dens
   const s = power - 2 * p;
   if (A === 0 || density === 0) return 0;
   if (s >= -1) return Infinity;
-  return (density * A * A * Math.pow(fromN + 0.5, s + 1)) / -(s + 1);
+  const n0 = Math.max(fromN, fromN + 1 - 0.5 / density, 1e-300);
+  return (density * A * A * Math.pow(n0, s + 1)) / -(s + 1);
 }

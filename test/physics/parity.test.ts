@@ -1,0 +1,56 @@
+import { describe, it, expect } from 'vitest';
+import { parityOf, nearlySymmetric } from '../../server/src/physics/parity';
+import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+
+const c = 1.25;
+const q = compositeGaussLegendre(c - 8, c + 8, { panels: 32, order: 20 });
+
+/** Samples psi at the nodes and at their mirror images about c. */
+function sample(re: (x: number) => number, im: (x: number) => number = () => 0) {
+  return {
+    re: Float64Array.from(q.x, re),
+    im: Float64Array.from(q.x, im),
+    mirrorRe: Float64Array.from(q.x, (x) => re(2 * c - x)),
+    mirrorIm: Float64Array.from(q.x, (x) => im(2 * c - x)),
+    w: q.w,
+  };
+}
+
+describe('parityOf', () => {
+  it('classifies even, odd and mixed states, with parts adding up to the norm', () => {
+    const g = (x: number) => Math.exp(-((x - c) ** 2));
+    const even = parityOf(sample(g, (x) => 0.3 * g(x) * (x - c) ** 2));
+    expect(even.classification).toBe('even');
+    expect(even.odd).toBeLessThan(1e-15);
+    const odd = parityOf(sample((x) => (x - c) * g(x)));
+    expect(odd.classification).toBe('odd');
+    // Mixed: g + (x - c) g has even weight sqrt(pi/2) and odd weight sqrt(pi/2)/4 (Gaussian moments, common practice).
+    const mixed = parityOf(sample((x) => g(x) + (x - c) * g(x)));
+    expect(mixed.classification).toBe('mixed');
+    expect(Math.abs(mixed.even - Math.sqrt(Math.PI / 2))).toBeLessThan(1e-13);
+    expect(Math.abs(mixed.odd - Math.sqrt(Math.PI / 2) / 4)).toBeLessThan(1e-13);
+    let norm = 0;
+    for (let j = 0; j < q.x.length; j++) norm += q.w[j] * (g(q.x[j]) + (q.x[j] - c) * g(q.x[j])) ** 2;
+    expect(Math.abs(mixed.total - norm)).toBeLessThan(1e-13);
+  });
+
+  it('flags a slightly off-centre state as almost even, and not an exact or a clearly mixed one', () => {
+    const shifted = (x: number) => Math.exp(-((x - c - 1e-3) ** 2));
+    const p = parityOf(sample(shifted));
+    expect(p.classification).toBe('mixed');
+    const near = nearlySymmetric(p);
+    expect(near?.almost).toBe('even');
+    // Odd part of a Gaussian shifted by s holds about s^2 of the weight for small s (derived, Taylor expansion).
+    expect(Math.abs((near?.fraction ?? 0) / 1e-6 - 1)).toBeLessThan(1e-2);
+    expect(nearlySymmetric(parityOf(sample((x) => Math.exp(-((x - c) ** 2)))))).toBeNull();
+    expect(nearlySymmetric(parityOf(sample((x) => Math.exp(-((x - c - 1) ** 2)))))).toBeNull();
+  });
+
+  it('honours the tolerance option and handles a zero state', () => {
+    const s = sample((x) => Math.exp(-((x - c - 1e-3) ** 2)));
+    expect(parityOf(s, { tolerance: 1e-5 }).classification).toBe('even');
+    const z = parityOf(sample(() => 0));
+    expect(z.total).toBe(0);
+    expect(z.classification).toBe('even');
+  });
+});
