@@ -174,27 +174,33 @@ export function gaussHermite(n: number): HermiteQuadrature {
   // Gershgorin bound on the spectrum of the Jacobi matrix.
   const bound = 2 * Math.sqrt(n / 2) + 1;
   const half = Math.floor(n / 2);
+  // Upper end of the bracket: the node found just before (nodes are found from the largest down).
+  let upper = bound;
   for (let i = 0; i < n - half; i++) {
     // The node with index n - 1 - i (ascending) has exactly n - 1 - i eigenvalues below it.
     const idx = n - 1 - i;
     let lo = 0;
-    let hi = bound;
+    let hi = upper;
     if (n % 2 === 1 && idx === half) {
       lo = hi = 0;
     } else {
-      for (let it = 0; it < 200 && hi - lo > 1e-15 * Math.max(1, hi); it++) {
+      // Bisection far enough for Newton's method to converge quadratically from the midpoint.
+      for (let it = 0; it < 200 && hi - lo > 1e-9 * Math.max(1, hi); it++) {
         const mid = 0.5 * (lo + hi);
         if (sturmCount(n, mid) > idx) hi = mid;
         else lo = mid;
       }
     }
     let t = 0.5 * (lo + hi);
-    for (let it = 0; it < 3 && t !== 0; it++) {
+    for (let it = 0; it < 6 && t !== 0; it++) {
       const r = hermiteRatio(n, t);
       const dt = r.ratio / Math.sqrt(2 * n);
-      if (!Number.isFinite(dt) || Math.abs(dt) > 1e-6) break;
+      // A step leaving the bracket means rounding noise: keep the bisection's value.
+      if (!Number.isFinite(dt) || t - dt < lo - 1e-12 || t - dt > hi + 1e-12) break;
       t -= dt;
+      if (Math.abs(dt) <= 1e-16 * Math.abs(t)) break;
     }
+    upper = t;
     const { logPrev } = hermiteRatio(n, t);
     const logW = -Math.log(n) - 2 * logPrev;
     x[idx] = t;
