@@ -46,6 +46,12 @@ export interface SineDvrSolution {
 export interface SineDvrOptions {
   /** Treat V as symmetric about (a + b)/2 and solve the odd-k and even-k blocks apart. Default false. */
   symmetric?: boolean;
+  /**
+   * Grid cells whose potential jumps from `left` to `right` at `at` inside the cell [x_i - h/2, x_i + h/2]
+   * (`index` i = 1..N-1). Their point term (1/N) V_i cos(q pi i/N) in C(q) is replaced by the exact cell
+   * integral (1/L) integral V cos(q pi (x - a)/L) dx of the two-sided constant. Default none.
+   */
+  jumps?: { index: number; at: number; left: number; right: number }[];
 }
 
 /**
@@ -80,6 +86,19 @@ export function sineDvrSolve(
       s += v[i - 1] * ct[idx];
     }
     C[q] = s / N;
+  }
+  for (const j of options.jumps ?? []) {
+    if (!(j.index >= 1 && j.index <= n)) continue;
+    const h = L / N;
+    const lo = j.index * h - h / 2;
+    const hi = j.index * h + h / 2;
+    const at = Math.min(Math.max(j.at - a, lo), hi);
+    for (let q = 0; q < twoN; q++) {
+      const w = (q * Math.PI) / L;
+      // integral of cos(w u) du over [u0, u1], with the q = 0 limit.
+      const seg = (u0: number, u1: number): number => (q === 0 ? u1 - u0 : (Math.sin(w * u1) - Math.sin(w * u0)) / w);
+      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * ct[(q * j.index) % twoN]) / N;
+    }
   }
   const kin = (Math.PI * Math.PI) / (2 * mass * L * L);
   const blocks: { ks: Int32Array; parity: number; want: number }[] = [];

@@ -24,6 +24,8 @@ export interface PotentialOptions {
   symmetryTolerance?: number;
   /** Samples of V used to estimate wavelengths, find jumps and test symmetry (default 4096). */
   samples?: number;
+  /** Size of the last grid when convergence is algebraic and the tolerance is out of reach (default 512, at least 4 N, at most the cap). */
+  algebraicPoints?: number;
 }
 
 /** Something the solver wants the analysis to know. */
@@ -50,9 +52,10 @@ export interface PotentialBasisResult {
   /** Indices (0-based) of levels above min(V(a+), V(b-)): artefacts of the walls, a box-quantised continuum. */
   wallLevels: number[];
   /**
-   * For each entry of `wallLevels`, the end(s) whose potential the level exceeds: 'both' means it is above
-   * V at both walls (unbound on both sides without them); 'left' or 'right' means only that wall confines
-   * it (e.g. a deliberate wall at 0 with V = F x, where the level is physical).
+   * For each entry of `wallLevels`, the end(s) whose potential the level exceeds. 'both': above V at both
+   * walls, unbound on both sides without them. 'left' or 'right': above V only at that end, which is either
+   * a deliberate wall (V = F x with a wall at 0) or a continuum open on that side (Morse above D); the
+   * solver cannot tell which the user meant.
    */
   wallEnds: ('left' | 'right' | 'both')[];
   notes: PotentialNote[];
@@ -68,6 +71,7 @@ const DEFAULTS = {
   growth: 1.5,
   symmetryTolerance: 1e-12,
   samples: 4096,
+  algebraicPoints: 512,
 };
 
 /** A jump of V located by bisection, with the one-sided values. */
@@ -156,10 +160,15 @@ function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: n
  * every level to `tolerance` relative (relative to max(|E|, 1e-3 (E_K - V_min)), so levels near E = 0 are
  * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
  * `uncertainty` (a conservative bound while convergence is fast). For smooth V the error falls
- * exponentially with N. When V jumps (steps, `?:` barriers) the cell holding a jump takes the exact cell
- * average of the two sides, which makes the energy error O(N^-2) (measured: test/physics/potential.test.ts);
- * when V'(wall) != 0 with the level non-negligible there (a wall at 0 with V = F x), the odd extension
- * has a jump in phi'''' and the error falls algebraically, fast enough for 1e-9 in practice.
+ * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
+ * grid cell holding it is integrated exactly in the DVR matrix (dvr.ts, `jumps`); the energy error is
+ * then O(N^-2) with a steady coefficient (measured in test/physics/potential.test.ts: slope 2.0 for a
+ * step in a box), and once the measured order shows the tolerance is out of reach under the cap, one
+ * last grid of `algebraicPoints` is solved and its uncertainty is the Richardson estimate.
+ * When V'(wall) != 0 with the level non-negligible at that wall (a wall at 0 with V = F x), phi'''' does
+ * not vanish there, the odd extension behind the sine basis is not smooth, and the error falls as N^-4
+ * (measured); once two successive orders agree, one predicted size is solved with a Richardson error
+ * estimate (about 1400 points and 2 s for 1e-9 in the Airy case).
  * A symmetric V (mirror test on the samples to `symmetryTolerance`) is split into even and odd blocks.
  * Never throws: bad input or a bad V gives an empty basis and a note.
  */
@@ -283,15 +292,14 @@ export function potentialBasis(
       if (vv[i] === Infinity) vv[i] = wall;
       else if (!Number.isFinite(vv[i])) return null;
     }
+    const cells: { index: number; at: number; left: number; right: number }[] = [];
     for (const jp of jumps) {
-      // The cell [x_i - h/2, x_i + h/2] holding the jump takes the exact average of the two sides.
+      // The cell [x_i - h/2, x_i + h/2] holding the jump is integrated exactly (dvr.ts, `jumps`).
       const i = Math.round((jp.x - a) / h);
       if (i < 1 || i > vv.length) continue;
-      const xi = a + i * h;
-      const wl = Math.min(Math.max((jp.x - (xi - h / 2)) / h, 0), 1);
       const l = jp.left === Infinity ? wall : jp.left;
       const r = jp.right === Infinity ? wall : jp.right;
-      vv[i - 1] = wl * l + (1 - wl) * r;
+      cells.push({ index: i, at: jp.x, left: l, right: r });
     }
     if (symmetric) {
       for (let i = 0, j = vv.length - 1; i < j; i++, j--) {
@@ -300,7 +308,7 @@ export function potentialBasis(
         vv[j] = m;
       }
     }
-    return sineDvrSolve(vv, a, b, mass, K, { symmetric });
+    return sineDvrSolve(vv, a, b, mass, K, { symmetric, jumps: cells });
   };
 
   const sizes: number[] = [];
@@ -310,6 +318,8 @@ export function potentialBasis(
   let cur = prev;
   let diffs = new Float64Array(0);
   let prevWorst: { ratio: number; N: number } | null = null;
+  let prevOrder: number | null = null;
+  let prevN = N;
   let stoppedByCap = N >= cap;
   const scaleOf = (E: Float64Array, k: number): number =>
     Math.max(Math.abs(E[k]), 1e-3 * Math.abs(E[E.length - 1] - vmin), Number.MIN_VALUE);
@@ -332,18 +342,41 @@ export function potentialBasis(
       stoppedByCap = true;
       break;
     }
-    // Algebraic convergence: stop once the observed order says the cap cannot reach the tolerance.
+    // Algebraic convergence (the measured order p is finite and steady, or the cap is out of reach):
+    // rather than climb in small, costly steps, solve once more at the size N_f the order predicts and
+    // take Richardson's estimate 2 |E_f - E_N| / ((N_f / N)^p - 1) as the uncertainty (doubled because p
+    // is measured). When the prediction exceeds the cap, N_f = min(cap, max(4 N, algebraicPoints)).
     if (prevWorst && worst < prevWorst.ratio) {
       const p = Math.log(prevWorst.ratio / worst) / Math.log(N / prevWorst.N);
-      if (p > 0 && p < 12 && N * Math.pow(worst, 1 / p) > cap) {
-        stoppedByCap = true;
-        notes.push({
-          kind: 'cap',
-          message: `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(N * Math.pow(worst, 1 / p))} grid points, over the cap of ${cap}.`,
-        });
+      const steady = prevOrder !== null && Math.abs(p - prevOrder) <= 0.15 * p;
+      prevOrder = p;
+      // worst ~ the error of the coarser size prevN in units of the tolerance.
+      const need = prevN * Math.pow(4 * worst, 1 / p);
+      const outOfReach = p > 0 && p < 12 && need > cap;
+      if (p > 0 && p < 12 && (steady || outOfReach)) {
+        const Nf = outOfReach ? Math.min(cap, Math.max(4 * N, Math.floor(o.algebraicPoints))) : Math.min(cap, Math.max(Math.ceil(need), Math.ceil(1.25 * N)));
+        if (outOfReach) {
+          stoppedByCap = true;
+          notes.push({
+            kind: 'cap',
+            message: `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(need)} grid points, over the cap of ${cap}; stopped at ${Math.max(N, Nf)}.`,
+          });
+        }
+        if (Nf > N) {
+          const fin = solveAt(Nf);
+          if (!fin) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid.' });
+          sizes.push(Nf);
+          const factor = Math.pow(Nf / N, p) - 1;
+          const mm = Math.min(cur.energies.length, fin.energies.length);
+          diffs = new Float64Array(fin.energies.length).fill(Infinity);
+          for (let k = 0; k < mm; k++) diffs[k] = (2 * Math.abs(fin.energies[k] - cur.energies[k])) / factor;
+          cur = fin;
+          N = Nf;
+        }
         break;
       }
     }
+    prevN = N;
     prevWorst = { ratio: worst, N };
     prev = next;
   }

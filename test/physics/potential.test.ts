@@ -1,0 +1,203 @@
+import { describe, it, expect } from 'vitest';
+import { potentialBasis, type PotentialFn } from '../../server/src/physics/potential';
+import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import type { Eigenbasis } from '../../server/src/physics/types';
+
+const pot = (f: (x: number) => number): PotentialFn => (xs) => xs.map(f);
+
+/** Solves and checks the first levels against reference energies to a relative tolerance. */
+function check(V: PotentialFn, a: number, b: number, mass: number, refs: number[], rel = 1e-9, levels = refs.length) {
+  const r = potentialBasis(V, a, b, mass, levels);
+  expect(r.unresolved).toBeNull();
+  expect(r.basis.count).toBe(levels);
+  refs.forEach((e, k) => {
+    expect(Math.abs(r.basis.energies[k] - e)).toBeLessThanOrEqual(rel * Math.abs(e));
+    // The reported uncertainty must not be smaller than the true error by much (two-size check).
+    expect(r.basis.uncertainty![k]).toBeLessThanOrEqual(1e-9 * Math.max(Math.abs(e), 1));
+  });
+  return r;
+}
+
+/** Largest deviation of <phi_j|phi_k> from delta_jk on a fine Gauss–Legendre grid over [a, b]. */
+function orthonormalityError(basis: Eigenbasis, levels: number): number {
+  const [a, b] = basis.walls!;
+  const q = compositeGaussLegendre(a, b, { panels: 200, order: 20, breakpoints: basis.breakpoints });
+  const n = q.x.length;
+  const t = new Float64Array(levels * n);
+  basis.table(q.x, levels, t);
+  let worst = 0;
+  for (let j = 0; j < levels; j++) {
+    for (let k = 0; k <= j; k++) {
+      let s = 0;
+      for (let i = 0; i < n; i++) s += q.w[i] * t[j * n + i] * t[k * n + i];
+      worst = Math.max(worst, Math.abs(s - (j === k ? 1 : 0)));
+    }
+  }
+  return worst;
+}
+
+describe('potentialBasis: exactly solvable potentials', () => {
+  it('Morse D(1 - e^-x)^2, D = 12.5 on [-2.5, 45]', () => {
+    // Morse, Phys. Rev. 34, 57 (1929): E_n = w (n + 1/2) - [w (n + 1/2)]^2/(4 D), w = 5.
+    // [-2.5, 45]: V(-2.5) = 1.7e3 and the top level decays as e^{-x/2}, so the walls shift it by < 1e-12.
+    const V = pot((x) => 12.5 * (1 - Math.exp(-x)) ** 2);
+    const r = check(V, -2.5, 45, 1, [2.375, 6.375, 9.375, 11.375, 12.375]);
+    expect(r.basis.center).toBeNull();
+    expect(r.wallLevels).toEqual([]);
+    expect(orthonormalityError(r.basis, 5)).toBeLessThan(1e-10);
+    // A sixth level lies above D = V(b-): the wall at 45 quantises the continuum.
+    const r6 = potentialBasis(V, -2.5, 45, 1, 6);
+    expect(r6.wallLevels).toEqual([5]);
+    expect(r6.wallEnds).toEqual(['right']);
+    expect(r6.notes.some((n) => n.kind === 'walls')).toBe(true);
+  });
+
+  it('Pöschl–Teller -6 sech^2 x on [-20, 20] (symmetric blocks)', () => {
+    // Pöschl & Teller, Z. Phys. 83, 143 (1933): E = -mu^2/2, mu = 3, 2, 1. The top level decays as e^{-|x|}.
+    const r = check(pot((x) => -6 / Math.cosh(x) ** 2), -20, 20, 1, [-4.5, -2, -0.5]);
+    expect(r.basis.center).toBe(0);
+    expect(orthonormalityError(r.basis, 3)).toBeLessThan(1e-10);
+  });
+
+  it('wall at 0 with V = F x (F = m = 1) on [0, 20]', () => {
+    // Abramowitz & Stegun, Table 10.13: E_n = -a_n (hbar^2 F^2/(2m))^(1/3). The level decays as
+    // exp(-(2/3) sqrt(2) (x - E)^(3/2)), negligible at 20. Convergence here is N^-4 (V'(0) != 0).
+    const zeros = [-2.338107410459767, -4.087949444130971, -5.520559828095551];
+    const r = check(pot((x) => x), 0, 20, 1, zeros.map((z) => -z * Math.cbrt(0.5)));
+    // Above V(0+) = 0 only: the left wall confines these levels.
+    expect(r.wallEnds.every((e) => e === 'left')).toBe(true);
+  });
+
+  it('H = p^2 + x^4 (m = 1/2) on [-8, 8]', () => {
+    // Hioe & Montroll, J. Math. Phys. 16, 1945 (1975) (from memory). [-8, 8]: the tails fall as e^{-|x|^3/3}.
+    const r = check(pot((x) => x ** 4), -8, 8, 0.5, [1.060362090484183, 3.799673029801394, 7.455697937986738]);
+    expect(orthonormalityError(r.basis, 3)).toBeLessThan(1e-10);
+  });
+
+  it('H = p^2 + x^2 + x^4 (m = 1/2) on [-8, 8]', () => {
+    // Hioe & Montroll, J. Math. Phys. 16, 1945 (1975) (from memory).
+    check(pot((x) => x * x + x ** 4), -8, 8, 0.5, [1.392351641530292, 4.648812704212078, 8.65504995775931]);
+  });
+
+  it('V = x^2/2 on [-12, 12] gives the oscillator n + 1/2, with exact derivatives off the grid', () => {
+    // Griffiths, Introduction to Quantum Mechanics, harmonic oscillator section (from memory):
+    // E_n = n + 1/2, phi_0 = pi^(-1/4) e^{-x^2/2}. The walls at +-12 shift level 9 by ~ e^{-144}.
+    const refs = Array.from({ length: 10 }, (_, n) => n + 0.5);
+    const r = check(pot((x) => x * x / 2), -12, 12, 1, refs);
+    const xs = Float64Array.of(-2.345, -0.5, 0.123456, 1.7, 3.21);
+    const f = new Float64Array(10 * xs.length);
+    const d1 = new Float64Array(f.length);
+    const d2 = new Float64Array(f.length);
+    r.basis.table(xs, 10, f, d1, d2);
+    xs.forEach((x, i) => {
+      const g = Math.PI ** -0.25 * Math.exp(-x * x / 2);
+      expect(Math.abs(f[i] - g)).toBeLessThan(1e-10);
+      expect(Math.abs(d1[i] + x * g)).toBeLessThan(1e-10);
+      expect(Math.abs(d2[i] - (x * x - 1) * g)).toBeLessThan(1e-9);
+      // Schroedinger residual of every level at off-grid points.
+      for (let k = 0; k < 10; k++) {
+        const j = k * xs.length + i;
+        expect(Math.abs(-0.5 * d2[j] + 0.5 * x * x * f[j] - refs[k] * f[j])).toBeLessThan(1e-8);
+      }
+    });
+    expect(orthonormalityError(r.basis, 10)).toBeLessThan(1e-10);
+  });
+
+  it('V = 0 on [0, 1] gives the box n^2 pi^2/2', () => {
+    // Griffiths, Introduction to Quantum Mechanics, infinite square well section (from memory).
+    const r = check(pot(() => 0), 0, 1, 1, [1, 2, 3, 4, 5, 6].map((n) => (n * n * Math.PI * Math.PI) / 2), 1e-13);
+    expect(r.basis.center).toBe(0.5);
+  });
+});
+
+describe('potentialBasis: conventions and robustness', () => {
+  it('signs: positive at the first point where |phi| exceeds 1e-6 of its maximum', () => {
+    // FORMAT.md sign convention; checked on a grid much finer than the solver's.
+    const r = potentialBasis(pot((x) => 12.5 * (1 - Math.exp(-x)) ** 2), -2.5, 45, 1, 5);
+    const n = 20001;
+    const xs = new Float64Array(n);
+    for (let i = 0; i < n; i++) xs[i] = -2.5 + (47.5 * i) / (n - 1);
+    const t = new Float64Array(5 * n);
+    r.basis.table(xs, 5, t);
+    for (let k = 0; k < 5; k++) {
+      const row = t.subarray(k * n, (k + 1) * n);
+      const mx = row.reduce((m, y) => Math.max(m, Math.abs(y)), 0);
+      const first = row.find((y) => Math.abs(y) > 1e-6 * mx)!;
+      expect(first).toBeGreaterThan(0);
+    }
+  });
+
+  it('a step in a box converges as N^-2 (measured)', () => {
+    // Reference: matching sin(k x) on [0, s] to sinh(q (1 - x)) on [s, 1] at the step,
+    // k cot(k s) = -q coth(q (1 - s)) (continuity of phi and phi'; common practice), solved by bisection.
+    const s = 0.4321;
+    const V0 = 50;
+    const f = (E: number) => {
+      const k = Math.sqrt(2 * E);
+      const q = Math.sqrt(2 * (V0 - E));
+      return k * Math.cos(k * s) * Math.sinh(q * (1 - s)) + q * Math.cosh(q * (1 - s)) * Math.sin(k * s);
+    };
+    let lo = 1e-9;
+    let hi = Math.PI ** 2 / (2 * s * s);
+    for (let i = 0; i < 200; i++) {
+      const m = 0.5 * (lo + hi);
+      if (Math.sign(f(m)) === Math.sign(f(lo))) lo = m;
+      else hi = m;
+    }
+    const Eref = 0.5 * (lo + hi);
+    const V = pot((x) => (x < s ? 0 : V0));
+    const Ns = [64, 91, 128, 181, 256, 362, 512];
+    const errs = Ns.map((N) => {
+      const r = potentialBasis(V, 0, 1, 1, 1, { minPoints: N, maxPoints: N });
+      expect(r.basis.breakpoints.length).toBe(1);
+      expect(Math.abs(r.basis.breakpoints[0] - s)).toBeLessThan(1e-12);
+      return Math.abs(r.basis.energies[0] - Eref);
+    });
+    // Least-squares slope of log err against log N.
+    const lx = Ns.map(Math.log);
+    const ly = errs.map(Math.log);
+    const mx = lx.reduce((p, q) => p + q) / lx.length;
+    const my = ly.reduce((p, q) => p + q) / ly.length;
+    let sxy = 0;
+    let sxx = 0;
+    lx.forEach((x, i) => {
+      sxy += (x - mx) * (ly[i] - my);
+      sxx += (x - mx) * (x - mx);
+    });
+    const order = -sxy / sxx;
+    expect(order).toBeGreaterThan(1.9);
+    expect(order).toBeLessThan(2.2);
+    // The automatic run says it is unresolved at 1e-9 and gives an honest uncertainty.
+    const auto = potentialBasis(V, 0, 1, 1, 1);
+    expect(auto.unresolved).toBe(1);
+    expect(auto.notes.some((n) => n.kind === 'jumps')).toBe(true);
+    expect(auto.notes.some((n) => n.kind === 'cap')).toBe(true);
+    const err = Math.abs(auto.basis.energies[0] - Eref);
+    expect(err).toBeLessThan(1e-3);
+    expect(auto.basis.uncertainty![0]).toBeGreaterThan(err);
+    expect(auto.basis.uncertainty![0]).toBeLessThan(20 * err);
+  });
+
+  it('the cap names the first unresolved level', () => {
+    const r = potentialBasis(pot((x) => x ** 4), -8, 8, 0.5, 20, { maxPoints: 40 });
+    expect(r.points).toBeLessThanOrEqual(40);
+    expect(r.unresolved).not.toBeNull();
+    expect(r.unresolved!).toBeGreaterThanOrEqual(1);
+    expect(r.unresolved!).toBeLessThanOrEqual(20);
+  });
+
+  it('NaN, bad input and +Infinity never throw', () => {
+    const nan = potentialBasis(pot((x) => (x > 0.3 ? NaN : 0)), 0, 1, 1, 3);
+    expect(nan.basis.count).toBe(0);
+    expect(nan.notes[0].kind).toBe('evaluation');
+    expect(potentialBasis(pot(() => 0), 1, 0, 1, 3).notes[0].kind).toBe('input');
+    expect(potentialBasis(pot(() => 0), 0, 1, -1, 3).notes[0].kind).toBe('input');
+    expect(potentialBasis(() => { throw new Error('boom'); }, 0, 1, 1, 3).notes[0].kind).toBe('evaluation');
+    // An infinite wall inside: [-1, 0) is forbidden, so the levels approach those of the box [0, 1].
+    const inf = potentialBasis(pot((x) => (x < 0 ? Infinity : 0)), -1, 1, 1, 2, { maxPoints: 512 });
+    expect(inf.notes.some((n) => n.kind === 'clamped')).toBe(true);
+    expect(Math.abs(inf.basis.energies[0] - Math.PI ** 2 / 2) / (Math.PI ** 2 / 2)).toBeLessThan(0.05);
+    expect(inf.basis.potential(-0.5)).toBe(Infinity);
+    expect(inf.basis.potential(2)).toBe(Infinity);
+  });
+});
