@@ -1,0 +1,50 @@
+import { describe, it, expect } from 'vitest';
+import { sineDvrGrid, sineDvrSolve, sineSeriesTable } from '../../server/src/physics/dvr';
+
+describe('sine DVR', () => {
+  it('V = 0 gives the box levels k^2 pi^2/(2 m L^2) exactly at any size', () => {
+    // Griffiths, Introduction to Quantum Mechanics, infinite square well section (from memory).
+    for (const N of [8, 33, 100]) {
+      const s = sineDvrSolve(new Float64Array(N - 1), -1, 2, 0.7, 5);
+      s.energies.forEach((e, k) => {
+        const ref = ((k + 1) ** 2 * Math.PI ** 2) / (2 * 0.7 * 9);
+        expect(Math.abs(e - ref) / ref).toBeLessThan(1e-13);
+      });
+    }
+  });
+
+  it('the symmetric split reproduces the full solve (invariant)', () => {
+    const N = 120;
+    const xs = sineDvrGrid(-5, 5, N);
+    const v = xs.map((x) => x ** 4 - 3 * x * x);
+    const full = sineDvrSolve(v, -5, 5, 1, 12);
+    const split = sineDvrSolve(v, -5, 5, 1, 12, { symmetric: true });
+    full.energies.forEach((e, k) => expect(Math.abs(split.energies[k] - e)).toBeLessThan(1e-10 * Math.max(1, Math.abs(e))));
+    // Parities alternate: even, odd, even, ... (node theorem; common practice).
+    split.parity.forEach((p, k) => expect(p).toBe(k % 2 === 0 ? 1 : 2));
+  });
+
+  it('table derivatives match central differences of the series', () => {
+    const N = 64;
+    const xs = sineDvrGrid(0, 3, N);
+    const s = sineDvrSolve(xs.map((x) => 4 * Math.sin(2 * x)), 0, 3, 1, 4);
+    const x = Float64Array.of(0.3, 1.234, 2.9);
+    const f = new Float64Array(4 * 3);
+    const d1 = new Float64Array(12);
+    const d2 = new Float64Array(12);
+    sineSeriesTable(s, x, 4, f, d1, d2);
+    const h = 1e-4;
+    const fp = new Float64Array(12);
+    const fm = new Float64Array(12);
+    sineSeriesTable(s, x.map((y) => y + h), 4, fp);
+    sineSeriesTable(s, x.map((y) => y - h), 4, fm);
+    for (let i = 0; i < 12; i++) {
+      expect(Math.abs((fp[i] - fm[i]) / (2 * h) - d1[i])).toBeLessThan(1e-6);
+      expect(Math.abs((fp[i] - 2 * f[i] + fm[i]) / (h * h) - d2[i])).toBeLessThan(1e-3);
+    }
+    // Zero outside the walls.
+    const out = new Float64Array(4 * 2);
+    sineSeriesTable(s, Float64Array.of(-0.1, 3.1), 4, out);
+    expect(Array.from(out).every((y) => y === 0)).toBe(true);
+  });
+});
