@@ -11,7 +11,7 @@ function setup(options: { trusted?: boolean } = {}) {
   let n = 0;
   const ctl = new SpectrumPanelController({
     api: vs.api,
-    extensionUri: FakeUri.file('/ext'),
+    extensionUri: FakeUri.file('/ext') as never,
     store,
     plotScale: () => vs.config.plotScale as 'linear' | 'log',
     trusted: () => vs.state.isTrusted,
