@@ -168,7 +168,8 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   const out = result.diagnostics;
   result.units = unitNames(model);
   if (!model.system) {
-    if (model.state && model.ok) {
+    const systemRejected = stage.file.rejected?.some((r) => r.keyword === 'system') ?? false;
+    if (model.state && model.ok && !systemRejected) {
       const st = model.state.stmt;
       out.push(diagnostic('name', st.keywordSpan.start, st.keywordSpan.end, 'The file has a state but no system to expand it in; add a `system` line.'));
     }
@@ -333,15 +334,16 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
       : undefined;
     const span = basisStmt ? basisStmt.span : stateSpan;
     out.push(
-      warn('basis', span, `The ${count} levels capture ${pct(captured)} of the state (short by ${fmt(1 - captured)}).${need !== null ? ` About ${need} levels capture all but 1e-6.` : ''}`, fixes),
+      warn('basis', span, `The ${count} levels capture ${captureText(captured)} of the state, short of 1 by ${fmt(1 - captured)}.${need !== null ? ` ${need} levels capture all but 1e-6.` : ' Even the largest basis allowed does not capture all but 1e-6.'}`, fixes),
     );
   }
 
   if (options.cancelled?.()) return;
   checkExpects(model, result, out);
 
-  if (model.evolve) result.evolution = evolution(model, basis, levels, ex, options);
-  if (options.samples) result.samples = samples(state, basis, window, norm, levels);
+  const plotX = plotGrid(basis, window);
+  if (model.evolve) result.evolution = evolution(model, basis, levels, options.samples ? plotX : undefined);
+  if (options.samples) result.samples = samples(state, basis, plotX, norm, levels);
 }
 
 function findWindowSafe(state: StateFunction, basis: Eigenbasis): [number, number] | null {
@@ -391,10 +393,12 @@ function checkWalls(
       warn('boundary', span, `The state is not zero at the hard wall: ${where}. Its coefficients fall off only as 1/n and its energy mean is infinite.`),
     );
   }
-  // Weight outside the walls is dropped.
-  if (!state.support || state.support[0] < a - 1e-12 * L || state.support[1] > b + 1e-12 * L) {
-    const lo = state.support ? state.support[0] : a - L;
-    const hi = state.support ? state.support[1] : b + L;
+  // Weight outside the walls is dropped. Only states with an extent of their own (a packet, a level
+  // of another system) can have such weight: a formula is read as the state inside the walls.
+  const extent = state.support ?? state.window;
+  if (extent && (extent[0] < a - 1e-12 * L || extent[1] > b + 1e-12 * L)) {
+    const lo = Math.min(extent[0], a);
+    const hi = Math.max(extent[1], b);
     let outside = 0;
     for (const [x0, x1] of [
       [lo, a],
@@ -543,8 +547,7 @@ function evolution(
   model: Model,
   basis: Eigenbasis,
   levels: LevelResult[],
-  ex: ReturnType<typeof expandState>,
-  options: AnalyseOptions,
+  densityX: Float64Array | undefined,
 ): EvolutionResult {
   const ev = model.evolve!;
   const k = levels.length;
@@ -556,7 +559,7 @@ function evolution(
   });
   const times = new Float64Array(ev.steps + 1);
   for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
-  const r = evolve(basis, cRe, cIm, times, { density: options.samples ? sampleGrid(basis, ex) : undefined });
+  const r = evolve(basis, cRe, cIm, times, { density: densityX });
   const rev = revivalTime(basis, cRe, cIm);
   const t = (x: number): number => timeToDisplay(x, model.units);
   const res: EvolutionResult = {
@@ -570,20 +573,17 @@ function evolution(
   return res;
 }
 
-function sampleGrid(basis: Eigenbasis, ex: ReturnType<typeof expandState>): Float64Array {
-  void ex;
-  const [a, b] = basis.walls ?? basis.support;
+/** 400 points over the walls (or the integration window) for plots. */
+function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
+  const [a, b] = basis.walls ?? window;
   const n = 400;
   const xs = new Float64Array(n);
   for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
   return xs;
 }
 
-function samples(state: StateFunction, basis: Eigenbasis, window: [number, number], norm: number, levels: LevelResult[]): SampleResult {
-  const [a, b] = basis.walls ?? window;
-  const n = 400;
-  const xs = new Float64Array(n);
-  for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
+function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[]): SampleResult {
+  const n = xs.length;
   const v = state.evaluate(xs, 0);
   const s = 1 / Math.sqrt(norm);
   const kmax = Math.min(levels.length, 100);
@@ -618,6 +618,13 @@ export function pct(f: number): string {
   if (p >= 1) return `${Number(p.toPrecision(4))}%`;
   if (p >= 1e-3) return `${Number(p.toPrecision(3))}%`;
   return `${p.toExponential(2).replace('e+', 'e')}%`;
+}
+
+/** A captured fraction with enough digits to show how far from 1 it is. */
+function captureText(f: number): string {
+  const short = 1 - f;
+  const digits = short > 0 ? Math.min(15, Math.max(3, Math.ceil(-Math.log10(short)) + 2)) : 6;
+  return String(Number(f.toPrecision(digits)));
 }
 
 /** A normalising factor as text, exact to 12 significant digits. */

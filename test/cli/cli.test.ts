@@ -1,0 +1,123 @@
+/**
+ * The built command line (dist/cli.js): the JSON contract, check's output format and exit codes.
+ */
+import { describe, expect, it, beforeAll } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, writeFileSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+
+const CLI = join(__dirname, '..', '..', 'dist', 'cli.js');
+
+function run(args: string[]): { code: number | null; out: string; err: string } {
+  const r = spawnSync(process.execPath, [CLI, ...args], { encoding: 'utf8' });
+  return { code: r.status, out: r.stdout, err: r.stderr };
+}
+
+let dir: string;
+beforeAll(() => {
+  if (!existsSync(CLI)) throw new Error('dist/cli.js is missing: run `npm run build` first');
+  dir = mkdtempSync(join(tmpdir(), 'eigenspan-cli-'));
+});
+
+function file(name: string, text: string): string {
+  const p = join(dir, name);
+  writeFileSync(p, text);
+  return p;
+}
+
+describe('eigenspan expand --json', () => {
+  it('prints the fixed fields for a box state', () => {
+    const p = file('box.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(30) x (1 - x)\nbasis 10\n');
+    const r = run(['expand', p, '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(j.levels).toHaveLength(10);
+    expect(Object.keys(j.levels[0]).sort()).toEqual(['energy', 'im', 'n', 're', 'weight']);
+    expect(j.levels[0].n).toBe(1);
+    // Griffiths, Introduction to Quantum Mechanics, worked example on the parabola state (from memory).
+    expect(Math.abs(j.levels[0].weight - 0.998555014364018)).toBeLessThan(1e-12);
+    expect(j.norm).toBeCloseTo(1, 12);
+    expect(typeof j.captured).toBe('number');
+    expect(j.energy.mean).toBeCloseTo(5, 9);
+    expect(j.parity).toBe('even');
+    expect(j.continuum).toBeUndefined();
+    expect(Array.isArray(j.diagnostics)).toBe(true);
+  });
+
+  it('reports null energies when the series diverges and locates diagnostics 1-based', () => {
+    const p = file('flat.qstate', 'system box(0, 1)\nstate psi(x) = 2\n');
+    const j = JSON.parse(run(['expand', p, '--json']).out);
+    expect(j.energy.mean).toBeNull();
+    const b = j.diagnostics.find((d: { code: string }) => d.code === 'boundary');
+    expect(b).toBeDefined();
+    expect(b.line).toBe(2);
+    expect(b.column).toBe(16);
+    expect(b.severity).toBe('warning');
+    expect(j.diagnostics.some((d: { code: string }) => d.code === 'norm')).toBe(true);
+  });
+
+  it('gives the continuum weight for a finite well', () => {
+    const p = file('well.qstate', 'system well(depth = 2, width = 2)\nstate gaussian(center = 0, width = 0.2)\n');
+    const j = JSON.parse(run(['expand', p, '--json']).out);
+    expect(j.continuum).toBeGreaterThan(0);
+    expect(j.continuum + j.captured).toBeCloseTo(1, 10);
+  });
+
+  it('prints CSV rows and a table', () => {
+    const p = file('osc.qstate', 'system oscillator(omega = 1)\nstate eigen(0) of oscillator(omega = 1, center = 1)\nbasis 5\n');
+    const csv = run(['expand', p, '--csv']).out.trim().split('\n');
+    expect(csv[0]).toBe('n,energy,re,im,weight');
+    expect(csv).toHaveLength(6);
+    const table = run(['expand', p, '--table']);
+    expect(table.code).toBe(0);
+    expect(table.out).toContain('energy mean');
+  });
+});
+
+describe('eigenspan check', () => {
+  it('prints FILE:LINE:COL: SEVERITY[CODE]: MESSAGE and exits 1 on a failed expect', () => {
+    const p = file('fail.qstate', 'system box(0, 1)\nstate psi(x) = sin(pi x)\nexpect energy 7 +- 0.1\n');
+    const r = run(['check', p]);
+    expect(r.code).toBe(1);
+    const line = r.out.split('\n').find((l) => l.includes('[expect]'));
+    expect(line).toMatch(new RegExp(`^${p.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}:3:1: error\\[expect\\]: .+`));
+  });
+
+  it('exits 0 on a clean file and on warnings only', () => {
+    expect(run(['check', file('ok.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(2) sin(pi x)\nexpect norm 1 +- 1e-9\n')]).code).toBe(0);
+    expect(run(['check', file('warn.qstate', 'system box(0, 1)\nstate psi(x) = 3 sin(pi x)\n')]).code).toBe(0);
+  });
+
+  it('checks every .qstate file of a folder and reports unreadable or binary ones', () => {
+    const sub = mkdtempSync(join(tmpdir(), 'eigenspan-folder-'));
+    writeFileSync(join(sub, 'a.qstate'), 'system box(0, 1)\nstate psi(x) = sqrt(2) sin(pi x)\n');
+    writeFileSync(join(sub, 'b.qstate'), Buffer.from([0, 1, 2, 3]));
+    writeFileSync(join(sub, 'notes.txt'), 'not a setup');
+    const r = run(['check', sub]);
+    expect(readdirSync(sub)).toHaveLength(3);
+    expect(r.code).toBe(1);
+    expect(r.out).toContain('b.qstate:1:1: error[syntax]');
+    expect(r.out).not.toContain('notes.txt');
+  });
+
+  it('exits 2 with one line on usage errors', () => {
+    for (const args of [['check'], ['expand'], ['expand', join(dir, 'missing.qstate')], ['expand', file('x.qstate', ''), '--bogus'], ['frobnicate']]) {
+      const r = run(args);
+      expect(r.code).toBe(2);
+      expect(r.err.trim().split('\n')).toHaveLength(1);
+      expect(r.err).not.toMatch(/\n\s+at /);
+    }
+    const help = run(['--help']);
+    expect(help.code).toBe(0);
+    expect(help.out).toContain('eigenspan expand');
+  });
+});
+
+describe('the bundled examples', () => {
+  it('all pass their expect lines', () => {
+    const r = run(['check', join(__dirname, '..', '..', 'examples')]);
+    expect(r.out.split('\n').filter((l) => l.includes('error['))).toEqual([]);
+    expect(r.code).toBe(0);
+  });
+});
