@@ -150,6 +150,7 @@ export class AnalysisScheduler {
     const r = this.finish(m.id);
     if (r) {
       if (m.type === 'done') this.options.onOutcome(r.uri, r.version, { kind: 'done', result: m.result });
+      else if (m.type === 'cancelled') this.options.log(`analysis of ${r.uri} (version ${r.version}) cancelled: superseded`);
       else if (m.type === 'failed') {
         this.options.log(`analysis of ${r.uri} (version ${r.version}) threw: ${m.message}`);
         this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: m.message.split('\n')[0] ?? 'unknown error' });

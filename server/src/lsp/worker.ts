@@ -17,6 +17,8 @@ function run(job: AnalyseJob): void {
   try {
     const hook = testHook(job.text);
     if (hook) {
+      // Printed on purpose: the server forwards worker output to its log, and tests wait for this line.
+      console.log(`test hook ${hook.kind} for job ${job.id}`);
       if (hook.kind === 'crash') process.exit(3);
       const until = performance.now() + (hook.kind === 'hang' ? Infinity : hook.ms);
       // A hang ignores the cancellation flag on purpose (a runaway); a slow job polls it.

@@ -1,0 +1,154 @@
+// Scheduling of the full analysis in the built server: debounce, latest version wins, cooperative
+// cancellation, the time budget, crash recovery and exit when the client goes away. The worker's test
+// hooks (`# eigenspan-test: ...`, honoured only with EIGENSPAN_TEST_HOOKS=1) make the slow cases
+// deterministic.
+import { describe, it, expect, afterEach } from 'vitest';
+import { spawn } from 'node:child_process';
+import type { Hover } from 'vscode-languageserver-protocol';
+import { createProtocolConnection, IPCMessageReader, IPCMessageWriter } from 'vscode-languageserver-protocol/node';
+import { startClient, codes, SERVER, type TestClient } from './client';
+
+const clients: TestClient[] = [];
+async function client(settings: Record<string, unknown> = {}, initializationOptions: Record<string, unknown> = {}): Promise<TestClient> {
+  const c = await startClient({ settings, initializationOptions });
+  clients.push(c);
+  return c;
+}
+afterEach(async () => {
+  await Promise.all(clients.splice(0).map((c) => c.stop()));
+});
+
+const GOOD = 'system box(0, 1)\nstate psi(x) = sqrt(30) x (1 - x)\n';
+
+describe('latest version wins', () => {
+  it('a burst of typed edits never publishes an older version, and the last version gets the full analysis', async () => {
+    const c = await client({ debounceMs: 30 });
+    const u = 'file:///sched/burst.qstate';
+    let text = '';
+    c.open(u, text, 0);
+    let v = 0;
+    for (const ch of GOOD) {
+      text += ch;
+      c.change(u, ++v, text);
+    }
+    const last = v;
+    const r = await c.result(u, (q) => q.version === last);
+    expect(r.version).toBe(last);
+    await c.diagnostics(u, (q) => q.version === last && c.publishes.filter((p) => p.uri === u).at(-1) === q);
+    const versions = c.publishes.filter((p) => p.uri === u).map((p) => p.version!);
+    for (let k = 1; k < versions.length; k++) expect(versions[k]!).toBeGreaterThanOrEqual(versions[k - 1]!);
+    // The debounce means far fewer full analyses than keystrokes.
+    expect(c.results.filter((q) => q.uri === u).length).toBeLessThan(last / 2);
+    // Every result published is for a version that was current when it arrived: never older than a publish before it.
+    for (const q of c.results.filter((x) => x.uri === u)) expect(q.version).toBeLessThanOrEqual(last);
+  });
+
+  it('cancels a superseded analysis cooperatively and never publishes its result', async () => {
+    const c = await client({ debounceMs: 0, timeBudgetMs: 20_000 });
+    const u = 'file:///sched/cancel.qstate';
+    c.open(u, GOOD + '# eigenspan-test: slow 15000\n', 1);
+    // The worker prints the hook on its stdout; the server forwards it to the log, never to its own stdout.
+    await c.log(/^\[worker stdout\] test hook slow/);
+    c.change(u, 2, GOOD);
+    await c.log(/cancel\.qstate \(version 1\) cancelled/);
+    const r = await c.result(u, (q) => q.version === 2);
+    expect(r.version).toBe(2);
+    expect(c.results.some((q) => q.uri === u && q.version === 1)).toBe(false);
+  });
+});
+
+describe('time budget and crashes', () => {
+  it('terminates a runaway analysis with a limits diagnostic while other documents still get answers', async () => {
+    const c = await client({ timeBudgetMs: 800, debounceMs: 0 });
+    const b = 'file:///sched/other.qstate';
+    c.open(b, GOOD);
+    await c.result(b, (q) => q.version === 1);
+    const a = 'file:///sched/runaway.qstate';
+    c.open(a, GOOD + '# eigenspan-test: hang\n');
+    // While the worker spins, hover on the other document is answered from its cached result.
+    const t0 = performance.now();
+    const h = await c.connection.sendRequest<Hover | null>('textDocument/hover', { textDocument: { uri: b }, position: { line: 1, character: 2 } });
+    const hoverMs = performance.now() - t0;
+    expect(h).not.toBeNull();
+    expect(hoverMs).toBeLessThan(300);
+    const p = await c.diagnostics(a, (q) => codes(q.diagnostics).includes('limits'));
+    const d = p.diagnostics.find((x) => x.code === 'limits')!;
+    expect(d.message).toMatch(/800 ms/);
+    expect(d.range.start.line).toBe(1);
+    // The worker was restarted: a new edit is analysed again.
+    c.change(b, 2, GOOD + '\n');
+    const r = await c.result(b, (q) => q.version === 2);
+    expect(r.version).toBe(2);
+  });
+
+  it('restarts a crashed worker and keeps serving', async () => {
+    const c = await client({ debounceMs: 0 });
+    const a = 'file:///sched/crash.qstate';
+    c.open(a, GOOD + '# eigenspan-test: crash\n');
+    const p = await c.diagnostics(a, (q) => codes(q.diagnostics).includes('limits'));
+    expect(p.diagnostics.find((x) => x.code === 'limits')!.message).toMatch(/stopped unexpectedly/);
+    await c.log(/exited unexpectedly/);
+    const b = 'file:///sched/after-crash.qstate';
+    c.open(b, GOOD);
+    const r = await c.result(b, (q) => q.version === 1);
+    expect(r.version).toBe(1);
+    const h = await c.connection.sendRequest<Hover | null>('textDocument/hover', { textDocument: { uri: b }, position: { line: 1, character: 2 } });
+    expect(h).not.toBeNull();
+  });
+});
+
+describe('trust', () => {
+  it('runs only static checks when evaluation is off, and switches on with eigenspan/setTrust', async () => {
+    const c = await client({ debounceMs: 0 }, { evaluate: false });
+    const u = 'file:///sched/untrusted.qstate';
+    c.open(u, 'system box(0, 1)\nstate psi(x) = 2 sin(pi x)\n');
+    const p = await c.diagnostics(u, (q) => q.version === 1);
+    expect(codes(p.diagnostics)).not.toContain('norm');
+    const lens = await c.connection.sendRequest<{ command?: { title: string } }[]>('textDocument/codeLens', { textDocument: { uri: u } });
+    expect(lens).toEqual([]);
+    expect(c.results).toEqual([]);
+    c.connection.sendNotification('eigenspan/setTrust', { trusted: true });
+    const r = await c.result(u, (q) => q.version === 1);
+    expect(r.result.norm as number).toBeCloseTo(2, 6);
+    await c.diagnostics(u, (q) => codes(q.diagnostics).includes('norm'));
+  });
+});
+
+describe('pull diagnostics', () => {
+  it('serves textDocument/diagnostic when the client advertises pull with refresh', async () => {
+    const c = await startClient({
+      settings: { debounceMs: 0 },
+      capabilities: { workspace: { configuration: true, diagnostics: { refreshSupport: true } }, textDocument: { diagnostic: { dynamicRegistration: false } } },
+    });
+    clients.push(c);
+    const u = 'file:///sched/pull.qstate';
+    c.open(u, 'system box(0, 1\nstate psi(x) = x\n');
+    const report = await c.connection.sendRequest<{ kind: string; items: { code: string; range: { start: { line: number; character: number } } }[] }>('textDocument/diagnostic', { textDocument: { uri: u } });
+    expect(report.kind).toBe('full');
+    expect(report.items.map((d) => d.code)).toContain('syntax');
+    expect(report.items.find((d) => d.code === 'syntax')!.range.start).toEqual({ line: 0, character: 10 });
+    expect(c.publishes.filter((p) => p.uri === u)).toEqual([]);
+  });
+});
+
+describe('no orphans', () => {
+  it('exits when the client closes its end of stdio', async () => {
+    const c = await startClient();
+    c.connection.dispose();
+    c.child.stdin!.end();
+    // No shutdown request came first, so the server reports exit code 1 (LSP 3.17, "exit" notification).
+    expect(await c.exited).toBe(1);
+  });
+
+  it('speaks node IPC and exits when the channel closes', async () => {
+    const child = spawn(process.execPath, [SERVER, '--node-ipc'], { stdio: ['ignore', 'ignore', 'pipe', 'ipc'] });
+    const exited = new Promise<number | null>((r) => child.once('exit', (code) => r(code)));
+    const conn = createProtocolConnection(new IPCMessageReader(child), new IPCMessageWriter(child));
+    conn.listen();
+    const init = await conn.sendRequest<{ capabilities: { hoverProvider?: boolean } }>('initialize', { processId: process.pid, rootUri: null, capabilities: {} });
+    expect(init.capabilities.hoverProvider).toBe(true);
+    child.disconnect();
+    expect(await exited).toBe(1);
+    conn.dispose();
+  });
+});
