@@ -186,6 +186,14 @@ describe('potentialBasis: conventions and robustness', () => {
     expect(r.unresolved!).toBeLessThanOrEqual(20);
   });
 
+  it('the work cap lowers the grid cap for a potential without symmetry', () => {
+    // 4/3 n^3 <= 1e6 flops allows n = 90 for one block.
+    const r = potentialBasis(pot((x) => x), 0, 20, 1, 3, { maxWork: 1e6 });
+    expect(Math.max(...r.sizes)).toBeLessThanOrEqual(90);
+    expect(r.unresolved).toBe(1);
+    expect(r.notes.some((n) => n.kind === 'cap' && n.message.includes('work cap'))).toBe(true);
+  });
+
   it('NaN, bad input and +Infinity never throw', () => {
     const nan = potentialBasis(pot((x) => (x > 0.3 ? NaN : 0)), 0, 1, 1, 3);
     expect(nan.basis.count).toBe(0);

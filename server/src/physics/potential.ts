@@ -24,8 +24,13 @@ export interface PotentialOptions {
   symmetryTolerance?: number;
   /** Samples of V used to estimate wavelengths, find jumps and test symmetry (default 4096). */
   samples?: number;
-  /** Size of the last grid when convergence is algebraic and the tolerance is out of reach (default 512, at least 4 N, at most the cap). */
+  /** Size of the last grid when convergence is algebraic and the tolerance is out of reach (default 512, at least 2 N, at most the cap). */
   algebraicPoints?: number;
+  /**
+   * Cap on the eigensolver's work per solve, 4/3 n^3 flops summed over blocks (default 1e10, a few seconds):
+   * it lowers the grid cap to about 1960 points for a potential without symmetry and 3900 with it.
+   */
+  maxWork?: number;
 }
 
 /** Something the solver wants the analysis to know. */
@@ -72,6 +77,7 @@ const DEFAULTS = {
   symmetryTolerance: 1e-12,
   samples: 4096,
   algebraicPoints: 512,
+  maxWork: 1e10,
 };
 
 /** A jump of V located by bisection, with the one-sided values. */
@@ -197,7 +203,7 @@ export function potentialBasis(
   const K = Math.floor(levels);
   if (!(K >= 1)) return fail({ kind: 'input', message: 'At least one level must be asked for.' });
   const L = b - a;
-  const cap = Math.max(8, Math.floor(o.maxPoints));
+  const pointCap = Math.max(8, Math.floor(o.maxPoints));
 
   // Samples: interior points a + j L/M, mirror pairs j <-> M - j.
   const M = Math.max(64, Math.floor(o.samples));
@@ -234,6 +240,10 @@ export function potentialBasis(
     if (!(Math.abs(p - q) <= o.symmetryTolerance * Math.max(vscale, Number.MIN_VALUE))) symmetric = false;
   }
   const center = symmetric ? 0.5 * (a + b) : null;
+  // The eigensolver costs 4/3 n^3 flops per block of size n: N for one block, N/2 for each of two.
+  const workCap = symmetric ? Math.floor(2 * Math.cbrt((3 * o.maxWork) / 8)) : Math.floor(Math.cbrt((3 * o.maxWork) / 4));
+  const cap = Math.max(8, Math.min(pointCap, workCap));
+  const capWhy = cap < pointCap ? `the work cap of ${o.maxWork.toExponential(0)} flops (${cap} points)` : `the grid cap of ${cap} points`;
 
   // Jumps: a difference far above both neighbours, located by bisection.
   const jumps: Jump[] = [];
@@ -345,7 +355,7 @@ export function potentialBasis(
     // Algebraic convergence (the measured order p is finite and steady, or the cap is out of reach):
     // rather than climb in small, costly steps, solve once more at the size N_f the order predicts and
     // take Richardson's estimate 2 |E_f - E_N| / ((N_f / N)^p - 1) as the uncertainty (doubled because p
-    // is measured). When the prediction exceeds the cap, N_f = min(cap, max(4 N, algebraicPoints)).
+    // is measured). When the prediction exceeds the cap, N_f = min(cap, max(2 N, algebraicPoints)).
     if (prevWorst && worst < prevWorst.ratio) {
       const p = Math.log(prevWorst.ratio / worst) / Math.log(N / prevWorst.N);
       const steady = prevOrder !== null && Math.abs(p - prevOrder) <= 0.15 * p;
@@ -354,12 +364,12 @@ export function potentialBasis(
       const need = prevN * Math.pow(4 * worst, 1 / p);
       const outOfReach = p > 0 && p < 12 && need > cap;
       if (p > 0 && p < 12 && (steady || outOfReach)) {
-        const Nf = outOfReach ? Math.min(cap, Math.max(4 * N, Math.floor(o.algebraicPoints))) : Math.min(cap, Math.max(Math.ceil(need), Math.ceil(1.25 * N)));
+        const Nf = outOfReach ? Math.min(cap, Math.max(2 * N, Math.floor(o.algebraicPoints))) : Math.min(cap, Math.max(Math.ceil(need), Math.ceil(1.25 * N)));
         if (outOfReach) {
           stoppedByCap = true;
           notes.push({
             kind: 'cap',
-            message: `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(need)} grid points, over the cap of ${cap}; stopped at ${Math.max(N, Nf)}.`,
+            message: `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(need)} grid points, over ${capWhy}; stopped at ${Math.max(N, Nf)}.`,
           });
         }
         if (Nf > N) {
@@ -389,7 +399,7 @@ export function potentialBasis(
   }
   if (count < K && unresolved === null) unresolved = count + 1;
   if (stoppedByCap && unresolved !== null && !notes.some((n) => n.kind === 'cap')) {
-    notes.push({ kind: 'cap', message: `The grid cap of ${cap} points stopped refinement before level ${unresolved} met the tolerance.` });
+    notes.push({ kind: 'cap', message: `${capWhy.charAt(0).toUpperCase()}${capWhy.slice(1)} stopped refinement before level ${unresolved} met the tolerance.` });
   }
   if (clamped) {
     notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
