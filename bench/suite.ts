@@ -1,0 +1,751 @@
+/**
+ * The benchmark suite behind `npm run bench`: each job timed against a baseline measured in the same
+ * run, with the accuracy each reaches against a reference. `runSuite` returns the rows and the scaling
+ * tables; `bench/main.ts` prints them and writes bench/results.json.
+ * Timings are medians over repeated runs (see stats.ts); targets are reported, never asserted.
+ */
+import { spawnSync } from 'node:child_process';
+import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import { cpus } from 'node:os';
+import { join } from 'node:path';
+import { all, create } from 'mathjs';
+import { boxCoefficientsFromSamples } from '../server/src/physics/dst';
+import { oscillatorBasis } from '../server/src/physics/oscillator';
+import { hermiteFunction } from '../server/src/physics/hermite';
+import { wellBasis } from '../server/src/physics/well';
+import { potentialBasis } from '../server/src/physics/potential';
+import { fdLevels } from '../server/src/physics/fd';
+import { project } from '../server/src/physics/project';
+import { compositeGaussLegendre } from '../server/src/physics/quadrature';
+import { parseExpression } from '../server/src/expr/sandbox';
+import { checkExpression } from '../server/src/expr/check';
+import { compileFunction } from '../server/src/expr/compile';
+import { createScope } from '../server/src/expr/units';
+import type { CompiledFunction } from '../server/src/expr/types';
+import { analyse } from '../server/src/analysis/index';
+import { fitExponent, measure, summarise, type Timing } from './stats';
+
+/** Options of {@link runSuite}. */
+export interface SuiteOptions {
+  /** Repository root (default the working directory). */
+  root?: string;
+  /** Timed runs per measurement (default 9; baselines that take seconds use fewer). */
+  reps?: number;
+  /** Tiny sizes and one run each, for the smoke test (default false). */
+  tiny?: boolean;
+  /** Progress lines go here (default none). */
+  log?: (line: string) => void;
+}
+
+/** One measured job. */
+export interface Row {
+  /** Item number of the performance issue (1..8). */
+  item: number;
+  job: string;
+  method: string;
+  /** The problem size in words (coefficients, samples, levels, points). */
+  size: string;
+  timing: Timing | null;
+  /** Accuracy reached: the figure, what it measures, and against which reference. */
+  accuracy: { value: number | null; measure: string; reference: string };
+  /** The baseline timed in the same run, or null when the job has none. */
+  baseline: { method: string; timing: Timing | null; accuracy: number | null; note?: string } | null;
+  /** Baseline median / this median (> 1: this is faster), or null. */
+  ratio: number | null;
+  target: { text: string; met: boolean | null } | null;
+  notes: string[];
+}
+
+/** Time against size for one job, with the fitted exponent of t ~ C size^p. */
+export interface Scaling {
+  item: number;
+  what: string;
+  sizeName: string;
+  sizes: number[];
+  /** Median ms per size. */
+  times: number[];
+  /** Extra columns (grid points, coefficients) by name. */
+  extra: Record<string, number[]>;
+  exponent: number;
+}
+
+/** What the suite produces. */
+export interface SuiteResult {
+  meta: { date: string; node: string; cpus: number; cpuModel: string; tiny: boolean; reps: number };
+  rows: Row[];
+  scaling: Scaling[];
+}
+
+/** Composite Gauss–Legendre on [a, b] with `panels` panels of 20 points (the analysis' own rule). */
+function gl(a: number, b: number, panels: number, breakpoints: number[] = []) {
+  return compositeGaussLegendre(a, b, { panels, order: 20, breakpoints });
+}
+
+/** Largest |a_i - b_i| over two complex coefficient lists. */
+function maxDiff(aRe: Float64Array, aIm: Float64Array, bRe: Float64Array, bIm: Float64Array, n: number): number {
+  let m = 0;
+  for (let k = 0; k < n; k++) m = Math.max(m, Math.hypot(aRe[k]! - bRe[k]!, aIm[k]! - bIm[k]!));
+  return m;
+}
+
+function ratioOf(baseline: Timing | null, ours: Timing | null): number | null {
+  return baseline && ours && ours.median > 0 ? baseline.median / ours.median : null;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 1. Box coefficients: fast sine transform against direct quadrature per coefficient.
+
+/**
+ * The state of the box benchmark: a normalised packet exp(-(x-x0)^2/(4 s^2) + i k x) (2 pi s^2)^(-1/4)
+ * on [0, 1], x0 = 0.5, s = 0.04, k = 150: below 1e-16 at the walls, so its odd extension is smooth.
+ */
+const BOX = { x0: 0.5, s: 0.04, k: 150 };
+
+function boxSamples(N: number): { re: Float64Array; im: Float64Array } {
+  const re = new Float64Array(N + 1);
+  const im = new Float64Array(N + 1);
+  const amp = Math.pow(2 * Math.PI * BOX.s * BOX.s, -0.25);
+  for (let j = 0; j <= N; j++) {
+    const x = j / N;
+    const g = amp * Math.exp(-((x - BOX.x0) ** 2) / (4 * BOX.s * BOX.s));
+    re[j] = g * Math.cos(BOX.k * x);
+    im[j] = g * Math.sin(BOX.k * x);
+  }
+  return { re, im };
+}
+
+/**
+ * Closed-form box coefficients of the packet on [0, 1]: with q = n pi,
+ * c_n = sqrt(2) A sqrt(4 pi) s / (2i) [e^{i(k+q)x0 - (k+q)^2 s^2} - e^{i(k-q)x0 - (k-q)^2 s^2}],
+ * from integral e^{i kappa x} e^{-(x-x0)^2/(4 s^2)} dx = sqrt(4 pi) s e^{i kappa x0 - kappa^2 s^2} over the
+ * line (derived from the Gaussian Fourier integral; the tails beyond the walls are below 1e-100).
+ */
+function boxReference(count: number): { re: Float64Array; im: Float64Array } {
+  const re = new Float64Array(count);
+  const im = new Float64Array(count);
+  const { x0, s, k } = BOX;
+  const pref = Math.SQRT2 * Math.pow(2 * Math.PI * s * s, -0.25) * Math.sqrt(4 * Math.PI) * s * 0.5;
+  for (let n = 1; n <= count; n++) {
+    const q = n * Math.PI;
+    const gp = Math.exp(-((k + q) ** 2) * s * s);
+    const gm = Math.exp(-((k - q) ** 2) * s * s);
+    // (1/(2i)) (A - B) = -(i/2)(A - B): re = Im(A - B)/2, im = -Re(A - B)/2 (times pref * 2).
+    const ar = gp * Math.cos((k + q) * x0) - gm * Math.cos((k - q) * x0);
+    const ai = gp * Math.sin((k + q) * x0) - gm * Math.sin((k - q) * x0);
+    re[n - 1] = pref * ai;
+    im[n - 1] = -pref * ar;
+  }
+  return { re, im };
+}
+
+/** The baseline: each c_n = sqrt(2/L) (L/N) sum_j sin(pi j n / N) psi_j summed directly, one sine per term. */
+function boxDirect(re: Float64Array, im: Float64Array, count: number): { re: Float64Array; im: Float64Array } {
+  const N = re.length - 1;
+  const outRe = new Float64Array(count);
+  const outIm = new Float64Array(count);
+  const scale = Math.SQRT2 / N;
+  for (let n = 1; n <= count; n++) {
+    let sr = 0;
+    let si = 0;
+    const w = (Math.PI * n) / N;
+    for (let j = 1; j < N; j++) {
+      const sn = Math.sin(w * j);
+      sr += sn * re[j]!;
+      si += sn * im[j]!;
+    }
+    outRe[n - 1] = sr * scale;
+    outIm[n - 1] = si * scale;
+  }
+  return { re: outRe, im: outIm };
+}
+
+function benchBox(count: number, log2N: number, reps: number, target: string | null, limitMs: number | null): Row {
+  const N = 1 << log2N;
+  const s = boxSamples(N);
+  const ref = boxReference(count);
+  const fast = measure(() => boxCoefficientsFromSamples(s.re, s.im, 0, 1, count), { reps });
+  const slow = measure(() => boxDirect(s.re, s.im, count), { reps: Math.max(1, Math.min(reps, 5)) });
+  const accFast = maxDiff(fast.result.re, fast.result.im, ref.re, ref.im, count);
+  const accSlow = maxDiff(slow.result.re, slow.result.im, ref.re, ref.im, count);
+  const ratio = ratioOf(slow.timing, fast.timing);
+  const notes: string[] = [];
+  let met: boolean | null = null;
+  if (limitMs !== null) met = fast.timing.median <= limitMs && (ratio ?? 0) >= 20;
+  notes.push(`both sum the same ${N + 1} samples (trapezoid rule), so they reach the same accuracy`);
+  return {
+    item: 1,
+    job: `box: ${count} coefficients of a smooth packet`,
+    method: 'fast sine transform (one complex FFT)',
+    size: `${count} coefficients, 2^${log2N} samples`,
+    timing: fast.timing,
+    accuracy: { value: accFast, measure: 'max |c_n - c_n(ref)|, unit-norm state', reference: 'closed-form Gaussian Fourier integral (derived)' },
+    baseline: { method: 'direct quadrature per coefficient (one sine per sample)', timing: slow.timing, accuracy: accSlow },
+    ratio,
+    target: target ? { text: target, met } : null,
+    notes,
+  };
+}
+
+function scalingBox(sizes: number[], reps: number): Scaling {
+  const times: number[] = [];
+  for (const log2N of sizes) {
+    const N = 1 << log2N;
+    const s = boxSamples(N);
+    times.push(measure(() => boxCoefficientsFromSamples(s.re, s.im, 0, 1, Math.min(1000, N - 1)), { reps }).timing.median);
+  }
+  const ns = sizes.map((l) => 1 << l);
+  return { item: 1, what: 'fast sine transform, min(1000, N-1) coefficients from N + 1 samples', sizeName: 'samples N', sizes: ns, times, extra: {}, exponent: fitExponent(ns, times) };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 2. Oscillator coefficients: recurrence table against per-coefficient Hermite functions.
+
+function benchOscillator(count: number, panels: number, reps: number): Row {
+  // Ground state of the oscillator (hbar = m = omega = 1) displaced by d: a coherent state.
+  const d = 10;
+  const basis = oscillatorBasis(1, 0, 1, count);
+  const q = gl(d - 9, d + 9, panels);
+  const nq = q.x.length;
+  const psi = new Float64Array(nq);
+  for (let j = 0; j < nq; j++) psi[j] = Math.pow(Math.PI, -0.25) * Math.exp(-0.5 * (q.x[j]! - d) ** 2);
+  // Reference: c_n = e^{-|alpha|^2/2} alpha^n / sqrt(n!), alpha = d / sqrt(2) (Glauber, Phys. Rev. 131, 2766 (1963)).
+  const alpha = d / Math.SQRT2;
+  const ref = new Float64Array(count);
+  let logFact = 0;
+  for (let n = 0; n < count; n++) {
+    if (n > 0) logFact += Math.log(n);
+    ref[n] = Math.exp(-0.5 * alpha * alpha + n * Math.log(alpha) - 0.5 * logFact);
+  }
+  const zero = new Float64Array(count);
+  const fast = measure(() => project(basis, q, psi, null, count), { reps });
+  const slow = measure(
+    () => {
+      const c = new Float64Array(count);
+      for (let n = 0; n < count; n++) {
+        let sum = 0;
+        for (let j = 0; j < nq; j++) sum += q.w[j]! * hermiteFunction(n, q.x[j]!) * psi[j]!;
+        c[n] = sum;
+      }
+      return c;
+    },
+    { reps: Math.max(1, Math.min(reps, 3)) },
+  );
+  const accFast = maxDiff(fast.result.re, fast.result.im, ref, zero, count);
+  const accSlow = maxDiff(slow.result, zero, ref, zero, count);
+  return {
+    item: 2,
+    job: `oscillator: ${count} coefficients of a coherent state (d = 10)`,
+    method: 'three-term recurrence table on the grid, then dot products',
+    size: `${count} coefficients, ${nq} Gauss–Legendre nodes`,
+    timing: fast.timing,
+    accuracy: { value: accFast, measure: 'max |c_n - c_n(ref)|', reference: 'Glauber, Phys. Rev. 131, 2766 (1963)' },
+    baseline: { method: 'direct quadrature, each Hermite function evaluated separately', timing: slow.timing, accuracy: accSlow },
+    ratio: ratioOf(slow.timing, fast.timing),
+    target: null,
+    notes: [],
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 3. Finite well: all bound states and the coefficients of a packet.
+
+function benchWell(depth: number, reps: number, fdPoints: number): Row {
+  const width = 2;
+  const mass = 1;
+  const packet = (xs: Float64Array) => {
+    const re = new Float64Array(xs.length);
+    const im = new Float64Array(xs.length);
+    const s = 0.15;
+    const amp = Math.pow(2 * Math.PI * s * s, -0.25);
+    for (let j = 0; j < xs.length; j++) {
+      const g = amp * Math.exp(-((xs[j]! - 0.2) ** 2) / (4 * s * s));
+      re[j] = g * Math.cos(10 * xs[j]!);
+      im[j] = g * Math.sin(10 * xs[j]!);
+    }
+    return { re, im };
+  };
+  const job = () => {
+    const basis = wellBasis(depth, width, 0, mass);
+    const [lo, hi] = basis.support;
+    const q = gl(lo, hi, 64, basis.breakpoints);
+    const v = packet(q.x);
+    const c = project(basis, q, v.re, v.im, basis.count);
+    return { basis, q, c };
+  };
+  const ours = measure(job, { reps });
+  const { basis, q, c } = ours.result;
+  // Invariant: orthonormality of the levels on the grid.
+  const n = basis.count;
+  const nq = q.x.length;
+  const t = new Float64Array(n * nq);
+  basis.table(q.x, n, t);
+  let ortho = 0;
+  for (let i = 0; i < n; i++) {
+    for (let k = 0; k <= i; k++) {
+      let s = 0;
+      for (let j = 0; j < nq; j++) s += q.w[j]! * t[i * nq + j]! * t[k * nq + j]!;
+      ortho = Math.max(ortho, Math.abs(s - (i === k ? 1 : 0)));
+    }
+  }
+  let captured = 0;
+  for (let k = 0; k < n; k++) captured += c.re[k]! ** 2 + c.im[k]! ** 2;
+  // Baseline: the energies alone by second-order finite differences with walls at +-3 half-widths.
+  const V = (xs: Float64Array) => xs.map((x) => (Math.abs(x) < 0.5 * width ? 0 : depth));
+  const fd = measure(() => fdLevels(V, -3, 3, mass, fdPoints, n), { reps: Math.max(1, Math.min(reps, 3)) });
+  let fdErr = 0;
+  for (let k = 0; k < Math.min(n, fd.result.energies.length); k++) fdErr = Math.max(fdErr, Math.abs(fd.result.energies[k]! - basis.energies[k]!) / basis.energies[k]!);
+  return {
+    item: 3,
+    job: `finite well: all ${n} bound states and their coefficients (z0 = ${(0.5 * width * Math.sqrt(2 * mass * depth)).toFixed(1)})`,
+    method: 'closed-form roots (phase equation, Newton) and eigenfunctions, projection on the grid',
+    size: `${n} levels, ${nq} nodes`,
+    timing: ours.timing,
+    accuracy: { value: ortho, measure: 'max |<phi_i|phi_j> - delta_ij| on the grid (invariant)', reference: `orthonormality; bound weight captured ${captured.toFixed(6)}` },
+    baseline: {
+      method: `second-order finite differences on [-3, 3], ${fdPoints} intervals (energies only)`,
+      timing: fd.timing,
+      accuracy: fdErr,
+      note: 'baseline accuracy: worst relative energy difference from the closed-form levels',
+    },
+    ratio: ratioOf(fd.timing, ours.timing),
+    target: { text: '>= 30 bound states', met: n >= 30 },
+    notes: [],
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 4. The pure quartic H = p^2 + x^4 (m = 1/2): spectral solver against finite differences.
+
+const QUARTIC = { a: -7, b: 7, mass: 0.5 };
+const quarticV = (xs: Float64Array) => xs.map((x) => x ** 4);
+/** E_0..E_2 of H = p^2 + x^4 (Hioe & Montroll, J. Math. Phys. 16, 1945 (1975) (from memory)). */
+const HIOE = [1.060362090484183, 3.799673029801394, 7.455697937986738];
+
+function worstRel(a: Float64Array, ref: Float64Array, n: number): number {
+  let w = 0;
+  for (let k = 0; k < n; k++) w = Math.max(w, Math.abs(a[k]! - ref[k]!) / Math.abs(ref[k]!));
+  return w;
+}
+
+function benchQuartic(levels: number, reps: number, fdSizes: number[], fdBudgetMs: number): Row[] {
+  const { a, b, mass } = QUARTIC;
+  const sp = measure(() => potentialBasis(quarticV, a, b, mass, levels, { tolerance: 1e-9 }), { reps });
+  const E = sp.result.basis.energies;
+  // Reference for all levels: a tighter spectral run (1e-12), itself checked against Hioe & Montroll.
+  const tight = potentialBasis(quarticV, a, b, mass, levels, { tolerance: 1e-12 });
+  const ref = tight.basis.energies;
+  let hioe = 0;
+  for (let k = 0; k < Math.min(3, levels); k++) hioe = Math.max(hioe, Math.abs(E[k]! - HIOE[k]!) / HIOE[k]!);
+  const accSp = worstRel(E, ref, Math.min(levels, ref.length));
+  // Finite differences: growing grids until the error stops falling (rounding) or the budget is spent.
+  const fdRuns: { N: number; ms: number; err: number }[] = [];
+  let spent = 0;
+  for (const N of fdSizes) {
+    if (spent > fdBudgetMs) break;
+    const t0 = performance.now();
+    const fd = fdLevels(quarticV, a, b, mass, N, levels);
+    const ms = performance.now() - t0;
+    spent += ms;
+    const err = worstRel(fd.energies, ref, levels);
+    fdRuns.push({ N, ms, err });
+    if (fdRuns.length >= 2 && err > fdRuns[fdRuns.length - 2]!.err / 3) break;
+  }
+  const best = fdRuns.reduce((p, r) => (r.err < p.err ? r : p), fdRuns[0]!);
+  // Second order: N for 1e-9 is N (err / 1e-9)^(1/2); Sturm bisection time grows as N.
+  const needN = Math.ceil(best.N * Math.sqrt(best.err / 1e-9));
+  const needMs = (best.ms * needN) / best.N;
+  const floor = (2.2e-16 / (mass * ((b - a) / needN) ** 2)) / Math.abs(ref[levels - 1]!);
+  const rows: Row[] = [];
+  rows.push({
+    item: 4,
+    job: `pure quartic: lowest ${levels} levels to 1e-9`,
+    method: 'sine DVR, grid grown until two sizes agree',
+    size: `${levels} levels, ${sp.result.points} intervals (sizes ${sp.result.sizes.join(', ')})`,
+    timing: sp.timing,
+    accuracy: {
+      value: accSp,
+      measure: 'worst relative energy error',
+      reference: `spectral run at 1e-12; E_0..E_2 within ${hioe.toExponential(1)} of Hioe & Montroll, J. Math. Phys. 16, 1945 (1975) (from memory)`,
+    },
+    baseline: {
+      method: `second-order finite differences, best of ${fdRuns.map((r) => r.N).join(', ')} intervals`,
+      timing: null,
+      accuracy: best.err,
+      note:
+        `at ${best.N} intervals: ${best.ms.toFixed(0)} ms and worst relative error ${best.err.toExponential(2)}; ` +
+        `1e-9 needs about ${needN} intervals (error ~ N^-2), about ${(needMs / 1000).toFixed(1)} s, ` +
+        `and the rounding floor eps/(m h^2) there is ${floor.toExponential(1)} relative, so 1e-9 is ${floor > 1e-9 ? 'out of reach' : 'reachable'} in double precision`,
+    },
+    ratio: needMs / sp.timing.median,
+    target: { text: '<= 50 ms', met: sp.timing.median <= 50 },
+    notes: ['ratio: extrapolated finite-difference time at 1e-9 over the spectral time'],
+  });
+  // Equal accuracy that finite differences can reach: the finest grid tried, against a spectral run
+  // asked for the same tolerance.
+  const tol = Math.max(best.err, 1e-9);
+  const sp2 = measure(() => potentialBasis(quarticV, a, b, mass, levels, { tolerance: tol }), { reps });
+  const fdT = measure(() => fdLevels(quarticV, a, b, mass, best.N, levels), { reps: Math.max(1, Math.min(reps, 3)) });
+  rows.push({
+    item: 4,
+    job: `pure quartic: lowest ${levels} levels at equal accuracy ${tol.toExponential(1)}`,
+    method: 'sine DVR at the tolerance finite differences reached',
+    size: `${levels} levels, ${sp2.result.points} intervals`,
+    timing: sp2.timing,
+    accuracy: { value: worstRel(sp2.result.basis.energies, ref, levels), measure: 'worst relative energy error', reference: 'spectral run at 1e-12' },
+    baseline: { method: `second-order finite differences, ${best.N} intervals`, timing: fdT.timing, accuracy: worstRel(fdT.result.energies, ref, levels) },
+    ratio: ratioOf(fdT.timing, sp2.timing),
+    target: null,
+    notes: [],
+  });
+  return rows;
+}
+
+function scalingQuartic(levelsList: number[], reps: number): Scaling {
+  const times: number[] = [];
+  const points: number[] = [];
+  for (const K of levelsList) {
+    const m = measure(() => potentialBasis(quarticV, QUARTIC.a, QUARTIC.b, QUARTIC.mass, K, { tolerance: 1e-9 }), { reps });
+    times.push(m.timing.median);
+    points.push(m.result.points);
+  }
+  return {
+    item: 4,
+    what: 'sine DVR, pure quartic on [-7, 7] at 1e-9 (the grid grows with the levels asked for)',
+    sizeName: 'levels',
+    sizes: levelsList,
+    times,
+    extra: { 'final intervals N': points, 'exponent against N': [fitExponent(points, times)] },
+    exponent: fitExponent(levelsList, times),
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 5. A state expression on 10^4 points: plain mathjs compiled evaluation against our closures.
+
+function ours(text: string): CompiledFunction | null {
+  const p = parseExpression({ text, start: 0, end: text.length });
+  if (!p.result) return null;
+  const scope = { ...createScope({ mode: 'natural' }), hasX: true };
+  const c = checkExpression(p.result, scope, null, 'the benchmark');
+  if (c.diagnostics.some((d) => d.severity === 'error')) return null;
+  return compileFunction(p.result, scope).result;
+}
+
+function benchExpression(text: string, points: number, reps: number): Row {
+  const reference = create(all, {});
+  const code = reference.compile(text);
+  const xs = new Float64Array(points);
+  for (let k = 0; k < points; k++) xs[k] = -1 + (2 * k) / (points - 1);
+  const f = ours(text);
+  const refRe = new Float64Array(points);
+  const refIm = new Float64Array(points);
+  const scope = { x: 0 };
+  const mj = measure(
+    () => {
+      for (let k = 0; k < points; k++) {
+        scope.x = xs[k]!;
+        const v = code.evaluate(scope) as number | { re: number; im: number };
+        if (typeof v === 'number') {
+          refRe[k] = v;
+          refIm[k] = 0;
+        } else {
+          refRe[k] = v.re;
+          refIm[k] = v.im;
+        }
+      }
+    },
+    { reps },
+  );
+  const notes: string[] = [];
+  if (!f) {
+    notes.push('the expression did not compile');
+    return { item: 5, job: `evaluate ${text}`, method: 'compiled closures', size: `${points} points`, timing: null, accuracy: { value: null, measure: '', reference: '' }, baseline: null, ratio: null, target: null, notes };
+  }
+  const our = measure(() => f.evaluate(xs), { reps });
+  let diff = 0;
+  for (let k = 0; k < points; k++) {
+    const d = Math.hypot(our.result.re[k]! - refRe[k]!, our.result.im[k]! - refIm[k]!) / Math.max(1, Math.hypot(refRe[k]!, refIm[k]!));
+    diff = Math.max(diff, d);
+  }
+  const ratio = ratioOf(mj.timing, our.timing);
+  return {
+    item: 5,
+    job: `state expression on ${points} points: ${text}`,
+    method: `our compiled closures (complex-aware, ${f.complex ? 'complex' : 'real'} path)`,
+    size: `${points} points`,
+    timing: our.timing,
+    accuracy: { value: diff, measure: 'max |ours - mathjs| / max(1, |mathjs|)', reference: 'mathjs 15.2 evaluate on a plain instance (reference library)' },
+    baseline: { method: 'mathjs compile().evaluate per point (plain instance)', timing: mj.timing, accuracy: 0 },
+    ratio,
+    target: { text: '>= 5x faster, identical to 1e-15', met: (ratio ?? 0) >= 5 && diff <= 1e-15 },
+    notes: [],
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 6. Whole-file analysis.
+
+/** A numerical file with `levels` levels: a packet in an anharmonic trap (natural units). */
+function numericalFile(levels: number): string {
+  return [
+    '# Benchmark: a packet in a quartic-plus-quadratic trap, many levels.',
+    'system V(x) = x^4 / 4 + x^2 over [-9, 9]',
+    'state gaussian(center = 1.2, width = 0.4, momentum = 2)',
+    `basis ${levels}`,
+    '',
+  ].join('\n');
+}
+
+function benchAnalyseText(name: string, text: string, reps: number, target: string | null, limitMs: number | null): Row {
+  const m = measure(() => analyse(text), { reps });
+  const r = m.result;
+  const errors = r.diagnostics.filter((d) => d.severity === 'error').map((d) => d.code);
+  return {
+    item: 6,
+    job: `analyse ${name}`,
+    method: 'analyse(text): parse, check, basis, expansion, diagnostics' + (/^\s*evolve/m.test(text) ? ', evolution' : ''),
+    size: `${r.levels.length} levels`,
+    timing: m.timing,
+    accuracy: {
+      value: r.captured === null ? null : Math.abs(1 - r.captured - (r.continuum ?? 0)),
+      measure: '|1 - captured - continuum| (sum of weights; a small basis leaves a remainder)',
+      reference: 'sum of weights (invariant)',
+    },
+    baseline: null,
+    ratio: null,
+    target: target ? { text: target, met: limitMs === null ? null : m.timing.median <= limitMs } : null,
+    notes: errors.length > 0 ? [`error diagnostics: ${errors.join(', ')}`] : [],
+  };
+}
+
+function scalingAnalyse(levelsList: number[], reps: number): Scaling {
+  const times = levelsList.map((K) => measure(() => analyse(numericalFile(K)), { reps }).timing.median);
+  return { item: 6, what: 'analyse() of the numerical file (quartic-plus-quadratic trap) by basis size', sizeName: 'basis', sizes: levelsList, times, extra: {}, exponent: fitExponent(levelsList, times) };
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 7. The language server (bench/lsp.mjs belongs to the server's developer; it is only run here).
+
+function benchLsp(root: string, tiny: boolean): Row {
+  const script = join(root, 'bench', 'lsp.mjs');
+  const row: Row = {
+    item: 7,
+    job: 'language server: keystroke to diagnostics, memory with 20 documents',
+    method: 'node bench/lsp.mjs',
+    size: '',
+    timing: null,
+    accuracy: { value: null, measure: '', reference: '' },
+    baseline: null,
+    ratio: null,
+    target: null,
+    notes: [],
+  };
+  if (!existsSync(script)) {
+    row.notes.push('bench/lsp.mjs is missing: no language-server figures in this run');
+    return row;
+  }
+  if (tiny) {
+    row.notes.push('not run in tiny mode');
+    return row;
+  }
+  const r = spawnSync(process.execPath, [script], { cwd: root, encoding: 'utf8', timeout: 300_000 });
+  const lines = `${r.stdout ?? ''}`.split('\n').filter((l) => l.trim() !== '');
+  row.notes.push(...lines.slice(-40));
+  if (r.status !== 0) row.notes.push(`bench/lsp.mjs exited with ${r.status ?? r.signal}: ${(r.stderr ?? '').trim().split('\n').slice(-3).join(' / ')}`);
+  return row;
+}
+
+// ---------------------------------------------------------------------------------------------------
+// 8. Cold start and bundle sizes.
+
+function benchColdStart(root: string, example: string, reps: number): Row {
+  const cli = join(root, 'dist', 'cli.js');
+  const row: Row = {
+    item: 8,
+    job: `cold start: node dist/cli.js expand examples/${example} --json`,
+    method: 'spawned process, wall clock',
+    size: '1 file',
+    timing: null,
+    accuracy: { value: null, measure: 'exit status', reference: 'FORMAT.md command line contract' },
+    baseline: null,
+    ratio: null,
+    target: null,
+    notes: [],
+  };
+  if (!existsSync(cli)) {
+    row.notes.push('dist/cli.js is missing (run npm run build)');
+    return row;
+  }
+  const spawnOnce = () => spawnSync(process.execPath, [cli, 'expand', join('examples', example), '--json'], { cwd: root, encoding: 'utf8' });
+  const times: number[] = [];
+  let status: number | null = null;
+  spawnOnce();
+  for (let r = 0; r < reps; r++) {
+    const t0 = performance.now();
+    const p = spawnOnce();
+    times.push(performance.now() - t0);
+    status = p.status;
+  }
+  const bare = measure(() => spawnSync(process.execPath, ['-e', '0']), { reps, minSampleMs: 0 });
+  row.timing = summarise(times);
+  row.accuracy.value = status;
+  row.baseline = { method: 'node -e 0 (bare node start)', timing: bare.timing, accuracy: null };
+  row.ratio = ratioOf(bare.timing, row.timing);
+  row.notes.push(`time above a bare node start: ${(row.timing.median - bare.timing.median).toFixed(0)} ms`);
+  return row;
+}
+
+/** Bytes of each bundle, and how much of the CLI and server bundles mathjs takes (esbuild metafile). */
+function bundleRows(root: string): Row {
+  const files = ['dist/extension.js', 'dist/server.js', 'dist/worker.js', 'dist/webview/panel.js', 'dist/cli.js'];
+  const notes: string[] = [];
+  for (const f of files) {
+    const p = join(root, f);
+    notes.push(existsSync(p) ? `${f}: ${(statSync(p).size / 1024).toFixed(0)} KiB` : `${f}: missing`);
+  }
+  try {
+    const req = createRequire(join(root, 'package.json'));
+    const esbuild = req('esbuild') as typeof import('esbuild');
+    for (const entry of ['server/src/cli/main.ts', 'server/src/lsp/worker.ts']) {
+      if (!existsSync(join(root, entry))) continue;
+      const r = esbuild.buildSync({
+        entryPoints: [join(root, entry)],
+        bundle: true,
+        platform: 'node',
+        format: 'cjs',
+        target: 'node20',
+        write: false,
+        metafile: true,
+        logLevel: 'silent',
+        outfile: join(root, 'out', 'bench-meta.js'),
+      });
+      let total = 0;
+      let math = 0;
+      for (const out of Object.values(r.metafile!.outputs)) {
+        for (const [input, info] of Object.entries(out.inputs)) {
+          total += info.bytesInOutput;
+          if (input.includes('node_modules/mathjs/') || /node_modules\/(typed-function|complex\.js|fraction\.js|decimal\.js|javascript-natural-sort|seedrandom|escape-latex|tiny-emitter|@babel\/runtime)\//.test(input)) math += info.bytesInOutput;
+        }
+      }
+      notes.push(`${entry} unminified: ${(total / 1024).toFixed(0)} KiB, of which mathjs and its dependencies ${(math / 1024).toFixed(0)} KiB (${((100 * math) / total).toFixed(0)}%)`);
+    }
+  } catch (err) {
+    notes.push(`bundle composition not measured: ${(err as Error).message}`);
+  }
+  return {
+    item: 8,
+    job: 'bundle sizes',
+    method: 'file sizes of npm run build output; composition from an esbuild metafile',
+    size: '',
+    timing: null,
+    accuracy: { value: null, measure: '', reference: '' },
+    baseline: null,
+    ratio: null,
+    target: null,
+    notes,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------
+
+/** Runs every benchmark and returns the rows and scaling tables. Never asserts a target. */
+export function runSuite(options: SuiteOptions = {}): SuiteResult {
+  const root = options.root ?? process.cwd();
+  const tiny = options.tiny ?? false;
+  const reps = Math.max(1, Math.floor(options.reps ?? (tiny ? 1 : 9)));
+  const log = options.log ?? (() => {});
+  const rows: Row[] = [];
+  const scaling: Scaling[] = [];
+  const step = (name: string, f: () => void) => {
+    const t0 = performance.now();
+    f();
+    log(`${name}: ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+  };
+
+  step('1 box', () => {
+    rows.push(benchBox(tiny ? 20 : 200, tiny ? 8 : 12, reps, null, null));
+    rows.push(benchBox(tiny ? 50 : 1000, tiny ? 9 : 14, reps, '1,000 from 2^14 samples <= 5 ms, >= 20x direct', tiny ? null : 5));
+    scaling.push(scalingBox(tiny ? [8, 9] : [10, 12, 14, 16, 18], reps));
+  });
+  step('2 oscillator', () => rows.push(benchOscillator(tiny ? 20 : 200, tiny ? 16 : 64, reps)));
+  step('3 well', () => rows.push(benchWell(tiny ? 50 : 1500, reps, tiny ? 400 : 6000)));
+  step('4 quartic', () => {
+    rows.push(...benchQuartic(tiny ? 5 : 50, reps, tiny ? [200, 400] : [2000, 4000, 8000, 16000, 32000, 64000], tiny ? 1000 : 20_000));
+    scaling.push(scalingQuartic(tiny ? [3, 5] : [10, 20, 50, 100, 200], Math.min(reps, 5)));
+  });
+  step('5 expressions', () => {
+    const n = tiny ? 100 : 10_000;
+    rows.push(benchExpression('exp(-(x - 0.3)^2 / 0.02) * cos(40 x) + 0.5 x^2', n, reps));
+    rows.push(benchExpression('exp(-(x - 0.2)^2 / 0.08 + 25 i x) * (1 + 0.5 i x)', n, reps));
+  });
+  step('6 analyse', () => {
+    const dir = join(root, 'examples');
+    const names = existsSync(dir) ? readdirSync(dir).filter((f) => f.endsWith('.qstate')).sort() : [];
+    for (const name of tiny ? names.slice(0, 1) : names) rows.push(benchAnalyseText(`examples/${name}`, readFileSync(join(dir, name), 'utf8'), reps, '<= 20 ms', 20));
+    rows.push(benchAnalyseText(`a ${tiny ? 10 : 200}-level numerical file`, numericalFile(tiny ? 10 : 200), Math.min(reps, 5), null, null));
+    scaling.push(scalingAnalyse(tiny ? [5, 10] : [25, 50, 100, 200, 400], Math.min(reps, 5)));
+  });
+  step('7 lsp', () => rows.push(benchLsp(root, tiny)));
+  step('8 cold start', () => {
+    rows.push(benchColdStart(root, 'plucked-box.qstate', tiny ? 1 : 7));
+    rows.push(bundleRows(root));
+  });
+  return {
+    meta: { date: new Date().toISOString(), node: process.version, cpus: cpus().length, cpuModel: cpus()[0]?.model ?? 'unknown', tiny, reps },
+    rows,
+    scaling,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------------
+
+function ms(t: number | null | undefined): string {
+  if (t === null || t === undefined || !Number.isFinite(t)) return '-';
+  return t >= 100 ? t.toFixed(0) : t >= 1 ? t.toFixed(2) : t.toFixed(3);
+}
+
+function sci(v: number | null): string {
+  return v === null || !Number.isFinite(v) ? '-' : v === 0 ? '0' : v.toExponential(1);
+}
+
+/** The suite's result as a plain-text report: one table of rows, then the scaling tables and notes. */
+export function formatReport(r: SuiteResult): string {
+  const out: string[] = [];
+  out.push(`Eigenspan benchmarks, ${r.meta.date}, node ${r.meta.node}, ${r.meta.cpus} x ${r.meta.cpuModel}${r.meta.tiny ? ' (tiny sizes)' : ''}`);
+  out.push('Times in ms: median [q1 - q3] over the runs; ratio = baseline median / median.');
+  out.push('');
+  const head = ['#', 'job', 'method', 'median', 'IQR', 'accuracy', 'baseline', 'base acc.', 'ratio', 'target'];
+  const table = [head];
+  for (const row of r.rows) {
+    table.push([
+      String(row.item),
+      row.job.length > 60 ? `${row.job.slice(0, 57)}...` : row.job,
+      row.method.length > 40 ? `${row.method.slice(0, 37)}...` : row.method,
+      ms(row.timing?.median),
+      row.timing ? `${ms(row.timing.q1)}-${ms(row.timing.q3)}` : '-',
+      sci(row.accuracy.value),
+      row.baseline ? ms(row.baseline.timing?.median) : '-',
+      row.baseline ? sci(row.baseline.accuracy) : '-',
+      row.ratio === null ? '-' : `${row.ratio.toFixed(1)}x`,
+      row.target ? `${row.target.met === null ? '?' : row.target.met ? 'met' : 'MISSED'}: ${row.target.text}` : '',
+    ]);
+  }
+  const widths = head.map((_, c) => Math.max(...table.map((t) => t[c]!.length)));
+  for (const t of table) out.push(t.map((cell, c) => cell.padEnd(widths[c]!)).join('  ').trimEnd());
+  out.push('');
+  for (const row of r.rows) {
+    const lines = [...(row.baseline?.note ? [row.baseline.note] : []), ...row.notes];
+    if (lines.length === 0) continue;
+    out.push(`[${row.item}] ${row.job} (${row.size})`);
+    for (const l of lines) out.push(`    ${l}`);
+  }
+  out.push('');
+  for (const s of r.scaling) {
+    out.push(`Scaling [${s.item}] ${s.what}: t ~ ${s.sizeName}^${s.exponent.toFixed(2)}`);
+    out.push(`    ${s.sizeName.padEnd(10)} ${s.sizes.map((v) => String(v).padStart(8)).join('')}`);
+    out.push(`    ${'ms'.padEnd(10)} ${s.times.map((v) => ms(v).padStart(8)).join('')}`);
+    for (const [k, v] of Object.entries(s.extra)) out.push(`    ${k}: ${v.map((x) => (Number.isInteger(x) ? String(x) : x.toFixed(2))).join(', ')}`);
+  }
+  return out.join('\n');
+}
