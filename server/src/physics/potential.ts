@@ -16,7 +16,7 @@ export interface PotentialOptions {
   maxPoints?: number;
   /** Fewest grid intervals tried (default 32). */
   minPoints?: number;
-  /** Grid points per shortest local wavelength for the first size (default 4). */
+  /** Grid points per shortest local wavelength for the first size (default 2.5; 2 is the sampling limit). */
   pointsPerWavelength?: number;
   /** Factor between successive grid sizes (default 1.5). */
   growth?: number;
@@ -72,7 +72,7 @@ const DEFAULTS = {
   tolerance: 1e-9,
   maxPoints: 4096,
   minPoints: 32,
-  pointsPerWavelength: 4,
+  pointsPerWavelength: 2.5,
   growth: 1.5,
   symmetryTolerance: 1e-12,
   samples: 4096,
