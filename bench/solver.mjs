@@ -4,7 +4,7 @@
 // Run: node bench/solver.mjs
 import { build } from 'esbuild';
 import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { tmpdir, loadavg, cpus } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 
@@ -43,7 +43,7 @@ const unc = spectral.basis.uncertainty;
 let worstUnc = 0;
 for (let k = 0; k < levels; k++) worstUnc = Math.max(worstUnc, unc[k] / Math.abs(ref[k]));
 console.log(
-  `spectral (sine DVR): ${spectral.points} points (sizes ${spectral.sizes.join(', ')}), median ${runs[5].toFixed(1)} ms (first cold run included in none), ` +
+  `spectral (sine DVR): ${spectral.points} points (sizes ${spectral.sizes.join(', ')}), median ${runs[5].toFixed(1)} ms after 5 warm-up runs, ` +
     `worst relative uncertainty ${worstUnc.toExponential(1)}, unresolved ${spectral.unresolved}, target <= 50 ms`,
 );
 
@@ -75,3 +75,5 @@ if (last && last.worst > tol) {
   const need = Math.ceil(last.N * Math.sqrt(last.worst / tol));
   console.log(`finite differences would need about ${need} points for ${tol} (error ~ N^-2), ~${((last.ms * need) / last.N / 1000).toFixed(0)} s at the same rate`);
 }
+// Timings scale with the machine's load; print it so that a slow figure can be read in context.
+console.log(`load average ${loadavg()[0].toFixed(1)} on ${cpus().length} cores`);
