@@ -5,7 +5,7 @@
 import { describe, it, expect, afterEach } from 'vitest';
 import { spawn } from 'node:child_process';
 import type { Hover } from 'vscode-languageserver-protocol';
-import { createProtocolConnection, IPCMessageReader, IPCMessageWriter } from 'vscode-languageserver-protocol/node';
+import { createProtocolConnection, IPCMessageReader, IPCMessageWriter, StreamMessageReader, StreamMessageWriter } from 'vscode-languageserver-protocol/node';
 import { startClient, codes, SERVER, type TestClient } from './client';
 
 const clients: TestClient[] = [];
@@ -18,7 +18,7 @@ afterEach(async () => {
   await Promise.all(clients.splice(0).map((c) => c.stop()));
 });
 
-const GOOD = 'system box(0, 1)\nstate psi(x) = sqrt(30) x (1 - x)\n';
+const GOOD = 'system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\n';
 
 describe('latest version wins', () => {
   it('a burst of typed edits never publishes an older version, and the last version gets the full analysis', async () => {
@@ -133,11 +133,16 @@ describe('pull diagnostics', () => {
 
 describe('no orphans', () => {
   it('exits when the client closes its end of stdio', async () => {
-    const c = await startClient();
-    c.connection.dispose();
-    c.child.stdin!.end();
+    const child = spawn(process.execPath, [SERVER, '--stdio'], { stdio: ['pipe', 'pipe', 'pipe'] });
+    const exited = new Promise<number | null>((r) => child.once('exit', (code) => r(code)));
+    const conn = createProtocolConnection(new StreamMessageReader(child.stdout!), new StreamMessageWriter(child.stdin!));
+    conn.listen();
+    const init = await conn.sendRequest<{ capabilities: { hoverProvider?: boolean } }>('initialize', { processId: process.pid, rootUri: null, capabilities: {} });
+    expect(init.capabilities.hoverProvider).toBe(true);
+    conn.dispose();
+    child.stdin!.end();
     // No shutdown request came first, so the server reports exit code 1 (LSP 3.17, "exit" notification).
-    expect(await c.exited).toBe(1);
+    expect(await exited).toBe(1);
   });
 
   it('speaks node IPC and exits when the channel closes', async () => {

@@ -45,7 +45,7 @@ function stateHover(view: DocView): string[] {
   }
   if (r.parity) lines.push(`parity ${r.parity}  `);
   if (r.continuum !== undefined) lines.push(`continuum weight ${fmt(r.continuum)}  `);
-  if (r.levelsFor999 !== null) lines.push(`99.9% reached with ${r.levelsFor999} levels  `);
+  if (r.levelsFor999 !== null) lines.push(`99.9% reached with ${r.levelsFor999} level${r.levelsFor999 === 1 ? "" : "s"}  `);
   return [...lines, ...levelTable(r)];
 }
 

@@ -40,12 +40,18 @@ interface Running extends Pending {
   id: number;
   uri: string;
   cancel: Int32Array;
-  budget: NodeJS.Timeout;
+  /** The budget timer; null until the worker has loaded, so start-up time does not count. */
+  budget: NodeJS.Timeout | null;
 }
+
+/** How long a new worker may take to load before it counts as crashed. */
+const STARTUP_MS = 15_000;
 
 /** Schedules, cancels and supervises full analyses. */
 export class AnalysisScheduler {
   private worker: Worker | null = null;
+  private ready = false;
+  private startup: NodeJS.Timeout | null = null;
   private readonly timers = new Map<string, NodeJS.Timeout>();
   private readonly pending = new Map<string, Pending>();
   private running: Running | null = null;
@@ -74,6 +80,11 @@ export class AnalysisScheduler {
     else this.timers.set(uri, setTimeout(go, delay));
   }
 
+  /** Starts the worker ahead of the first analysis, so that loading it does not delay the first result. */
+  warmUp(): void {
+    if (!this.disposed && !this.worker) this.worker = this.startWorker();
+  }
+
   /** Forgets a document: drops its timer and queue entry and cancels its running analysis. */
   forget(uri: string): void {
     const t = this.timers.get(uri);
@@ -94,7 +105,8 @@ export class AnalysisScheduler {
     for (const t of this.timers.values()) clearTimeout(t);
     this.timers.clear();
     this.pending.clear();
-    if (this.running) clearTimeout(this.running.budget);
+    if (this.running?.budget) clearTimeout(this.running.budget);
+    if (this.startup) clearTimeout(this.startup);
     this.running = null;
     const w = this.worker;
     this.worker = null;
@@ -108,6 +120,13 @@ export class AnalysisScheduler {
       resourceLimits: { maxOldGenerationSizeMb: this.options.maxHeapMb ?? 1024 },
     });
     this.workerStarts++;
+    this.ready = false;
+    if (this.startup) clearTimeout(this.startup);
+    this.startup = setTimeout(() => {
+      if (this.worker !== w || this.ready) return;
+      this.options.log(`analysis worker did not start within ${STARTUP_MS} ms; restarting it`);
+      void w.terminate();
+    }, STARTUP_MS);
     // The worker's console output belongs in the server log; stdout carries the protocol.
     const forward = (stream: NodeJS.ReadableStream, tag: string): void => {
       stream.setEncoding('utf8');
@@ -131,7 +150,7 @@ export class AnalysisScheduler {
     const { timeBudgetMs, defaultBasis } = this.options.timing();
     const id = this.nextId++;
     const cancel = new Int32Array(new SharedArrayBuffer(4));
-    const budget = setTimeout(() => this.onBudget(id), timeBudgetMs);
+    const budget = this.ready ? setTimeout(() => this.onBudget(id), timeBudgetMs) : null;
     this.running = { ...job, id, uri, cancel, budget };
     const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, cancel };
     this.worker.postMessage(message);
@@ -140,13 +159,21 @@ export class AnalysisScheduler {
   private finish(id: number): Running | null {
     const r = this.running;
     if (!r || r.id !== id) return null;
-    clearTimeout(r.budget);
+    if (r.budget) clearTimeout(r.budget);
     this.running = null;
     return r;
   }
 
   private onReply(w: Worker, m: WorkerReply): void {
-    if (w !== this.worker || m.type === 'ready') return;
+    if (w !== this.worker) return;
+    if (m.type === 'ready') {
+      this.ready = true;
+      if (this.startup) clearTimeout(this.startup);
+      this.startup = null;
+      const r = this.running;
+      if (r && !r.budget) r.budget = setTimeout(() => this.onBudget(r.id), this.options.timing().timeBudgetMs);
+      return;
+    }
     const r = this.finish(m.id);
     if (r) {
       if (m.type === 'done') this.options.onOutcome(r.uri, r.version, { kind: 'done', result: m.result });
@@ -169,6 +196,7 @@ export class AnalysisScheduler {
     if (w) void w.terminate();
     this.options.onOutcome(r.uri, r.version, { kind: 'timeout', budgetMs: timeBudgetMs });
     this.pump();
+    this.warmUp();
   }
 
   private onExit(w: Worker, code: number): void {
@@ -182,5 +210,6 @@ export class AnalysisScheduler {
       this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: `the analysis worker stopped (exit code ${code})` });
     }
     this.pump();
+    this.warmUp();
   }
 }

@@ -267,6 +267,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   }
 
   connection.onInitialized(async () => {
+    if (evaluate) scheduler.warmUp();
     if (caps.workspace?.didChangeConfiguration?.dynamicRegistration) {
       void connection.client.register(DidChangeConfigurationNotification.type, { section: 'eigenspan' }).catch(() => undefined);
     }

@@ -7,6 +7,7 @@ import { parentPort } from 'node:worker_threads';
 import { analyse } from '../analysis/index';
 import type { AnalyseJob, WorkerReply } from './workerMessages';
 import { testHook } from './testHooks';
+import { letValues } from './letValues';
 
 function reply(message: WorkerReply): void {
   parentPort?.postMessage(message);
@@ -25,6 +26,7 @@ function run(job: AnalyseJob): void {
       while (performance.now() < until) if (hook.kind === 'slow' && cancelled()) return reply({ type: 'cancelled', id: job.id });
     }
     const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled });
+    if (result.values === undefined && result.file) result.values = letValues(result.file, job.defaultBasis);
     if (cancelled()) reply({ type: 'cancelled', id: job.id });
     else reply({ type: 'done', id: job.id, result });
   } catch (e) {
