@@ -38,6 +38,8 @@ interface Jet {
 }
 
 interface Ctx {
+  /** Buffers of each node, kept between calls of one compiled function and reused when the size fits. */
+  cache: Map<object, Jet>;
   n: number;
   xs: F64;
   order: 0 | 1 | 2;
@@ -61,10 +63,17 @@ interface Switch {
   indicator: (re: number, im: number) => number;
 }
 
-function alloc(c: Ctx): Jet {
+/**
+ * The output buffers of the node identified by `key`: reused from the previous call when the grid size,
+ * order and mode are the same (each node always writes the same arrays, so unwritten ones stay zero),
+ * otherwise allocated once for this grid.
+ */
+function alloc(c: Ctx, key: object): Jet {
   const n = c.n;
   const o = c.order;
-  return {
+  const old = c.cache.get(key);
+  if (old && old.v.length === n && (old.vi !== null) === c.cx && (old.d1 !== null) === o >= 1 && (old.d2 !== null) === o >= 2) return old;
+  const j: Jet = {
     v: new Float64Array(n),
     vi: c.cx ? new Float64Array(n) : null,
     d1: o >= 1 ? new Float64Array(n) : null,
@@ -72,6 +81,8 @@ function alloc(c: Ctx): Jet {
     d2: o >= 2 ? new Float64Array(n) : null,
     d2i: c.cx && o >= 2 ? new Float64Array(n) : null,
   };
+  c.cache.set(key, j);
+  return j;
 }
 
 // Scratch outputs of the scalar kernels: no allocation per point.
@@ -513,8 +524,8 @@ function inverseSqrtDerivatives(a: number, b: number, qr: number, qi: number, si
   S[5] = sign * I;
 }
 
-function applyHolomorphic(c: Ctx, u: Jet, name: string): Jet {
-  const y = alloc(c);
+function applyHolomorphic(c: Ctx, u: Jet, name: string, key: object): Jet {
+  const y = alloc(c, key);
   const n = c.n;
   const o = c.order;
   if (!c.cx) {
@@ -573,12 +584,13 @@ function applyHolomorphic(c: Ctx, u: Jet, name: string): Jet {
 // Node constructors.
 
 function constNode(z: Complex): CNode {
+  const key = {};
   return {
     cst: z,
     complex: z.im !== 0,
     nonneg: z.im === 0 && z.re >= 0,
     run(c) {
-      const y = alloc(c);
+      const y = alloc(c, key);
       y.v.fill(z.re);
       if (y.vi) y.vi.fill(z.im);
       return y;
@@ -586,21 +598,25 @@ function constNode(z: Complex): CNode {
   };
 }
 
-const xNode: CNode = {
+/** The position x; one per compiled function so that functions never share buffers. */
+function makeXNode(): CNode {
+  const key = {};
+  return {
   cst: null,
   complex: false,
   nonneg: false,
   run(c) {
-    const y = alloc(c);
+    const y = alloc(c, key);
     y.v.set(c.xs);
     if (y.d1) y.d1.fill(1);
     return y;
   },
-};
+  };
+}
 
 /** Folds a node that does not depend on x by running it on a one-point grid. */
 function fold(node: CNode, cx: boolean): Complex {
-  const j = node.run({ n: 1, xs: new Float64Array(1), order: 0, cx, phi: undefined });
+  const j = node.run({ cache: new Map(), n: 1, xs: new Float64Array(1), order: 0, cx, phi: undefined });
   return { re: j.v[0]!, im: j.vi ? j.vi[0]! : 0 };
 }
 
@@ -613,6 +629,7 @@ function finish(node: CNode, deps: CNode[]): CNode {
 }
 
 function addSub(a: CNode, b: CNode, sign: number): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -621,7 +638,7 @@ function addSub(a: CNode, b: CNode, sign: number): CNode {
       run(c) {
         const u = a.run(c);
         const w = b.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const n = c.n;
         const pairs: [F64 | null, F64 | null, F64 | null][] = [
           [y.v, u.v, w.v],
@@ -644,6 +661,7 @@ function addSub(a: CNode, b: CNode, sign: number): CNode {
 }
 
 function mul(a: CNode, b: CNode): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -652,7 +670,7 @@ function mul(a: CNode, b: CNode): CNode {
       run(c) {
         const u = a.run(c);
         const w = b.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const n = c.n;
         const o = c.order;
         if (!c.cx) {
@@ -706,6 +724,7 @@ function mul(a: CNode, b: CNode): CNode {
 }
 
 function div(a: CNode, b: CNode): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -714,7 +733,7 @@ function div(a: CNode, b: CNode): CNode {
       run(c) {
         const u = a.run(c);
         const w = b.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const n = c.n;
         const o = c.order;
         // y = u/w; y' = (u' - y w')/w; y'' = (u'' - 2 y' w' - y w'')/w.
@@ -768,6 +787,7 @@ function div(a: CNode, b: CNode): CNode {
 }
 
 function neg(a: CNode): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -775,7 +795,7 @@ function neg(a: CNode): CNode {
       nonneg: false,
       run(c) {
         const u = a.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const n = c.n;
         const pairs: [F64 | null, F64 | null][] = [
           [y.v, u.v],
@@ -795,6 +815,7 @@ function neg(a: CNode): CNode {
 
 /** Power with a constant exponent p (real or complex). */
 function powConst(a: CNode, p: Complex): CNode {
+  const key = {};
   const integer = p.im === 0 && Number.isInteger(p.re);
   const even = integer && p.re % 2 === 0;
   return finish(
@@ -804,7 +825,7 @@ function powConst(a: CNode, p: Complex): CNode {
       nonneg: !a.complex && p.im === 0 && (a.nonneg || even),
       run(c) {
         const u = a.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const n = c.n;
         const o = c.order;
         const pr = p.re;
@@ -879,6 +900,7 @@ function powConst(a: CNode, p: Complex): CNode {
 
 /** General power u^w = exp(w log u) with both operands depending on x. */
 function powGeneral(a: CNode, b: CNode): CNode {
+  const key = {};
   return {
     cst: null,
     complex: a.complex || b.complex || !a.nonneg,
@@ -886,7 +908,7 @@ function powGeneral(a: CNode, b: CNode): CNode {
     run(c) {
       const u = a.run(c);
       const w = b.run(c);
-      const y = alloc(c);
+      const y = alloc(c, key);
       const n = c.n;
       const o = c.order;
       // L = log u; g = w' L + w u'/u; y' = y g; g' = w'' L + 2 w' u'/u + w (u'' u - u'^2)/u^2; y'' = y' g + y g'.
@@ -976,6 +998,7 @@ function powGeneral(a: CNode, b: CNode): CNode {
 
 /** A real-valued, piecewise-flat result (comparisons, floor, sign...): value only, zero derivatives. */
 function flat(args: CNode[], f: (vals: Jet[], i: number) => number, nonneg: boolean): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -983,7 +1006,7 @@ function flat(args: CNode[], f: (vals: Jet[], i: number) => number, nonneg: bool
       nonneg,
       run(c) {
         const js = args.map((a) => a.run(c));
-        const y = alloc(c);
+        const y = alloc(c, key);
         for (let i = 0; i < c.n; i++) y.v[i] = f(js, i);
         return y;
       },
@@ -1014,8 +1037,8 @@ function compare(op: string, a: CNode, b: CNode): CNode {
 }
 
 /** Picks between two jets per point: out = sel ? p : q (all parts and derivatives). */
-function select(c: Ctx, sel: (i: number) => boolean, p: Jet, q: Jet): Jet {
-  const y = alloc(c);
+function select(c: Ctx, key: object, sel: (i: number) => boolean, p: Jet, q: Jet): Jet {
+  const y = alloc(c, key);
   const keys = ['v', 'vi', 'd1', 'd1i', 'd2', 'd2i'] as const;
   for (const k of keys) {
     const out = y[k];
@@ -1028,6 +1051,7 @@ function select(c: Ctx, sel: (i: number) => boolean, p: Jet, q: Jet): Jet {
 }
 
 function conditional(t: CNode, a: CNode, b: CNode): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -1035,7 +1059,7 @@ function conditional(t: CNode, a: CNode, b: CNode): CNode {
       nonneg: a.nonneg && b.nonneg,
       run(c) {
         const tj = t.run(c);
-        return select(c, (i) => truthy(tj, i), a.run(c), b.run(c));
+        return select(c, key, (i) => truthy(tj, i), a.run(c), b.run(c));
       },
     },
     [t, a, b],
@@ -1044,6 +1068,7 @@ function conditional(t: CNode, a: CNode, b: CNode): CNode {
 
 /** |u|: for real u, |u|' = sign(u) u'; for complex u, |u|' = Re(conj(u) u')/|u|, |u|'' = (|u'|^2 + Re(conj(u) u'') - |u|'^2)/|u|. */
 function absNode(a: CNode): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -1051,7 +1076,7 @@ function absNode(a: CNode): CNode {
       nonneg: true,
       run(c) {
         const u = a.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const o = c.order;
         for (let i = 0; i < c.n; i++) {
           const ur = u.v[i]!;
@@ -1083,6 +1108,7 @@ function absNode(a: CNode): CNode {
 
 /** re, im, conj: linear, so derivatives are taken part by part. */
 function partNode(a: CNode, which: 're' | 'im' | 'conj'): CNode {
+  const key = {};
   return finish(
     {
       cst: null,
@@ -1090,7 +1116,7 @@ function partNode(a: CNode, which: 're' | 'im' | 'conj'): CNode {
       nonneg: which === 'conj' ? a.nonneg : which === 're' ? a.nonneg : false,
       run(c) {
         const u = a.run(c);
-        const y = alloc(c);
+        const y = alloc(c, key);
         const map: [F64 | null, F64 | null, F64 | null, F64 | null][] = [
           [y.v, y.vi, u.v, u.vi],
           [y.d1, y.d1i, u.d1, u.d1i],
@@ -1121,6 +1147,7 @@ function roundHalfAway(u: number): number {
 }
 
 function phiNode(n: number, a: CNode): CNode {
+  const key = {};
   const node: CNode & { usesPhi: boolean } = {
     cst: null,
     complex: a.complex,
@@ -1128,7 +1155,7 @@ function phiNode(n: number, a: CNode): CNode {
     usesPhi: true,
     run(c) {
       const u = a.run(c);
-      const y = alloc(c);
+      const y = alloc(c, key);
       const o = c.order;
       if (!c.phi) {
         y.v.fill(NaN);
@@ -1156,6 +1183,7 @@ class Compiler {
   readonly switches: Switch[] = [];
   /** True once any node may be complex: then the whole function runs in complex mode. */
   cx = false;
+  private readonly x = makeXNode();
   /**
    * Above zero while compiling operands whose value only feeds a discrete result (comparisons, tests,
    * floor...): their own kinks and jumps cannot show in the result except through the outer switch.
@@ -1217,7 +1245,7 @@ class Compiler {
 
   private symbol(e: Extract<Expr, { type: 'symbol' }>): CNode {
     const name = e.name;
-    if (name === 'x' && this.scope.hasX) return xNode;
+    if (name === 'x' && this.scope.hasX) return this.x;
     const v = this.scope.values.get(name);
     if (v) return constNode(v.value);
     const b = BUILTIN_NUMBERS.get(name);
@@ -1301,6 +1329,7 @@ class Compiler {
       case 'max': {
         const b = args[1]!;
         const lt = e.name === 'min';
+        const key = {};
         const node = finish(
           {
             cst: null,
@@ -1309,7 +1338,7 @@ class Compiler {
             run(c) {
               const u = a.run(c);
               const w = b.run(c);
-              return select(c, (i) => (lt ? u.v[i]! <= w.v[i]! : u.v[i]! >= w.v[i]!), u, w);
+              return select(c, key, (i) => (lt ? u.v[i]! <= w.v[i]! : u.v[i]! >= w.v[i]!), u, w);
             },
           },
           [a, b],
@@ -1320,6 +1349,7 @@ class Compiler {
       case 'atan2': {
         const b = args[1]!;
         // atan2(y, x) = atan(y/x) + branch; d = (x y' - y x')/(x^2 + y^2).
+        const key = {};
         const node = finish(
           {
             cst: null,
@@ -1328,7 +1358,7 @@ class Compiler {
             run(c) {
               const p = a.run(c);
               const q = b.run(c);
-              const y = alloc(c);
+              const y = alloc(c, key);
               const o = c.order;
               for (let i = 0; i < c.n; i++) {
                 const yy = p.v[i]!;
@@ -1371,12 +1401,13 @@ class Compiler {
 
   private holo(name: string, a: CNode, nonneg: boolean, forcesComplex = false): CNode {
     const complex = a.complex || forcesComplex;
+    const key = {};
     return finish(
       {
         cst: null,
         complex,
         nonneg: nonneg && !a.complex,
-        run: (c) => applyHolomorphic(c, a.run(c), name),
+        run: (c) => applyHolomorphic(c, a.run(c), name, key),
       },
       [a],
     );
@@ -1400,16 +1431,53 @@ function nodeUsesX(e: Expr): boolean {
   }
 }
 
+/**
+ * A copy made with `set`: `slice` goes through the species lookup, which V8 turns into a slow generic
+ * path once any loaded library has touched a constructor's species.
+ */
+function clone(a: F64): F64 {
+  const out = new Float64Array(a.length);
+  out.set(a);
+  return out;
+}
+
+/**
+ * Copies the root's buffers out (they are reused by the next call) into views of one fresh buffer, so a
+ * call allocates once. In real mode the imaginary parts are zero arrays created on first access only
+ * (reading `im` gives an ordinary Float64Array of zeros), which halves the allocation of real functions.
+ */
 function jetToGrid(j: Jet, n: number, order: number): GridValues {
-  const zeros = () => new Float64Array(n);
-  const out: GridValues = { re: j.v, im: j.vi ?? zeros() };
+  const real = j.vi === null;
+  const count = (real ? 1 : 2) * (1 + order);
+  const buffer = new ArrayBuffer(count * n * 8);
+  let slot = 0;
+  const copy = (a: F64): F64 => {
+    const out = new Float64Array(buffer, slot++ * n * 8, n);
+    out.set(a);
+    return out;
+  };
+  const out = { re: copy(j.v) } as GridValues;
+  const zeros = (key: 'im' | 'd1im' | 'd2im') =>
+    Object.defineProperty(out, key, {
+      configurable: true,
+      enumerable: true,
+      get() {
+        const z = new Float64Array(n);
+        Object.defineProperty(out, key, { value: z, writable: true, enumerable: true, configurable: true });
+        return z;
+      },
+    });
+  if (real) zeros('im');
+  else out.im = copy(j.vi!);
   if (order >= 1) {
-    out.d1re = j.d1!;
-    out.d1im = j.d1i ?? zeros();
+    out.d1re = copy(j.d1!);
+    if (real) zeros('d1im');
+    else out.d1im = copy(j.d1i!);
   }
   if (order >= 2) {
-    out.d2re = j.d2!;
-    out.d2im = j.d2i ?? zeros();
+    out.d2re = copy(j.d2!);
+    if (real) zeros('d2im');
+    else out.d2im = copy(j.d2i!);
   }
   return out;
 }
@@ -1433,11 +1501,16 @@ function findBreakpoints(switches: Switch[], cx: boolean, a: number, b: number, 
   const out: number[] = [];
   const same = (p: number, q: number) => p === q || (Number.isNaN(p) && Number.isNaN(q));
   for (const s of switches) {
-    const j = s.node.run({ n: m + 1, xs, order: 0, cx, phi });
-    const ind = (k: number) => s.indicator(j.v[k]!, j.vi ? j.vi[k]! : 0);
+    const cache = new Map<object, Jet>();
+    const j = s.node.run({ cache, n: m + 1, xs, order: 0, cx, phi });
+    // The scan's indicator values are copied: the one-point runs below reuse other buffers of the cache.
+    const jv = clone(j.v);
+    const jvi = j.vi ? clone(j.vi) : null;
+    const ind = (k: number) => s.indicator(jv[k]!, jvi ? jvi[k]! : 0);
+    const pointCache = new Map<object, Jet>();
     const at = (x: number) => {
       one[0] = x;
-      const r = s.node.run({ n: 1, xs: one, order: 0, cx, phi });
+      const r = s.node.run({ cache: pointCache, n: 1, xs: one, order: 0, cx, phi });
       return s.indicator(r.v[0]!, r.vi ? r.vi[0]! : 0);
     };
     let prev = ind(0);
@@ -1479,10 +1552,11 @@ export function compileFunction(expr: Expr, scope: Scope): Prepared<CompiledFunc
     if (comp.diagnostics.length > 0) return { result: null, diagnostics: comp.diagnostics };
     const cx = comp.cx || root.complex;
     const switches = comp.switches;
+    const cache = new Map<object, Jet>();
     const fn: CompiledFunction = {
       complex: cx,
       evaluate(xs: Float64Array, order: 0 | 1 | 2 = 0, phi?: PhiProvider): GridValues {
-        const j = root.run({ n: xs.length, xs, order, cx, phi });
+        const j = root.run({ cache, n: xs.length, xs, order, cx, phi });
         return jetToGrid(j, xs.length, order);
       },
       breakpoints(a: number, b: number, phi?: PhiProvider): number[] {
