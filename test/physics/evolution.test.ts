@@ -62,7 +62,7 @@ describe('evolution: expectation values', () => {
     });
     // The period 2 pi / omega is the revival of the survival probability too.
     const rev = revivalTime(basis, c, new Float64Array(40));
-    expect(Math.abs(rev! - 2 * Math.PI)).toBeLessThan(1e-8);
+    expect(Math.abs(rev! - 2 * Math.PI)).toBeLessThan(1e-11);
   });
 
   it('matrix elements: X symmetric, D antisymmetric, box values in closed form', () => {
@@ -108,7 +108,7 @@ describe('evolution: revivals and psi(x, t)', () => {
     const num = potentialBasis((xs) => new Float64Array(xs.length), 0, L, m, 6).basis;
     const T = revivalTime(num, c.re, c.im);
     expect(T).not.toBeNull();
-    expect(Math.abs(T! - (4 * m * L * L) / Math.PI) / T!).toBeLessThan(1e-9);
+    expect(Math.abs(T! - (4 * m * L * L) / Math.PI) / T!).toBeLessThan(1e-13);
     // A single level never decays: no revival.
     expect(revivalTime(num, Float64Array.of(1, 0, 0), new Float64Array(3))).toBeNull();
   });

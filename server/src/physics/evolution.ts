@@ -245,8 +245,10 @@ export interface RevivalOptions {
  * The revival time of a state. Box on [a, b]: T_rev = 4 m L^2 / (pi hbar) = 2 pi / E_1
  * (Styer, Am. J. Phys. 69, 56 (2001) (from memory)); oscillator: its period 2 pi / omega,
  * omega = E_1 - E_0. Otherwise the first revival of the survival probability S(t) (see `evolve`):
- * the first local maximum with S >= `high` after S first falls below `low`, refined by golden-section
- * search; null when S never falls below `low` or no revival comes before the horizon.
+ * the first local maximum with S >= `high` after S first falls below `low`, refined by bisection on
+ * the slope S'(t); null when S never falls below `low` or no revival comes before the horizon.
+ * A packet that returns intact after one classical period (S >= `high` again) counts as a revival, so
+ * for a narrow packet in a nearly harmonic spectrum the answer is its classical period.
  * The default horizon follows from the expansion E_n ~ E + E' (n - m) + E'' (n - m)^2 / 2 about the mean
  * level m, whose quadratic phases realign after 4 pi / |E''| (the same source, from memory).
  */
@@ -305,6 +307,22 @@ export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Ar
     }
     return (sr * sr + si * si) / (total * total);
   };
+  const slope = (t: number): number => {
+    let ar = 0;
+    let ai = 0;
+    let br = 0;
+    let bi = 0;
+    for (const k of idx) {
+      const c = Math.cos(E[k] * t);
+      const sn = Math.sin(E[k] * t);
+      // A = sum p (c - i sn); A' = sum p E (-sn - i c).
+      ar += p[k] * c;
+      ai -= p[k] * sn;
+      br -= p[k] * E[k] * sn;
+      bi -= p[k] * E[k] * c;
+    }
+    return ar * br + ai * bi;
+  };
   let fallen = false;
   let s0 = S(0);
   let s1 = S(dt);
@@ -313,28 +331,15 @@ export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Ar
     if (!fallen) {
       if (s1 < low) fallen = true;
     } else if (s1 >= high && s1 >= s0 && s1 >= s2) {
-      // Golden-section refinement of the maximum on [t - dt, t + dt].
+      // Bisection on S'(t) = 2 Re(conj(A) A') / W^2, A = sum p_k e^{-i E_k t}: a root of the slope is
+      // located to rounding, where comparing values of the flat maximum would stop at sqrt(eps).
       let lo = (j - 1) * dt;
       let hi = (j + 1) * dt;
-      const g = (Math.sqrt(5) - 1) / 2;
-      let c = hi - g * (hi - lo);
-      let d = lo + g * (hi - lo);
-      let sc = S(c);
-      let sd = S(d);
-      for (let it = 0; it < 80 && hi - lo > 1e-13 * hi; it++) {
-        if (sc >= sd) {
-          hi = d;
-          d = c;
-          sd = sc;
-          c = hi - g * (hi - lo);
-          sc = S(c);
-        } else {
-          lo = c;
-          c = d;
-          sc = sd;
-          d = lo + g * (hi - lo);
-          sd = S(d);
-        }
+      for (let it = 0; it < 200 && hi - lo > 4e-16 * hi; it++) {
+        const mid = 0.5 * (lo + hi);
+        if (mid <= lo || mid >= hi) break;
+        if (slope(mid) > 0) lo = mid;
+        else hi = mid;
       }
       return 0.5 * (lo + hi);
     }

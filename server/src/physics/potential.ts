@@ -135,6 +135,35 @@ function makeBasis(
   };
 }
 
+/** Flips each level so that it is positive at the first grid point where |phi| exceeds ~1e-6 of its maximum. */
+function fixSigns(sol: SineDvrSolution): void {
+  const count = sol.energies.length;
+  const n = sol.intervals - 1;
+  const threshold = new Float64Array(count);
+  const norm = Math.sqrt(2 / (sol.b - sol.a));
+  for (let k = 0; k < count; k++) {
+    let s = 0;
+    for (let t = 0; t < n; t++) s += Math.abs(sol.coefficients[k * n + t]);
+    threshold[k] = 1e-6 * norm * s;
+  }
+  const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
+  const settled = new Uint8Array(count);
+  let left = count;
+  const one = new Float64Array(1);
+  const vals = new Float64Array(count);
+  for (let i = 0; i < grid.length && left > 0; i++) {
+    one[0] = grid[i];
+    sineSeriesTable(sol, one, count, vals);
+    for (let k = 0; k < count; k++) {
+      const y = vals[k];
+      if (settled[k] || !(Math.abs(y) > threshold[k])) continue;
+      if (y < 0) for (let t = 0; t < n; t++) sol.coefficients[k * n + t] *= -1;
+      settled[k] = 1;
+      left--;
+    }
+  }
+}
+
 /**
  * Finds the energy E_K of level K by the WKB count with hard walls,
  * n(E) = (1/pi) integral sqrt(2 m (E - V)_+) dx = K (Bohr-Sommerfeld; exact for the box), by bisection.
@@ -405,23 +434,10 @@ export function potentialBasis(
     notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
   }
 
-  // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum.
-  const grid = sineDvrGrid(a, b, cur.intervals);
-  const vals = new Float64Array(count * grid.length);
-  sineSeriesTable(cur, grid, count, vals);
-  const nterms = cur.intervals - 1;
-  for (let k = 0; k < count; k++) {
-    let mx = 0;
-    for (let i = 0; i < grid.length; i++) mx = Math.max(mx, Math.abs(vals[k * grid.length + i]));
-    for (let i = 0; i < grid.length; i++) {
-      const y = vals[k * grid.length + i];
-      if (Math.abs(y) > 1e-6 * mx) {
-        if (y < 0) for (let t = 0; t < nterms; t++) cur.coefficients[k * nterms + t] *= -1;
-        break;
-      }
-    }
-  }
-
+  // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum. The scan
+  // runs from the left and stops once every level is settled; the maximum is bounded above by
+  // sqrt(2/L) sum |c_k|, so the threshold can only sit a little further in, still in the same lobe.
+  fixSigns(cur);
   // Levels above the potential at both ends are quantised by the walls, not by V.
   const ends = evalV(V, Float64Array.of(a + 1e-9 * L, b - 1e-9 * L));
   const wallLevels: number[] = [];

@@ -140,20 +140,25 @@ export function lowestEigenvalues(t: Tridiagonal, k: number): Float64Array {
   const scale = Math.max(Math.abs(glo), Math.abs(ghi), Number.MIN_VALUE);
   const pivmin = Number.MIN_VALUE * 1e10 + scale * 1e-300;
   const eps = 2.220446049250313e-16;
-  // Lower brackets shared between eigenvalues: lower[j] is a point with count <= j.
-  let lo0 = glo - eps * scale * 4 - pivmin;
-  const hi0 = ghi + eps * scale * 4 + pivmin;
+  // Brackets shared between eigenvalues: every Sturm count at x tightens the bounds of all of them.
+  const lower = new Float64Array(m).fill(glo - eps * scale * 4 - pivmin);
+  const upper = new Float64Array(m).fill(ghi + eps * scale * 4 + pivmin);
   for (let j = 0; j < m; j++) {
-    let lo = lo0;
-    let hi = hi0;
+    let lo = lower[j];
+    let hi = upper[j];
     for (let it = 0; it < 200; it++) {
       const mid = 0.5 * (lo + hi);
       if (hi - lo <= 2 * eps * Math.max(Math.abs(lo), Math.abs(hi)) + pivmin || mid === lo || mid === hi) break;
-      if (sturmCount(t, mid, pivmin) > j) hi = mid;
+      const c = sturmCount(t, mid, pivmin);
+      if (c > j) hi = mid;
       else lo = mid;
+      for (let i = j + 1; i < m; i++) {
+        if (i < c) {
+          if (mid < upper[i]) upper[i] = mid;
+        } else if (mid > lower[i]) lower[i] = mid;
+      }
     }
     out[j] = 0.5 * (lo + hi);
-    lo0 = lo;
   }
   return out;
 }
