@@ -6,7 +6,7 @@
  */
 import type { Span } from '../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
-import { didYouMean } from '../language/suggest';
+import { didYouMean, editDistance } from '../language/suggest';
 import { CONSTANTS, HBAR_SI, QE_SI, UNITS, type UnitKind } from './constants';
 import type { Dimension, Prepared, Scope, ScopeValue, UnitSystem } from './types';
 
@@ -18,6 +18,20 @@ function displayUnitNames(): string[] {
   const out: string[] = [];
   for (const [name, info] of UNITS) if (info.kind === 'length' || info.kind === 'energy' || info.kind === 'time') out.push(name);
   return out;
+}
+
+/**
+ * " Did you mean ...?" for a unit name. Among names equal up to case (mev: meV or MeV) the one closest
+ * with case counted wins; otherwise the shared suggestion rule applies.
+ */
+function unitSuggestion(word: string): string {
+  const names = displayUnitNames();
+  const same = names.filter((n) => n.toLowerCase() === word.toLowerCase() && n !== word);
+  if (same.length > 0) {
+    same.sort((a, b) => editDistance(word, a) - editDistance(word, b) || (a < b ? -1 : 1));
+    return ` Did you mean '${same[0]}'?`;
+  }
+  return didYouMean(word, names);
 }
 
 /**
@@ -34,7 +48,7 @@ export function makeUnitSystem(units: { name: string; span: Span }[] | null): Pr
     const info = UNITS.get(u.name);
     if (!info) {
       diagnostics.push(
-        diagnostic('units', u.span.start, u.span.end, `Unknown unit '${u.name}'.${didYouMean(u.name, displayUnitNames())}`),
+        diagnostic('units', u.span.start, u.span.end, `Unknown unit '${u.name}'.${unitSuggestion(u.name)}`),
       );
       continue;
     }
