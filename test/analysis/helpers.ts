@@ -5,8 +5,9 @@
  *   state psi(x) = 2 sin(pi x)
  *   #              ^^^^^^^^^^^ norm
  *
- * The carets give the exact columns on the line above (the `#` is column 0); the word after them is
- * the diagnostic code. A marker `#! code` asserts a diagnostic with that code anywhere in the file.
+ * The carets give the exact columns on the line above (the `#` is column 0; a run written right after
+ * the `#`, as in `#^^^^ code`, starts at column 0 and counts the `#` as its first caret); the word
+ * after them is the diagnostic code. A marker `#! code` asserts a diagnostic with that code anywhere in the file.
  */
 import { analyse, type AnalyseOptions } from '../../server/src/analysis/index';
 import type { AnalysisResult } from '../../server/src/analysis/types';
@@ -33,8 +34,10 @@ export function markers(text: string): Expected[] {
     const m = /^#(\s*)(\^+)\s+([a-z]+)\s*$/.exec(line);
     const anywhere = /^#!\s*([a-z]+)\s*$/.exec(line);
     if (m && target >= 0) {
-      const col = 1 + m[1]!.length;
-      out.push({ code: m[3]!, start: starts[target]! + col, end: starts[target]! + col + m[2]!.length });
+      // A caret run right after the '#' starts at column 0: the '#' itself counts as its first caret.
+      const col = m[1]!.length === 0 ? 0 : 1 + m[1]!.length;
+      const len = m[1]!.length === 0 ? m[2]!.length + 1 : m[2]!.length;
+      out.push({ code: m[3]!, start: starts[target]! + col, end: starts[target]! + col + len });
     } else if (anywhere) {
       out.push({ code: anywhere[1]! });
     } else if (!line.startsWith('#')) {

@@ -4,7 +4,8 @@
  * numerics. Both are pure and never throw.
  */
 import type { AnalysisResult, EvolutionResult, LevelResult, SampleResult } from './types';
-import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
+import { diagnostic, type EngineDiagnostic, type FixData } from '../language/catalogue';
+import { compositeGaussLegendre } from '../physics/quadrature';
 import type { QFile } from '../language/ast';
 import { parse } from '../language/parser';
 import { buildModel, fmt, type Model } from './model';
@@ -381,18 +382,15 @@ function checkWalls(
 ): boolean {
   const [a, b] = basis.walls!;
   const L = b - a;
+  const problems: string[] = [];
   const v = state.evaluate(new Float64Array([a, b]), 0);
   const va = Math.hypot(v.re[0]!, v.im[0]!);
   const vb = Math.hypot(v.re[1]!, v.im[1]!);
-  let broken = false;
   const tol = 1e-6 * scalePsi;
-  if (va > tol || vb > tol) {
-    broken = true;
-    const where = va > tol && vb > tol ? `psi(${fmt(a)}) = ${fmt(va / Math.sqrt(norm))} and psi(${fmt(b)}) = ${fmt(vb / Math.sqrt(norm))} (normalised)` : va > tol ? `psi(${fmt(a)}) = ${fmt(va / Math.sqrt(norm))} (normalised) at the left wall` : `psi(${fmt(b)}) = ${fmt(vb / Math.sqrt(norm))} (normalised) at the right wall`;
-    out.push(
-      warn('boundary', span, `The state is not zero at the hard wall: ${where}. Its coefficients fall off only as 1/n and its energy mean is infinite.`),
-    );
-  }
+  const sn = Math.sqrt(norm);
+  if (va > tol && vb > tol) problems.push(`it is not zero at the hard walls (psi(${fmt(a)}) = ${fmt(va / sn)}, psi(${fmt(b)}) = ${fmt(vb / sn)}, normalised)`);
+  else if (va > tol) problems.push(`it is not zero at the left wall (psi(${fmt(a)}) = ${fmt(va / sn)}, normalised)`);
+  else if (vb > tol) problems.push(`it is not zero at the right wall (psi(${fmt(b)}) = ${fmt(vb / sn)}, normalised)`);
   // Weight outside the walls is dropped. Only states with an extent of their own (a packet, a level
   // of another system) can have such weight: a formula is read as the state inside the walls.
   const extent = state.support ?? state.window;
@@ -405,26 +403,20 @@ function checkWalls(
       [b, hi],
     ] as const) {
       if (x1 - x0 <= 1e-12 * L) continue;
-      const n = 2001;
-      const xs = new Float64Array(n);
-      for (let j = 0; j < n; j++) xs[j] = x0 + ((x1 - x0) * (j + 0.5)) / n;
-      const w = state.evaluate(xs, 0);
-      let sum = 0;
-      for (let j = 0; j < n; j++) {
+      const q = compositeGaussLegendre(x0, x1, { breakpoints: state.breakpoints(x0, x1), panels: 64, order: 20 });
+      const w = state.evaluate(q.x, 0);
+      for (let j = 0; j < q.x.length; j++) {
         const r = w.re[j]!;
         const i = w.im[j]!;
-        if (Number.isFinite(r) && Number.isFinite(i)) sum += r * r + i * i;
+        if (Number.isFinite(r) && Number.isFinite(i)) outside += q.w[j]! * (r * r + i * i);
       }
-      outside += (sum * (x1 - x0)) / n;
     }
     const frac = outside / (outside + norm);
-    if (frac > 1e-9) {
-      broken = true;
-      out.push(warn('boundary', span, `${pct(frac)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)}; that part is dropped and the rest is renormalised.`));
-    }
+    if (frac > 1e-9) problems.push(`${pct(frac)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)} and is dropped`);
   }
   // Numerical systems: weight piled against a wall means the interval cuts the state.
-  if (potentialStmt && !broken && potentialStmt.kind === 'system' && potentialStmt.system.kind === 'potential') {
+  const isPotential = potentialStmt !== null && potentialStmt.kind === 'system' && potentialStmt.system.kind === 'potential';
+  if (isPotential && problems.length === 0) {
     const edge = 0.02 * L;
     let near = 0;
     let total = 0;
@@ -437,16 +429,20 @@ function checkWalls(
       total += p;
       if (xs[j]! < a + edge || xs[j]! > b - edge) near += p;
     }
-    if (total > 0 && near / total > 1e-8) {
-      const spec = potentialStmt.system;
-      const fixes = [
-        replaceFix('Widen the interval', { start: spec.from.start, end: spec.to.end }, `${widen(spec.from.text, -1, L)}, ${widen(spec.to.text, 1, L)}`),
-      ];
-      out.push(warn('boundary', span, `${pct(near / total)} of |psi|^2 lies within 2% of the walls: the walls cut the state. Widen the interval.`, fixes));
-      broken = true;
-    }
+    if (total > 0 && near / total > 1e-8) problems.push(`${pct(near / total)} of |psi|^2 lies within 2% of the walls`);
   }
-  return broken;
+  if (problems.length === 0) return false;
+  let message = `The state breaks the walls' boundary condition: ${problems.join('; ')}.`;
+  let fixes: FixData[] | undefined;
+  if (isPotential && potentialStmt.kind === 'system' && potentialStmt.system.kind === 'potential') {
+    const spec = potentialStmt.system;
+    message += ' The walls cut the state: widen the interval.';
+    fixes = [replaceFix('Widen the interval', { start: spec.from.start, end: spec.to.end }, `${widen(spec.from.text, -1, L)}, ${widen(spec.to.text, 1, L)}`)];
+  } else if (va > tol || vb > tol) {
+    message += ' Its coefficients fall off only as 1/n and its energy mean is infinite.';
+  }
+  out.push(warn('boundary', span, message, fixes));
+  return va > tol || vb > tol || problems.length > 0;
 }
 
 function widen(text: string, sign: number, L: number): string {
