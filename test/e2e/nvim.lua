@@ -6,14 +6,25 @@ local example = os.getenv('EIGENSPAN_EXAMPLE')
 local broken = os.getenv('EIGENSPAN_BROKEN')
 local report = { nvim = tostring(vim.version().major) .. '.' .. tostring(vim.version().minor) .. '.' .. tostring(vim.version().patch), steps = {} }
 
-local function step(name, ok, detail)
-  table.insert(report.steps, { name = name, ok = ok, detail = detail })
-end
-
-local function finish()
+local function save()
   local f = io.open(out_path, 'w')
   f:write(vim.fn.json_encode(report))
   f:close()
+end
+
+-- The report is saved after every step, so a run that stalls still says how far it got.
+local function step(name, ok, detail)
+  table.insert(report.steps, { name = name, ok = ok, detail = detail })
+  save()
+end
+
+local function finish()
+  -- Stop the servers politely (shutdown, exit) and wait for them before leaving.
+  local clients = vim.lsp.get_active_clients()
+  for _, c in ipairs(clients) do c.stop() end
+  report.servers_stopped = vim.wait(5000, function() return #vim.lsp.get_active_clients() == 0 end, 20)
+  report.finished = true
+  save()
   vim.cmd('qa!')
 end
 
@@ -47,15 +58,22 @@ local function diagnostics(buf)
   return list
 end
 
-local function hover_text(buf, line)
+local function ready(id)
+  return vim.wait(15000, function()
+    local c = vim.lsp.get_client_by_id(id)
+    return c ~= nil and c.server_capabilities ~= nil and c.server_capabilities.hoverProvider ~= nil
+  end, 20)
+end
+
+local function hover_text(buf, id, line)
+  local c = vim.lsp.get_client_by_id(id)
+  if not c then return nil end
   local params = { textDocument = { uri = vim.uri_from_bufnr(buf) }, position = { line = line, character = 2 } }
-  local answers = vim.lsp.buf_request_sync(buf, 'textDocument/hover', params, 10000) or {}
-  for _, a in pairs(answers) do
-    if a.result and a.result.contents then
-      local c = a.result.contents
-      if type(c) == 'table' and c.value then return c.value end
-      if type(c) == 'string' then return c end
-    end
+  local answer = c.request_sync('textDocument/hover', params, 10000, buf)
+  if answer and answer.result and answer.result.contents then
+    local contents = answer.result.contents
+    if type(contents) == 'table' and contents.value then return contents.value end
+    if type(contents) == 'string' then return contents end
   end
   return nil
 end
@@ -71,7 +89,8 @@ local ok_run, err = pcall(function()
   step('syntax diagnostic on the broken file', got, #report.broken .. ' diagnostics')
 
   -- 2. The example: wait for the full analysis through the hover on its state line.
-  local e = open(example)
+  local e, id = open(example)
+  step('client initialized', ready(id), 'client ' .. tostring(id))
   local state_line = -1
   for i, l in ipairs(vim.api.nvim_buf_get_lines(e, 0, -1, false)) do
     if l:match('^state') then state_line = i - 1 break end
@@ -79,7 +98,7 @@ local ok_run, err = pcall(function()
   step('example has a state line', state_line >= 0, 'line ' .. state_line)
   local text = nil
   local analysed = vim.wait(30000, function()
-    text = hover_text(e, state_line)
+    text = hover_text(e, id, state_line)
     return text ~= nil and text:find('captured', 1, true) ~= nil
   end, 100)
   report.hover = text

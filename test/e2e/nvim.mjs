@@ -33,11 +33,13 @@ try {
   const child = spawn('nvim', ['--headless', '--clean', '-c', `luafile ${join(here, 'nvim.lua')}`], {
     cwd: work,
     env: { ...process.env, EIGENSPAN_SERVER: server, EIGENSPAN_OUT: out, EIGENSPAN_EXAMPLE: example, EIGENSPAN_BROKEN: broken },
-    stdio: ['ignore', 'ignore', 'pipe'],
+    stdio: ['ignore', 'pipe', 'pipe'],
   });
   let stderr = '';
   child.stderr.on('data', (d) => (stderr += d));
-  const guard = setTimeout(() => child.kill('SIGKILL'), 90_000);
+  // Headless Neovim wants a live stdout (it stalled with /dev/null here); its screen output is not needed.
+  child.stdout.resume();
+  const guard = setTimeout(() => child.kill('SIGKILL'), 75_000);
   const code = await new Promise((r) => child.once('exit', (c) => r(c)));
   clearTimeout(guard);
   if (!existsSync(out)) fail(`nvim exited (${code}) without a report${stderr ? `: ${stderr.trim()}` : ''}`);
@@ -52,7 +54,8 @@ try {
     for (const d of list ?? []) console.log(`  ${name}:${d.line + 1}:${d.col + 1}: [${d.code}] ${d.message}`);
   }
   if (report.hover) console.log(`hover:\n${report.hover.replace(/^/gm, '  | ')}`);
-  const ok = report.steps.length > 0 && report.steps.every((s) => s.ok);
+  if (!report.finished) console.log(`nvim did not finish (exit ${code})${stderr ? `: ${stderr.trim()}` : ''}`);
+  const ok = report.finished === true && report.steps.length > 0 && report.steps.every((s) => s.ok);
   console.log(ok ? 'nvim e2e: passed' : 'nvim e2e: FAILED');
   process.exitCode = ok ? 0 : 1;
 } finally {
