@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { all, create } from 'mathjs';
-import { compiled, points } from './helpers';
-import { findBadPoint } from '../../server/src/expr/compile';
+import { compiled, parse, points, scopeFor } from './helpers';
+import { evaluateConstant, findBadPoint } from '../../server/src/expr/compile';
 
 // A separate, ordinary mathjs instance: the reference the compiled closures are compared with.
 const reference = create(all, {});
@@ -258,5 +258,37 @@ describe('performance', () => {
     for (let k = 0; k < xs.length; k++) expect(Math.abs(ours.re[k]! - ref[k]!)).toBeLessThanOrEqual(1e-15 * Math.max(1, Math.abs(ref[k]!)));
     console.log(`ours ${tOurs.toFixed(3)} ms, mathjs ${tRef.toFixed(3)} ms`);
     expect(tRef / tOurs).toBeGreaterThan(5);
+  });
+});
+
+describe('physical units in compiled functions', () => {
+  it('fold units and constants to internal units (units nm, meV; hbar = 1)', () => {
+    const scope = { ...scopeFor(['nm', 'meV']), hasX: true };
+    // V = m_e w^2 x^2 / 2 with hbar w = 10 meV. In nm and meV, hbar^2/m_e = 2 x 38.0998211 meV nm^2
+    // (CODATA 2018 recommended values (NIST), derived), so V = 100 x^2 / (4 x 38.0998211) meV.
+    const f = compiled('0.5 m_e * (10 meV / hbar)^2 x^2', scope);
+    expect(f.complex).toBe(false);
+    const xs = Float64Array.of(0.5, 1, 3);
+    const v = f.evaluate(xs, 2);
+    for (let k = 0; k < xs.length; k++) {
+      const want = (100 * xs[k]! ** 2) / (4 * 38.0998211);
+      expect(Math.abs(v.re[k]! - want) / want).toBeLessThan(3e-9);
+      expect(Math.abs(v.d2re![k]! - (2 * 100) / (4 * 38.0998211)) / v.d2re![k]!).toBeLessThan(3e-9);
+    }
+  });
+});
+
+describe('constant evaluation', () => {
+  const scope = scopeFor(['nm', 'eV']);
+  it('returns the value and dimension', () => {
+    const e = evaluateConstant(parse('2 nm + 30 \u00C5'), scope);
+    expect(e.result!.value.re).toBeCloseTo(5, 14);
+    expect(e.result!.dimension).toEqual([1, 0, 0, 0]);
+    expect(evaluateConstant(parse('sqrt(-4)'), scope).result!.value).toEqual({ re: 0, im: 2 });
+  });
+  it('reports values that are not finite, and dependence on x', () => {
+    expect(evaluateConstant(parse('1/0'), scope).diagnostics.map((d) => d.code)).toEqual(['evaluation']);
+    expect(evaluateConstant(parse('log(0)'), scope).diagnostics.map((d) => d.code)).toEqual(['evaluation']);
+    expect(evaluateConstant(parse('x + 1 nm'), { ...scope, hasX: true }).diagnostics.map((d) => d.code)).toEqual(['name']);
   });
 });

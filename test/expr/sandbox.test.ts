@@ -3,6 +3,9 @@ import * as mathjs from 'mathjs';
 import { ALLOWED_FUNCTIONS, DEFAULT_PARSE_OPTIONS, parseExpression, sandboxConfig } from '../../server/src/expr/sandbox';
 import type { Expr } from '../../server/src/expr/types';
 
+/** The configuration of mathjs's default instance (its declared types omit the function). */
+const globalConfig = () => (mathjs as unknown as { config: () => Record<string, unknown> }).config();
+
 const AT = 100; // every expression sits at document offset 100, so ranges are checked as document offsets
 
 function run(text: string) {
@@ -66,7 +69,7 @@ const ATTEMPTS: [string, string?][] = [
 
 describe('the sandbox refuses escape attempts on their exact range', () => {
   const before = sandboxConfig();
-  const globalBefore = JSON.stringify(mathjs.config());
+  const globalBefore = JSON.stringify(globalConfig());
   for (const [text, part] of ATTEMPTS) {
     it(text, () => {
       const r = run(text);
@@ -120,10 +123,23 @@ describe('the sandbox refuses escape attempts on their exact range', () => {
 
   it('leaves the library configuration unchanged', () => {
     expect(sandboxConfig()).toEqual(before);
-    expect(JSON.stringify(mathjs.config())).toBe(globalBefore);
+    expect(JSON.stringify(globalConfig())).toBe(globalBefore);
     // The private instance keeps mathjs's defaults (mathjs documentation: number type 'number').
     expect(before['number']).toBe('number');
     expect(before['predictable']).toBe(false);
+  });
+});
+
+describe('a name followed by brackets', () => {
+  it('is refused as a call, with a fix that makes it a product', () => {
+    const text = '0.5 m_e (w x)^2';
+    const d = run(text).diagnostics;
+    expect(d.map((x) => [x.code, x.start, x.end])).toEqual([['forbidden', ...range(text, 'm_e (w x)')]]);
+    expect(d[0]!.fixes).toEqual([{ kind: 'insert', title: "Insert '*' after 'm_e'", at: AT + 7, text: ' *' }]);
+    expect(run('0.5 m_e * (w x)^2').result).not.toBeNull();
+  });
+  it('suggests the allowed function for a misspelt one', () => {
+    expect(run('expp(x)').diagnostics[0]!.message).toContain("Did you mean 'exp'?");
   });
 });
 

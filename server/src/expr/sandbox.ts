@@ -620,8 +620,18 @@ class Converter {
           return this.forbid(node, 'Only the built-in functions may be called.');
         const ns = this.at(fnNode);
         const name = this.text.slice(ns.start - this.offset, ns.end - this.offset) || String(fnNode['name']);
-        if (!ALLOWED.has(name) || UNSAFE_NAMES.has(name))
-          return this.forbid(node, `'${name}' is not an allowed function.${didYouMean(name, ALLOWED.keys())}`);
+        if (!ALLOWED.has(name) || UNSAFE_NAMES.has(name)) {
+          const hint = didYouMean(name, ALLOWED.keys());
+          if (hint !== '' || UNSAFE_NAMES.has(name) || DISABLED_FUNCTIONS.includes(name))
+            return this.forbid(node, `'${name}' is not an allowed function.${hint}`);
+          // `m_e (w x)^2` reads as a call in mathjs's syntax; the writer most likely meant a product.
+          this.diagnostics.push(
+            diagnostic('forbidden', s.start, s.end, `'${name}' is not a function; to multiply, write '${name} * (...)'.`, {
+              fixes: [{ kind: 'insert', title: `Insert '*' after '${name}'`, at: ns.end, text: ' *' }],
+            }),
+          );
+          return null;
+        }
         const args = (node['args'] as MathNode[]).map((a) => this.convert(a));
         if (args.some((a) => a === null)) return null;
         return { type: 'call', name, args: args as Expr[], nameStart: ns.start, nameEnd: ns.end, start: s.start, end: s.end };
