@@ -24,6 +24,22 @@ describe('sine DVR', () => {
     split.parity.forEach((p, k) => expect(p).toBe(k % 2 === 0 ? 1 : 2));
   });
 
+  it('the wall-slope correction lifts the order from 4 to 6 when V\'(wall) != 0 (measured)', () => {
+    // Airy zeros, Abramowitz & Stegun, Table 10.13: wall at 0, V = x, m = 1, E_1 = 2.338107410459767 / 2^(1/3).
+    const E1 = 2.338107410459767 * Math.cbrt(0.5);
+    const err = (N: number, corrected: boolean) => {
+      const xs = sineDvrGrid(0, 20, N);
+      const s = sineDvrSolve(xs.map((x) => x), 0, 20, 1, 1, corrected ? { wallSlopes: [1, 1] } : {});
+      return Math.abs(s.energies[0] - E1);
+    };
+    const plain = Math.log2(err(100, false) / err(200, false));
+    const fixed = Math.log2(err(100, true) / err(200, true));
+    expect(plain).toBeGreaterThan(3.8);
+    expect(plain).toBeLessThan(4.2);
+    expect(fixed).toBeGreaterThan(5.8);
+    expect(err(400, true)).toBeLessThan(1e-9 * E1);
+  });
+
   it('table derivatives match central differences of the series', () => {
     const N = 64;
     const xs = sineDvrGrid(0, 3, N);

@@ -52,6 +52,13 @@ export interface SineDvrOptions {
    * integral (1/L) integral V cos(q pi (x - a)/L) dx of the two-sided constant. Default none.
    */
   jumps?: { index: number; at: number; left: number; right: number }[];
+  /**
+   * V'(a) and V'(b). When given, the Euler–Maclaurin endpoint term of the DVR's trapezoid-type quadrature,
+   * which is O(h^4) when V' is nonzero at a wall (f = V u_k u_l has f''' = 6 V' u_k' u_l' there), is
+   * removed: H_kl += (h^4/120) (2/L) (pi/L)^2 k l [V'(b) (-1)^(k+l) - V'(a)]
+   * (Euler–Maclaurin summation formula, Abramowitz & Stegun 23.1.30 (from memory)). Default none.
+   */
+  wallSlopes?: [number, number];
 }
 
 /**
@@ -128,6 +135,18 @@ export function sineDvrSolve(
         H[row + s] = C[k - l] - C[k + l];
       }
       H[row + r] += kin * k * k;
+    }
+    if (options.wallSlopes) {
+      const [sa, sb] = options.wallSlopes;
+      const h = L / N;
+      const f = ((h * h * h * h) / 120) * (2 / L) * (Math.PI / L) ** 2;
+      for (let r = 0; r < m; r++) {
+        const k = blk.ks[r];
+        for (let s2 = 0; s2 <= r; s2++) {
+          const l = blk.ks[s2];
+          H[r * m + s2] += f * k * l * (((k + l) & 1 ? -sb : sb) - sa);
+        }
+      }
     }
     const eig = symmetricLowest(H, m, blk.want);
     for (let j = 0; j < eig.values.length; j++) {
