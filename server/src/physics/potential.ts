@@ -222,13 +222,16 @@ function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: n
  * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
  * grid cell holding it is integrated exactly in the DVR matrix (dvr.ts, `jumps`); the energy error is
  * then O(N^-2) with a steady coefficient (measured in test/physics/potential.test.ts: slope 2.0 for a
- * step in a box), and once the measured order shows the tolerance is out of reach under the cap, one
- * last grid of `algebraicPoints` is solved and its uncertainty is the Richardson estimate.
+ * step in a box). With the order known, the first comparison predicts the size the tolerance needs;
+ * when that exceeds the cap, one last grid of max(2 N, `algebraicPoints`) is solved and its uncertainty
+ * is twice the Richardson estimate |E_f - E_c| / ((N_f / N_c)^2 - 1).
  * When V'(wall) != 0 with the level non-negligible at that wall (a wall at 0 with V = F x, a box in a
  * field), the DVR's quadrature has an O(N^-4) endpoint error; its Euler–Maclaurin term is removed with
  * V'(a), V'(b) from one-sided differences (dvr.ts, `wallSlopes`), leaving O(N^-6) (measured: the Airy
- * case reaches 1e-9 with about 200 points instead of 1100). If a steady algebraic order is still seen,
- * one predicted size is solved with a Richardson error estimate.
+ * case reaches 1e-9 with about 300 points instead of 1400). Whenever two successive measured orders
+ * agree (algebraic convergence), one predicted size is solved with a Richardson error estimate.
+ * The grid is capped by `maxPoints` and by `maxWork` (flops of one solve); `unresolved` then names the
+ * first level whose uncertainty exceeds the tolerance.
  * A symmetric V (mirror test on the samples to `symmetryTolerance`) is split into even and odd blocks.
  * Never throws: bad input or a bad V gives an empty basis and a note.
  */
