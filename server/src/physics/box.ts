@@ -9,7 +9,8 @@ import type { Eigenbasis } from './types';
  * E_n = n^2 pi^2 / (2 m L^2) and phi_n(x) = sqrt(2/L) sin(n pi (x - a) / L) for a <= x <= b, 0 outside,
  * L = b - a (Griffiths, Introduction to Quantum Mechanics, infinite square well section (from memory)).
  * `table` fills exact derivatives phi_n' = sqrt(2/L) (n pi/L) cos(n pi (x-a)/L) and
- * phi_n'' = -(n pi/L)^2 phi_n (zero outside the walls). The centre of symmetry is (a + b)/2.
+ * phi_n'' = -(n pi/L)^2 phi_n (zero outside the walls); `weightedSums` accumulates the same values into
+ * projection sums without a table. The centre of symmetry is (a + b)/2.
  * Invalid input (b <= a, mass <= 0, not finite) yields a basis with count 0 instead of throwing.
  */
 export function boxBasis(a: number, b: number, mass: number, count: number): Eigenbasis {
@@ -67,6 +68,34 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
           out[idx] = amp * s;
           if (d1) d1[idx] = amp * q * c;
           if (d2) d2[idx] = -q * q * amp * s;
+        }
+      }
+    },
+    weightedSums(xs, wRe, wIm, levels, outRe, outIm) {
+      // The same rotation as `table`, accumulated straight into the sums: no table is written or read.
+      const lv = Math.min(levels, n);
+      for (let j = 0; j < xs.length; j++) {
+        const x = xs[j];
+        if (!(x >= a && x <= b)) continue;
+        const theta = (Math.PI * (x - a)) / L;
+        const c1 = Math.cos(theta);
+        const s1 = Math.sin(theta);
+        const wr = amp * wRe[j];
+        const wi = wIm ? amp * wIm[j] : 0;
+        let s = 0;
+        let c = 1;
+        for (let k = 0; k < lv; k++) {
+          const m = k + 1;
+          if ((m & 31) === 0) {
+            s = Math.sin(m * theta);
+            c = Math.cos(m * theta);
+          } else {
+            const sn = s * c1 + c * s1;
+            c = c * c1 - s * s1;
+            s = sn;
+          }
+          outRe[k] += s * wr;
+          outIm[k] += s * wi;
         }
       }
     },

@@ -19,7 +19,8 @@ export interface ProjectOptions {
  * so no conjugate is needed), for a state sampled at the quadrature nodes (psiRe, psiIm at quad.x;
  * psiIm may be null for a real state). The eigenfunction table is built in chunks of nodes, each of
  * at most `maxTable` doubles, so memory stays bounded for any number of levels and nodes.
- * Levels beyond basis.count come back as 0.
+ * Levels beyond basis.count come back as 0. A basis with `weightedSums` is projected through it
+ * instead, with no table at all.
  */
 export function project(
   basis: Eigenbasis,
@@ -34,6 +35,18 @@ export function project(
   const im = new Float64Array(re.length);
   const nq = Math.min(quad.x.length, quad.w.length, psiRe.length);
   if (lv === 0 || nq === 0) return { re, im };
+  if (basis.weightedSums) {
+    // Fused path: weighted samples, then the basis adds phi_k(x_j) w_j psi_j level by level.
+    const wr = new Float64Array(nq);
+    const wi = psiIm ? new Float64Array(nq) : null;
+    for (let j = 0; j < nq; j++) {
+      wr[j] = quad.w[j] * psiRe[j];
+      if (wi && psiIm) wi[j] = quad.w[j] * psiIm[j];
+    }
+    const xs = nq === quad.x.length ? quad.x : quad.x.subarray(0, nq);
+    basis.weightedSums(xs, wr, wi, lv, re, im);
+    return { re, im };
+  }
   const maxTable = Math.max(1, Math.floor(options.maxTable ?? 4194304));
   // Tables are written with a stride of the chunk's node count; a chunk that fits in the cache avoids
   // a cache miss per entry (measured: 4x faster for 200 box levels on 12,600 nodes).

@@ -31,6 +31,11 @@ export interface Eigenbasis {
    * the whole table at once, because recurrences make that much cheaper than level by level.
    */
   table(xs: Float64Array, levels: number, out: Float64Array, d1?: Float64Array, d2?: Float64Array): void;
+  /**
+   * Optional fast path of projection: adds sum_j wRe[j] phi_k(xs[j]) to outRe[k] and sum_j wIm[j] phi_k(xs[j])
+   * to outIm[k] for k < levels, without building the table (wIm may be null). `project` uses it when present.
+   */
+  weightedSums?(xs: Float64Array, wRe: Float64Array, wIm: Float64Array | null, levels: number, outRe: Float64Array, outIm: Float64Array): void;
 }
 
 /** A quadrature rule: nodes and weights. */
