@@ -18,6 +18,8 @@ import { fmt } from './model';
 export interface ExpandOptions {
   maxGridPoints: number;
   cancelled?: () => boolean;
+  /** performance.now() time by which refinement must stop (the analysis time limit); none by default. */
+  deadline?: number;
 }
 
 /** What the numerical stage computed (internal units). */
@@ -158,7 +160,7 @@ export function expandState(
   levels: number,
   window: [number, number],
   options: ExpandOptions,
-): { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number; capped: boolean } {
+): { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number; capped: boolean; late?: boolean } {
   const bps = new Set<number>();
   for (const x of state.breakpoints(window[0], window[1])) bps.add(x);
   for (const x of basis.breakpoints) if (x > window[0] && x < window[1]) bps.add(x);
@@ -169,6 +171,12 @@ export function expandState(
   let panels = Math.max(16, Math.ceil((k * width) / 2), breakpoints.length + 1);
   const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
   panels = Math.min(panels, maxPanels);
+  // Under a deadline the first grid fits the time left (about 0.1 us per level and point, measured with
+  // Hermite tables), so a single step of a large basis cannot freeze the analysis.
+  if (options.deadline !== undefined) {
+    const affordable = Math.floor(((options.deadline - performance.now()) * 1e4) / (3 * Math.max(1, levels) * ORDER));
+    if (affordable < panels) panels = Math.max(16, affordable);
+  }
   // Many box levels of a smooth state: a sine transform of equally spaced samples replaces the
   // per-level quadrature (its aliasing error is about (2N)^-3 relative; see dst.ts).
   let fast: { re: Float64Array; im: Float64Array } | null = null;
@@ -189,6 +197,7 @@ export function expandState(
   }
   let prev: { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number } | null = null;
   for (;;) {
+    const t0 = performance.now();
     const q = quadratureFor(window, breakpoints, panels);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
@@ -201,6 +210,8 @@ export function expandState(
       if (diff <= 1e-12 * Math.max(norm, 1e-300) ** 0.5 || diff <= 1e-13 * Math.max(norm, 1e-300)) return { ...cur, capped: false };
     }
     if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: prev !== null && panels * 2 > maxPanels };
+    // The next step costs about twice this one: stop before it would overrun the deadline.
+    if (options.deadline !== undefined && performance.now() + 2.5 * (performance.now() - t0) > options.deadline) return { ...cur, capped: true, late: true };
     prev = cur;
     panels *= 2;
   }

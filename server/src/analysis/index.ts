@@ -39,6 +39,8 @@ export interface Limits {
   maxFileBytes: number;
   maxStatements: number;
   maxEvolveSteps: number;
+  /** Time per analysis in milliseconds: past it the stages stop with what they have and a `limits` diagnostic. */
+  maxMillis: number;
 }
 
 /** Safe defaults for `Limits`. */
@@ -50,6 +52,7 @@ export const DEFAULT_LIMITS: Limits = {
   maxFileBytes: 256 * 1024,
   maxStatements: 2000,
   maxEvolveSteps: 10_000,
+  maxMillis: 10_000,
 };
 
 /** Default number of levels when a file has no `basis` line. */
@@ -133,6 +136,9 @@ function sortDiagnostics(d: EngineDiagnostic[]): EngineDiagnostic[] {
   return d.sort((a, b) => a.start - b.start || a.end - b.end);
 }
 
+/** Options with the deadline of the time limit (performance.now() milliseconds), for the grid refinement. */
+type Timed = AnalyseOptions & { deadline?: number };
+
 /** Parses, checks and expands a `.qstate` file. Never throws. */
 export function analyse(text: string, options: AnalyseOptions = {}): AnalysisResult {
   const started = performance.now();
@@ -143,8 +149,12 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
     return emptyResult(null, [internalError(err, text)], started);
   }
   const result = emptyResult(stage.file, stage.diagnostics, started);
+  // The time limit: every stage polls `cancelled`, and the grid refinement also sees the deadline.
+  const maxMillis = stage.limits.maxMillis;
+  let outOfTime = false;
+  const timed: Timed = { ...options, deadline: started + maxMillis, cancelled: () => options.cancelled?.() === true || (outOfTime ||= performance.now() > started + maxMillis) };
   try {
-    if (stage.model && options.evaluate !== false) numericStage(stage.model, stage, options, result);
+    if (stage.model && options.evaluate !== false) numericStage(stage.model, stage, timed, result);
   } catch (err) {
     if (err instanceof BadValue) {
       const st = stage.model?.state?.stmt;
@@ -153,6 +163,10 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
     } else {
       result.diagnostics.push(internalError(err, text));
     }
+  }
+  if (outOfTime) {
+    const at = stage.model?.system?.stmt.keywordSpan ?? { start: 0, end: Math.min(1, text.length) };
+    result.diagnostics.push(diagnostic('limits', at.start, at.end, `The analysis took longer than the time limit of ${maxMillis} ms and was stopped; the results are incomplete.`));
   }
   result.diagnostics = sortDiagnostics(result.diagnostics);
   result.elapsedMs = performance.now() - started;
@@ -214,7 +228,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
 
   let ex: ReturnType<typeof expandState>;
   try {
-    ex = expandState(state, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+    ex = expandState(state, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
   } catch (err) {
     if (err instanceof MissingLevel) {
       out.push(warn('evaluation', stateSpan, `phi(${err.level}, x) is not a level of this system: levels run from ${basis.firstLabel} to ${basis.firstLabel + basis.count - 1}${basis.kind === 'well' ? '' : ' (raise `basis`)'}.`));
@@ -222,7 +236,8 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
     }
     throw err;
   }
-  if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
+  if (ex.capped && ex.late) out.push(warn('limits', stateSpan, `The time limit of ${limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`));
+  else if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
   const norm = ex.norm;
   if (!(norm > 0)) {
     out.push(warn('norm', stateSpan, 'The state is zero everywhere in the system; there is nothing to expand.', undefined, 'error'));
@@ -527,7 +542,7 @@ function levelsNeeded(
     const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, scratch, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
     if (!b) return null;
     const m = Math.min(n, b.basis.count);
-    const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+    const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
     let acc = 0;
     for (let k = 0; k < m; k++) {
       acc += (ex.re[k]! ** 2 + ex.im[k]! ** 2) / ex.norm;
