@@ -62,7 +62,8 @@ async function watchCsp(p: Page): Promise<void> {
 async function openPage(): Promise<Page> {
   const p = await browser.newPage({ viewport: { width: 1100, height: 680 } });
   p.on('pageerror', (e) => pageErrors.push(e.message));
-  p.on('console', (m) => m.type() === 'error' && pageErrors.push(m.text()));
+  // Chromium reports CSP blocks as console errors; those are counted through the violation events instead.
+  p.on('console', (m) => m.type() === 'error' && !/Content Security Policy/.test(m.text()) && pageErrors.push(m.text()));
   await p.goto(`${server.origin}/`);
   await watchCsp(p);
   await p.waitForFunction(() => ((window as unknown as { __posted?: unknown[] }).__posted ?? []).length > 0);
@@ -110,17 +111,17 @@ describe('spectrum panel in Chromium', () => {
   it('draws the bars of a real result within 100 ms, even and odd levels apart', async () => {
     // The panel measures from the message's arrival (before its checks) to the end of the redraw.
     // The first draw warms up the browser's compiler; the median of the next five is what a user feels.
-    await post(message(1));
+    for (let v = 1; v <= 3; v++) await post(message(v));
     const times: number[] = [];
-    for (let v = 2; v <= 6; v++) {
+    for (let v = 4; v <= 10; v++) {
       await post(message(v));
       times.push((await inspect()).lastRenderMs);
     }
     times.sort((a, b) => a - b);
     console.log(`panel redraw times (ms): ${times.map((t) => t.toFixed(1)).join(', ')}`);
-    expect(times[2]).toBeLessThan(100);
+    expect(times[3]).toBeLessThan(100);
     const i = await inspect();
-    expect(i.version).toBe(6);
+    expect(i.version).toBe(10);
     const even = series(i, 'bars-even') as (number | null)[];
     const odd = series(i, 'bars-odd') as (number | null)[];
     expect(even).toHaveLength(result.levels.length);
@@ -225,7 +226,7 @@ describe('spectrum panel in Chromium', () => {
     await page.reload();
     await page.waitForFunction(() => ((window as unknown as { __posted?: unknown[] }).__posted ?? []).length > 0);
     await watchCsp(page);
-    await post(message(7));
+    await post(message(11));
     const i = await inspect();
     expect(i.tab).toBe('state');
     expect(i.settings.scale).toBe('log');
@@ -270,6 +271,8 @@ describe('spectrum panel in Chromium', () => {
     await page.waitForFunction(() => ((window as unknown as { __csp?: string[] }).__csp ?? []).length >= 2);
     expect(await page.evaluate(() => (window as unknown as { __pwned?: boolean }).__pwned)).toBeUndefined();
     const csp = await page.evaluate(() => (window as unknown as { __csp: string[] }).__csp);
+    // Exactly the two injected scripts: the panel's own scripts, styles and charts caused none.
+    expect(csp).toHaveLength(2);
     expect(csp.every((v) => v.startsWith('script-src'))).toBe(true);
     expect(csp.some((v) => v.includes('inline'))).toBe(true);
     expect(csp.some((v) => v.includes('/elsewhere.js'))).toBe(true);
@@ -283,8 +286,8 @@ describe('spectrum panel in Chromium', () => {
       'result',
       { type: 'result' },
       { type: 'result', uri: 'file:///x', version: 5, fileName: 'x', result: { levels: 'all of them' } },
-      { ...message(6), result: { ...message(6).result, levels: [{ n: 1, energy: 'high' }] } },
-      { ...message(7), result: { ...message(7).result, samples: { ...message(8).result.samples, re: [1, 2, 3] } } },
+      { ...message(12), result: { ...message(12).result, levels: [{ n: 1, energy: 'high' }] } },
+      { ...message(13), result: { ...message(13).result, samples: { ...message(13).result.samples, re: [1, 2, 3] } } },
       { type: 'theme', kind: '<img src=x onerror=alert(1)>' },
       { type: 'empty' },
       { type: 'settings', plotScale: 'cubic' },
@@ -299,7 +302,7 @@ describe('spectrum panel in Chromium', () => {
 
   it('shows the error summary instead of stale plots and offers to reveal the line', async () => {
     const lines = brokenResult.diagnostics.map((d) => broken.slice(0, d.start).split('\n').length - 1);
-    await post({ ...message(8, brokenResult), diagnosticLines: lines });
+    await post({ ...message(14, brokenResult), diagnosticLines: lines });
     expect(await page.isVisible('#problems')).toBe(true);
     expect(await page.isVisible('#views')).toBe(false);
     expect(await page.textContent('#problems-list')).toContain('forbidden');
@@ -308,7 +311,7 @@ describe('spectrum panel in Chromium', () => {
     expect(posted.at(-1)).toEqual({ type: 'reveal', line: 2 });
     await page.screenshot({ path: 'test-artifacts/panel-errors.png' });
     // Fixed again: the plots come back.
-    await post(message(9));
+    await post(message(15));
     expect(await page.isVisible('#views')).toBe(true);
     expect(await page.isVisible('#problems')).toBe(false);
   });
