@@ -18,9 +18,9 @@ export interface PanelHtmlOptions {
   title?: string;
 }
 
-/** Escapes text for an HTML attribute or text node. */
+/** Escapes text for a double-quoted HTML attribute or a text node (HTML standard, section 13.1). */
 export function escapeHtml(s: string): string {
-  return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+  return s.replace(/[&<>"]/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;' })[c]!);
 }
 
 /**
