@@ -28,7 +28,7 @@ export interface PotentialOptions {
   algebraicPoints?: number;
   /**
    * Cap on the eigensolver's work per solve, 4/3 n^3 flops summed over blocks (default 4e9, about 2-3 s on
-   * an idle core): it lowers the grid cap to about 1440 points for a potential without symmetry, 2880 with it.
+   * an idle core): it lowers the grid cap to about 1440 points for a potential without symmetry, 2290 with it.
    */
   maxWork?: number;
 }
@@ -357,7 +357,9 @@ export function potentialBasis(
   const kmax = Math.sqrt(2 * mass * Math.max(EK - vmin, 0));
   let N = Math.ceil((o.pointsPerWavelength * L * kmax) / (2 * Math.PI)) + 16;
   N = Math.max(N, Math.floor(o.minPoints), K + 8);
-  N = Math.min(N, cap);
+  // Even when the first estimate reaches the cap, a coarser solve comes first so that every level gets
+  // a two-size uncertainty.
+  if (N >= cap) N = Math.max(8, Math.floor(cap / o.growth));
 
   const solveAt = (Nn: number): SineDvrSolution | null => {
     const xs = sineDvrGrid(a, b, Nn);
@@ -385,12 +387,14 @@ export function potentialBasis(
         vv[j] = m;
       }
     }
-    return sineDvrSolve(vv, a, b, mass, K, { symmetric, jumps: cells, wallSlopes: slopes });
+    const sol = sineDvrSolve(vv, a, b, mass, K, { symmetric, jumps: cells, wallSlopes: slopes });
+    // Values near the floating-point limit overflow the matrix: report, do not return NaN levels.
+    return sol.energies.every(Number.isFinite) ? sol : null;
   };
 
   const sizes: number[] = [];
   let prev = solveAt(N);
-  if (!prev) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid.' });
+  if (!prev) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
   sizes.push(N);
   let cur = prev;
   let diffs = new Float64Array(0);
@@ -403,7 +407,7 @@ export function potentialBasis(
   while (N < cap) {
     const N1 = Math.min(cap, Math.ceil(N * o.growth));
     const next = solveAt(N1);
-    if (!next) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid.' });
+    if (!next) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
     sizes.push(N1);
     const m = Math.min(prev.energies.length, next.energies.length);
     diffs = new Float64Array(next.energies.length).fill(Infinity);
@@ -442,7 +446,7 @@ export function potentialBasis(
         }
         if (Nf > N) {
           const fin = solveAt(Nf);
-          if (!fin) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid.' });
+          if (!fin) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
           sizes.push(Nf);
           const factor = Math.pow(Nf / N, p) - 1;
           const mm = Math.min(cur.energies.length, fin.energies.length);
