@@ -17,7 +17,19 @@ export type SystemModel =
   | { kind: 'box'; a: number; b: number; span: Span }
   | { kind: 'well'; depth: number; width: number; center: number; span: Span }
   | { kind: 'oscillator'; omega: number; center: number; span: Span }
-  | { kind: 'potential'; V: CompiledFunction; a: number; b: number; span: Span; exprSpan: Span };
+  | {
+      kind: 'potential';
+      V: CompiledFunction;
+      a: number;
+      b: number;
+      span: Span;
+      exprSpan: Span;
+      /**
+       * Identifies V: its text, the unit system and the values of the names it uses. Equal keys give
+       * equal potentials, so a solved basis can be reused (systems.ts keeps a small memo).
+       */
+      key?: string;
+    };
 
 /** A state with its parameters evaluated or compiled. */
 export type StateModel =
@@ -345,7 +357,7 @@ class ModelBuilder {
         const c = compileFunction(e, scope);
         this.push(c.diagnostics);
         if (!c.result) return null;
-        return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr };
+        return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
       }
     }
   }
@@ -490,3 +502,40 @@ export function fmt(v: number): string {
 
 void NO_SPAN;
 void toInternal;
+
+/** The names an expression refers to (symbols and called functions). */
+function namesOf(e: Expr, into: Set<string>): Set<string> {
+  switch (e.type) {
+    case 'symbol':
+      into.add(e.name);
+      break;
+    case 'unary':
+      namesOf(e.arg, into);
+      break;
+    case 'binary':
+      namesOf(e.left, into);
+      namesOf(e.right, into);
+      break;
+    case 'call':
+      for (const a of e.args) namesOf(a, into);
+      break;
+    case 'conditional':
+      namesOf(e.test, into);
+      namesOf(e.then, into);
+      namesOf(e.otherwise, into);
+      break;
+    default:
+      break;
+  }
+  return into;
+}
+
+/** Key of a potential: its text, the unit system and the internal values of every name it uses. */
+function potentialKey(text: string, e: Expr, scope: Scope): string {
+  const used: [string, number, number][] = [];
+  for (const name of [...namesOf(e, new Set())].sort()) {
+    const v = scope.values.get(name);
+    if (v) used.push([name, v.value.re, v.value.im]);
+  }
+  return JSON.stringify([text, scope.units, used]);
+}

@@ -22,9 +22,29 @@ export interface BuiltBasis {
   points?: number;
 }
 
+/** How many solved numerical bases are kept (least recently used dropped first). */
+const BASIS_MEMO_SIZE = 8;
+const basisMemo = new Map<string, BuiltBasis>();
+
+/**
+ * Forgets every remembered numerical basis (benchmarks time cold analyses with it; tests may reset).
+ */
+export function clearBasisMemo(): void {
+  basisMemo.clear();
+}
+
+/** Number of remembered numerical bases (at most 8). */
+export function basisMemoSize(): number {
+  return basisMemo.size;
+}
+
 /**
  * Builds the eigenbasis of `system` with `count` levels (the finite well holds all its bound states).
  * Returns null (with a diagnostic) when the system cannot be solved.
+ * Numerical potentials are solved once per key (the potential's text, units and the values of the names
+ * it uses; the walls; the mass; the level count) and remembered in a memo of 8 entries, so edits that
+ * change only the state, an `expect` or `evolve` line reuse the solved basis. Bases are never mutated
+ * after they are built, so sharing them is safe.
  */
 export function buildBasis(
   system: SystemModel,
@@ -41,6 +61,14 @@ export function buildBasis(
     case 'oscillator':
       return { basis: oscillatorBasis(system.omega, system.center, mass, count) };
     case 'potential': {
+      const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}`;
+      const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
+      if (hit && memoKey !== null) {
+        // Most recently used last.
+        basisMemo.delete(memoKey);
+        basisMemo.set(memoKey, hit);
+        return hit;
+      }
       const V = system.V;
       let bad: { x: number; value: string } | null = null;
       const evalV = (xs: Float64Array): Float64Array => {
@@ -76,12 +104,17 @@ export function buildBasis(
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
         return null;
       }
-      return {
+      const built: BuiltBasis = {
         basis: solved.basis,
         wallArtefacts: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
         unresolved: solved.unresolved,
         points: solved.points,
       };
+      if (memoKey !== null) {
+        basisMemo.set(memoKey, built);
+        while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
+      }
+      return built;
     }
   }
 }

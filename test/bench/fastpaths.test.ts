@@ -1,0 +1,72 @@
+import { describe, it, expect } from 'vitest';
+import { boxBasis } from '../../server/src/physics/box';
+import { project } from '../../server/src/physics/project';
+import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { analyse } from '../../server/src/analysis/index';
+import { basisMemoSize, clearBasisMemo } from '../../server/src/analysis/systems';
+
+describe('fast paths give the same numbers as the plain paths', () => {
+  it('box: fused weighted sums equal the table projection', () => {
+    // Invariant: the two paths evaluate the same quadrature sum, so they agree to rounding.
+    const basis = boxBasis(-1, 2, 1, 150);
+    const plain = { ...basis, weightedSums: undefined };
+    const q = compositeGaussLegendre(-1, 2, { panels: 100, order: 20 });
+    const re = q.x.map((x) => (x + 1) * (2 - x) * Math.exp(x));
+    const im = q.x.map((x) => (x + 1) * (2 - x) * Math.sin(5 * x));
+    const a = project(plain, q, re, im, 150);
+    const b = project(basis, q, re, im, 150);
+    let diff = 0;
+    let size = 0;
+    for (let k = 0; k < 150; k++) {
+      diff = Math.max(diff, Math.abs(a.re[k]! - b.re[k]!), Math.abs(a.im[k]! - b.im[k]!));
+      size = Math.max(size, Math.abs(a.re[k]!));
+    }
+    expect(size).toBeGreaterThan(0.1);
+    expect(diff).toBeLessThan(1e-14);
+  });
+
+  it('box: the fused path gives the parabola coefficients c_n = 8 sqrt(15)/(n pi)^3', () => {
+    // Griffiths, Introduction to Quantum Mechanics, worked example on the parabola state (from memory).
+    const basis = boxBasis(0, 1, 1, 9);
+    const q = compositeGaussLegendre(0, 1, { panels: 8, order: 20 });
+    const psi = q.x.map((x) => Math.sqrt(30) * x * (1 - x));
+    const c = project(basis, q, psi, null, 9);
+    for (let n = 1; n <= 9; n++) {
+      const expected = n % 2 === 1 ? (8 * Math.sqrt(15)) / (n * Math.PI) ** 3 : 0;
+      expect(Math.abs(c.re[n - 1]! - expected)).toBeLessThan(1e-14);
+      expect(c.im[n - 1]).toBe(0);
+    }
+  });
+});
+
+describe('memo of numerical bases', () => {
+  const file = (state: string, depth = 16) => `system V(x) = (x^2 - 4)^2 / ${depth} over [-6, 6]\nstate ${state}\nbasis 12\n`;
+
+  it('reuses the basis when only the state changes, with the same results as a cold analysis', () => {
+    clearBasisMemo();
+    analyse(file('gaussian(center = -2, width = 0.5)'));
+    expect(basisMemoSize()).toBe(1);
+    const warm = analyse(file('gaussian(center = -1.5, width = 0.6)'));
+    expect(basisMemoSize()).toBe(1);
+    clearBasisMemo();
+    const cold = analyse(file('gaussian(center = -1.5, width = 0.6)'));
+    expect(warm.levels.length).toBe(12);
+    expect(warm.levels.map((l) => [l.energy, l.re, l.im])).toEqual(cold.levels.map((l) => [l.energy, l.re, l.im]));
+  });
+
+  it('tells potentials apart by the values of the names they use, and stays bounded', () => {
+    clearBasisMemo();
+    const withLet = (d: number) => `let D = ${d}\nsystem V(x) = (x^2 - 4)^2 / D over [-6, 6]\nstate gaussian(center = -2, width = 0.5)\nbasis 6\n`;
+    const a = analyse(withLet(16));
+    const first = basisMemoSize();
+    // The same file again adds nothing; another value of D is a new potential (the basis check may
+    // also solve larger bases, each remembered under its own level count).
+    analyse(withLet(16));
+    expect(basisMemoSize()).toBe(first);
+    const b = analyse(withLet(8));
+    expect(basisMemoSize()).toBeGreaterThan(first);
+    expect(a.levels[0]!.energy).not.toBe(b.levels[0]!.energy);
+    for (let d = 1; d <= 10; d++) analyse(withLet(d + 20));
+    expect(basisMemoSize()).toBe(8);
+  });
+});
