@@ -45,7 +45,7 @@ describe('arbitrary input never throws (invariant: the layer returns diagnostics
         for (const leaf of leaves(p.result)) {
           const slice = text.slice(leaf.start - AT, leaf.end - AT);
           if (leaf.type === 'symbol') expect(slice).toBe(leaf.name);
-          else if (/^[0-9.][0-9.eE+-]*$/.test(slice)) expect(Number(slice)).toBe(leaf.value);
+          else if (leaf.type === 'number' && /^[0-9.][0-9.eE+-]*$/.test(slice)) expect(Number(slice)).toBe(leaf.value);
         }
         for (const scope of [natural, physical]) {
           const c = checkExpression(p.result, scope, null, 'the test');

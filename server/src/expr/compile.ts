@@ -590,9 +590,12 @@ function constNode(z: Complex): CNode {
     complex: z.im !== 0,
     nonneg: z.im === 0 && z.re >= 0,
     run(c) {
+      // The buffer keeps its constant between calls; it is filled only when newly allocated.
       const y = alloc(c, key);
-      y.v.fill(z.re);
-      if (y.vi) y.vi.fill(z.im);
+      if (y.v[0] !== z.re || (y.vi !== null && y.vi[0] !== z.im)) {
+        y.v.fill(z.re);
+        if (y.vi) y.vi.fill(z.im);
+      }
       return y;
     },
   };
@@ -606,10 +609,10 @@ function makeXNode(): CNode {
   complex: false,
   nonneg: false,
   run(c) {
+    // The grid itself is the value (nodes never write their inputs); d/dx x = 1 is kept between calls.
     const y = alloc(c, key);
-    y.v.set(c.xs);
-    if (y.d1) y.d1.fill(1);
-    return y;
+    if (y.d1 && y.d1[0] !== 1) y.d1.fill(1);
+    return { v: c.xs, vi: y.vi, d1: y.d1, d1i: y.d1i, d2: y.d2, d2i: y.d2i };
   },
   };
 }

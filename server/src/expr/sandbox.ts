@@ -120,8 +120,8 @@ const mathParse: (text: string) => MathNode = instance.parse as unknown as (text
 {
   const stubs: Record<string, () => never> = {};
   for (const name of DISABLED_FUNCTIONS) {
-    // `config` and `typed` are instance internals that mathjs does not let import replace; the whitelist
-    // keeps them out of reach instead.
+    // `config` and `typed` are instance internals that mathjs does not let import replace: `config` is
+    // made read-only below, and the whitelist keeps both out of reach of expressions.
     if (name === 'config' || name === 'typed') continue;
     stubs[name] = () => {
       throw new Error(`Function ${name} is disabled`);
@@ -129,11 +129,21 @@ const mathParse: (text: string) => MathNode = instance.parse as unknown as (text
   }
   instance.import(stubs, { override: true });
 }
+/* `config` cannot be replaced through import; the instance's own function is swapped for one that only
+   reads, so not even code holding the instance can change the parser's number type. */
+const readConfig = (instance.config as unknown as (o?: unknown) => Record<string, unknown>).bind(instance);
+Object.defineProperty(instance, 'config', {
+  value: (options?: unknown) => {
+    if (options !== undefined) throw new Error('Function config is disabled');
+    return readConfig();
+  },
+  writable: false,
+  configurable: false,
+});
 
 /** A snapshot of the private instance's configuration (tests check it never changes). */
 export function sandboxConfig(): Record<string, unknown> {
-  const read = instance.config as unknown as () => Record<string, unknown>;
-  return { ...read() };
+  return { ...readConfig() };
 }
 
 /** The parts of a mathjs node this module reads. */
