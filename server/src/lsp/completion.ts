@@ -13,6 +13,8 @@ import { fmtComplex, withUnit } from './format';
 export interface CompletionOptions {
   /** The client accepts snippets (`textDocument.completion.completionItem.snippetSupport`). */
   snippets: boolean;
+  /** The client runs `editor.action.triggerSuggest` (VS Code): reopen the list after `system `, `state `, `expect `. */
+  retrigger?: boolean;
 }
 
 function item(label: string, kind: CompletionItemKind, detail: string, snippet: string | null, options: CompletionOptions, sortText?: string): CompletionItem {
@@ -65,8 +67,8 @@ export function completeAt(view: DocView, offset: number, options: CompletionOpt
   if (before.includes('#')) return [];
   if (/^[a-z]*$/.test(before)) {
     return KEYWORDS.map((k, n) => {
-      const it = item(k.name, CompletionItemKind.Keyword, k.doc, k.snippet.endsWith(' ') ? k.snippet : k.snippet, options, String(n).padStart(2, '0'));
-      if (k.snippet.endsWith(' ')) it.command = { title: 'Suggest', command: 'editor.action.triggerSuggest' };
+      const it = item(k.name, CompletionItemKind.Keyword, k.doc, k.snippet, options, String(n).padStart(2, '0'));
+      if (k.snippet.endsWith(' ') && options.retrigger) it.command = { title: 'Suggest', command: 'editor.action.triggerSuggest' };
       return it;
     });
   }

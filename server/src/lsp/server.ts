@@ -69,6 +69,8 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   let init: ServerInitializationOptions = {};
   let evaluate = true;
   let pull = false;
+  /** VS Code can reopen the suggestion list after a keyword through its own command; other clients cannot. */
+  let retriggerCommand = false;
 
   const log = (m: string): void => connection.console.log(m);
   const logError = (m: string): void => connection.console.error(m);
@@ -230,6 +232,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     caps = params.capabilities ?? {};
     init = (params.initializationOptions ?? {}) as ServerInitializationOptions;
     evaluate = init.evaluate !== false;
+    retriggerCommand = /visual studio code|vscode/i.test(params.clientInfo?.name ?? '');
     const mode = init.diagnostics ?? 'auto';
     pull = mode === 'pull' || (mode === 'auto' && !!caps.textDocument?.diagnostic && !!caps.workspace?.diagnostics?.refreshSupport);
     const result: InitializeResult = {
@@ -320,7 +323,9 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   );
 
   connection.onCompletion(
-    handle('completion', [], (st, p) => completeAt(viewOf(st), offsetAt(st.lines, p.position), { snippets: !!caps.textDocument?.completion?.completionItem?.snippetSupport })),
+    handle('completion', [], (st, p) =>
+      completeAt(viewOf(st), offsetAt(st.lines, p.position), { snippets: !!caps.textDocument?.completion?.completionItem?.snippetSupport, retrigger: retriggerCommand }),
+    ),
   );
 
   connection.onSignatureHelp(handle('signatureHelp', null, (st, p) => signatureAt(st.text, offsetAt(st.lines, p.position))));
@@ -355,9 +360,9 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     }),
   );
 
-  const pullHandler = handle('diagnostic', { kind: DocumentDiagnosticReportKind.Full, items: [] } as DocumentDiagnosticReport, async (st, _p, token) => {
-    await settled(st, token);
-    const cur = docs.get(st.uri) ?? st;
+  // Pull answers at once with the best findings so far; a refresh follows when the full analysis lands.
+  const pullHandler = handle('diagnostic', { kind: DocumentDiagnosticReportKind.Full, items: [] } as DocumentDiagnosticReport, (st) => {
+    const cur = st;
     const report: DocumentDiagnosticReport = { kind: DocumentDiagnosticReportKind.Full, items: toLspDiagnostics(cur.lines, cur.version, cur.full?.diagnostics ?? cur.staticDiagnostics) };
     return report;
   });
