@@ -189,3 +189,25 @@ describe('qstate grammar', () => {
     expect(toks.filter((t) => t.scopes.includes('keyword.other.over.qstate'))).toHaveLength(0);
   });
 });
+
+describe('qstate grammar on the example files', () => {
+  it('gives every token of every example a construct scope (no bare statement text)', async () => {
+    const { readdirSync } = await import('node:fs');
+    const files = readdirSync('examples').filter((f) => f.endsWith('.qstate'));
+    expect(files.length).toBeGreaterThan(0);
+    for (const f of files) {
+      const toks = tokenise(readFileSync(`examples/${f}`, 'utf8'));
+      for (const t of toks) {
+        if (t.text.trim() === '') continue;
+        const inner = t.scopes.at(-1)!;
+        expect([f, t.line + 1, t.text, inner.startsWith('meta.statement') || inner === 'source.qstate']).toEqual([f, t.line + 1, t.text, false]);
+      }
+      // Each line at column 0 that is not a comment opens a statement.
+      readFileSync(`examples/${f}`, 'utf8')
+        .split('\n')
+        .forEach((line, i) => {
+          if (/^[a-z]/.test(line)) expect(toks.find((t) => t.line === i)!.scopes.at(-1)).toMatch(/^keyword\.control\.statement\./);
+        });
+    }
+  });
+});
