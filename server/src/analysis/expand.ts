@@ -171,11 +171,19 @@ export function expandState(
   let panels = Math.max(16, Math.ceil((k * width) / 2), breakpoints.length + 1);
   const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
   panels = Math.min(panels, maxPanels);
-  // Under a deadline the first grid fits the time left (about 0.1 us per level and point, measured with
-  // Hermite tables), so a single step of a large basis cannot freeze the analysis.
+  // Under a deadline the first steps must fit the time left (about 0.1 us per level and point, measured
+  // with Hermite tables), so a large basis cannot freeze the analysis. The grid a level needs grows with
+  // the level, so fewer levels are projected (the returned arrays are shorter) on a grid still fine
+  // enough for them, rather than all levels on a grid too coarse to resolve the high ones.
+  let cut = false;
   if (options.deadline !== undefined) {
-    const affordable = Math.floor(((options.deadline - performance.now()) * 1e4) / (3 * Math.max(1, levels) * ORDER));
-    if (affordable < panels) panels = Math.max(16, affordable);
+    const entries = ((options.deadline - performance.now()) * 1e4) / 3;
+    if (levels * panels * ORDER > entries) {
+      const fewer = Math.max(1, Math.min(levels, Math.floor(Math.sqrt((Math.max(entries, 0) * levels) / (panels * ORDER)))));
+      panels = Math.max(16, Math.ceil((panels * fewer) / levels), breakpoints.length + 1);
+      levels = fewer;
+      cut = true;
+    }
   }
   // Many box levels of a smooth state: a sine transform of equally spaced samples replaces the
   // per-level quadrature (its aliasing error is about (2N)^-3 relative; see dst.ts).
@@ -207,9 +215,9 @@ export function expandState(
     if (prev) {
       let diff = Math.abs(prev.norm - norm);
       for (let j = 0; j < levels; j++) diff = Math.max(diff, Math.hypot(prev.re[j]! - c.re[j]!, prev.im[j]! - c.im[j]!) ** 1);
-      if (diff <= 1e-12 * Math.max(norm, 1e-300) ** 0.5 || diff <= 1e-13 * Math.max(norm, 1e-300)) return { ...cur, capped: false };
+      if (diff <= 1e-12 * Math.max(norm, 1e-300) ** 0.5 || diff <= 1e-13 * Math.max(norm, 1e-300)) return { ...cur, capped: false, late: cut };
     }
-    if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: prev !== null && panels * 2 > maxPanels };
+    if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: prev !== null && panels * 2 > maxPanels, late: cut };
     // The next step costs about twice this one: stop before it would overrun the deadline.
     if (options.deadline !== undefined && performance.now() + 2.5 * (performance.now() - t0) > options.deadline) return { ...cur, capped: true, late: true };
     prev = cur;

@@ -236,6 +236,10 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
     }
     throw err;
   }
+  if (ex.re.length < count) {
+    out.push(warn('limits', stateSpan, `Only the first ${ex.re.length} of ${count} levels could be projected within the time limit of ${limits.maxMillis} ms; lower \`basis\` or raise the limit.`));
+    count = ex.re.length;
+  }
   if (ex.capped && ex.late) out.push(warn('limits', stateSpan, `The time limit of ${limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`));
   else if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
   const norm = ex.norm;
@@ -544,7 +548,7 @@ function levelsNeeded(
     const m = Math.min(n, b.basis.count);
     const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
     let acc = 0;
-    for (let k = 0; k < m; k++) {
+    for (let k = 0; k < Math.min(m, ex.re.length); k++) {
       acc += (ex.re[k]! ** 2 + ex.im[k]! ** 2) / ex.norm;
       if (acc >= 1 - TOL) return k + 1;
     }
