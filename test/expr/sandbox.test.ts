@@ -111,8 +111,12 @@ describe('the sandbox refuses escape attempts on their exact range', () => {
       expect(r.result).toBeNull();
       expect(r.diagnostics.map((d) => d.code)).toEqual(['limits']);
     }
-    // A long flat sum is not deep nesting.
+    // A long flat sum, even with mixed operators, is not deep nesting; its length has its own cap.
     expect(run(Array(1500).fill('x').join(' + ')).result).not.toBeNull();
+    expect(run(Array(600).fill('x').join(' + 2 x - ')).result).not.toBeNull();
+    const long = run(Array(1700).fill('x').join('+'));
+    expect(long.diagnostics.map((d) => d.code)).toEqual(['limits']);
+    expect(long.diagnostics[0]!.message).toContain('1500');
   });
 
   it('honours smaller caps given as options', () => {

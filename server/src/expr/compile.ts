@@ -1559,8 +1559,16 @@ export function compileFunction(expr: Expr, scope: Scope): Prepared<CompiledFunc
     const fn: CompiledFunction = {
       complex: cx,
       evaluate(xs: Float64Array, order: 0 | 1 | 2 = 0, phi?: PhiProvider): GridValues {
-        const j = root.run({ cache, n: xs.length, xs, order, cx, phi });
-        return jetToGrid(j, xs.length, order);
+        try {
+          const j = root.run({ cache, n: xs.length, xs, order, cx, phi });
+          return jetToGrid(j, xs.length, order);
+        } catch (err) {
+          // Only a stack overflow on an extreme tree (or a throwing phi provider) lands here: the values
+          // are reported as NaN, which callers detect with findBadPoint.
+          void err;
+          const nan = constNode({ re: NaN, im: NaN }).run({ cache: new Map(), n: xs.length, xs, order, cx: true, phi });
+          return jetToGrid(nan, xs.length, order);
+        }
       },
       breakpoints(a: number, b: number, phi?: PhiProvider): number[] {
         return findBreakpoints(switches, cx, a, b, phi);

@@ -58,10 +58,12 @@ export interface ParseOptions {
   maxLength?: number;
   /** Deepest nesting accepted: brackets, calls, unary and power chains (default 200). */
   maxDepth?: number;
+  /** Longest chain of left-associative binary operations, such as the terms of a sum (default 1500). */
+  maxChain?: number;
 }
 
 /** Default caps of `parseExpression`. */
-export const DEFAULT_PARSE_OPTIONS: Required<ParseOptions> = { maxLength: 10_000, maxDepth: 200 };
+export const DEFAULT_PARSE_OPTIONS: Required<ParseOptions> = { maxLength: 10_000, maxDepth: 200, maxChain: 1500 };
 
 /**
  * mathjs functions its security guidance says to disable, plus every other entry point that parses,
@@ -480,29 +482,31 @@ function children(node: MathNode): MathNode[] {
 }
 
 /**
- * Nesting depth of the tree. A left-associative chain of one binary operator (`a + b + c + ...`, implicit
- * products) counts as one level, so long sums are not mistaken for deep nesting.
+ * Nesting depth of the tree, and the longest chain of left-associative binary operators. A chain such as
+ * `a + b - c + ...` or `2 pi x y` counts as one level of depth, so long sums are not mistaken for deep
+ * nesting; its length is capped separately because every later stage walks it recursively.
  */
-function treeDepth(root: MathNode): number {
-  let max = 0;
-  const stack: [MathNode, number][] = [[root, 1]];
+function treeShape(root: MathNode): { depth: number; chain: number } {
+  let depth = 0;
+  let chain = 0;
+  const stack: [MathNode, number, number][] = [[root, 1, 0]];
   while (stack.length > 0) {
-    const [node, d] = stack.pop()!;
-    if (d > max) max = d;
+    const [node, d, c] = stack.pop()!;
+    if (d > depth) depth = d;
+    if (c > chain) chain = c;
     const kids = children(node);
     for (let j = 0; j < kids.length; j++) {
       const kid = kids[j]!;
-      const chain =
+      const link =
         node.type === 'OperatorNode' &&
         j === 0 &&
         kids.length === 2 &&
         kid.type === 'OperatorNode' &&
-        kid['fn'] === node['fn'] &&
         (kid['args'] as MathNode[]).length === 2;
-      stack.push([kid, chain ? d : d + 1]);
+      stack.push(link ? [kid, d, c + 1] : [kid, d + 1, 0]);
     }
   }
-  return max;
+  return { depth, chain };
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -688,7 +692,7 @@ function tokenLevelRefusals(tokens: Tok[], base: number): EngineDiagnostic[] {
  * the character mathjs reports), `forbidden` (every construct outside the whitelist, on its own range).
  */
 export function parseExpression(src: ExprText, options: ParseOptions = {}): Prepared<Expr> {
-  const { maxLength, maxDepth } = { ...DEFAULT_PARSE_OPTIONS, ...options };
+  const { maxLength, maxDepth, maxChain } = { ...DEFAULT_PARSE_OPTIONS, ...options };
   const text = src.text;
   const base = src.start;
   const whole = { start: base, end: base + text.length };
@@ -731,8 +735,14 @@ export function parseExpression(src: ExprText, options: ParseOptions = {}): Prep
       }
       return { result: null, diagnostics: [diagnostic('syntax', whole.start, whole.end, `${message}.`), ...extra] };
     }
-    if (treeDepth(tree) > maxDepth)
+    const shape = treeShape(tree);
+    if (shape.depth > maxDepth)
       return { result: null, diagnostics: [diagnostic('limits', whole.start, whole.end, `The expression is nested more than ${maxDepth} deep.`)] };
+    if (shape.chain > maxChain)
+      return {
+        result: null,
+        diagnostics: [diagnostic('limits', whole.start, whole.end, `The expression chains more than ${maxChain} operations in a row; split it with let lines.`)],
+      };
     const spanner = new Spanner(tokens, text.length);
     spanner.span(tree);
     const conv = new Converter(spanner.spans, tokens, text, base);
