@@ -157,7 +157,17 @@ export function spectrumOption(ctx: BuildContext): Option {
     },
     xAxis: byEnergy
       ? { type: 'value', name: `E_n${unitSuffix(e)}`, nameLocation: 'middle', nameGap: 28, scale: true, ...axisStyle(p) }
-      : { type: 'category', name: 'n', nameLocation: 'middle', nameGap: 28, data: levels.map((l) => String(l.n)), ...axisStyle(p) },
+      : {
+          type: 'category',
+          name: 'n',
+          nameLocation: 'middle',
+          nameGap: 28,
+          data: levels.map((l) => String(l.n)),
+          ...axisStyle(p),
+          // A fixed label step spares ECharts measuring every label on each redraw.
+          axisLabel: { color: p.foreground, interval: Math.max(0, Math.ceil(levels.length / 25) - 1) },
+          axisTick: { interval: Math.max(0, Math.ceil(levels.length / 25) - 1) },
+        },
     yAxis: [
       log
         ? { type: 'log', name: '|c_n|²', min: floor, max: 1, ...axisStyle(p) }

@@ -145,6 +145,35 @@ describe('spectrum panel in Chromium', () => {
     copyFileSync('test-artifacts/panel-spectrum.png', 'docs/screenshots/panel-spectrum.png');
   });
 
+  it('shows a tooltip for a bar and links a clicked level to the state view', async () => {
+    const box = (await page.locator('#chart-spectrum').boundingBox())!;
+    // The first level's bar: the grid starts 64 px in; each of the levels gets an equal category slot.
+    const slot = (box.width - 64 - 56) / result.levels.length;
+    const x = box.x + 64 + slot / 2;
+    const y = box.y + box.height - 48 - 8;
+    await page.mouse.move(x, y);
+    await page.waitForSelector('table.tip', { state: 'visible' });
+    const tip = await page.textContent('table.tip');
+    expect(tip).toContain('E_n');
+    expect(tip).toContain('4.9348'); // E_1 = pi^2/2 for the unit box (natural units), common practice
+    expect(tip).toContain('phase');
+    await page.mouse.click(x, y);
+    const i = await inspect();
+    expect(i.settings.terms).toBeGreaterThanOrEqual(1);
+    await page.click('#tab-state');
+    expect((await inspect()).series.some((s) => s.id === 'picked')).toBe(true);
+    await page.click('#tab-spectrum');
+  });
+
+  it('plots the weights against the energies when asked', async () => {
+    await page.selectOption('#axis', 'energy');
+    const i = await inspect();
+    const even = series(i, 'bars-even') as [number, number | null][];
+    expect(even[0]![0]).toBeCloseTo(result.levels[0]!.energy, 12);
+    expect(even[0]![1]).toBeCloseTo(result.levels[0]!.weight, 15);
+    await page.selectOption('#axis', 'n');
+  });
+
   it('switches to a log scale that drops zero weights', async () => {
     await page.selectOption('#scale', 'log');
     const i = await inspect();
