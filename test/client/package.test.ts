@@ -5,9 +5,9 @@
  */
 import { describe, it, expect, beforeAll } from 'vitest';
 import { execFile } from 'node:child_process';
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { cpSync, existsSync, mkdtempSync, readFileSync, symlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
 import { inflateRawSync } from 'node:zlib';
 
 interface Entry {
@@ -60,9 +60,16 @@ let vsix: Buffer;
 let entries: Entry[];
 
 beforeAll(async () => {
-  const out = join(mkdtempSync(join(tmpdir(), 'eigenspan-vsix-')), 'eigenspan.vsix');
+  // Package a copy of the project, so the production build does not rewrite dist/ under tests that
+  // are running from it at the same time.
+  const work = mkdtempSync(join(tmpdir(), 'eigenspan-vsix-'));
+  for (const p of ['package.json', '.vscodeignore', 'README.md', 'LICENSE', 'language-configuration.json', 'syntaxes', 'scripts', 'server', 'client', 'docs/screenshots']) {
+    if (existsSync(p)) cpSync(p, join(work, p), { recursive: true });
+  }
+  symlinkSync(resolve('node_modules'), join(work, 'node_modules'), 'dir');
+  const out = join(work, 'eigenspan.vsix');
   await new Promise<void>((resolve, reject) =>
-    execFile(process.execPath, ['scripts/package.mjs', `--out=${out}`], { maxBuffer: 16 << 20 }, (err, stdout, stderr) =>
+    execFile(process.execPath, ['scripts/package.mjs', `--out=${out}`], { cwd: work, maxBuffer: 16 << 20 }, (err, stdout, stderr) =>
       err ? reject(new Error(`packaging failed: ${err.message}\n${stdout}\n${stderr}`)) : resolve(),
     ),
   );

@@ -2,7 +2,7 @@
  * The spectrum panel in headless Chromium: the real HTML the extension builds, served from 127.0.0.1,
  * with a real analysis result of a fixture file posted to it the way the extension host does.
  */
-import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
 import { copyFileSync, mkdirSync, readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { analyse } from '../../server/src/analysis/index';
@@ -76,19 +76,35 @@ function series(i: Inspect, id: string): unknown[] {
   return s.data;
 }
 
+// A setup failure (no Chromium, no real result) is re-thrown by every test, so each one fails
+// instead of being reported as skipped.
+let setupError: unknown = null;
+
 beforeAll(async () => {
-  // Preconditions: the engine produced a real expansion with samples and an evolution.
-  expect(result.levels.length).toBeGreaterThan(20);
-  expect(result.samples?.phi.length).toBeGreaterThan(20);
-  expect(result.evolution?.density?.length).toBeGreaterThan(10);
-  expect(brokenResult.diagnostics.some((d) => d.severity === 'error')).toBe(true);
-  const dir = await bundleWebview();
-  server = await servePanel(dir);
-  browser = await launchChromium();
-  page = await openPage();
-  artifacts();
-  mkdirSync('docs/screenshots', { recursive: true });
+  try {
+    // Preconditions: the engine produced a real expansion with samples and an evolution.
+    expect(result.levels.length).toBeGreaterThan(20);
+    expect(result.samples?.phi.length).toBeGreaterThan(20);
+    expect(result.evolution?.density?.length).toBeGreaterThan(10);
+    expect(brokenResult.diagnostics.some((d) => d.severity === 'error')).toBe(true);
+    const dir = await bundleWebview();
+    server = await servePanel(dir);
+    browser = await launchChromium();
+    page = await openPage();
+    artifacts();
+    mkdirSync('docs/screenshots', { recursive: true });
+  } catch (e) {
+    setupError = e;
+  }
 }, 120_000);
+
+/** `it` whose body runs only after a successful setup, and fails with the setup's error otherwise. */
+function it(name: string, body: () => Promise<void>): void {
+  vitestIt(name, async () => {
+    if (setupError) throw setupError;
+    await body();
+  });
+}
 
 afterAll(async () => {
   await browser?.close();
