@@ -81,6 +81,19 @@ describe('time budget and crashes', () => {
     expect(r.version).toBe(2);
   });
 
+  it('terminates a genuinely slow analysis (a numerical potential with 1000 levels) without any test hook', async () => {
+    const c = await startClient({ settings: { timeBudgetMs: 1000, debounceMs: 0 }, env: { EIGENSPAN_TEST_HOOKS: '0' } });
+    clients.push(c);
+    const a = 'file:///sched/slow-potential.qstate';
+    const t0 = performance.now();
+    c.open(a, 'system V(x) = x^4 over [-6, 6]\nstate psi(x) = exp(-x^2)\nbasis 1000\n');
+    const p = await c.diagnostics(a, (q) => q.diagnostics.some((d) => d.code === 'limits' && /1000 ms/.test(String(d.message))));
+    // Terminated near the budget, far sooner than the tens of seconds the analysis needs here.
+    expect(performance.now() - t0).toBeLessThan(8000);
+    expect(p.diagnostics.find((d) => d.code === 'limits')!.range.start.line).toBe(1);
+    await c.log(/exceeded 1000 ms; restarting the worker/);
+  });
+
   it('restarts a crashed worker and keeps serving', async () => {
     const c = await client({ debounceMs: 0 });
     const a = 'file:///sched/crash.qstate';

@@ -27,7 +27,9 @@ export function fmtComplex(re: number, im: number, digits = 6): string {
 export function fmtPhase(re: number, im: number): string {
   if (re === 0 && im === 0) return '—';
   const p = Math.atan2(im, re) / Math.PI;
-  return Math.abs(p) < 5e-7 ? '0' : `${fmt(p, 4)}π`;
+  if (Math.abs(p) < 5e-7) return '0';
+  if (Math.abs(Math.abs(p) - 1) < 5e-7) return p > 0 ? 'π' : '-π';
+  return `${fmt(p, 4)}π`;
 }
 
 /** ` unit` or an empty string. */

@@ -88,17 +88,17 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
   let measured = '—';
   if (r) {
     const e = withUnit(r.units.energy);
-    if (x.kind === 'norm') measured = fmt(r.norm, 10);
+    if (x.kind === 'norm') measured = fmt(r.norm, 12);
     else if (x.kind === 'parity') measured = r.parity ?? 'undefined (no centre of symmetry)';
-    else if (x.kind === 'energy') measured = r.energy?.mean === null || !r.energy ? 'diverges' : fmt(r.energy.mean, 8) + e;
-    else if (x.kind === 'spread') measured = r.energy?.spread === null || !r.energy ? 'diverges' : fmt(r.energy.spread, 8) + e;
+    else if (x.kind === 'energy') measured = r.energy?.mean === null || !r.energy ? 'diverges' : fmt(r.energy.mean, 12) + e;
+    else if (x.kind === 'spread') measured = r.energy?.spread === null || !r.energy ? 'diverges' : fmt(r.energy.spread, 12) + e;
     else {
       const from = levelNumber(x.from.text);
       const to = x.to ? levelNumber(x.to.text) : from;
       if (from !== null && to !== null) {
         let sum = 0;
         for (const l of r.levels) if (l.n >= from && l.n <= to) sum += l.weight;
-        measured = fmt(sum, 10);
+        measured = fmt(sum, 12);
       }
     }
   }

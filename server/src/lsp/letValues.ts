@@ -26,6 +26,8 @@ function display(re: number, im: number, dim: Dimension, u: UnitSystem): { re: n
   if (sameDimension(dim, DIM.length)) return { re, im, unit: u.length.name };
   if (sameDimension(dim, DIM.energy)) return { re, im, unit: u.energy.name };
   if (sameDimension(dim, DIM.time)) return { re: timeToDisplay(re, u), im: timeToDisplay(im, u), unit: timeUnitName(u) };
+  // Internal lengths are file lengths, so a pure power of length is shown in the file's length unit.
+  if (dim[1] === 0 && dim[2] === 0 && dim[3] === 0) return { re, im, unit: `${u.length.name}^${Number(dim[0].toFixed(3))}` };
   return { re: fromInternal(re, dim, u), im: fromInternal(im, dim, u), unit: siUnit(dim) };
 }
 
