@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { sineDvrGrid, sineDvrSolve, sineSeriesTable } from '../../server/src/physics/dvr';
+import { sineDvrGrid, sineDvrSolve, sineSeriesTable, sineSeriesWeightedSums } from '../../server/src/physics/dvr';
 
 describe('sine DVR', () => {
   it('V = 0 gives the box levels k^2 pi^2/(2 m L^2) exactly at any size', () => {
@@ -38,6 +38,31 @@ describe('sine DVR', () => {
     expect(plain).toBeLessThan(4.2);
     expect(fixed).toBeGreaterThan(5.8);
     expect(err(400, true)).toBeLessThan(1e-9 * E1);
+  });
+
+  it('weighted sums equal the table contracted with the weights (invariant), and noise terms are dropped', () => {
+    const xs = sineDvrGrid(-8, 8, 90);
+    const s = sineDvrSolve(xs.map((x) => x * x + 0.3 * x), -8, 8, 1, 6);
+    // The low levels are resolved well below the top of the series, so their tails are cut.
+    expect(s.terms[0]).toBeLessThan(89);
+    const pts = Float64Array.from({ length: 301 }, (_, i) => -8.2 + (16.4 * i) / 300);
+    const wr = pts.map((x) => Math.cos(x));
+    const wi = pts.map((x) => Math.sin(2 * x));
+    const t = new Float64Array(6 * pts.length);
+    sineSeriesTable(s, pts, 6, t);
+    const re = new Float64Array(6);
+    const im = new Float64Array(6);
+    sineSeriesWeightedSums(s, pts, wr, wi, 6, re, im);
+    for (let j = 0; j < 6; j++) {
+      let sr = 0;
+      let si = 0;
+      for (let i = 0; i < pts.length; i++) {
+        sr += wr[i] * t[j * pts.length + i];
+        si += wi[i] * t[j * pts.length + i];
+      }
+      expect(Math.abs(re[j] - sr)).toBeLessThan(1e-11);
+      expect(Math.abs(im[j] - si)).toBeLessThan(1e-11);
+    }
   });
 
   it('table derivatives match central differences of the series', () => {

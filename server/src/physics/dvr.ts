@@ -40,6 +40,11 @@ export interface SineDvrSolution {
   coefficients: Float64Array;
   /** Per level: 0 = all k, 1 = odd k only (even about the centre), 2 = even k only (odd about the centre). */
   parity: Uint8Array;
+  /**
+   * Per level: the highest k whose coefficient exceeds 1e-15 of the level's largest; the terms above are
+   * rounding noise and are skipped when the series is evaluated.
+   */
+  terms: Int32Array;
 }
 
 /** Options of `sineDvrSolve`. */
@@ -165,7 +170,15 @@ export function sineDvrSolve(
     parity[j] = blk.parity;
     for (let r = 0; r < blk.ks.length; r++) coefficients[j * n + blk.ks[r] - 1] = f.vec[r];
   }
-  return { a, b, mass, intervals: N, energies, coefficients, parity };
+  const terms = new Int32Array(count);
+  for (let j = 0; j < count; j++) {
+    let mx = 0;
+    for (let k = 0; k < n; k++) mx = Math.max(mx, Math.abs(coefficients[j * n + k]));
+    let last = n;
+    while (last > 1 && !(Math.abs(coefficients[j * n + last - 1]) > 1e-15 * mx)) last--;
+    terms[j] = last;
+  }
+  return { a, b, mass, intervals: N, energies, coefficients, parity, terms };
 }
 
 /**
@@ -191,6 +204,8 @@ export function sineSeriesTable(
   const S = new Float64Array(n + 1);
   const Cc = new Float64Array(n + 1);
   const kf = Math.PI / L;
+  let kTop = 0;
+  for (let j = 0; j < count; j++) kTop = Math.max(kTop, sol.terms[j]);
   for (let i = 0; i < m; i++) {
     const x = xs[i];
     if (!(x >= sol.a && x <= sol.b)) {
@@ -206,7 +221,7 @@ export function sineSeriesTable(
     const c1 = Math.cos(th);
     let s = 0;
     let c = 1;
-    for (let k = 1; k <= n; k++) {
+    for (let k = 1; k <= kTop; k++) {
       if ((k & 63) === 1) {
         s = Math.sin(k * th);
         c = Math.cos(k * th);
@@ -223,18 +238,88 @@ export function sineSeriesTable(
       const start = p === 2 ? 2 : 1;
       const step = p === 0 ? 1 : 2;
       const off = j * n - 1;
+      const top = sol.terms[j];
       let f = 0;
       let g = 0;
       let h = 0;
-      for (let k = start; k <= n; k += step) {
-        const ck = sol.coefficients[off + k];
-        f += ck * S[k];
-        if (d1) g += ck * k * Cc[k];
-        if (d2) h += ck * k * k * S[k];
+      // Separate loops keep the hot path free of branches when no derivative is asked for.
+      if (!d1 && !d2) {
+        for (let k = start; k <= top; k += step) f += sol.coefficients[off + k] * S[k];
+      } else {
+        for (let k = start; k <= top; k += step) {
+          const ck = sol.coefficients[off + k];
+          f += ck * S[k];
+          g += ck * k * Cc[k];
+          h += ck * k * k * S[k];
+        }
       }
       out[j * m + i] = norm * f;
       if (d1) d1[j * m + i] = norm * kf * g;
       if (d2) d2[j * m + i] = -norm * kf * kf * h;
     }
+  }
+}
+
+/**
+ * Projection sums of the sine-series levels without their table: with the box sums
+ * S_k = sum_i w_i sin(k pi (x_i - a)/L) over the points inside [a, b],
+ * sum_i w_i phi_j(x_i) = sqrt(2/L) sum_k c_jk S_k (the order of the two sums exchanged). Adds the result
+ * for wRe to outRe[j] and for wIm (when given) to outIm[j], j < levels. The cost is
+ * (points + levels) x terms instead of points x levels x terms. sin(k theta) as in {@link sineSeriesTable}.
+ */
+export function sineSeriesWeightedSums(
+  sol: SineDvrSolution,
+  xs: Float64Array,
+  wRe: Float64Array,
+  wIm: Float64Array | null,
+  levels: number,
+  outRe: Float64Array,
+  outIm: Float64Array,
+): void {
+  const n = sol.intervals - 1;
+  const L = sol.b - sol.a;
+  const count = Math.min(levels, sol.energies.length);
+  const kf = Math.PI / L;
+  const sRe = new Float64Array(n + 1);
+  const sIm = new Float64Array(n + 1);
+  // Only the terms some level uses (see `terms`).
+  let kTop = 0;
+  for (let j = 0; j < count; j++) kTop = Math.max(kTop, sol.terms ? sol.terms[j] : n);
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i];
+    if (!(x >= sol.a && x <= sol.b)) continue;
+    const th = kf * (x - sol.a);
+    const s1 = Math.sin(th);
+    const c1 = Math.cos(th);
+    const wr = wRe[i];
+    const wi = wIm ? wIm[i] : 0;
+    let s = 0;
+    let c = 1;
+    for (let k = 1; k <= kTop; k++) {
+      if ((k & 63) === 1) {
+        s = Math.sin(k * th);
+        c = Math.cos(k * th);
+      } else {
+        const sn = s * c1 + c * s1;
+        c = c * c1 - s * s1;
+        s = sn;
+      }
+      sRe[k] += s * wr;
+      sIm[k] += s * wi;
+    }
+  }
+  const norm = Math.sqrt(2 / L);
+  for (let j = 0; j < count; j++) {
+    const off = j * n - 1;
+    const top = sol.terms ? sol.terms[j] : n;
+    let fr = 0;
+    let fi = 0;
+    for (let k = 1; k <= top; k++) {
+      const ck = sol.coefficients[off + k];
+      fr += ck * sRe[k];
+      fi += ck * sIm[k];
+    }
+    outRe[j] += norm * fr;
+    if (wIm) outIm[j] += norm * fi;
   }
 }
