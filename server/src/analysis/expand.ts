@@ -171,13 +171,20 @@ export function expandState(
   let panels = Math.max(16, Math.ceil((k * width) / 2), breakpoints.length + 1);
   const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
   panels = Math.min(panels, maxPanels);
-  // Under a deadline the first steps must fit the time left (about 0.1 us per level and point, measured
-  // with Hermite tables), so a large basis cannot freeze the analysis. The grid a level needs grows with
-  // the level, so fewer levels are projected (the returned arrays are shorter) on a grid still fine
-  // enough for them, rather than all levels on a grid too coarse to resolve the high ones.
+  // Under a deadline the first steps must fit the time left, so a large basis cannot freeze the
+  // analysis: the cost of one level at one point is measured on a small probe (it ranges from about
+  // 10 ns for sines to microseconds for numerical levels). The grid a level needs grows with the level,
+  // so fewer levels are projected (the returned arrays are shorter) on a grid still fine enough for
+  // them, rather than all levels on a grid too coarse to resolve the high ones.
   let cut = false;
   if (options.deadline !== undefined) {
-    const entries = ((options.deadline - performance.now()) * 1e4) / 3;
+    const probe = new Float64Array(16);
+    for (let j = 0; j < 16; j++) probe[j] = window[0] + ((j + 0.5) * width) / 16;
+    const pl = Math.min(levels, 256);
+    const t = performance.now();
+    basis.table(probe, pl, new Float64Array(pl * 16));
+    const perEntry = Math.max((performance.now() - t) / (pl * 16), 1e-5);
+    const entries = (options.deadline - performance.now()) / perEntry / 3;
     if (levels * panels * ORDER > entries) {
       const fewer = Math.max(1, Math.min(levels, Math.floor(Math.sqrt((Math.max(entries, 0) * levels) / (panels * ORDER)))));
       panels = Math.max(16, Math.ceil((panels * fewer) / levels), breakpoints.length + 1);
