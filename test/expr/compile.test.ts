@@ -164,7 +164,8 @@ describe('forward-mode derivatives', () => {
   });
 
   it('passes phi(n, x) derivatives through the chain rule', () => {
-    // A provider of the box eigenfunctions on [0, 1]: sqrt(2) sin(n pi x) (Griffiths, from memory).
+    // A provider of the box eigenfunctions on [0, 1], phi_n = sqrt(2) sin(n pi x).
+    // Source: Griffiths, Introduction to Quantum Mechanics (from memory).
     const phi = (n: number, xs: Float64Array, out: Float64Array, d1?: Float64Array, d2?: Float64Array) => {
       for (let k = 0; k < xs.length; k++) {
         const a = n * Math.PI;
@@ -173,8 +174,6 @@ describe('forward-mode derivatives', () => {
         if (d2) d2[k] = -Math.SQRT2 * a * a * Math.sin(a * xs[k]!);
       }
     };
-    const scope = { ...(compiled as unknown as object) };
-    void scope;
     const f = compiled('phi(2, x/2) + 3', { units: { mode: 'natural' }, values: new Map(), hasX: true, hasPhi: true });
     const xs = Float64Array.of(0.1, 0.4, 0.9);
     const v = f.evaluate(xs, 2, phi);
