@@ -56,7 +56,7 @@ function baseOption(p: Palette): Option {
 
 function axisStyle(p: Palette): Option {
   return {
-    axisLine: { lineStyle: { color: p.muted } },
+    axisLine: { onZero: false, lineStyle: { color: p.muted } },
     axisLabel: { color: p.foreground },
     nameTextStyle: { color: p.foreground },
     splitLine: { lineStyle: { color: p.grid, opacity: 0.6 } },
