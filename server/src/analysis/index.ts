@@ -385,7 +385,7 @@ function reportBasisFacts(built: BuiltBasis, model: Model, sysSpan: { start: num
   if (built.wallArtefacts && built.wallArtefacts.length > 0) {
     const first = built.wallArtefacts[0]! + basis.firstLabel;
     out.push(
-      warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential at both walls: they are the walls' box-quantised continuum, not bound states of the potential.`, undefined, 'info'),
+      warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential where it levels off at a wall: they are the walls' box-quantised continuum, not bound states of the potential.`, undefined, 'info'),
     );
   }
 }

@@ -106,7 +106,7 @@ export function buildBasis(
       }
       const built: BuiltBasis = {
         basis: solved.basis,
-        wallArtefacts: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
+        wallArtefacts: wallArtefacts(solved.basis, probe, evalV(probe)),
         unresolved: solved.unresolved,
         points: solved.points,
       };
@@ -117,6 +117,26 @@ export function buildBasis(
       return built;
     }
   }
+}
+
+/**
+ * Levels that exist only because of an artificial wall. A wall is taken to stand in for open space
+ * when the potential rises or levels off towards it (a Morse curve's dissociation side, the far side of
+ * a double well); it is taken as deliberate when the potential falls towards it (a hard wall at the
+ * bottom of a linear ramp). Levels above the potential at an open wall are box-quantised continuum.
+ */
+function wallArtefacts(basis: Eigenbasis, xs: Float64Array, v: Float64Array): number[] {
+  const n = xs.length;
+  const k = Math.max(2, Math.floor(n / 10));
+  const scale = Math.max(1e-300, ...Array.from(v, Math.abs));
+  const openLeft = v[0]! >= v[k]! - 1e-9 * scale;
+  const openRight = v[n - 1]! >= v[n - 1 - k]! - 1e-9 * scale;
+  const out: number[] = [];
+  for (let i = 0; i < basis.count; i++) {
+    const e = basis.energies[i]!;
+    if ((openLeft && e > v[0]!) || (openRight && e > v[n - 1]!)) out.push(i);
+  }
+  return out;
 }
 
 /** Something that can be evaluated on a grid: the state as written (not normalised). */
