@@ -192,6 +192,14 @@ export function niceBound(v: number, up: boolean): number {
   return (up ? Math.ceil(v / p) : Math.floor(v / p)) * p;
 }
 
+/** The smallest of 1, 2, 2.5, 5 or 10 times a power of ten that is at least v > 0 (a tick-friendly ceiling). */
+export function niceCeil(v: number): number {
+  if (!(v > 0) || !Number.isFinite(v)) return 1;
+  const p = 10 ** Math.floor(Math.log10(v));
+  for (const m of [1, 2, 2.5, 5, 10]) if (m * p >= v * (1 - 1e-12)) return m * p;
+  return 10 * p;
+}
+
 /** Energy window for the state view: the levels that matter, the mean and the well's floor. */
 export function energyWindow(result: PanelResult): [number, number] {
   // Levels holding at least 1 % of the largest weight set the top, so a slowly decaying tail does not squash the view.
@@ -313,7 +321,7 @@ export function timeOption(ctx: BuildContext): Option {
       { gridIndex: 1, type: 'value', name: `t${unitSuffix(tu)}`, nameLocation: 'middle', nameGap: 24, min: ev.times[0] ?? 0, max: ev.times[ev.times.length - 1] ?? 1, ...axisStyle(p), axisLabel: { color: p.foreground, showMaxLabel: false } },
     ],
     yAxis: [
-      dens ? { gridIndex: 0, type: 'value', name: '|ψ|²', min: 0, max: dmax > 0 ? niceBound(dmax * 1.05, true) : 1, ...axisStyle(p) } : { gridIndex: 0, type: 'value', name: '⟨x⟩', scale: true, ...axisStyle(p) },
+      dens ? { gridIndex: 0, type: 'value', name: '|ψ|²', min: 0, max: niceCeil(dmax * 1.02), ...axisStyle(p) } : { gridIndex: 0, type: 'value', name: '⟨x⟩', scale: true, ...axisStyle(p) },
       { gridIndex: 1, type: 'value', name: 'survival', min: 0, max: 1, ...axisStyle(p) },
     ],
     series: [

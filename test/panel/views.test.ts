@@ -1,0 +1,115 @@
+/**
+ * The panel's pure parts in Node: partial sums, normalisation, axis helpers and the option builders.
+ */
+import { describe, it, expect } from 'vitest';
+import { l2Distance, normalisedState, partialSum, isSymmetric, trapezoid } from '../../client/webview/physics';
+import { spectrumOption, stateOption, logFloor, niceCeil, niceBound, energyWindow, hasParity, DEFAULT_SETTINGS } from '../../client/webview/views';
+import { readPalette } from '../../client/webview/theme';
+import { parabolaResult } from '../client/fixtures';
+
+const palette = readPalette(() => '', 'dark');
+const ctx = (over: Partial<typeof DEFAULT_SETTINGS> = {}, r = parabolaResult(12, { samples: true })) => ({
+  result: r,
+  settings: { ...DEFAULT_SETTINGS, ...over },
+  palette,
+  tooltip: (rows: [string, string][]) => rows.map((x) => x.join(': ')).join('\n'),
+});
+
+describe('partial sums', () => {
+  const r = parabolaResult(15, { samples: true });
+  const s = r.samples!;
+
+  it('normalises the sampled state to unit integral of |psi|^2', () => {
+    const st = normalisedState({ ...s, re: s.re.map((v) => 3 * v!) });
+    expect(trapezoid(s.x, st.density)).toBeCloseTo(1, 12);
+    expect(st.scale).toBeCloseTo(1 / 3 / Math.sqrt(trapezoid(s.x, s.re.map((v) => v! * v!))), 12);
+  });
+
+  it('converges to the state, with the error squared equal to the weight left out (Parseval)', () => {
+    const st = normalisedState(s);
+    let prev = Infinity;
+    for (const K of [1, 3, 5, 9, 15]) {
+      const p = partialSum(s, r.levels, K);
+      const err = l2Distance(s.x, st.re, st.im, p.re, p.im);
+      expect(err).toBeLessThanOrEqual(prev);
+      prev = err;
+      const left = 1 - r.levels.slice(0, K).reduce((a, l) => a + l.weight, 0);
+      // The trapezoid rule on 101 points limits the agreement to about 1e-4.
+      expect(err ** 2).toBeCloseTo(left, 4);
+    }
+    // One term: |c_1|^2 = 960/pi^6, so the error squared is 1 - 0.998555014364018 — Griffiths, Introduction to Quantum Mechanics, worked example on the parabola state (from memory).
+    const one = partialSum(s, r.levels, 1);
+    expect(l2Distance(s.x, st.re, st.im, one.re, one.im) ** 2).toBeCloseTo(1 - 0.998555014364018, 4);
+  });
+
+  it('clamps K to the sampled eigenfunctions', () => {
+    expect(partialSum(s, r.levels, 1000).terms).toBe(15);
+    expect(partialSum(s, r.levels, -2).terms).toBe(0);
+  });
+
+  it('detects a mirror-symmetric potential', () => {
+    expect(isSymmetric(s, 0.5)).toBe(true);
+    expect(isSymmetric({ ...s, potential: s.x.map((x) => x!) }, 0.5)).toBe(false);
+    expect(isSymmetric(s, null)).toBe(false);
+  });
+});
+
+describe('axis helpers', () => {
+  it('rounds axis ends to short labels', () => {
+    expect(niceCeil(0.0398)).toBe(0.05);
+    expect(niceCeil(2.1)).toBe(2.5);
+    expect(niceCeil(7)).toBe(10);
+    expect(niceBound(1234, true)).toBe(1300);
+    expect(niceBound(-58.2, false)).toBe(-59);
+    expect(logFloor([0, 0.5, 3e-7, null])).toBe(1e-7);
+  });
+
+  it('frames the energies that carry weight', () => {
+    const r = parabolaResult(12, { samples: true });
+    const [lo, hi] = energyWindow(r);
+    expect(lo).toBeLessThanOrEqual(0);
+    // Only level 1 holds at least 1 % of the top weight here, so the mean plus two spreads sets the top.
+    expect(hi).toBeGreaterThan(r.energy!.mean! + 2 * r.energy!.spread!);
+  });
+});
+
+describe('option builders', () => {
+  it('splits even and odd levels of a symmetric system and ends the cumulative line at the captured weight', () => {
+    const o = spectrumOption(ctx()) as { series: { id: string; data: unknown[] }[] };
+    const even = o.series.find((s) => s.id === 'bars-even')!.data as (number | null)[];
+    const odd = o.series.find((s) => s.id === 'bars-odd')!.data as (number | null)[];
+    expect(even.filter((v) => v !== null)).toHaveLength(6);
+    expect(odd.filter((v) => v !== null)).toHaveLength(6);
+    const cum = o.series.find((s) => s.id === 'cumulative')!.data as number[];
+    expect(cum.at(-1)).toBeCloseTo(parabolaResult(12).captured!, 15);
+  });
+
+  it('puts weights against energies and drops zeros on a log axis', () => {
+    const o = spectrumOption(ctx({ axis: 'energy', scale: 'log' })) as { series: { id: string; data: unknown[] }[]; yAxis: { type: string }[] };
+    expect(o.yAxis[0]!.type).toBe('log');
+    const odd = o.series.find((s) => s.id === 'bars-odd')!.data as [number, number | null][];
+    // Even n of this even state vanish (Griffiths, parabola state, from memory): nothing to draw on a log axis.
+    expect(odd.every(([, w]) => w === null)).toBe(true);
+    expect(odd[1]![0]).toBeCloseTo((4 * Math.PI ** 2) / 2, 12); // E_2 = 4 pi^2 / 2 in the unit box, common practice
+  });
+
+  it('tells no parity for an asymmetric numerical potential', () => {
+    const r = parabolaResult(6, { samples: true });
+    r.system = { ...r.system!, kind: 'potential' };
+    r.samples = { ...r.samples!, potential: r.samples!.x.map((x) => x! * 2) };
+    expect(hasParity(r)).toBe(false);
+    const o = spectrumOption(ctx({}, r)) as { series: { id: string }[] };
+    expect(o.series.map((s) => s.id)).toEqual(['bars-levels', 'cumulative']);
+  });
+
+  it('draws the state, its K-term partial sum, the potential and one segment per weighted level', () => {
+    const o = stateOption(ctx({ terms: 3, selected: 2 })) as { series: { id: string; data: unknown[]; markLine?: { data: unknown[] } }[] };
+    const ids = o.series.map((s) => s.id);
+    expect(ids).toEqual(['density', 're', 'partial', 'picked', 'potential']);
+    const marks = o.series.find((s) => s.id === 'potential')!.markLine!.data;
+    // Levels 1, 3, 5, 7 (weight > 1e-5 within the window) + the mean + the two walls.
+    const segments = marks.filter(Array.isArray);
+    expect(segments.length).toBeGreaterThan(0);
+    expect(marks.length - segments.length).toBe(3);
+  });
+});
