@@ -45,7 +45,10 @@ export class StatusController {
     const uri = this.activeUri();
     if (!uri) return this.item.hide();
     const stored = this.store.get(uri);
-    if (!stored) {
+    if (!this.api.workspace.isTrusted) {
+      this.item.text = '$(shield) qstate: checks only';
+      this.item.tooltip = 'This workspace is not trusted: syntax, name and unit checks run, nothing is evaluated. Trust the workspace to expand the state.';
+    } else if (!stored) {
       this.item.text = '$(loading~spin) qstate';
       this.item.tooltip = 'Waiting for the analysis.';
     } else {

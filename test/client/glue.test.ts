@@ -64,6 +64,17 @@ describe('status bar', () => {
     expect(item.visible).toBe(false);
   });
 
+  it('says that only checks run in an untrusted workspace', () => {
+    const vs = makeVscode();
+    vs.state.isTrusted = false;
+    const store = new ResultStore();
+    const doc = makeDocument('/ws/a.qstate', '');
+    vs.openEditor(doc);
+    store.set({ uri: doc.uri.toString(), version: 1, result: { ...parabolaResult(2), levels: [], energy: null, captured: null } });
+    const status = new StatusController(vs.api, store, COMMANDS.showPanel);
+    expect(status.text).toBe('$(shield) qstate: checks only');
+  });
+
   it('counts errors instead of showing stale figures', () => {
     const r = parabolaResult(3);
     r.diagnostics = [{ start: 0, end: 1, severity: 'error', code: 'syntax', message: 'x' }, { start: 0, end: 1, severity: 'error', code: 'name', message: 'y' }];

@@ -211,3 +211,19 @@ describe('qstate grammar on the example files', () => {
     }
   });
 });
+
+describe('language configuration', () => {
+  it('toggles # comments and pairs the brackets the format uses', () => {
+    const conf = JSON.parse(readFileSync('language-configuration.json', 'utf8'));
+    expect(conf.comments).toEqual({ lineComment: '#' });
+    expect(conf.brackets).toEqual([
+      ['(', ')'],
+      ['[', ']'],
+    ]);
+    const pairs = conf.autoClosingPairs.map((p: { open: string; close: string }) => p.open + p.close);
+    expect(pairs).toContain('()');
+    expect(pairs).toContain('[]');
+    // The word pattern keeps names like m_e whole.
+    expect(new RegExp(conf.wordPattern).exec('m_e')![0]).toBe('m_e');
+  });
+});
