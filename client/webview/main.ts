@@ -146,6 +146,7 @@ function syncControls(r: PanelResult | null): void {
   for (const t of TABS) {
     const on = t === settings.tab;
     $(`tab-${t}`).setAttribute('aria-selected', String(on));
+    $(`tab-${t}`).tabIndex = on ? 0 : -1;
     $(`view-${t}`).hidden = !on;
   }
   ($('scale') as HTMLSelectElement).value = settings.scale;
@@ -250,11 +251,20 @@ function onMessage(data: unknown): void {
 
 window.addEventListener('message', (e: MessageEvent) => onMessage(e.data));
 
+function selectTab(t: Tab): void {
+  settings.tab = t;
+  save();
+  render();
+}
 for (const t of TABS) {
-  $(`tab-${t}`).addEventListener('click', () => {
-    settings.tab = t;
-    save();
-    render();
+  $(`tab-${t}`).addEventListener('click', () => selectTab(t));
+  // Arrow keys move between tabs, as the WAI-ARIA tabs pattern describes.
+  $(`tab-${t}`).addEventListener('keydown', (e) => {
+    const step = e.key === 'ArrowRight' ? 1 : e.key === 'ArrowLeft' ? -1 : 0;
+    if (!step) return;
+    const next = TABS[(TABS.indexOf(t) + step + TABS.length) % TABS.length]!;
+    selectTab(next);
+    $(`tab-${next}`).focus();
   });
 }
 $('scale').addEventListener('change', (e) => {

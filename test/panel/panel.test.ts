@@ -181,6 +181,16 @@ describe('spectrum panel in Chromium', () => {
     await page.click('#tab-spectrum');
   });
 
+  it('moves between tabs with the arrow keys', async () => {
+    await page.focus('#tab-spectrum');
+    await page.keyboard.press('ArrowRight');
+    expect((await inspect()).tab).toBe('state');
+    await page.keyboard.press('ArrowLeft');
+    await page.keyboard.press('ArrowLeft');
+    expect((await inspect()).tab).toBe('time');
+    await page.click('#tab-spectrum');
+  });
+
   it('plots the weights against the energies when asked', async () => {
     await page.selectOption('#axis', 'energy');
     const i = await inspect();
