@@ -127,6 +127,22 @@ describe('trust', () => {
   });
 });
 
+describe('settings', () => {
+  it('reads eigenspan.defaultBasis through workspace/configuration and re-analyses when it changes', async () => {
+    const settings: Record<string, unknown> = { debounceMs: 0, defaultBasis: 12 };
+    const c = await client(settings);
+    const u = 'file:///sched/settings.qstate';
+    c.open(u, 'system box(0, 1)\nstate psi(x) = x < 0.5 ? 1 : 0\n');
+    const first = await c.result(u, (q) => q.version === 1);
+    expect((first.result.levels as unknown[]).length).toBe(12);
+    const seen = c.results.length;
+    settings.defaultBasis = 7;
+    c.connection.sendNotification('workspace/didChangeConfiguration', { settings: { eigenspan: settings } });
+    const again = await c.result(u, (q) => c.results.indexOf(q as (typeof c.results)[number]) >= seen);
+    expect((again.result.levels as unknown[]).length).toBe(7);
+  });
+});
+
 describe('pull diagnostics', () => {
   it('serves textDocument/diagnostic when the client advertises pull with refresh', async () => {
     const c = await startClient({

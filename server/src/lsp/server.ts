@@ -69,6 +69,8 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   let init: ServerInitializationOptions = {};
   let evaluate = true;
   let pull = false;
+  /** Settles once the client's settings have been read (or could not be). */
+  let settingsLoaded: Promise<void> = Promise.resolve();
   /** VS Code can reopen the suggestion list after a keyword through its own command; other clients cannot. */
   let retriggerCommand = false;
 
@@ -159,7 +161,13 @@ export function startServer(connection: Connection, options: ServerOptions): voi
       return;
     }
     publish(st);
-    if (evaluate) scheduler.schedule(st.uri, st.version, text);
+    if (!evaluate) return;
+    // The first analyses wait for the client's settings (debounce, budget, default basis).
+    const version = st.version;
+    const target = st;
+    void settingsLoaded.then(() => {
+      if (docs.get(target.uri) === target && target.version === version && !target.full) scheduler.schedule(target.uri, version, text);
+    });
   }
 
   /** Where a `limits` finding about the whole analysis goes: the state line, else the system line, else the start. */
@@ -255,10 +263,28 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     return result;
   });
 
-  async function loadSettings(raw?: unknown): Promise<void> {
+  async function loadSettings(raw?: unknown, first = false): Promise<void> {
+    const before = settings.defaultBasis;
+    await readClientSettings(raw);
+    // Results depend on the default basis: forget them and analyse again (the first load only
+    // releases the analyses that waited for it).
+    if (!first && settings.defaultBasis !== before) {
+      log(`default basis now ${settings.defaultBasis}; analysing open documents again`);
+      for (const st of docs.values()) {
+        st.byText.clear();
+        st.full = null;
+        if (evaluate) scheduler.schedule(st.uri, st.version, st.text, true);
+      }
+    }
+  }
+
+  async function readClientSettings(raw?: unknown): Promise<void> {
     if (caps.workspace?.configuration) {
       try {
-        const [v] = (await connection.workspace.getConfiguration([{ section: 'eigenspan' }])) as unknown[];
+        // A client that never answers must not hold the analyses back for long.
+        let timer: NodeJS.Timeout | undefined;
+        const late = new Promise<never>((_, reject) => (timer = setTimeout(() => reject(new Error('no answer within 2 s')), 2000)));
+        const [v] = (await Promise.race([connection.workspace.getConfiguration([{ section: 'eigenspan' }]), late]).finally(() => clearTimeout(timer))) as unknown[];
         settings = readSettings(v);
       } catch (e) {
         logError(`reading settings failed: ${String(e)}; using defaults`);
@@ -269,12 +295,12 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     }
   }
 
-  connection.onInitialized(async () => {
+  connection.onInitialized(() => {
     if (evaluate) scheduler.warmUp();
     if (caps.workspace?.didChangeConfiguration?.dynamicRegistration) {
       void connection.client.register(DidChangeConfigurationNotification.type, { section: 'eigenspan' }).catch(() => undefined);
     }
-    await loadSettings();
+    settingsLoaded = loadSettings(undefined, true);
   });
 
   connection.onDidChangeConfiguration(async (p) => {
