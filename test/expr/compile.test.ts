@@ -293,3 +293,30 @@ describe('constant evaluation', () => {
     expect(evaluateConstant(parse('x + 1 nm'), { ...scope, hasX: true }).diagnostics.map((d) => d.code)).toEqual(['name']);
   });
 });
+
+describe('buffers', () => {
+  it('are never shared between calls (invariant: a result stays valid after later calls)', () => {
+    const f = compiled('x > 0 ? exp(-x^2) : 2 x + 1');
+    const a = Float64Array.of(-1, 0.5, 2);
+    const b = Float64Array.of(3, -2, 0.25, 1);
+    const first = f.evaluate(a, 2);
+    const copy = Array.from(first.re);
+    const d2 = Array.from(first.d2re!);
+    f.evaluate(b, 0);
+    f.evaluate(a, 1);
+    f.evaluate(b, 2);
+    expect(Array.from(first.re)).toEqual(copy);
+    expect(Array.from(first.d2re!)).toEqual(d2);
+    // exp(-x^2) at 0.5 and 2 x + 1 at -1 (direct calculation).
+    expect(first.re[0]).toBe(-1);
+    expect(first.re[1]).toBe(Math.exp(-0.25));
+  });
+  it('give zero imaginary parts of a real function as ordinary writable arrays', () => {
+    const v = compiled('x^2').evaluate(Float64Array.of(1, 2), 2);
+    expect(Array.from(v.im)).toEqual([0, 0]);
+    expect(Array.from(v.d1im!)).toEqual([0, 0]);
+    v.im[0] = 5;
+    expect(v.im[0]).toBe(5);
+    expect(Array.from(v.d2re!)).toEqual([2, 2]);
+  });
+});
