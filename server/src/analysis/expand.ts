@@ -137,9 +137,11 @@ function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number, numbe
   const eMax = basis.energies[Math.min(levels, basis.count) - 1] ?? 0;
   let vMin = Infinity;
   const n = 257;
+  const xs = new Float64Array(n);
+  for (let j = 0; j < n; j++) xs[j] = window[0] + ((window[1] - window[0]) * (j + 0.5)) / n;
+  const pot = basis.potentials ? basis.potentials(xs) : null;
   for (let j = 0; j < n; j++) {
-    const x = window[0] + ((window[1] - window[0]) * (j + 0.5)) / n;
-    const v = basis.potential(x);
+    const v = pot ? pot[j]! : basis.potential(xs[j]!);
     if (Number.isFinite(v)) vMin = Math.min(vMin, v);
   }
   if (!Number.isFinite(vMin)) vMin = 0;
@@ -286,8 +288,10 @@ export function gridEnergy(basis: Eigenbasis, q: Quadrature, v: GridValues, norm
   let t = 0;
   let h2 = 0;
   const m = basis.mass;
+  // Numerical systems evaluate V once for the whole grid instead of once per node.
+  const pot = basis.potentials ? basis.potentials(q.x) : null;
   for (let j = 0; j < q.x.length; j++) {
-    let V = basis.potential(q.x[j]!);
+    let V = pot ? pot[j]! : basis.potential(q.x[j]!);
     if (!Number.isFinite(V)) V = 0;
     const w = q.w[j]!;
     const r = v.re[j]!;

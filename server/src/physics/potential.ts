@@ -128,6 +128,20 @@ function makeBasis(
       const r = evalV(V, Float64Array.of(x));
       return r ? r[0] : NaN;
     },
+    potentials(xs: Float64Array): Float64Array {
+      // One evaluation of V for all points inside the walls; +Infinity outside, NaN if V fails.
+      const out = new Float64Array(xs.length);
+      let inside = 0;
+      for (let j = 0; j < xs.length; j++) if (xs[j] >= a && xs[j] <= b) inside++;
+      const pts = new Float64Array(inside);
+      for (let j = 0, i = 0; j < xs.length; j++) if (xs[j] >= a && xs[j] <= b) pts[i++] = xs[j];
+      const r = inside > 0 ? evalV(V, pts) : new Float64Array(0);
+      for (let j = 0, i = 0; j < xs.length; j++) {
+        if (xs[j] >= a && xs[j] <= b) out[j] = r ? r[i++] : NaN;
+        else out[j] = Infinity;
+      }
+      return out;
+    },
     table(xs, levels, out, d1, d2) {
       if (!sol) return;
       sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2);

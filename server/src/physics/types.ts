@@ -27,6 +27,11 @@ export interface Eigenbasis {
   /** The potential energy at x (internal units); +Infinity outside hard walls. */
   potential(x: number): number;
   /**
+   * Optional vectorised form of `potential`: the potential at every point of xs in one call (numerical
+   * systems, where each single-point call would evaluate the compiled expression once).
+   */
+  potentials?(xs: Float64Array): Float64Array;
+  /**
    * Fills out[k * xs.length + j] with phi_k(xs[j]) for k < levels (and the derivatives when given):
    * the whole table at once, because recurrences make that much cheaper than level by level.
    */
