@@ -56,6 +56,8 @@ await conn.sendRequest('initialize', {
   processId: process.pid,
   rootUri: null,
   capabilities: { workspace: { configuration: true }, textDocument: { publishDiagnostics: { versionSupport: true } } },
+  // Like the VS Code client: the panel is there, so results carry plot samples.
+  initializationOptions: { panel: true },
 });
 conn.sendNotification('initialized', {});
 

@@ -56,7 +56,9 @@ export interface ServerInitializationOptions {
   evaluate?: boolean;
   /** True when the client can show the spectrum panel (command `eigenspan.showPanel`); enables the "Show spectrum" lens. Default false. */
   panel?: boolean;
-  /** Include plot samples in `eigenspan/result` (default true). */
+  /** Send `eigenspan/result` after every full analysis (default: the value of `panel`). */
+  results?: boolean;
+  /** Include plot samples in `eigenspan/result` (default: the value of `panel`); they make results megabytes large. */
   samples?: boolean;
   /** `push`, `pull` or `auto` (pull when the client supports pull diagnostics with refresh). Default `auto`. */
   diagnostics?: 'push' | 'pull' | 'auto';

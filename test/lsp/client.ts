@@ -139,7 +139,8 @@ export async function startClient(options: ClientOptions = {}): Promise<TestClie
     processId: process.pid,
     rootUri: null,
     capabilities: options.capabilities ?? CAPABILITIES,
-    initializationOptions: options.initializationOptions ?? {},
+    // The tests follow the full analysis through eigenspan/result, which a client must ask for.
+    initializationOptions: { results: true, ...(options.initializationOptions ?? {}) },
   });
   connection.sendNotification('initialized', {});
   const client: TestClient = {

@@ -55,6 +55,8 @@ describe('diagnostics', () => {
     const r = await c.result(u, (q) => q.version === 1);
     expect(r.result.norm as number).toBeCloseTo(2, 6);
     expect('file' in r.result).toBe(false);
+    // This client has the panel, so the result carries plot samples.
+    expect(((r.result.samples as { x: number[] } | null)?.x ?? []).length).toBeGreaterThan(0);
   });
 
   it('clears the diagnostics of a closed document', async () => {

@@ -127,6 +127,18 @@ describe('trust', () => {
   });
 });
 
+describe('results notification', () => {
+  it('is not sent to a client that neither has the panel nor asks for results', async () => {
+    const c = await client({ debounceMs: 0 }, { results: false });
+    const u = 'file:///sched/quiet.qstate';
+    c.open(u, 'system box(0, 1)\nstate psi(x) = 2 sin(pi x)\n');
+    await c.diagnostics(u, (q) => codes(q.diagnostics).includes('norm'));
+    // A request answered after the publish orders the stream: a result sent before it would be here by now.
+    await c.connection.sendRequest('textDocument/hover', { textDocument: { uri: u }, position: { line: 0, character: 0 } });
+    expect(c.results).toEqual([]);
+  });
+});
+
 describe('settings', () => {
   it('reads eigenspan.defaultBasis through workspace/configuration and re-analyses when it changes', async () => {
     const settings: Record<string, unknown> = { debounceMs: 0, defaultBasis: 12 };

@@ -82,7 +82,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     log,
     timing: () => settings,
     get samples() {
-      return init.samples !== false;
+      return init.samples ?? init.panel === true;
     },
     onOutcome: (uri, version, outcome) => onOutcome(uri, version, outcome),
   });
@@ -136,10 +136,12 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     st.byText.set(st.text, result);
     while (st.byText.size > TEXT_CACHE) st.byText.delete(st.byText.keys().next().value as string);
     publish(st);
-    const { file: _file, ...rest } = result;
-    void _file;
-    const params: ResultParams = { uri: st.uri, version: st.version, result: rest };
-    void connection.sendNotification(RESULT_NOTIFICATION, params);
+    if (init.results ?? init.panel === true) {
+      const { file: _file, ...rest } = result;
+      void _file;
+      const params: ResultParams = { uri: st.uri, version: st.version, result: rest };
+      void connection.sendNotification(RESULT_NOTIFICATION, params);
+    }
     refreshViews();
   }
 
