@@ -332,11 +332,19 @@ function exportPlot(format: 'png' | 'svg'): void {
 $('export-png').addEventListener('click', () => exportPlot('png'));
 $('export-svg').addEventListener('click', () => exportPlot('svg'));
 
-// Follow the editor's theme: VS Code swaps the body's class and the CSS variables together.
-new MutationObserver(() => {
-  palette = currentPalette();
-  render();
-}).observe(document.body, { attributes: true, attributeFilter: ['class', 'style'] });
+// Follow the editor's theme: VS Code marks the kind with a class on <body> and sets the colours as
+// CSS variables on <html>; a switch between two themes of one kind changes only the variables.
+let themeFrame: number | null = null;
+const themeObserver = new MutationObserver(() => {
+  if (themeFrame !== null) return;
+  themeFrame = requestAnimationFrame(() => {
+    themeFrame = null;
+    palette = currentPalette();
+    render();
+  });
+});
+themeObserver.observe(document.body, { attributes: true, attributeFilter: ['class', 'style'] });
+themeObserver.observe(document.documentElement, { attributes: true, attributeFilter: ['class', 'style'] });
 
 new ResizeObserver(() => {
   sized = {};

@@ -307,6 +307,9 @@ describe('spectrum panel in Chromium', () => {
     expect(light.background).toBe('#fafafa');
     expect(light.palette.foreground).toBe('#202020');
     await page.screenshot({ path: 'test-artifacts/panel-spectrum-light.png' });
+    // Another light theme: only the variables on <html> change.
+    await page.evaluate(() => document.documentElement.style.setProperty('--vscode-editor-background', '#fffbe8'));
+    await page.waitForFunction(() => (window as unknown as { eigenspanPanel: { inspect(): Inspect } }).eigenspanPanel.inspect().background === '#fffbe8');
     await post({ type: 'theme', kind: 'high-contrast' });
     const hc = await inspect();
     expect(hc.palette.kind).toBe('high-contrast');
