@@ -5,7 +5,7 @@
 import { describe, it, expect, afterEach } from 'vitest';
 import { spawn } from 'node:child_process';
 import type { Hover } from 'vscode-languageserver-protocol';
-import { createProtocolConnection, IPCMessageReader, IPCMessageWriter, StreamMessageReader, StreamMessageWriter } from 'vscode-languageserver-protocol/node';
+import { CancellationTokenSource, createProtocolConnection, IPCMessageReader, IPCMessageWriter, StreamMessageReader, StreamMessageWriter } from 'vscode-languageserver-protocol/node';
 import { startClient, codes, SERVER, type TestClient } from './client';
 
 const clients: TestClient[] = [];
@@ -124,6 +124,31 @@ describe('trust', () => {
     const r = await c.result(u, (q) => q.version === 1);
     expect(r.result.norm as number).toBeCloseTo(2, 6);
     await c.diagnostics(u, (q) => codes(q.diagnostics).includes('norm'));
+  });
+});
+
+describe('request handlers', () => {
+  it('log a failing handler with the document URI and answer a fallback', async () => {
+    const c = await client();
+    const u = 'file:///sched/bad-request.qstate';
+    c.open(u, 'system box(0, 1)\n');
+    const h = await c.connection.sendRequest('textDocument/hover', { textDocument: { uri: u }, position: null });
+    expect(h).toBeNull();
+    await c.log(/hover failed for file:\/\/\/sched\/bad-request\.qstate/);
+    const symbols = await c.connection.sendRequest('textDocument/documentSymbol', { textDocument: { uri: u } });
+    expect(Array.isArray(symbols)).toBe(true);
+  });
+
+  it('answer RequestCancelled when the client cancels a hover that waits for the analysis', async () => {
+    const c = await client({ debounceMs: 0, timeBudgetMs: 20_000 });
+    const u = 'file:///sched/cancel-hover.qstate';
+    c.open(u, GOOD + '# eigenspan-test: slow 10000\n');
+    await c.log(/^\[worker stdout\] test hook slow/);
+    const source = new CancellationTokenSource();
+    const pending = c.connection.sendRequest('textDocument/hover', { textDocument: { uri: u }, position: { line: 1, character: 2 } }, source.token);
+    source.cancel();
+    // LSP 3.17: RequestCancelled is -32800.
+    await expect(pending).rejects.toMatchObject({ code: -32800 });
   });
 });
 
