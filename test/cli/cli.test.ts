@@ -28,7 +28,7 @@ function file(name: string, text: string): string {
 
 describe('eigenspan expand --json', () => {
   it('prints the fixed fields for a box state', () => {
-    const p = file('box.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(30) x (1 - x)\nbasis 10\n');
+    const p = file('box.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(30) x * (1 - x)\nbasis 10\n');
     const r = run(['expand', p, '--json']);
     expect(r.code).toBe(0);
     const j = JSON.parse(r.out);

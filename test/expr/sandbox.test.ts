@@ -135,10 +135,10 @@ describe('the sandbox refuses escape attempts on their exact range', () => {
 });
 
 describe('a name followed by brackets', () => {
-  it('is refused as a call, with a fix that makes it a product', () => {
+  it('is a syntax error, not a sandbox refusal, with a fix that makes it a product', () => {
     const text = '0.5 m_e (w x)^2';
     const d = run(text).diagnostics;
-    expect(d.map((x) => [x.code, x.start, x.end])).toEqual([['forbidden', ...range(text, 'm_e (w x)')]]);
+    expect(d.map((x) => [x.code, x.start, x.end])).toEqual([['syntax', ...range(text, 'm_e (w x)')]]);
     expect(d[0]!.fixes).toEqual([{ kind: 'insert', title: "Insert '*' after 'm_e'", at: AT + 7, text: ' *' }]);
     expect(run('0.5 m_e * (w x)^2').result).not.toBeNull();
   });

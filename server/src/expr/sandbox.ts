@@ -642,7 +642,7 @@ class Converter {
             return this.forbid(node, `'${name}' is not an allowed function.${hint}`);
           // `m_e (w x)^2` reads as a call in mathjs's syntax; the writer most likely meant a product.
           this.diagnostics.push(
-            diagnostic('forbidden', s.start, s.end, `'${name}' is not a function; to multiply, write '${name} * (...)'.`, {
+            diagnostic('syntax', s.start, s.end, `'${name}' is not a function; to multiply, write '${name} * (...)'.`, {
               fixes: [{ kind: 'insert', title: `Insert '*' after '${name}'`, at: ns.end, text: ' *' }],
             }),
           );
