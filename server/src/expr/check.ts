@@ -123,7 +123,7 @@ class Checker {
   private needDimensionless(d: D, arg: Expr, fn: string): boolean {
     if (d === null) return false;
     if (d === 'any' || isDimensionless(d)) return true;
-    this.err('units', arg, `${fn} needs a dimensionless argument, found ${withArticle(d)}.`);
+    this.err('units', arg, `'${fn}' needs a dimensionless argument, found ${withArticle(d)}.`);
     return false;
   }
 
@@ -237,7 +237,7 @@ class Checker {
   }
 
   private phi(e: Extract<Expr, { type: 'call' }>): D {
-    if (!this.scope.hasPhi) return this.err('name', { start: e.nameStart, end: e.nameEnd }, 'phi(n, x) is only available in psi(x) of a file with a system.');
+    if (!this.scope.hasPhi) return this.err('name', { start: e.nameStart, end: e.nameEnd }, "'phi(n, x)' is only available in psi(x) of a file with a system.");
     const n = foldReal(e.args[0]!, this.scope);
     if (n === null || !Number.isInteger(n) || n < 0) this.err('syntax', e.args[0]!, 'The level number of phi must be a constant whole number.');
     const dx = this.infer(e.args[1]!);

@@ -1394,7 +1394,7 @@ class Compiler {
       case 'phi': {
         const n = args[0]!.cst;
         if (n === null || n.im !== 0 || !Number.isInteger(n.re)) return this.fail(e.args[0]!, 'syntax', 'The level number of phi must be a constant whole number.');
-        if (!this.scope.hasPhi) return this.fail(e, 'name', 'phi(n, x) is only available in psi(x) of a file with a system.');
+        if (!this.scope.hasPhi) return this.fail(e, 'name', "'phi(n, x)' is only available in psi(x) of a file with a system.");
         return phiNode(n.re, args[1]!);
       }
       default:
