@@ -82,7 +82,12 @@ export class AnalysisScheduler {
 
   /** Starts the worker ahead of the first analysis, so that loading it does not delay the first result. */
   warmUp(): void {
-    if (!this.disposed && !this.worker) this.worker = this.startWorker();
+    if (this.disposed || this.worker) return;
+    try {
+      this.worker = this.startWorker();
+    } catch (e) {
+      this.options.log(`analysis worker could not start: ${e instanceof Error ? e.message : String(e)}`);
+    }
   }
 
   /** Forgets a document: drops its timer and queue entry and cancels its running analysis. */
@@ -146,7 +151,15 @@ export class AnalysisScheduler {
     if (first.done) return;
     const [uri, job] = first.value;
     this.pending.delete(uri);
-    if (!this.worker) this.worker = this.startWorker();
+    if (!this.worker) {
+      try {
+        this.worker = this.startWorker();
+      } catch (e) {
+        this.options.log(`analysis worker could not start: ${e instanceof Error ? e.message : String(e)}`);
+        this.options.onOutcome(uri, job.version, { kind: 'crashed', message: 'the analysis worker could not start' });
+        return this.pump();
+      }
+    }
     const { timeBudgetMs, defaultBasis } = this.options.timing();
     const id = this.nextId++;
     const cancel = new Int32Array(new SharedArrayBuffer(4));
@@ -202,7 +215,9 @@ export class AnalysisScheduler {
   private onExit(w: Worker, code: number): void {
     // A worker we terminated on purpose is already replaced; only an unexpected exit matters.
     if (w !== this.worker) return;
+    const loaded = this.ready;
     this.worker = null;
+    this.ready = false;
     this.options.log(`analysis worker exited unexpectedly (code ${code}); it will be restarted`);
     const r = this.running;
     if (r) {
@@ -210,6 +225,7 @@ export class AnalysisScheduler {
       this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: `the analysis worker stopped (exit code ${code})` });
     }
     this.pump();
-    this.warmUp();
+    // Warm a replacement only when the lost worker had loaded: one that cannot even load must not respawn in a loop.
+    if (loaded) this.warmUp();
   }
 }
