@@ -10,7 +10,7 @@
 import { readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { analyse, DEFAULT_LIMITS } from '../analysis/index';
-import { lineIndex } from '../analysis/positions';
+import { lineTable } from '../analysis/positions';
 import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
 
 const USAGE = `Usage:
@@ -178,7 +178,7 @@ function check(args: string[], io: Io): number {
       return;
     }
     const result = analyse(text);
-    const lines = lineIndex(text);
+    const lines = lineTable(text);
     for (const d of result.diagnostics) {
       io.out(renderDiagnostic(f, d, lines) + '\n');
       if (d.severity === 'error') failed = true;

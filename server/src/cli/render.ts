@@ -3,7 +3,7 @@
  */
 import type { AnalysisResult } from '../analysis/types';
 import type { EngineDiagnostic } from '../language/catalogue';
-import { lineIndex, positionOf } from '../analysis/positions';
+import { lineTable, positionAt, type LineTable } from '../analysis/positions';
 
 /** A diagnostic with 1-based lines and columns, as the JSON and `check` print them. */
 export interface LocatedDiagnostic {
@@ -17,9 +17,9 @@ export interface LocatedDiagnostic {
 }
 
 /** Locates a diagnostic (1-based). */
-export function locate(d: EngineDiagnostic, lines: number[]): LocatedDiagnostic {
-  const s = positionOf(lines, d.start);
-  const e = positionOf(lines, d.end);
+export function locate(d: EngineDiagnostic, lines: LineTable): LocatedDiagnostic {
+  const s = positionAt(lines, d.start);
+  const e = positionAt(lines, d.end);
   return {
     line: s.line + 1,
     column: s.character + 1,
@@ -32,14 +32,14 @@ export function locate(d: EngineDiagnostic, lines: number[]): LocatedDiagnostic 
 }
 
 /** `FILE:LINE:COL: SEVERITY[CODE]: MESSAGE`. */
-export function renderDiagnostic(file: string, d: EngineDiagnostic, lines: number[]): string {
+export function renderDiagnostic(file: string, d: EngineDiagnostic, lines: LineTable): string {
   const l = locate(d, lines);
   return `${file}:${l.line}:${l.column}: ${l.severity}[${l.code}]: ${l.message.replace(/\s*\n\s*/g, ' ')}`;
 }
 
 /** The JSON object of `expand --json`. */
 export function toJson(result: AnalysisResult, text: string): Record<string, unknown> {
-  const lines = lineIndex(text);
+  const lines = lineTable(text);
   const out: Record<string, unknown> = {
     levels: result.levels.map((l) => {
       const o: Record<string, number> = { n: l.n, energy: l.energy, re: l.re, im: l.im, weight: l.weight };
@@ -113,7 +113,7 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   if (result.evolution) {
     lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${result.units.time ? ' ' + result.units.time : ''}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8)}`);
   }
-  const idx = lineIndex(text);
+  const idx = lineTable(text);
   if (result.diagnostics.length === 0) lines.push('diagnostics: none');
   else {
     lines.push('diagnostics:');
