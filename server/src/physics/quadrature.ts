@@ -92,10 +92,11 @@ export function compositeGaussLegendre(a: number, b: number, options: CompositeO
   for (let s = 0; s + 1 < cuts.length; s++) {
     const lo = cuts[s];
     const hi = cuts[s + 1];
-    const m = Math.max(1, Math.ceil((panels * (hi - lo)) / (b - a) - 1e-12));
+    // The fraction first: panels * (hi - lo) overflows for intervals near the largest double.
+    const m = Math.max(1, Math.ceil(panels * ((hi - lo) / (b - a)) - 1e-12));
     for (let k = 0; k < m; k++) {
-      const p0 = lo + ((hi - lo) * k) / m;
-      const p1 = k === m - 1 ? hi : lo + ((hi - lo) * (k + 1)) / m;
+      const p0 = lo + (hi - lo) * (k / m);
+      const p1 = k === m - 1 ? hi : lo + (hi - lo) * ((k + 1) / m);
       pieces.push([p0, p1]);
     }
   }
