@@ -170,7 +170,9 @@ export function expandState(
   const breakpoints = [...bps].sort((a, b) => a - b);
   const k = maxWaveNumber(basis, levels, window);
   const width = window[1] - window[0];
-  let panels = Math.max(16, Math.ceil((k * width) / 2), breakpoints.length + 1);
+  // One wavelength of the highest level per 20-point panel: Gauss–Legendre on a full period is
+  // accurate to about (e k h / 4n)^(2n) ~ 1e-27 there, and the doubling below confirms it.
+  let panels = Math.max(16, Math.ceil((k * width) / (2 * Math.PI)), breakpoints.length + 1);
   const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
   panels = Math.min(panels, maxPanels);
   // Under a deadline the first steps must fit the time left, so a large basis cannot freeze the
