@@ -7,6 +7,7 @@ import type { Arg, ExprText, QFile, Span, Statement, StateSpec, SystemSpec } fro
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { Complex, CompiledFunction, Dimension, Expr, Scope, UnitSystem } from '../expr/types';
 import { parseExpression } from '../expr/sandbox';
+import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, toInternal } from '../expr/units';
@@ -471,20 +472,11 @@ class ModelBuilder {
 
 /** True when the expression mentions `name` as a symbol or a call. */
 export function usesName(e: Expr, name: string): boolean {
-  switch (e.type) {
-    case 'number':
-      return false;
-    case 'symbol':
-      return e.name === name;
-    case 'unary':
-      return usesName(e.arg, name);
-    case 'binary':
-      return usesName(e.left, name) || usesName(e.right, name);
-    case 'call':
-      return e.name === name || e.args.some((a) => usesName(a, name));
-    case 'conditional':
-      return usesName(e.test, name) || usesName(e.then, name) || usesName(e.otherwise, name);
-  }
+  let found = false;
+  forEachNode(e, (n) => {
+    if ((n.type === 'symbol' || n.type === 'call') && n.name === name) found = true;
+  });
+  return found;
 }
 
 function capital(s: string): string {
@@ -505,28 +497,9 @@ void toInternal;
 
 /** The names an expression refers to (symbols and called functions). */
 function namesOf(e: Expr, into: Set<string>): Set<string> {
-  switch (e.type) {
-    case 'symbol':
-      into.add(e.name);
-      break;
-    case 'unary':
-      namesOf(e.arg, into);
-      break;
-    case 'binary':
-      namesOf(e.left, into);
-      namesOf(e.right, into);
-      break;
-    case 'call':
-      for (const a of e.args) namesOf(a, into);
-      break;
-    case 'conditional':
-      namesOf(e.test, into);
-      namesOf(e.then, into);
-      namesOf(e.otherwise, into);
-      break;
-    default:
-      break;
-  }
+  forEachNode(e, (n) => {
+    if (n.type === 'symbol' || n.type === 'call') into.add(n.name);
+  });
   return into;
 }
 

@@ -5,6 +5,7 @@
 import type { Arg, ExprText, QFile, Span, Statement, SystemSpec, Comparison } from '../language/ast';
 import type { Expr } from '../expr/types';
 import { parseExpression } from '../expr/sandbox';
+import { forEachNode } from '../expr/walk';
 
 /** True when `offset` lies in [span.start, span.end] (the end counts, so a cursor just after a word hits it). */
 export function within(span: Span, offset: number): boolean {
@@ -82,28 +83,9 @@ export interface NameUse {
 const TOKEN = /(\d+\.?\d*(?:[eE][+-]?\d+)?|\.\d+(?:[eE][+-]?\d+)?)|([\p{L}_][\p{L}\p{N}_]*)|(#[^\n]*)/gu;
 
 function collect(e: Expr, out: NameUse[]): void {
-  switch (e.type) {
-    case 'symbol':
-      out.push({ name: e.name, start: e.start, end: e.end });
-      break;
-    case 'unary':
-      collect(e.arg, out);
-      break;
-    case 'binary':
-      collect(e.left, out);
-      collect(e.right, out);
-      break;
-    case 'call':
-      for (const a of e.args) collect(a, out);
-      break;
-    case 'conditional':
-      collect(e.test, out);
-      collect(e.then, out);
-      collect(e.otherwise, out);
-      break;
-    case 'number':
-      break;
-  }
+  forEachNode(e, (n) => {
+    if (n.type === 'symbol') out.push({ name: n.name, start: n.start, end: n.end });
+  });
 }
 
 /**
