@@ -159,7 +159,8 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
     if (err instanceof BadValue) {
       const st = stage.model?.state?.stmt;
       const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
-      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${fmt(err.value)} at x = ${fmt(err.x)}; it must be finite everywhere.`));
+      const what = Number.isNaN(err.value) ? 'not a number (as from 0/0 or Infinity - Infinity)' : `${err.value > 0 ? '+' : '-'}Infinity`;
+      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${what} at x = ${fmt(err.x)}; it must be finite everywhere.`));
     } else {
       result.diagnostics.push(internalError(err, text));
     }
@@ -197,6 +198,15 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   const built = buildBasis(sys, model.mass, count, out, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
   if (!built) return;
   const basis = built.basis;
+  // Extents at the ends of double precision (box(-1e308, 1e308), box(0, 5e-324), a subnormal mass) would
+  // give grids of Infinity or NaN; name the cause instead of reporting a zero or non-finite state.
+  const [ea, eb] = basis.walls ?? basis.support;
+  const extent = eb - ea;
+  if (basis.count > 0 && !(Number.isFinite(extent) && extent > 1e-12 * Math.max(Math.abs(ea), Math.abs(eb)) && extent > 1e-290)) {
+    const what = Number.isFinite(extent) || Number.isNaN(extent) ? 'too small to compute with in double precision' : 'too large for double precision';
+    out.push(diagnostic('evaluation', sysStmt.span.start, sysStmt.span.end, `The system's extent (${fmt(ea)} to ${fmt(eb)}) is ${what}; rescale its parameters or the mass, or choose other units.`));
+    return;
+  }
   reportBasisFacts(built, model, sysStmt.span, count, out);
   count = Math.min(count, basis.count);
   const energiesShown = Array.from(basis.energies.subarray(0, Math.min(20, basis.count)));
@@ -243,6 +253,16 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   if (ex.capped && ex.late) out.push(warn('limits', stateSpan, `The time limit of ${limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`));
   else if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
   const norm = ex.norm;
+  if (!(norm > 0) && maxAbs(ex.values.re, ex.values.im) > 0) {
+    out.push(warn('norm', stateSpan, 'The state is so small that |psi|^2 underflows to zero in double precision; multiply it by a large factor.', undefined, 'error'));
+    return;
+  }
+  const mid = !(norm > 0) && state.window ? state.evaluate(new Float64Array([(state.window[0] + state.window[1]) / 2]), 0) : null;
+  if (mid && maxAbs(mid.re, mid.im) > 0) {
+    // The grid over the system's extent stepped over a state far narrower than the system.
+    out.push(warn('norm', stateSpan, `The state is far narrower than the system's extent (${fmt(window[0])} to ${fmt(window[1])}), so the grid misses it; check the mass and the system's size.`, undefined, 'error'));
+    return;
+  }
   if (!(norm > 0)) {
     out.push(warn('norm', stateSpan, 'The state is zero everywhere in the system; there is nothing to expand.', undefined, 'error'));
     return;
