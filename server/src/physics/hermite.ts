@@ -29,6 +29,9 @@ const TWOM64 = 1 / TWO64;
 
 /** m * 2^e without intermediate overflow or premature underflow (exact unless the result is subnormal). */
 function ldexp(m: number, e: number): number {
+  // Past +-2200 every double saturates; without this an exponent like -1e300 (from xi = 1e150) loops forever.
+  if (e > 2200) return m === 0 ? 0 : m * Infinity;
+  if (e < -2200 || Number.isNaN(e)) return Number.isNaN(e) ? NaN : m * 0;
   while (e > 1000) {
     m *= Math.pow(2, 1000);
     e -= 1000;
