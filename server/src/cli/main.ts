@@ -135,6 +135,8 @@ function collect(path: string, into: string[], problems: { path: string; message
       try {
         s = statSync(p);
       } catch {
+        // A dangling link or an entry that cannot be examined: report it and go on with the rest.
+        if (n.endsWith('.qstate')) problems.push({ path: p, message: 'a broken link or an entry that cannot be examined' });
         continue;
       }
       if (s.isDirectory()) collect(p, into, problems);
@@ -154,26 +156,26 @@ function check(args: string[], io: Io): number {
   const problems: { path: string; message: string }[] = [];
   for (const t of targets) collect(t, files, problems);
   let failed = problems.length > 0;
-  for (const p of problems) io.out(`${p.path}:1:1: error[limits]: cannot check: ${p.message}.\n`);
+  for (const p of problems) io.out(`${p.path}:1:1: error[limits]: Cannot check it: ${p.message}.\n`);
   files.forEach((f, i) => {
     if (io.isTTY && files.length > 3) io.err(`\r[${i + 1}/${files.length}] ${f}\x1b[K`);
     let text: string;
     try {
       const st = statSync(f);
       if (st.size > DEFAULT_LIMITS.maxFileBytes) {
-        io.out(`${f}:1:1: error[limits]: the file is ${st.size} bytes, above the limit of ${DEFAULT_LIMITS.maxFileBytes}.\n`);
+        io.out(`${f}:1:1: error[limits]: The file is ${st.size} bytes, above the limit of ${DEFAULT_LIMITS.maxFileBytes}.\n`);
         failed = true;
         return;
       }
       const buf = readFileSync(f);
       if (buf.includes(0)) {
-        io.out(`${f}:1:1: error[syntax]: the file is binary, not a .qstate text file.\n`);
+        io.out(`${f}:1:1: error[syntax]: The file is binary, not a .qstate text file.\n`);
         failed = true;
         return;
       }
       text = buf.toString('utf8');
     } catch (e) {
-      io.out(`${f}:1:1: error[limits]: cannot read the file (${(e as NodeJS.ErrnoException).code ?? 'error'}).\n`);
+      io.out(`${f}:1:1: error[limits]: Cannot read the file (${(e as NodeJS.ErrnoException).code ?? 'error'}).\n`);
       failed = true;
       return;
     }
