@@ -174,6 +174,8 @@ export function expandState(
   // accurate to about (e k h / 4n)^(2n) ~ 1e-27 there, and the doubling below confirms it.
   let panels = Math.max(16, Math.ceil((k * width) / (2 * Math.PI)), breakpoints.length + 1);
   const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
+  // A first grid already above the cap is capped too, and says so.
+  const wanted = panels;
   panels = Math.min(panels, maxPanels);
   // Under a deadline the first steps must fit the time left, so a large basis cannot freeze the
   // analysis: the cost of one level at one point is measured on a small probe (it ranges from about
@@ -228,7 +230,7 @@ export function expandState(
       for (let j = 0; j < levels; j++) diff = Math.max(diff, Math.hypot(prev.re[j]! - c.re[j]!, prev.im[j]! - c.im[j]!) ** 1);
       if (diff <= 1e-12 * Math.max(norm, 1e-300) ** 0.5 || diff <= 1e-13 * Math.max(norm, 1e-300)) return { ...cur, capped: false, late: cut };
     }
-    if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: prev !== null && panels * 2 > maxPanels, late: cut };
+    if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: (prev !== null || (fast === null && wanted > maxPanels)) && panels * 2 > maxPanels, late: cut };
     // The next step costs about twice this one: stop before it would overrun the deadline.
     if (options.deadline !== undefined && performance.now() + 2.5 * (performance.now() - t0) > options.deadline) return { ...cur, capped: true, late: true };
     prev = cur;
