@@ -1,0 +1,87 @@
+/**
+ * Every resource cap answers with a `limits` diagnostic on the right range, quickly, never a freeze.
+ * The caps are `Limits` in server/src/analysis/index.ts; their defaults are common practice for an
+ * editor that re-analyses on every keystroke.
+ */
+import { describe, expect, it } from 'vitest';
+import { analyse, analyseStatic, DEFAULT_LIMITS } from '../../server/src/analysis/index';
+import { expectFinding } from './helpers';
+
+const BOX = 'system box(0, 1)\nstate psi(x) = x * (1 - x)\n';
+
+describe('resource limits', () => {
+  it('caps the basis at 5,000 levels', () => {
+    expect(DEFAULT_LIMITS.maxBasis).toBe(5000);
+    expectFinding(`${BOX}basis 5001\n`, 'limits', '5001', /5000/);
+    // A smaller cap given as an option applies too.
+    expectFinding(`${BOX}basis 300\n`, 'limits', '300', /200/, { limits: { maxBasis: 200 } });
+  });
+
+  it('caps the grid and says the coefficients may be inaccurate', () => {
+    const text = 'system box(0, 1)\nstate psi(x) = x < 0.3 ? x : 0.3 * (1 - x) / 0.7\nbasis 200\n';
+    expectFinding(text, 'limits', 'x < 0.3 ? x : 0.3 * (1 - x) / 0.7', /grid cap of 640 points/, { limits: { maxGridPoints: 640 } });
+  });
+
+  it('refuses an expression longer than 10,000 characters', () => {
+    const long = Array.from({ length: 2600 }, () => 'x').join(' + ');
+    expect(long.length).toBeGreaterThan(10_000);
+    expectFinding(`system box(0, 1)\nstate psi(x) = ${long}\n`, 'limits', long, /10000/);
+  });
+
+  it('refuses brackets nested more than 200 deep, without overflowing the stack', () => {
+    const deep = '('.repeat(1000) + 'x' + ')'.repeat(1000);
+    const r = analyse(`system box(0, 1)\nstate psi(x) = ${deep}\n`);
+    const d = r.diagnostics.find((x) => x.code === 'limits');
+    expect(d, r.diagnostics.map((x) => x.message).join('\n')).toBeDefined();
+    expect(d!.message).toMatch(/200/);
+    // The range is the opening bracket past the cap, inside the expression.
+    expect(d!.end - d!.start).toBe(1);
+    expect(d!.start).toBeGreaterThanOrEqual('system box(0, 1)\nstate psi(x) = '.length + 200);
+  });
+
+  it('answers a 1 MB file at once with one diagnostic on its first character', () => {
+    const line = 'let a = 1 # padding padding padding padding padding padding padding padding\n';
+    const text = line.repeat(Math.ceil(1_048_576 / line.length));
+    expect(text.length).toBeGreaterThanOrEqual(1_048_576);
+    const t0 = performance.now();
+    const r = analyse(text);
+    const ms = performance.now() - t0;
+    expect(ms).toBeLessThan(500);
+    expect(r.diagnostics).toHaveLength(1);
+    expect(r.diagnostics[0]).toMatchObject({ code: 'limits', start: 0, end: 1, severity: 'error' });
+    expect(analyseStatic(text).diagnostics[0]!.code).toBe('limits');
+  });
+
+  it('ignores statements past the 2,000th and marks the first one ignored', () => {
+    const lets = Array.from({ length: 2100 }, (_, i) => `let v${i} = ${i}`);
+    const text = lets.join('\n') + '\n';
+    const d = expectFinding(text, 'limits', 'let v2000 = 2000', /2000/);
+    expect(d.severity).toBe('error');
+  });
+
+  it('caps the number of evolution steps', () => {
+    expectFinding(`${BOX}evolve to 1 steps 1e9\n`, 'limits', '1e9', /10000/);
+  });
+
+  it('stops an analysis at its time limit with a limits diagnostic on the system keyword', () => {
+    // An oscillator with 5,000 levels: all of them need a grid of about a million points (minutes of work).
+    const text = 'system oscillator(omega = 1)\nstate gaussian(center = 3, width = 0.5)\nbasis 5000\n';
+    const t0 = performance.now();
+    const r = analyse(text, { limits: { maxMillis: 300 } });
+    const ms = performance.now() - t0;
+    expect(ms).toBeLessThan(3000);
+    const lim = r.diagnostics.filter((d) => d.code === 'limits');
+    expect(lim.length, r.diagnostics.map((d) => d.message).join('\n')).toBeGreaterThan(0);
+    // Fewer levels were projected, each on a grid fine enough for it: the weights stay a probability.
+    expect(r.levels.length).toBeLessThan(5000);
+    expect(r.levels.length).toBeGreaterThan(0);
+    const sum = r.levels.reduce((a, l) => a + l.weight, 0);
+    expect(sum).toBeLessThanOrEqual(1 + 1e-9);
+    expect(lim.some((d) => /time limit of 300 ms/.test(d.message))).toBe(true);
+  });
+
+  it('keeps a default time limit', () => {
+    expect(DEFAULT_LIMITS.maxMillis).toBeGreaterThan(0);
+    expect(Number.isFinite(DEFAULT_LIMITS.maxMillis)).toBe(true);
+  });
+});
