@@ -3,6 +3,8 @@ import { boxBasis } from '../../server/src/physics/box';
 import { project } from '../../server/src/physics/project';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
 import { analyse } from '../../server/src/analysis/index';
+import { potentialBasis } from '../../server/src/physics/potential';
+import { matrixElements } from '../../server/src/physics/evolution';
 import { basisMemoSize, clearBasisMemo } from '../../server/src/analysis/systems';
 
 describe('fast paths give the same numbers as the plain paths', () => {
@@ -36,6 +38,25 @@ describe('fast paths give the same numbers as the plain paths', () => {
       expect(Math.abs(c.re[n - 1]! - expected)).toBeLessThan(1e-14);
       expect(c.im[n - 1]).toBe(0);
     }
+  });
+});
+
+describe('closed-form matrix elements of numerical bases', () => {
+  it('equal the quadrature X_jk = <phi_j|x|phi_k> and D_jk = <phi_j|phi_k\'>', () => {
+    // Invariant: both compute the same integrals; an asymmetric double well exercises every parity.
+    const V = (xs: Float64Array) => xs.map((x) => (x * x - 4) ** 2 / 16 + 0.1 * x);
+    const basis = potentialBasis(V, -6, 6, 1, 20).basis;
+    expect(basis.matrixElements).toBeDefined();
+    const closed = matrixElements(basis, 20);
+    const quad = matrixElements({ ...basis, matrixElements: undefined }, 20);
+    let diff = 0;
+    let size = 0;
+    for (let i = 0; i < 400; i++) {
+      diff = Math.max(diff, Math.abs(closed.x[i]! - quad.x[i]!), Math.abs(closed.d[i]! - quad.d[i]!));
+      size = Math.max(size, Math.abs(quad.x[i]!));
+    }
+    expect(size).toBeGreaterThan(1);
+    expect(diff).toBeLessThan(1e-12);
   });
 });
 

@@ -323,3 +323,61 @@ export function sineSeriesWeightedSums(
     if (wIm) outIm[j] += norm * fi;
   }
 }
+
+/**
+ * Position and derivative matrix elements of the first `levels` sine-series levels, in closed form:
+ * X_jk = integral phi_j x phi_k dx and D_jk = integral phi_j phi_k' dx over [a, b]. In the sine basis
+ * s_p = sqrt(2/L) sin(p pi (x - a)/L), <s_p|x|s_p> = a + L/2 and, for p + q odd,
+ * <s_p|x|s_q> = -8 p q L / (pi^2 (p^2 - q^2)^2) and <s_p|d/dx|s_q> = 4 p q / (L (p^2 - q^2)); both vanish
+ * for p != q with p + q even (elementary integrals of u sin sin and sin cos on [0, 1]; derived).
+ * Then X = C x C^T and D = C d C^T with C the levels' coefficients. Returns row-major K x K arrays.
+ */
+export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number): { x: Float64Array; d: Float64Array } {
+  const n = sol.intervals - 1;
+  const L = sol.b - sol.a;
+  const K = Math.max(0, Math.min(levels, sol.energies.length));
+  const X = new Float64Array(K * K);
+  const D = new Float64Array(K * K);
+  let top = 0;
+  for (let j = 0; j < K; j++) top = Math.max(top, sol.terms ? sol.terms[j] : n);
+  if (K === 0 || top === 0) return { x: X, d: D };
+  // T = C M for both M = x and M = d: row j, column q (1-based q stored at q - 1).
+  const tx = new Float64Array(K * top);
+  const td = new Float64Array(K * top);
+  const diag = sol.a + L / 2;
+  const cx = (-8 * L) / (Math.PI * Math.PI);
+  const cd = 4 / L;
+  for (let j = 0; j < K; j++) {
+    const off = j * n - 1;
+    for (let q = 1; q <= top; q++) {
+      let sx = diag * sol.coefficients[off + q];
+      let sd = 0;
+      // Only p of the other parity than q contribute off the diagonal.
+      for (let p = q % 2 === 0 ? 1 : 2; p <= top; p += 2) {
+        const c = sol.coefficients[off + p];
+        if (c === 0) continue;
+        const pq = p * q;
+        const diff = p * p - q * q;
+        sx += (c * cx * pq) / (diff * diff);
+        sd += (c * cd * pq) / diff;
+      }
+      tx[j * top + q - 1] = sx;
+      td[j * top + q - 1] = sd;
+    }
+  }
+  for (let j = 0; j < K; j++) {
+    for (let k = 0; k < K; k++) {
+      const off = k * n - 1;
+      let sx = 0;
+      let sd = 0;
+      for (let q = 1; q <= top; q++) {
+        const c = sol.coefficients[off + q];
+        sx += tx[j * top + q - 1] * c;
+        sd += td[j * top + q - 1] * c;
+      }
+      X[j * K + k] = sx;
+      D[j * K + k] = sd;
+    }
+  }
+  return { x: X, d: D };
+}

@@ -71,13 +71,21 @@ export function evolutionQuadrature(basis: Eigenbasis, levels: number): Quadratu
 /**
  * X_jk = integral phi_j x phi_k dx and D_jk = integral phi_j phi_k' dx, j, k < levels, by quadrature
  * (`evolutionQuadrature`). D is antisymmetrised, (D - D^T)/2, which is exact when phi vanishes at both
- * ends (walls or decay), because integrating by parts leaves no boundary term.
+ * ends (walls or decay), because integrating by parts leaves no boundary term. A basis with its own
+ * closed form (`Eigenbasis.matrixElements`, the sine series of numerical systems) is used directly.
  */
 export function matrixElements(basis: Eigenbasis, levels: number): MatrixElements {
   const K = Math.max(0, Math.min(levels, basis.count));
   const x = new Float64Array(K * K);
   const d = new Float64Array(K * K);
   if (K === 0) return { levels: 0, x, d };
+  if (basis.matrixElements) {
+    // Closed form from the basis (sine series): no table on a grid.
+    const m = basis.matrixElements(K);
+    x.set(m.x.subarray(0, K * K));
+    d.set(m.d.subarray(0, K * K));
+    return symmetrise(K, x, d);
+  }
   const quad = evolutionQuadrature(basis, K);
   const nq = quad.x.length;
   const chunk = Math.max(1, Math.floor(4194304 / (2 * K)));
@@ -105,6 +113,11 @@ export function matrixElements(basis: Eigenbasis, levels: number): MatrixElement
       }
     }
   }
+  return symmetrise(K, x, d);
+}
+
+/** X made symmetric from its upper triangle, D antisymmetrised, (D - D^T)/2. */
+function symmetrise(K: number, x: Float64Array, d: Float64Array): MatrixElements {
   for (let j = 0; j < K; j++) {
     for (let k = 0; k < j; k++) {
       x[j * K + k] = x[k * K + j];

@@ -3,7 +3,7 @@
  * (dvr.ts) on a grid chosen automatically and confirmed by solving at two sizes.
  */
 import type { Eigenbasis } from './types';
-import { sineDvrGrid, sineDvrSolve, sineSeriesTable, sineSeriesWeightedSums, type SineDvrSolution } from './dvr';
+import { sineDvrGrid, sineDvrSolve, sineSeriesMatrixElements, sineSeriesTable, sineSeriesWeightedSums, type SineDvrSolution } from './dvr';
 
 /** A vectorised potential: V at every x of the array, in internal units. */
 export type PotentialFn = (xs: Float64Array) => Float64Array;
@@ -145,6 +145,10 @@ function makeBasis(
     table(xs, levels, out, d1, d2) {
       if (!sol) return;
       sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2);
+    },
+    matrixElements(levels: number) {
+      const K = Math.min(levels, energies.length);
+      return sol ? sineSeriesMatrixElements(sol, K) : { x: new Float64Array(K * K), d: new Float64Array(K * K) };
     },
     weightedSums(xs, wRe, wIm, levels, outRe, outIm) {
       if (!sol) return;

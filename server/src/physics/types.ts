@@ -32,6 +32,11 @@ export interface Eigenbasis {
    */
   potentials?(xs: Float64Array): Float64Array;
   /**
+   * Optional closed form of the evolution's matrix elements X_jk = <phi_j|x|phi_k> and
+   * D_jk = <phi_j|d/dx|phi_k>, j, k < levels, row-major; `matrixElements` in evolution.ts uses it when present.
+   */
+  matrixElements?(levels: number): { x: Float64Array; d: Float64Array };
+  /**
    * Fills out[k * xs.length + j] with phi_k(xs[j]) for k < levels (and the derivatives when given):
    * the whole table at once, because recurrences make that much cheaper than level by level.
    */
