@@ -209,7 +209,7 @@ class Checker {
     if (!f) return this.err('name', nameSpan, `Unknown function '${e.name}'.${didYouMean(e.name, FUNCTIONS.keys())}`);
     if (e.args.length < f.minArgs || e.args.length > f.maxArgs) {
       const want = f.minArgs === f.maxArgs ? `${f.minArgs}` : `${f.minArgs} to ${f.maxArgs}`;
-      return this.err('syntax', e, `${e.name} takes ${want} argument${f.maxArgs === 1 ? '' : 's'}, found ${e.args.length}.`);
+      return this.err('syntax', e, `'${e.name}' takes ${want} argument${f.maxArgs === 1 ? '' : 's'}, found ${e.args.length}.`);
     }
     if (e.name === 'phi') return this.phi(e);
     const ds = e.args.map((a) => this.infer(a));

@@ -137,12 +137,12 @@ export function bindArguments(sig: Signature, args: readonly Arg[], call: Span):
       // One report for the whole list: the fix (naming the arguments) is the same for all of them.
       if (diagnostics.some((d) => d.code === 'syntax')) continue;
       diagnostics.push(
-        diagnostic('syntax', arg.start, arg.end, `${sig.name} takes named arguments, for example ${sig.name}(${names[0]} = ...).`),
+        diagnostic('syntax', arg.start, arg.end, `'${sig.name}' takes named arguments, for example ${sig.name}(${names[0]} = ...).`),
       );
     } else if (seenNamed) {
       diagnostics.push(diagnostic('syntax', arg.start, arg.end, 'A positional argument cannot follow a named one.'));
     } else if (position >= sig.params.length) {
-      diagnostics.push(diagnostic('syntax', arg.start, arg.end, `${sig.name} takes ${sig.params.length} arguments.`));
+      diagnostics.push(diagnostic('syntax', arg.start, arg.end, `'${sig.name}' takes ${sig.params.length} arguments.`));
     } else {
       values.set(sig.params[position]!.name, arg);
       position++;
@@ -152,12 +152,12 @@ export function bindArguments(sig: Signature, args: readonly Arg[], call: Span):
   const missing = sig.params.filter((p) => p.required && !values.has(p.name)).map((p) => p.name);
   if (missing.length > 0) {
     const list = missing.map((m) => `'${m}'`).join(' and ');
-    diagnostics.push(diagnostic('syntax', call.start, call.end, `${sig.name} needs ${list}.`));
+    diagnostics.push(diagnostic('syntax', call.start, call.end, `'${sig.name}' needs ${list}.`));
   }
   for (const group of sig.oneOf) {
     const given = args.filter((a) => a.name !== null && group.includes(a.name));
     if (given.length === 0) {
-      diagnostics.push(diagnostic('syntax', call.start, call.end, `${sig.name} needs one of ${group.join(', ')}.`));
+      diagnostics.push(diagnostic('syntax', call.start, call.end, `'${sig.name}' needs one of ${group.join(', ')}.`));
     } else if (given.length > 1) {
       const extra = given[1]!.nameSpan ?? given[1]!;
       diagnostics.push(diagnostic('syntax', extra.start, extra.end, `Give only one of ${group.join(', ')}.`));
