@@ -161,6 +161,11 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
       const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
       const what = Number.isNaN(err.value) ? 'not a number (as from 0/0 or Infinity - Infinity)' : `${err.value > 0 ? '+' : '-'}Infinity`;
       result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${what} at x = ${fmt(err.x)}; it must be finite everywhere.`));
+    } else if (err instanceof MissingLevel) {
+      // Systems without walls evaluate the state while looking for its window, before the expansion.
+      const st = stage.model?.state?.stmt;
+      const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
+      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `'phi(${err.level}, x)' is not among the levels of the basis; raise \`basis\` until it includes level ${err.level}.`));
     } else {
       result.diagnostics.push(internalError(err, text));
     }
@@ -241,7 +246,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
     ex = expandState(state, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
   } catch (err) {
     if (err instanceof MissingLevel) {
-      out.push(warn('evaluation', stateSpan, `phi(${err.level}, x) is not a level of this system: levels run from ${basis.firstLabel} to ${basis.firstLabel + basis.count - 1}${basis.kind === 'well' ? '' : ' (raise `basis`)'}.`));
+      out.push(warn('evaluation', stateSpan, `'phi(${err.level}, x)' is not a level of this system: levels run from ${basis.firstLabel} to ${basis.firstLabel + basis.count - 1}${basis.kind === 'well' ? '' : ' (raise `basis`)'}.`));
       return;
     }
     throw err;
