@@ -160,7 +160,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
       const st = stage.model?.state?.stmt;
       const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
       const what = Number.isNaN(err.value) ? 'not a number (as from 0/0 or Infinity - Infinity)' : `${err.value > 0 ? '+' : '-'}Infinity`;
-      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${what} at x = ${fmt(err.x)}; it must be finite everywhere.`));
+      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${what} at ${Number.isFinite(err.x) ? `x = ${fmt(err.x)}` : 'a point the grid cannot represent (a position overflows double precision)'}; it must be finite everywhere.`));
     } else if (err instanceof MissingLevel) {
       // Systems without walls evaluate the state while looking for its window, before the expansion.
       const st = stage.model?.state?.stmt;
@@ -287,6 +287,11 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
     if (basis.uncertainty) lv.uncertainty = basis.uncertainty[k]!;
     levels.push(lv);
   }
+  if (!Number.isFinite(captured)) {
+    // Overflowing or underflowing parameters make the coefficients NaN; show none rather than NaN weights.
+    out.push(warn('evaluation', stateSpan, "The coefficients are not finite numbers: the system's or the state's parameters are beyond what double precision can compute; rescale them.", undefined, 'error'));
+    return;
+  }
   result.levels = levels;
   result.captured = captured;
   let acc = 0;
@@ -332,6 +337,9 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   } else if (kinks.length > 0 || decay?.classification === 'kink') {
     spread = null;
   }
+  // Overflowing integrals (a subnormal mass makes hbar^2 k^2 / 2m infinite) diverge like a jump: null.
+  if (mean !== null && !Number.isFinite(mean)) mean = null;
+  if (spread !== null && !Number.isFinite(spread)) spread = null;
   result.energy = { mean, spread };
   result.decay = decay;
   reportConvergence(basis, decay, jumps, kinks, wallBreak, mean, meanFromLevels, captured, stateSpan, out);
