@@ -315,6 +315,8 @@ export function decayOf(basis: Eigenbasis, weights: Float64Array): Expansion['de
   for (let k = 0; k < labels.length; k++) labels[k] = k + basis.firstLabel;
   const f = fitDecay(labels, weights, { block: 4 });
   let classification = f.classification as 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
+  // Weights that grow along the tail (a box-quantised continuum, say) have no decay law to report.
+  if (f.exponent !== null && !(f.exponent > 0)) return { exponent: null, classification: 'unknown', at: null };
   if (basis.kind === 'oscillator' && (classification === 'jump' || classification === 'kink')) classification = 'algebraic';
   return { exponent: f.exponent ?? null, classification, at: null };
 }
