@@ -1,0 +1,82 @@
+/**
+ * Runs the fuzz harness at CI size and replays every case that once failed (test/fixtures/fuzz/*.json,
+ * saved by `npm run fuzz`). The promises checked are listed in harness.ts; a failure prints the case.
+ */
+import { describe, expect, it } from 'vitest';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { checkCase, diagnosticProblems, messageProblems, mutate, rng, runFuzz, type FuzzCase } from './harness';
+
+const root = join(__dirname, '..', '..');
+const examplesDir = join(root, 'examples');
+const examples = readdirSync(examplesDir)
+  .filter((f) => f.endsWith('.qstate'))
+  .map((f) => ({ name: f, text: readFileSync(join(examplesDir, f), 'utf8') }));
+const fixturesDir = join(root, 'test', 'fixtures', 'fuzz');
+const fixtures = existsSync(fixturesDir) ? readdirSync(fixturesDir).filter((f) => f.endsWith('.json')).sort() : [];
+
+// This file guards against regressions (exceptions, ranges, messages, numbers, hangs) in a loaded CI run,
+// so its per-case budget only catches hangs; `npm run fuzz` holds every case to 2 s and reports the slow
+// ones (numerical potentials with large bases are slow inside the eigen-solver, which the time limit
+// cannot interrupt yet).
+const CI_BUDGET_MS = 30_000;
+
+function describeFailure(c: FuzzCase, problems: string[]): string {
+  return `${c.kind} (${c.origin}):\n  ${problems.join('\n  ')}\n--- text ---\n${c.text}`;
+}
+
+describe('the checks of the harness can fail', () => {
+  it('flags messages that are not sentences', () => {
+    expect(messageProblems('The state is zero everywhere.')).toEqual([]);
+    expect(messageProblems("'NaN' is not allowed; write a finite number.")).toEqual([]);
+    expect(messageProblems('the state is zero')).toHaveLength(2);
+    expect(messageProblems('The value is undefined.')).toHaveLength(1);
+    expect(messageProblems('The state is NaN at x = 0.5.')).toHaveLength(1);
+    expect(messageProblems('Oops [object Object].')).toHaveLength(1);
+    expect(messageProblems('Failed: TypeError: x is not a function\n    at f (a.ts:1:2).').length).toBeGreaterThan(0);
+  });
+
+  it('flags ranges outside the document', () => {
+    const d = { start: 3, end: 12, severity: 'error' as const, code: 'syntax' as const, message: 'A problem.' };
+    expect(diagnosticProblems(d, 12)).toEqual([]);
+    expect(diagnosticProblems(d, 11)).toHaveLength(1);
+    expect(diagnosticProblems({ ...d, start: -1 }, 12)).toHaveLength(1);
+  });
+
+  it('mutates deterministically for a seed', () => {
+    const t = examples[0]!.text;
+    expect(mutate(t, rng(3))).toBe(mutate(t, rng(3)));
+    expect(mutate(t, rng(3))).not.toBe(t);
+  });
+});
+
+describe('saved fuzz cases', () => {
+  it.each(fixtures.length > 0 ? fixtures : ['(none yet)'])('%s keeps every promise', (name) => {
+    if (name === '(none yet)') return;
+    const c = JSON.parse(readFileSync(join(fixturesDir, name), 'utf8')) as FuzzCase;
+    const { problems } = checkCase(c, CI_BUDGET_MS);
+    expect(problems, describeFailure(c, problems)).toEqual([]);
+  });
+});
+
+describe('fuzzing at CI size', () => {
+  it('runs 1,000 cases through the parser, the analysis and the command line with no broken promise', () => {
+    // Cheap front doors weigh more and whole analyses get a 200 ms limit, to keep this file near 30 s; the
+    // full `npm run fuzz` uses the default mix and a 1.5 s limit.
+    const report = runFuzz({
+      cases: 1000,
+      seed: 20261201,
+      budgetMs: CI_BUDGET_MS,
+      examples,
+      maxFailures: 10,
+      shares: [['parse', 35], ['static', 35], ['analyse', 24], ['cli-check', 3], ['cli-json', 3]],
+      limits: { maxMillis: 200 },
+    });
+    const text = report.failures.map((f) => describeFailure(f.case, f.problems)).join('\n\n');
+    expect(report.failures, text).toEqual([]);
+    expect(report.cases).toBe(1000);
+    // Every front door was used.
+    for (const k of ['parse', 'static', 'analyse', 'cli-check', 'cli-json'] as const) expect(report.byKind[k]).toBeGreaterThan(10);
+    console.log(`fuzz: ${report.cases} cases in ${(report.totalMs / 1000).toFixed(1)} s; slowest ${report.slowest.ms.toFixed(0)} ms (${report.slowest.case?.kind}, ${report.slowest.case?.origin})`);
+  }, 240_000);
+});
