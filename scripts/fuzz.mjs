@@ -95,13 +95,17 @@ function runChild(j) {
       }
       // The child died or hung: the case it was on is the failure.
       let c = null;
+      let done = 0;
       try {
-        c = JSON.parse(readFileSync(current, 'utf8')).case;
+        const cur = JSON.parse(readFileSync(current, 'utf8'));
+        c = cur.case;
+        done = cur.index;
       } catch {
         // No case recorded.
       }
       const why = signal === 'SIGKILL' ? `hung for more than ${hangMs} ms` : `the process died (exit ${code}, signal ${signal})`;
-      resolve({ cases: 0, failures: c ? [{ case: c, problems: [why], ms: hangMs }] : [], slowest: { ms: 0, case: null }, byKind: {}, totalMs: 0, died: why });
+      // The cases before the one it stopped on ran; their own failures went down with the worker.
+      resolve({ cases: done, failures: c ? [{ case: c, problems: [why], ms: hangMs }] : [], slowest: { ms: 0, case: null }, byKind: {}, totalMs: 0, died: `${why} after ${done} cases` });
     });
   });
 }
