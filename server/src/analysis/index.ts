@@ -91,6 +91,8 @@ function staticStage(text: string, options: AnalyseOptions): StaticStage {
       defaultBasis: options.defaultBasis ?? DEFAULT_BASIS,
       maxBasis: limits.maxBasis,
       maxEvolveSteps: limits.maxEvolveSteps,
+      maxExpressionLength: limits.maxExpressionLength,
+      maxNesting: limits.maxNesting,
       evaluate: options.evaluate !== false,
     },
     diagnostics,

@@ -6,7 +6,7 @@
 import type { Arg, ExprText, QFile, Span, Statement, StateSpec, SystemSpec } from '../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { Complex, CompiledFunction, Dimension, Expr, Scope, UnitSystem } from '../expr/types';
-import { parseExpression } from '../expr/sandbox';
+import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../expr/sandbox';
 import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
@@ -73,6 +73,9 @@ export interface ModelOptions {
   defaultBasis: number;
   maxBasis: number;
   maxEvolveSteps: number;
+  /** Longest expression and deepest bracket nesting the sandbox parses (its own defaults when absent). */
+  maxExpressionLength?: number;
+  maxNesting?: number;
   /** When false only syntax and sandbox checks run; no value is evaluated. */
   evaluate: boolean;
 }
@@ -220,7 +223,7 @@ class ModelBuilder {
   }
 
   private expr(src: ExprText): Expr | null {
-    const p = parseExpression(src);
+    const p = parseExpression(src, { maxLength: this.options.maxExpressionLength ?? DEFAULT_PARSE_OPTIONS.maxLength, maxDepth: this.options.maxNesting ?? DEFAULT_PARSE_OPTIONS.maxDepth });
     this.push(p.diagnostics);
     return p.result;
   }
