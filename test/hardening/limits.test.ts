@@ -28,6 +28,14 @@ describe('resource limits', () => {
     expectFinding(`system box(0, 1)\nstate psi(x) = ${long}\n`, 'limits', long, /10000/);
   });
 
+  it('applies smaller expression-length and nesting caps given as options', () => {
+    const text = 'system box(0, 1)\nstate psi(x) = x * (1 - x) + ((x * x) * (1 - x))\n';
+    expectFinding(text, 'limits', 'x * (1 - x) + ((x * x) * (1 - x))', /limit is 20/, { limits: { maxExpressionLength: 20 } });
+    expectFinding(text, 'limits', '(', /nested more than 1 deep/, { limits: { maxNesting: 1 } });
+    // The defaults let the same text through.
+    expect(analyse(text).diagnostics.some((d) => d.code === 'limits')).toBe(false);
+  });
+
   it('refuses brackets nested more than 200 deep, without overflowing the stack', () => {
     const deep = '('.repeat(1000) + 'x' + ')'.repeat(1000);
     const r = analyse(`system box(0, 1)\nstate psi(x) = ${deep}\n`);
