@@ -289,9 +289,9 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
     if (basis.uncertainty) lv.uncertainty = basis.uncertainty[k]!;
     levels.push(lv);
   }
-  if (!Number.isFinite(captured)) {
-    // Overflowing or underflowing parameters make the coefficients NaN; show none rather than NaN weights.
-    out.push(warn('evaluation', stateSpan, "The coefficients are not finite numbers: the system's or the state's parameters are beyond what double precision can compute; rescale them.", undefined, 'error'));
+  if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) {
+    // Overflowing or underflowing parameters (a mass of 1e-300) make coefficients NaN or energies infinite.
+    out.push(warn('evaluation', stateSpan, "The coefficients or level energies are not finite numbers: the system's, the mass's or the state's values are beyond what double precision can compute; rescale them.", undefined, 'error'));
     return;
   }
   result.levels = levels;
