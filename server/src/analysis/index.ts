@@ -202,7 +202,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   const sys = model.system.model;
   const sysStmt = model.system.stmt;
   let count = model.basis.value;
-  const built = buildBasis(sys, model.mass, count, out, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+  const built = buildBasis(sys, model.mass, count, out, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
   if (!built) return;
   const basis = built.basis;
   // Extents at the ends of double precision (box(-1e308, 1e308), box(0, 5e-324), a subnormal mass) would
@@ -414,7 +414,9 @@ function reportBasisFacts(built: BuiltBasis, model: Model, sysSpan: { start: num
   }
   if (built.unresolved !== undefined && built.unresolved !== null) {
     out.push(
-      warn('limits', sysSpan, `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
+      warn('limits', sysSpan, built.timeLimited
+        ? `The time limit stopped the solver's refinement: level ${built.unresolved} and above are not resolved to 1e-9; lower \`basis\` or raise the limit.`
+        : `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
     );
   }
   if (built.wallArtefacts && built.wallArtefacts.length > 0) {
@@ -578,7 +580,7 @@ function levelsNeeded(
   for (let attempt = 0; attempt < 3; attempt++) {
     if (options.cancelled?.()) return null;
     const scratch: EngineDiagnostic[] = [];
-    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, scratch, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled });
+    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, scratch, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
     if (!b) return null;
     const m = Math.min(n, b.basis.count);
     const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });

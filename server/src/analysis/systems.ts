@@ -20,6 +20,8 @@ export interface BuiltBasis {
   unresolved?: number | null;
   /** Numerical systems: grid points used. */
   points?: number;
+  /** Numerical systems: refinement was stopped by the analysis's time limit. */
+  timeLimited?: boolean;
 }
 
 /** How many solved numerical bases are kept (least recently used dropped first). */
@@ -51,7 +53,7 @@ export function buildBasis(
   mass: number,
   count: number,
   out: EngineDiagnostic[],
-  options: { maxGridPoints: number; cancelled?: () => boolean },
+  options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
 ): BuiltBasis | null {
   switch (system.kind) {
     case 'box':
@@ -98,19 +100,27 @@ export function buildBasis(
         );
         return null;
       }
-      const solved = potentialBasis(evalV, system.a, system.b, mass, count, {});
+      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: options.deadline });
       if (bad !== null) {
         const b = bad as { x: number; value: string };
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
         return null;
       }
+      if (solved.basis.count === 0) {
+        const why = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
+        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
+        return null;
+      }
+      const timeLimited = solved.notes.some((n) => n.kind === 'cap' && n.message.startsWith('The time limit'));
       const built: BuiltBasis = {
         basis: solved.basis,
         wallArtefacts: wallArtefacts(solved.basis, probe, evalV(probe)),
         unresolved: solved.unresolved,
         points: solved.points,
+        timeLimited,
       };
-      if (memoKey !== null) {
+      // A solve cut short by the time limit is not kept: the next edit deserves a full one.
+      if (memoKey !== null && !timeLimited) {
         basisMemo.set(memoKey, built);
         while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
       }

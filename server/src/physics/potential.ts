@@ -30,7 +30,13 @@ export interface PotentialOptions {
    * Cap on the eigensolver's work per solve, 4/3 n^3 flops summed over blocks (default 4e9, about 2-3 s on
    * an idle core): it lowers the grid cap to about 1440 points for a potential without symmetry, 2290 with it.
    */
-  maxWork?: number;
+maxWork?: number;
+  /**
+   * A `performance.now()` time by which refinement must stop (default none). Before each larger solve
+   * its cost is estimated from the last one (it grows as N^3); a solve that would end past the
+   * deadline is not started, and the levels not yet resolved are reported as for a grid cap.
+   */
+  deadline?: number;
 }
 
 /** Something the solver wants the analysis to know. */
@@ -415,7 +421,20 @@ export function potentialBasis(
   };
 
   const sizes: number[] = [];
-  let prev = solveAt(N);
+  // Time of the last solve and its size, to tell whether the next one fits before the deadline.
+  let lastMs = 0;
+  let lastN = N;
+  const timedSolve = (Nn: number): SineDvrSolution | null => {
+    const t0 = performance.now();
+    const r = solveAt(Nn);
+    lastMs = performance.now() - t0;
+    lastN = Nn;
+    return r;
+  };
+  const fits = (Nn: number): boolean =>
+    o.deadline === undefined || performance.now() + lastMs * Math.pow(Nn / Math.max(1, lastN), 3) <= o.deadline;
+  let stoppedByTime = false;
+  let prev = timedSolve(N);
   if (!prev) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
   sizes.push(N);
   let cur = prev;
@@ -428,7 +447,11 @@ export function potentialBasis(
     Math.max(Math.abs(E[k]), 1e-3 * Math.abs(E[E.length - 1] - vmin), Number.MIN_VALUE);
   while (N < cap) {
     const N1 = Math.min(cap, Math.ceil(N * o.growth));
-    const next = solveAt(N1);
+    if (!fits(N1)) {
+      stoppedByTime = true;
+      break;
+    }
+    const next = timedSolve(N1);
     if (!next) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
     sizes.push(N1);
     const m = Math.min(prev.energies.length, next.energies.length);
@@ -466,8 +489,8 @@ export function potentialBasis(
             message: `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(need)} grid points, over ${capWhy}; stopped at ${Math.max(N, Nf)}.`,
           });
         }
-        if (Nf > N) {
-          const fin = solveAt(Nf);
+        if (Nf > N && fits(Nf)) {
+          const fin = timedSolve(Nf);
           if (!fin) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
           sizes.push(Nf);
           const factor = Math.pow(Nf / N, p) - 1;
@@ -492,7 +515,9 @@ export function potentialBasis(
     if (unresolved === null && !(uncertainty[k] <= o.tolerance * scaleOf(cur.energies, k))) unresolved = k + 1;
   }
   if (count < K && unresolved === null) unresolved = count + 1;
-  if (stoppedByCap && unresolved !== null && !notes.some((n) => n.kind === 'cap')) {
+  if (stoppedByTime && unresolved !== null) {
+    notes.push({ kind: 'cap', message: `The time limit stopped refinement before level ${unresolved} met the tolerance.` });
+  } else if (stoppedByCap && unresolved !== null && !notes.some((n) => n.kind === 'cap')) {
     notes.push({ kind: 'cap', message: `${capWhy.charAt(0).toUpperCase()}${capWhy.slice(1)} stopped refinement before level ${unresolved} met the tolerance.` });
   }
   if (clamped) {
