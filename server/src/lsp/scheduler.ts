@@ -165,7 +165,7 @@ export class AnalysisScheduler {
     const cancel = new Int32Array(new SharedArrayBuffer(4));
     const budget = this.ready ? setTimeout(() => this.onBudget(id), timeBudgetMs) : null;
     this.running = { ...job, id, uri, cancel, budget };
-    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, cancel };
+    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, maxMillis: Math.max(50, Math.floor(0.75 * timeBudgetMs)), cancel };
     this.worker.postMessage(message);
   }
 

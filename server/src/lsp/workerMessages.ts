@@ -11,6 +11,11 @@ export interface AnalyseJob {
   text: string;
   defaultBasis: number;
   samples: boolean;
+  /**
+   * The engine's own time limit in ms: a little under the scheduler's budget, so a slow analysis
+   * stops itself with partial results and a limits finding before the worker has to be terminated.
+   */
+  maxMillis: number;
   /** An Int32Array view of a SharedArrayBuffer; element 0 becomes 1 when the job is superseded. */
   cancel: Int32Array;
 }
