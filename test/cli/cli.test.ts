@@ -3,7 +3,7 @@
  */
 import { describe, expect, it, beforeAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, writeFileSync, readdirSync } from 'node:fs';
+import { existsSync, mkdtempSync, writeFileSync, readdirSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 
@@ -72,6 +72,23 @@ describe('eigenspan expand --json', () => {
     const table = run(['expand', p, '--table']);
     expect(table.code).toBe(0);
     expect(table.out).toContain('energy mean');
+  });
+});
+
+describe('eigenspan expand --out', () => {
+  it('writes a new file, refuses to replace it, and replaces it with --force', () => {
+    const src = file('out-src.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(2) sin(pi x)\nbasis 3\n');
+    const target = join(dir, 'coefficients.csv');
+    expect(run(['expand', src, '--csv', '--out', target]).code).toBe(0);
+    const first = readFileSync(target, 'utf8');
+    expect(first.split('\n')[0]).toBe('n,energy,re,im,weight');
+    writeFileSync(target, 'keep me');
+    const refused = run(['expand', src, '--csv', '--out', target]);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toContain('--force');
+    expect(readFileSync(target, 'utf8')).toBe('keep me');
+    expect(run(['expand', src, '--csv', '--out', target, '--force']).code).toBe(0);
+    expect(readFileSync(target, 'utf8')).toBe(first);
   });
 });
 

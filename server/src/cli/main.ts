@@ -1,25 +1,27 @@
 /**
  * The command line: a thin front end over `analyse`.
  *
- *   eigenspan expand FILE [--json | --table | --csv] [--basis N]
+ *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
  *   eigenspan check FILE|FOLDER... [--quiet]
  *   eigenspan demo [FOLDER]
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
-import { readFileSync, readdirSync, statSync } from 'node:fs';
+import { existsSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
 import { analyse, DEFAULT_LIMITS } from '../analysis/index';
 import { lineTable } from '../analysis/positions';
 import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
 
 const USAGE = `Usage:
-  eigenspan expand FILE [--json | --table | --csv] [--basis N]
+  eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
       Expand the state of FILE in its system's energy eigenbasis.
       --json   one JSON object (levels, norm, captured, energy, parity, continuum, diagnostics)
       --table  a readable table (the default)
       --csv    one row a level: n, energy, re, im, weight
       --basis N  levels to use when the file has no basis line (default 40)
+      --out PATH write the output to PATH instead of the terminal; an existing PATH is
+                 never replaced unless --force is given
   eigenspan check FILE|FOLDER...
       Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE.
       Folders are searched for .qstate files. Exit 1 when an error or a failed expect is found.
@@ -90,9 +92,16 @@ function expand(args: string[], io: Io): number {
   let format: 'json' | 'table' | 'csv' = 'table';
   let file: string | null = null;
   let basis: number | undefined;
+  let outPath: string | null = null;
+  let force = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--json') format = 'json';
+    if (a === '--out') {
+      const p = args[++i];
+      if (p === undefined || p.startsWith('-')) throw new UsageError('--out needs a file path');
+      outPath = p;
+    } else if (a === '--force') force = true;
+    else if (a === '--json') format = 'json';
     else if (a === '--table') format = 'table';
     else if (a === '--csv') format = 'csv';
     else if (a === '--basis') {
@@ -104,11 +113,19 @@ function expand(args: string[], io: Io): number {
     else throw new UsageError('expand takes one file');
   }
   if (file === null) throw new UsageError('expand needs a file');
+  // Refuse to replace an existing export before doing any work; --force says the user means it.
+  if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${outPath}' exists; add --force to overwrite it`);
   const text = readText(file);
   const result = analyse(text, { defaultBasis: basis });
-  if (format === 'json') io.out(renderJson(result, text) + '\n');
-  else if (format === 'csv') io.out(renderCsv(result));
-  else io.out(renderTable(result, text, file));
+  const rendered = format === 'json' ? renderJson(result, text) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, file);
+  if (outPath !== null) {
+    try {
+      writeFileSync(outPath, rendered, { flag: force ? 'w' : 'wx' });
+    } catch (e) {
+      const code = (e as NodeJS.ErrnoException).code;
+      throw new UsageError(code === 'EEXIST' ? `'${outPath}' exists; add --force to overwrite it` : `cannot write '${outPath}': ${code ?? 'error'}`);
+    }
+  } else io.out(rendered);
   return result.diagnostics.some((d) => d.severity === 'error') ? 1 : 0;
 }
 
