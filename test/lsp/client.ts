@@ -43,6 +43,8 @@ export interface ClientOptions {
   settings?: Record<string, unknown>;
   /** Extra environment; test hooks are on by default. */
   env?: Record<string, string>;
+  /** Working folder of the server process (default: the test's). */
+  cwd?: string;
 }
 
 /** A connected client. */
@@ -105,6 +107,7 @@ export async function startClient(options: ClientOptions = {}): Promise<TestClie
   if (!existsSync(SERVER)) throw new Error(`${SERVER} is missing: run npm run build first`);
   const child = spawn(process.execPath, [SERVER, '--stdio'], {
     stdio: ['pipe', 'pipe', 'pipe'],
+    cwd: options.cwd,
     env: { ...process.env, EIGENSPAN_TEST_HOOKS: '1', ...(options.env ?? {}) },
   });
   const exited = new Promise<number | null>((r) => child.once('exit', (code) => r(code)));
