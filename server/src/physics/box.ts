@@ -1,6 +1,7 @@
 /**
  * The infinite square well (particle in a box) on [a, b].
  */
+import { sineLadder } from './sines';
 import type { Eigenbasis } from './types';
 
 /**
@@ -23,6 +24,9 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
     energies[k] = (q * q) / (2 * mass);
   }
   const amp = valid ? Math.sqrt(2 / L) : 0;
+  // Scratch for sin(m theta), cos(m theta) at one point, shared by every call (one thread, no reentry).
+  const S = new Float64Array(n + 1);
+  const C = new Float64Array(n + 1);
   return {
     kind: 'box',
     count: n,
@@ -40,23 +44,11 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
       for (let j = 0; j < nx; j++) {
         const x = xs[j];
         const inside = x >= a && x <= b;
-        const theta = (Math.PI * (x - a)) / L;
-        const c1 = Math.cos(theta);
-        const s1 = Math.sin(theta);
-        let s = 0;
-        let c = 1;
+        if (inside) sineLadder((Math.PI * (x - a)) / L, lv, S, C);
         for (let k = 0; k < lv; k++) {
           const m = k + 1;
-          // Rotate (cos, sin) of m*theta by theta; resynchronise with the library every 32 levels so
-          // rounding grows no further than 32 steps (a rotation keeps the error free of 1/sin(theta)).
-          if ((m & 31) === 0) {
-            s = Math.sin(m * theta);
-            c = Math.cos(m * theta);
-          } else {
-            const sn = s * c1 + c * s1;
-            c = c * c1 - s * s1;
-            s = sn;
-          }
+          const s = S[m];
+          const c = C[m];
           const idx = k * nx + j;
           if (!inside) {
             out[idx] = 0;
@@ -77,25 +69,12 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
       for (let j = 0; j < xs.length; j++) {
         const x = xs[j];
         if (!(x >= a && x <= b)) continue;
-        const theta = (Math.PI * (x - a)) / L;
-        const c1 = Math.cos(theta);
-        const s1 = Math.sin(theta);
+        sineLadder((Math.PI * (x - a)) / L, lv, S, C);
         const wr = amp * wRe[j];
         const wi = wIm ? amp * wIm[j] : 0;
-        let s = 0;
-        let c = 1;
         for (let k = 0; k < lv; k++) {
-          const m = k + 1;
-          if ((m & 31) === 0) {
-            s = Math.sin(m * theta);
-            c = Math.cos(m * theta);
-          } else {
-            const sn = s * c1 + c * s1;
-            c = c * c1 - s * s1;
-            s = sn;
-          }
-          outRe[k] += s * wr;
-          outIm[k] += s * wi;
+          outRe[k] += S[k + 1] * wr;
+          outIm[k] += S[k + 1] * wi;
         }
       }
     },

@@ -16,6 +16,7 @@
  * form V_kl = C(k - l) - C(k + l) with C(q) = (1/N) sum_i V_i cos(q pi i/N) (product-to-sum identity);
  * so the matrix is built in O(N^2), and the eigensolver (tridiag.ts) dominates the cost.
  */
+import { sineLadder } from './sines';
 import { symmetricLowest } from './tridiag';
 
 /** The interior grid of the sine DVR with N intervals on [a, b]: x_i = a + i (b - a)/N, i = 1..N-1. */
@@ -186,7 +187,7 @@ export function sineDvrSolve(
  * levels at every x (zero outside [a, b]), with the exact term-by-term derivatives
  * phi' = sqrt(2/L) sum c_jk (k pi/L) cos(...) and phi'' = -sqrt(2/L) sum c_jk (k pi/L)^2 sin(...).
  * out[j * xs.length + i] = phi_j(xs[i]); d1, d2 likewise when given. sin(k theta), cos(k theta) come from
- * the angle-addition recurrence, restarted from Math.sin/cos every 64 terms to bound rounding drift.
+ * the angle-addition recurrence (`sineLadder`).
  */
 export function sineSeriesTable(
   sol: SineDvrSolution,
@@ -216,23 +217,7 @@ export function sineSeriesTable(
       }
       continue;
     }
-    const th = kf * (x - sol.a);
-    const s1 = Math.sin(th);
-    const c1 = Math.cos(th);
-    let s = 0;
-    let c = 1;
-    for (let k = 1; k <= kTop; k++) {
-      if ((k & 63) === 1) {
-        s = Math.sin(k * th);
-        c = Math.cos(k * th);
-      } else {
-        const sn = s * c1 + c * s1;
-        c = c * c1 - s * s1;
-        s = sn;
-      }
-      S[k] = s;
-      Cc[k] = c;
-    }
+    sineLadder(kf * (x - sol.a), kTop, S, Cc);
     for (let j = 0; j < count; j++) {
       const p = sol.parity[j];
       const start = p === 2 ? 2 : 1;
@@ -282,30 +267,20 @@ export function sineSeriesWeightedSums(
   const kf = Math.PI / L;
   const sRe = new Float64Array(n + 1);
   const sIm = new Float64Array(n + 1);
+  const ladS = new Float64Array(n + 1);
+  const ladC = new Float64Array(n + 1);
   // Only the terms some level uses (see `terms`).
   let kTop = 0;
   for (let j = 0; j < count; j++) kTop = Math.max(kTop, sol.terms ? sol.terms[j] : n);
   for (let i = 0; i < xs.length; i++) {
     const x = xs[i];
     if (!(x >= sol.a && x <= sol.b)) continue;
-    const th = kf * (x - sol.a);
-    const s1 = Math.sin(th);
-    const c1 = Math.cos(th);
+    sineLadder(kf * (x - sol.a), kTop, ladS, ladC);
     const wr = wRe[i];
     const wi = wIm ? wIm[i] : 0;
-    let s = 0;
-    let c = 1;
     for (let k = 1; k <= kTop; k++) {
-      if ((k & 63) === 1) {
-        s = Math.sin(k * th);
-        c = Math.cos(k * th);
-      } else {
-        const sn = s * c1 + c * s1;
-        c = c * c1 - s * s1;
-        s = sn;
-      }
-      sRe[k] += s * wr;
-      sIm[k] += s * wi;
+      sRe[k] += ladS[k] * wr;
+      sIm[k] += ladS[k] * wi;
     }
   }
   const norm = Math.sqrt(2 / L);
