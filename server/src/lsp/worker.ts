@@ -21,6 +21,12 @@ function run(job: AnalyseJob): void {
       // Printed on purpose: the server forwards worker output to its log, and tests wait for this line.
       console.log(`test hook ${hook.kind} for job ${job.id}`);
       if (hook.kind === 'crash') process.exit(3);
+      if (hook.kind === 'throw') throw new Error('test hook: the engine threw');
+      if (hook.kind === 'oom') {
+        // Keep everything reachable until the worker's heap limit ends it.
+        const hoard: number[][] = [];
+        for (;;) hoard.push(new Array<number>(1 << 20).fill(hoard.length));
+      }
       const until = performance.now() + (hook.kind === 'hang' ? Infinity : hook.ms);
       // A hang ignores the cancellation flag on purpose (a runaway); a slow job polls it.
       while (performance.now() < until) if (hook.kind === 'slow' && cancelled()) return reply({ type: 'cancelled', id: job.id });
