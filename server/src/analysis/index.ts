@@ -260,6 +260,10 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   if (ex.capped && ex.late) out.push(warn('limits', stateSpan, `The time limit of ${limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`));
   else if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
   const norm = ex.norm;
+  if (norm === Infinity) {
+    out.push(warn('evaluation', stateSpan, 'The integral of |psi|^2 overflows (the state is too large to square in double precision); scale the state down.', undefined, 'error'));
+    return;
+  }
   if (!(norm > 0) && maxAbs(ex.values.re, ex.values.im) > 0) {
     out.push(warn('norm', stateSpan, 'The state is so small that |psi|^2 underflows to zero in double precision; multiply it by a large factor.', undefined, 'error'));
     return;
@@ -331,7 +335,9 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   const g = gridEnergy(basis, ex.q, ex.values, norm);
   let mean: number | null = g.mean;
   let spread: number | null = Math.sqrt(Math.max(0, g.meanSquare - g.mean * g.mean));
-  const decay = decayOf(basis, weights);
+  // Levels the solver could not resolve say nothing about the state's smoothness.
+  const resolved = built.unresolved ? Math.max(0, Math.min(count, built.unresolved - basis.firstLabel)) : count;
+  const decay = decayOf(basis, weights.subarray(0, resolved));
   if (decay) decay.at = jumps[0] ?? kinks[0] ?? null;
   if (wallBreak || jumps.length > 0 || decay?.classification === 'jump') {
     mean = null;
@@ -529,7 +535,7 @@ function reportConvergence(
     return;
   }
   if (decay && (decay.classification === 'jump' || decay.classification === 'kink')) {
-    out.push(warn('convergence', span, `The coefficients decay slowly, as for a ${decay.classification}:${p} ${decay.classification === 'jump' ? 'the energy mean is infinite.' : 'the energy spread is infinite.'}`));
+    out.push(warn('convergence', span, `The coefficients decay slowly, as for a ${decay.classification}, so ${decay.classification === 'jump' ? 'the energy mean is infinite' : 'the energy spread is infinite'}.${p}`));
     return;
   }
   if (mean !== null && basis.kind !== 'well' && captured > 1 - 1e-3) {
@@ -648,10 +654,12 @@ function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm
     const p = basis.potential(xs[j]!);
     pot.push(Number.isFinite(p) ? p : 0);
   }
+  // Plots take finite numbers only: a state that is infinite at a plot point (1/x at a wall) is drawn as 0 there.
+  const finite = (r: number): number => (Number.isFinite(r * s) ? r * s : 0);
   return {
     x: Array.from(xs),
-    re: Array.from(v.re, (r) => r * s),
-    im: Array.from(v.im, (r) => r * s),
+    re: Array.from(v.re, finite),
+    im: Array.from(v.im, finite),
     potential: pot,
     phi,
     walls: basis.walls,

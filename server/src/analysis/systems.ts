@@ -77,7 +77,7 @@ export function buildBasis(
         const v = V.evaluate(xs, 0);
         const re = v.re;
         for (let j = 0; j < xs.length && bad === null; j++) {
-          if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: String(re[j]) };
+          if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: Number.isNaN(re[j]!) ? 'not a number' : re[j]! > 0 ? 'infinite' : 'minus infinity' };
           else if (Math.abs(v.im[j]!) > 1e-12 * Math.max(1, Math.abs(re[j]!))) bad = { x: xs[j]!, value: 'complex' };
         }
         return re;
@@ -107,7 +107,9 @@ export function buildBasis(
         return null;
       }
       if (solved.basis.count === 0) {
-        const why = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
+        const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
+        // The solver's notes name raw values; say them in words.
+        const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
         return null;
       }

@@ -434,6 +434,21 @@ export function potentialBasis(
   const fits = (Nn: number): boolean =>
     o.deadline === undefined || performance.now() + lastMs * Math.pow(Nn / Math.max(1, lastN), 3) <= o.deadline;
   let stoppedByTime = false;
+  // Under a deadline, a small timed solve tells how large a first grid fits the time left (the solve
+  // costs about N^3); a first grid that would not is shrunk, and the levels it cannot hold are then
+  // reported unresolved instead of the solve running on past the deadline.
+  if (o.deadline !== undefined && N > 64) {
+    const Np = 64;
+    const t0 = performance.now();
+    solveAt(Np);
+    const tp = Math.max(performance.now() - t0, 0.05);
+    const left = o.deadline - performance.now();
+    const fitsN = Math.floor(Np * Math.cbrt(Math.max(left, 0) / (3 * tp)));
+    if (fitsN < N) {
+      N = Math.max(16, fitsN);
+      stoppedByTime = true;
+    }
+  }
   let prev = timedSolve(N);
   if (!prev) return fail({ kind: 'evaluation', message: 'The potential gave NaN or -Infinity on the solver grid, or values too large for the solver.' });
   sizes.push(N);
