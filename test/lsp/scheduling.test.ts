@@ -81,17 +81,29 @@ describe('time budget and crashes', () => {
     expect(r.version).toBe(2);
   });
 
-  it('terminates a genuinely slow analysis (a numerical potential with 1000 levels) without any test hook', async () => {
+  it('stops a genuinely slow analysis (a numerical potential with 1000 levels) within the budget without any test hook', async () => {
     const c = await startClient({ settings: { timeBudgetMs: 1000, debounceMs: 0 }, env: { EIGENSPAN_TEST_HOOKS: '0' } });
     clients.push(c);
     const a = 'file:///sched/slow-potential.qstate';
     const t0 = performance.now();
     c.open(a, 'system V(x) = x^4 over [-6, 6]\nstate psi(x) = exp(-x^2)\nbasis 1000\n');
-    const p = await c.diagnostics(a, (q) => q.diagnostics.some((d) => d.code === 'limits' && /1000 ms/.test(String(d.message))));
-    // Terminated near the budget, far sooner than the tens of seconds the analysis needs here.
+    // The engine runs under 3/4 of the budget and stops itself with a limits finding (750 ms); should it
+    // not, the worker is terminated at the budget (1000 ms). Either way the answer comes near the budget,
+    // far sooner than the tens of seconds the full analysis needs here.
+    const p = await c.diagnostics(a, (q) => q.diagnostics.some((d) => d.code === 'limits' && /(750|1000) ms|time limit/.test(String(d.message))));
     expect(performance.now() - t0).toBeLessThan(8000);
-    expect(p.diagnostics.find((d) => d.code === 'limits')!.range.start.line).toBe(1);
-    await c.log(/exceeded 1000 ms; restarting the worker/);
+    expect(p.diagnostics.some((d) => d.code === 'limits')).toBe(true);
+    const h = await c.connection.sendRequest<Hover | null>('textDocument/hover', { textDocument: { uri: a }, position: { line: 0, character: 2 } });
+    expect(h).not.toBeNull();
+  });
+
+  it('publishes name and unit findings at once, before the numerical analysis has finished', async () => {
+    const c = await client({ debounceMs: 0, timeBudgetMs: 20_000 });
+    const a = 'file:///sched/static-units.qstate';
+    // The hang keeps the worker busy, so only the immediate (static) publish can carry these findings.
+    c.open(a, 'units nm, meV\nsystem box(1, 2 nm)\nstate psi(x) = sin(pi x / widht)\n# eigenspan-test: hang\n');
+    const p = await c.diagnostics(a, (q) => q.version === 1);
+    expect(codes(p.diagnostics).sort()).toEqual(['name', 'units']);
   });
 
   it('restarts a crashed worker and keeps serving', async () => {

@@ -123,7 +123,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
 
   function runStatic(text: string): { file: QFile; diagnostics: EngineDiagnostic[] } {
     try {
-      return analyseStatic(text, { defaultBasis: settings.defaultBasis, evaluate: false });
+      return analyseStatic(text, { defaultBasis: settings.defaultBasis, evaluate });
     } catch (e) {
       logError(`static analysis threw: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
       return { file: { text, statements: [] }, diagnostics: [] };
