@@ -45,6 +45,14 @@ export interface ServerOptions {
 /** How many analysed texts each document remembers (undo and redo then need no new analysis). */
 const TEXT_CACHE = 4;
 
+/** A result without its plot data (samples and the density frames of the evolution). */
+function withoutPlots(r: AnalysisResult): AnalysisResult {
+  if (!r.samples && !r.evolution?.density) return r;
+  const evolution = r.evolution ? { ...r.evolution } : null;
+  if (evolution) delete evolution.density;
+  return { ...r, samples: null, evolution };
+}
+
 interface DocState {
   uri: string;
   version: number;
@@ -131,9 +139,12 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   }
 
   function accept(st: DocState, result: AnalysisResult): void {
-    st.full = { result, diagnostics: result.diagnostics };
+    // Plot samples (0.5 to 3 MB a result) go to the panel once and are not kept: hovers, lenses and
+    // fixes need only the numbers, and memory then stays flat with many open documents.
+    const kept = withoutPlots(result);
+    st.full = { result: kept, diagnostics: result.diagnostics };
     st.byText.delete(st.text);
-    st.byText.set(st.text, result);
+    st.byText.set(st.text, kept);
     while (st.byText.size > TEXT_CACHE) st.byText.delete(st.byText.keys().next().value as string);
     publish(st);
     if (init.results ?? init.panel === true) {
@@ -156,7 +167,8 @@ export function startServer(connection: Connection, options: ServerOptions): voi
       Object.assign(st, { version: doc.version, text, lines: lineTable(text), file: s.file, staticDiagnostics: s.diagnostics, full: null });
     }
     wake(st);
-    const cached = evaluate ? st.byText.get(text) : undefined;
+    // Kept results carry no plot samples, so a client with the panel gets a fresh analysis instead.
+    const cached = evaluate && !(init.samples ?? init.panel === true) ? st.byText.get(text) : undefined;
     if (cached) {
       scheduler.forget(st.uri);
       accept(st, cached);
