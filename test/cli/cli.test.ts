@@ -92,6 +92,21 @@ describe('eigenspan expand --out', () => {
   });
 });
 
+describe('eigenspan --time-limit', () => {
+  it('stops a slow analysis at the limit with a limits finding and partial results', () => {
+    const p = file('slow.qstate', 'system V(x) = x^4 over [-6, 6]\nstate gaussian(center = 0.5, width = 0.5)\nbasis 800\n');
+    const t0 = performance.now();
+    const r = run(['expand', p, '--json', '--time-limit', '300']);
+    const ms = performance.now() - t0;
+    const j = JSON.parse(r.out);
+    expect(j.diagnostics.some((d: { code: string }) => d.code === 'limits')).toBe(true);
+    expect(r.code).toBe(1);
+    // Generous: node's start-up and the first solve count too; the full analysis takes tens of seconds.
+    expect(ms).toBeLessThan(15_000);
+    expect(run(['check', p, '--time-limit', 'soon']).code).toBe(2);
+  });
+});
+
 describe('eigenspan check', () => {
   it('prints FILE:LINE:COL: SEVERITY[CODE]: MESSAGE and exits 1 on a failed expect', () => {
     const p = file('fail.qstate', 'system box(0, 1)\nstate psi(x) = sin(pi x)\nexpect energy 7 +- 0.1\n');

@@ -396,7 +396,7 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
       }
       case 'cli-check': {
         const f = scratchFile(c.text);
-        const { code, out, err } = runCli(['check', f]);
+        const { code, out, err } = runCli(['check', f, '--time-limit', String(FUZZ_LIMITS.maxMillis)]);
         if (code !== 0 && code !== 1) problems.push(`check exited ${code}: ${err.trim()}`);
         if (err.length > 0) problems.push(`check wrote to stderr: ${err.trim()}`);
         let errors = false;
@@ -414,7 +414,7 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
       }
       case 'cli-json': {
         const f = scratchFile(c.text);
-        const { code, out, err } = runCli(['expand', f, '--json']);
+        const { code, out, err } = runCli(['expand', f, '--json', '--time-limit', String(FUZZ_LIMITS.maxMillis)]);
         if (code !== 0 && code !== 1) problems.push(`expand exited ${code}: ${err.trim()}`);
         let j: { levels?: unknown[]; diagnostics?: { severity: string; line: number; column: number; endLine: number; endColumn: number; message: string }[] };
         try {

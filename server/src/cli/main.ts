@@ -14,7 +14,7 @@ import { lineTable } from '../analysis/positions';
 import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
 
 const USAGE = `Usage:
-  eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
+  eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]] [--time-limit MS]
       Expand the state of FILE in its system's energy eigenbasis.
       --json   one JSON object (levels, norm, captured, energy, parity, continuum, diagnostics)
       --table  a readable table (the default)
@@ -22,7 +22,9 @@ const USAGE = `Usage:
       --basis N  levels to use when the file has no basis line (default 40)
       --out PATH write the output to PATH instead of the terminal; an existing PATH is
                  never replaced unless --force is given
-  eigenspan check FILE|FOLDER...
+      --time-limit MS  stop the analysis after MS milliseconds with a limits finding
+                 and partial results (default 10000)
+  eigenspan check FILE|FOLDER... [--time-limit MS]
       Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE.
       Folders are searched for .qstate files. Exit 1 when an error or a failed expect is found.
   eigenspan demo [FOLDER]
@@ -32,6 +34,13 @@ const USAGE = `Usage:
 `;
 
 class UsageError extends Error {}
+
+/** Reads the value of `--time-limit MS` (a whole number of milliseconds per file). */
+function timeLimit(value: string | undefined): number {
+  const v = Number(value);
+  if (value === undefined || !Number.isInteger(v) || v < 1) throw new UsageError('--time-limit needs a whole number of milliseconds');
+  return v;
+}
 
 interface Io {
   out: (s: string) => void;
@@ -94,6 +103,7 @@ function expand(args: string[], io: Io): number {
   let basis: number | undefined;
   let outPath: string | null = null;
   let force = false;
+  let maxMillis: number | undefined;
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
     if (a === '--out') {
@@ -101,6 +111,7 @@ function expand(args: string[], io: Io): number {
       if (p === undefined || p.startsWith('-')) throw new UsageError('--out needs a file path');
       outPath = p;
     } else if (a === '--force') force = true;
+    else if (a === '--time-limit') maxMillis = timeLimit(args[++i]);
     else if (a === '--json') format = 'json';
     else if (a === '--table') format = 'table';
     else if (a === '--csv') format = 'csv';
@@ -116,7 +127,7 @@ function expand(args: string[], io: Io): number {
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${outPath}' exists; add --force to overwrite it`);
   const text = readText(file);
-  const result = analyse(text, { defaultBasis: basis });
+  const result = analyse(text, { defaultBasis: basis, limits: maxMillis ? { maxMillis } : undefined });
   const rendered = format === 'json' ? renderJson(result, text) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, file);
   if (outPath !== null) {
     try {
@@ -164,9 +175,12 @@ function collect(path: string, into: string[], problems: { path: string; message
 
 function check(args: string[], io: Io): number {
   const targets: string[] = [];
-  for (const a of args) {
-    if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for check`);
-    targets.push(a);
+  let maxMillis: number | undefined;
+  for (let i = 0; i < args.length; i++) {
+    const a = args[i]!;
+    if (a === '--time-limit') maxMillis = timeLimit(args[++i]);
+    else if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for check`);
+    else targets.push(a);
   }
   if (targets.length === 0) throw new UsageError('check needs at least one file or folder');
   const files: string[] = [];
@@ -196,7 +210,7 @@ function check(args: string[], io: Io): number {
       failed = true;
       return;
     }
-    const result = analyse(text);
+    const result = analyse(text, { limits: maxMillis ? { maxMillis } : undefined });
     const lines = lineTable(text);
     for (const d of result.diagnostics) {
       io.out(renderDiagnostic(f, d, lines) + '\n');
