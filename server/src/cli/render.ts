@@ -34,7 +34,7 @@ export function locate(d: EngineDiagnostic, lines: LineTable): LocatedDiagnostic
 /** `FILE:LINE:COL: SEVERITY[CODE]: MESSAGE`. */
 export function renderDiagnostic(file: string, d: EngineDiagnostic, lines: LineTable): string {
   const l = locate(d, lines);
-  return `${file}:${l.line}:${l.column}: ${l.severity}[${l.code}]: ${l.message.replace(/\s*\n\s*/g, ' ')}`;
+  return `${file}:${l.line}:${l.column}: ${l.severity}[${l.code}]: ${l.message.replace(/\s*[\r\n\u2028\u2029]\s*/g, ' ')}`;
 }
 
 /** The JSON object of `expand --json`. */
