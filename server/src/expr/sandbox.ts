@@ -529,26 +529,9 @@ const BINARY: Record<string, Exclude<Expr, { type: 'number' | 'symbol' | 'unary'
   and: 'and',
   or: 'or',
 };
-/** The source spelling each allowed mathjs operator function must have (rules out `.*`, `./`, `%`). */
-const SPELLING: Record<string, string> = {
-  add: '+',
-  subtract: '-',
-  multiply: '*',
-  divide: '/',
-  pow: '^',
-  smaller: '<',
-  smallerEq: '<=',
-  larger: '>',
-  largerEq: '>=',
-  equal: '==',
-  unequal: '!=',
-  and: 'and',
-  or: 'or',
-  unaryMinus: '-',
-  unaryPlus: '+',
-  not: 'not',
-};
 const UNARY: Record<string, '-' | '+' | 'not'> = { unaryMinus: '-', unaryPlus: '+', not: 'not' };
+/** The source spelling each allowed mathjs operator function must have (rules out `.*`, `./`, `%`). */
+const SPELLING: Record<string, string> = { ...BINARY, ...UNARY };
 
 class Converter {
   readonly diagnostics: EngineDiagnostic[] = [];
