@@ -3,6 +3,7 @@ import { evolve, psiAt, revivalTime, evolutionQuadrature, matrixElements } from 
 import { boxBasis } from '../../server/src/physics/box';
 import { oscillatorBasis } from '../../server/src/physics/oscillator';
 import { potentialBasis } from '../../server/src/physics/potential';
+import { wellBasis } from '../../server/src/physics/well';
 import type { Eigenbasis } from '../../server/src/physics/types';
 
 /** c_k = <phi_k|psi> for a real psi, by the evolution quadrature. */
@@ -73,6 +74,76 @@ describe('evolution: expectation values', () => {
     expect(Math.abs(me.d[1] + 8 / (3 * L))).toBeLessThan(1e-12);
     expect(me.x[0]).toBeCloseTo(L / 2, 13);
     expect(me.d[3]).toBe(-me.d[1]);
+  });
+
+  it.each([
+    ['box on [0.3, 2.8]', boxBasis(0.3, 2.8, 1.3, 40)],
+    ['oscillator centred at -0.4', oscillatorBasis(1.7, -0.4, 0.9, 40)],
+  ])('closed-form matrix elements of the %s agree with the quadrature of the tables', (_name, basis) => {
+    // Two independent routes: the basis's own formulas (Griffiths / Sakurai, from memory) and
+    // Gauss-Legendre quadrature of phi_j x phi_k and phi_j phi_k' over the tables (common practice).
+    const K = 40;
+    const closed = matrixElements(basis, K);
+    const quad = matrixElements({ ...basis, matrixElements: undefined }, K);
+    let worstX = 0;
+    let worstD = 0;
+    for (let i = 0; i < K * K; i++) {
+      worstX = Math.max(worstX, Math.abs(closed.x[i] - quad.x[i]));
+      worstD = Math.max(worstD, Math.abs(closed.d[i] - quad.d[i]));
+    }
+    expect(worstX).toBeLessThan(1e-10);
+    expect(worstD).toBeLessThan(1e-8);
+    // The quadrature is not trivially equal: the matrices are not mostly zero.
+    expect(Math.abs(closed.x[1])).toBeGreaterThan(0.1);
+    expect(Math.abs(closed.d[1])).toBeGreaterThan(0.1);
+  });
+
+  it('a cancelled evolution stops and keeps only the times it finished', () => {
+    const basis = oscillatorBasis(1, 0, 1, 30);
+    const c = new Float64Array(30);
+    c[0] = Math.SQRT1_2;
+    c[1] = Math.SQRT1_2;
+    let polls = 0;
+    const r = evolve(basis, c, new Float64Array(30), times(5, 100), { cancelled: () => ++polls > 10 });
+    expect(r.complete).toBe(false);
+    expect(r.survival.length).toBeGreaterThan(0);
+    expect(r.survival.length).toBeLessThan(100);
+    expect(r.meanX.length).toBe(r.survival.length);
+    const full = evolve(basis, c, new Float64Array(30), times(5, 100));
+    expect(full.complete).toBe(true);
+    expect(Array.from(r.meanX)).toEqual(Array.from(full.meanX.subarray(0, r.meanX.length)));
+    // The quadrature of a basis without closed forms polls too, row by row.
+    let rows = 0;
+    expect(matrixElements({ ...basis, matrixElements: undefined }, 30, () => ++rows > 3)).toBeNull();
+  });
+});
+
+describe('tables from a given level', () => {
+  it.each([
+    ['box', boxBasis(-1, 2, 1, 60)],
+    ['oscillator', oscillatorBasis(2, 0.3, 1, 60)],
+    ['finite well', wellBasis(400, 2, 0.2, 1)],
+    ['solver', potentialBasis((xs) => xs.map((x) => x * x * x * x), -3, 3, 1, 20).basis],
+  ])('the %s rows from level k on equal those of the whole table', (_name, basis) => {
+    const xs = Float64Array.from({ length: 31 }, (_, j) => -1 + (3 * j) / 30);
+    const K = basis.count;
+    const n = xs.length;
+    const whole = new Float64Array(K * n);
+    const w1 = new Float64Array(K * n);
+    const w2 = new Float64Array(K * n);
+    basis.table(xs, K, whole, w1, w2);
+    for (const from of [K - 1, Math.floor(K / 2)]) {
+      const part = new Float64Array((K - from) * n);
+      const p1 = new Float64Array((K - from) * n);
+      const p2 = new Float64Array((K - from) * n);
+      basis.table(xs, K, part, p1, p2, from);
+      for (let i = 0; i < part.length; i++) {
+        const scale = 1 + Math.abs(whole[from * n + i]);
+        expect(Math.abs(part[i] - whole[from * n + i])).toBeLessThan(1e-12 * scale);
+        expect(Math.abs(p1[i] - w1[from * n + i])).toBeLessThan(1e-10 * (1 + Math.abs(w1[from * n + i])));
+        expect(Math.abs(p2[i] - w2[from * n + i])).toBeLessThan(1e-9 * (1 + Math.abs(w2[from * n + i])));
+      }
+    }
   });
 });
 

@@ -228,7 +228,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
 
   const stateStmt = model.state.stmt;
   const stateSpan = stateStmt.kind === 'state' && stateStmt.state.kind === 'psi' ? stateStmt.state.expr : stateStmt.span;
-  const state = buildState(model.state.model, basis, model.mass, out, stateSpan, { maxGridPoints: limits.maxGridPoints });
+  const state = buildState(model.state.model, basis, model.mass, out, stateSpan, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
   if (!state) return;
 
   // The integration window: the walls for hard-walled systems, a scanned window on the line otherwise.
@@ -403,7 +403,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   checkExpects(model, result, out);
 
   const plotX = plotGrid(basis, window);
-  if (model.evolve) result.evolution = evolution(model, basis, levels, options.samples ? plotX : undefined);
+  if (model.evolve) result.evolution = evolution(model, basis, levels, options.samples ? plotX : undefined, options.cancelled);
   if (options.samples) result.samples = samples(state, basis, plotX, norm, levels);
 }
 
@@ -606,6 +606,7 @@ function evolution(
   basis: Eigenbasis,
   levels: LevelResult[],
   densityX: Float64Array | undefined,
+  cancelled: (() => boolean) | undefined,
 ): EvolutionResult {
   const ev = model.evolve!;
   const k = levels.length;
@@ -617,11 +618,12 @@ function evolution(
   });
   const times = new Float64Array(ev.steps + 1);
   for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
-  const r = evolve(basis, cRe, cIm, times, { density: densityX });
-  const rev = revivalTime(basis, cRe, cIm);
+  const r = evolve(basis, cRe, cIm, times, { density: densityX, cancelled });
+  // Cut short by the time limit (reported once for the whole analysis): the times finished, no revival search.
+  const rev = r.complete ? revivalTime(basis, cRe, cIm, { cancelled }) : null;
   const t = (x: number): number => timeToDisplay(x, model.units);
   const res: EvolutionResult = {
-    times: Array.from(times, t),
+    times: Array.from(times.subarray(0, r.survival.length), t),
     meanX: Array.from(r.meanX),
     meanP: Array.from(r.meanP),
     survival: Array.from(r.survival),

@@ -176,14 +176,7 @@ export function phiProvider(basis: Eigenbasis, missing: (n: number) => void): Ph
       d2?.fill(NaN);
       return;
     }
-    const len = xs.length;
-    const t = new Float64Array((k + 1) * len);
-    const t1 = d1 ? new Float64Array((k + 1) * len) : undefined;
-    const t2 = d2 ? new Float64Array((k + 1) * len) : undefined;
-    basis.table(xs, k + 1, t, t1, t2);
-    out.set(t.subarray(k * len, (k + 1) * len));
-    if (d1 && t1) d1.set(t1.subarray(k * len, (k + 1) * len));
-    if (d2 && t2) d2.set(t2.subarray(k * len, (k + 1) * len));
+    basis.table(xs, k + 1, out, d1, d2, k);
   };
 }
 
@@ -243,19 +236,16 @@ export function eigenState(basis: Eigenbasis, k: number): StateFunction {
   return {
     evaluate(xs, order) {
       const n = xs.length;
-      const t = new Float64Array((k + 1) * n);
-      const t1 = order >= 1 ? new Float64Array((k + 1) * n) : undefined;
-      const t2 = order >= 2 ? new Float64Array((k + 1) * n) : undefined;
-      basis.table(xs, k + 1, t, t1, t2);
-      const out: GridValues = { re: t.slice(k * n, (k + 1) * n), im: new Float64Array(n) };
-      if (t1) {
-        out.d1re = t1.slice(k * n, (k + 1) * n);
+      const out: GridValues = { re: new Float64Array(n), im: new Float64Array(n) };
+      if (order >= 1) {
+        out.d1re = new Float64Array(n);
         out.d1im = new Float64Array(n);
       }
-      if (t2) {
-        out.d2re = t2.slice(k * n, (k + 1) * n);
+      if (order >= 2) {
+        out.d2re = new Float64Array(n);
         out.d2im = new Float64Array(n);
       }
+      basis.table(xs, k + 1, out.re, out.d1re, out.d2re, k);
       return out;
     },
     breakpoints: (a, b) => {
@@ -281,7 +271,7 @@ export function buildState(
   mass: number,
   out: EngineDiagnostic[],
   stateSpan: { start: number; end: number },
-  options: { maxGridPoints: number },
+  options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
 ): StateFunction | null {
   switch (state.kind) {
     case 'gaussian':

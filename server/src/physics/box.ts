@@ -38,24 +38,27 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
     support: [a, b],
     breakpoints: [],
     potential: (x: number) => (x >= a && x <= b ? 0 : Infinity),
-    table(xs, levels, out, d1, d2) {
+    table(xs, levels, out, d1, d2, from = 0) {
       const nx = xs.length;
       const lv = Math.min(levels, n);
+      const k0 = Math.max(0, Math.floor(from));
       for (let j = 0; j < nx; j++) {
         const x = xs[j];
         const inside = x >= a && x <= b;
-        if (inside) sineLadder((Math.PI * (x - a)) / L, lv, S, C);
-        for (let k = 0; k < lv; k++) {
+        // One level is one sine; a run of levels comes from the rotation ladder.
+        if (inside && lv - k0 > 1) sineLadder((Math.PI * (x - a)) / L, lv, S, C);
+        for (let k = k0; k < lv; k++) {
           const m = k + 1;
-          const s = S[m];
-          const c = C[m];
-          const idx = k * nx + j;
+          const idx = (k - k0) * nx + j;
           if (!inside) {
             out[idx] = 0;
             if (d1) d1[idx] = 0;
             if (d2) d2[idx] = 0;
             continue;
           }
+          const theta = (m * Math.PI * (x - a)) / L;
+          const s = lv - k0 > 1 ? S[m] : Math.sin(theta);
+          const c = lv - k0 > 1 ? C[m] : Math.cos(theta);
           const q = (m * Math.PI) / L;
           out[idx] = amp * s;
           if (d1) d1[idx] = amp * q * c;
@@ -77,6 +80,27 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
           outIm[k] += S[k + 1] * wi;
         }
       }
+    },
+    matrixElements(levels) {
+      // With u = x - a, for labels m != n of opposite parity (m + n odd)
+      // <m|u|n> = -8 L m n / (pi^2 (m^2 - n^2)^2) and integral phi_m phi_n' = 4 m n / (L (m^2 - n^2));
+      // both vanish for m + n even, and <n|x|n> = a + L/2 (the sine integrals done by parts; Griffiths,
+      // Introduction to Quantum Mechanics, infinite square well problems (from memory)).
+      const K = Math.max(0, Math.min(levels, n));
+      const x = new Float64Array(K * K);
+      const d = new Float64Array(K * K);
+      for (let j = 0; j < K; j++) {
+        const m = j + 1;
+        x[j * K + j] = a + 0.5 * L;
+        for (let k = 0; k < K; k++) {
+          const q = k + 1;
+          if ((m + q) % 2 === 0) continue;
+          const diff = m * m - q * q;
+          x[j * K + k] = (-8 * L * m * q) / (Math.PI * Math.PI * diff * diff);
+          d[j * K + k] = (4 * m * q) / (L * diff);
+        }
+      }
+      return { x, d };
     },
   };
 }

@@ -186,7 +186,7 @@ export function sineDvrSolve(
  * Evaluates the sine series phi_j(x) = sqrt(2/L) sum_k c_jk sin(k pi (x - a)/L) of the first `levels`
  * levels at every x (zero outside [a, b]), with the exact term-by-term derivatives
  * phi' = sqrt(2/L) sum c_jk (k pi/L) cos(...) and phi'' = -sqrt(2/L) sum c_jk (k pi/L)^2 sin(...).
- * out[j * xs.length + i] = phi_j(xs[i]); d1, d2 likewise when given. sin(k theta), cos(k theta) come from
+ * out[(j - from) * xs.length + i] = phi_j(xs[i]) for from <= j < levels; d1, d2 likewise when given. sin(k theta), cos(k theta) come from
  * the angle-addition recurrence (`sineLadder`).
  */
 export function sineSeriesTable(
@@ -196,8 +196,10 @@ export function sineSeriesTable(
   out: Float64Array,
   d1?: Float64Array,
   d2?: Float64Array,
+  from = 0,
 ): void {
   const n = sol.intervals - 1;
+  const j0 = Math.max(0, Math.floor(from));
   const L = sol.b - sol.a;
   const m = xs.length;
   const count = Math.min(levels, sol.energies.length);
@@ -206,19 +208,19 @@ export function sineSeriesTable(
   const Cc = new Float64Array(n + 1);
   const kf = Math.PI / L;
   let kTop = 0;
-  for (let j = 0; j < count; j++) kTop = Math.max(kTop, sol.terms[j]);
+  for (let j = j0; j < count; j++) kTop = Math.max(kTop, sol.terms[j]);
   for (let i = 0; i < m; i++) {
     const x = xs[i];
     if (!(x >= sol.a && x <= sol.b)) {
-      for (let j = 0; j < count; j++) {
-        out[j * m + i] = 0;
-        if (d1) d1[j * m + i] = 0;
-        if (d2) d2[j * m + i] = 0;
+      for (let j = j0; j < count; j++) {
+        out[(j - j0) * m + i] = 0;
+        if (d1) d1[(j - j0) * m + i] = 0;
+        if (d2) d2[(j - j0) * m + i] = 0;
       }
       continue;
     }
     sineLadder(kf * (x - sol.a), kTop, S, Cc);
-    for (let j = 0; j < count; j++) {
+    for (let j = j0; j < count; j++) {
       const p = sol.parity[j];
       const start = p === 2 ? 2 : 1;
       const step = p === 0 ? 1 : 2;
@@ -238,9 +240,9 @@ export function sineSeriesTable(
           h += ck * k * k * S[k];
         }
       }
-      out[j * m + i] = norm * f;
-      if (d1) d1[j * m + i] = norm * kf * g;
-      if (d2) d2[j * m + i] = -norm * kf * kf * h;
+      out[(j - j0) * m + i] = norm * f;
+      if (d1) d1[(j - j0) * m + i] = norm * kf * g;
+      if (d2) d2[(j - j0) * m + i] = -norm * kf * kf * h;
     }
   }
 }

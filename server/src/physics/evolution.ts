@@ -49,6 +49,11 @@ export interface EvolveOptions {
   weightCutoff?: number;
   /** Most levels used for <x> and <p> (default 400); matrix elements cost O(K^3). */
   maxLevels?: number;
+  /**
+   * Polled between rows of the matrix elements and between times; once it returns true the evolution
+   * stops, and the result holds only the times finished (`complete` false).
+   */
+  cancelled?: () => boolean;
 }
 
 /** Real symmetric X_jk = <j|x|k> and real antisymmetric D_jk = integral phi_j phi_k' dx (so <j|p|k> = -i D_jk). */
@@ -72,9 +77,12 @@ export function evolutionQuadrature(basis: Eigenbasis, levels: number): Quadratu
  * X_jk = integral phi_j x phi_k dx and D_jk = integral phi_j phi_k' dx, j, k < levels, by quadrature
  * (`evolutionQuadrature`). D is antisymmetrised, (D - D^T)/2, which is exact when phi vanishes at both
  * ends (walls or decay), because integrating by parts leaves no boundary term. A basis with its own
- * closed form (`Eigenbasis.matrixElements`, the sine series of numerical systems) is used directly.
+ * closed form (`Eigenbasis.matrixElements`: box, oscillator, the sine series of numerical systems) is
+ * used directly. With `cancelled`, the quadrature polls it once per row and returns null once it is true.
  */
-export function matrixElements(basis: Eigenbasis, levels: number): MatrixElements {
+export function matrixElements(basis: Eigenbasis, levels: number): MatrixElements;
+export function matrixElements(basis: Eigenbasis, levels: number, cancelled: () => boolean): MatrixElements | null;
+export function matrixElements(basis: Eigenbasis, levels: number, cancelled?: () => boolean): MatrixElements | null {
   const K = Math.max(0, Math.min(levels, basis.count));
   const x = new Float64Array(K * K);
   const d = new Float64Array(K * K);
@@ -100,6 +108,7 @@ export function matrixElements(basis: Eigenbasis, levels: number): MatrixElement
     const w = quad.w.subarray(s, e);
     for (let i = 0; i < m; i++) wx[i] = w[i] * xs[i];
     for (let j = 0; j < K; j++) {
+      if (cancelled?.()) return null;
       const rj = j * m;
       for (let k = 0; k < K; k++) {
         const rk = k * m;
@@ -137,6 +146,8 @@ export interface EvolveResult {
   survival: Float64Array;
   /** |psi(x, t)|^2 on options.density for each time (normalised state). */
   density?: Float64Array[];
+  /** False when `cancelled` stopped the evolution: the arrays then hold only the first times. */
+  complete: boolean;
 }
 
 /** Levels kept: up to the last one above the weight cutoff, at most maxLevels. */
@@ -165,14 +176,20 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   const survival = new Float64Array(nt);
   const n = Math.min(cRe.length, cIm.length, basis.count);
   const { K, total } = keptLevels(basis, cRe, cIm, options.weightCutoff ?? 1e-14, Math.max(1, options.maxLevels ?? 400));
-  const result: EvolveResult = { meanX, meanP, survival };
+  const result: EvolveResult = { meanX, meanP, survival, complete: true };
   if (!(total > 0) || n === 0) {
     meanX.fill(NaN);
     meanP.fill(NaN);
     survival.fill(NaN);
     return result;
   }
-  const me = matrixElements(basis, K);
+  const stopped = (done: number): EvolveResult => {
+    const cut: EvolveResult = { meanX: meanX.slice(0, done), meanP: meanP.slice(0, done), survival: survival.slice(0, done), complete: false };
+    if (result.density) cut.density = result.density.slice(0, done);
+    return cut;
+  };
+  const me = options.cancelled ? matrixElements(basis, K, options.cancelled) : matrixElements(basis, K);
+  if (me === null) return stopped(0);
   const ar = new Float64Array(K);
   const ai = new Float64Array(K);
   const xs = options.density;
@@ -185,6 +202,7 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   let wK = 0;
   for (let k = 0; k < K; k++) wK += cRe[k] * cRe[k] + cIm[k] * cIm[k];
   for (let it = 0; it < nt; it++) {
+    if (options.cancelled?.()) return stopped(it);
     const t = times[it];
     let sr = 0;
     let si = 0;
@@ -252,6 +270,8 @@ export interface RevivalOptions {
   horizon?: number;
   /** Most time steps in the search (default 200000). */
   maxSteps?: number;
+  /** Polled every 256 steps of the search; once it returns true the search gives up (null). */
+  cancelled?: () => boolean;
 }
 
 /**
@@ -264,6 +284,7 @@ export interface RevivalOptions {
  * for a narrow packet in a nearly harmonic spectrum the answer is its classical period.
  * The default horizon follows from the expansion E_n ~ E + E' (n - m) + E'' (n - m)^2 / 2 about the mean
  * level m, whose quadratic phases realign after 4 pi / |E''| (the same source, from memory).
+ * A search stopped by `cancelled` returns null too.
  */
 export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, options: RevivalOptions = {}): number | null {
   if (basis.kind === 'box' && basis.walls) {
@@ -340,6 +361,7 @@ export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Ar
   let s0 = S(0);
   let s1 = S(dt);
   for (let j = 1; j < steps; j++) {
+    if ((j & 255) === 0 && options.cancelled?.()) return null;
     const s2 = S((j + 1) * dt);
     if (!fallen) {
       if (s1 < low) fallen = true;

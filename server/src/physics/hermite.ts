@@ -72,6 +72,8 @@ function gaussianSplit(xi: number): { base: number; q: number } {
  * thousand and |xi| up to 50 and beyond neither overflow nor underflow except where the true value
  * is below the smallest double. With d1: psi_k' = sqrt(2k) psi_{k-1} - xi psi_k (ladder relation);
  * with d2: psi_k'' = (xi^2 - 2k - 1) psi_k (the oscillator equation).
+ * With `from`, only the rows from <= k < levels are written, at out[(k - from) * xs.length + j]: the
+ * recurrence still runs from k = 0, but one high level needs one row of memory.
  */
 export function hermiteFunctionTable(
   xs: Float64Array,
@@ -79,6 +81,7 @@ export function hermiteFunctionTable(
   out: Float64Array,
   d1?: Float64Array,
   d2?: Float64Array,
+  from = 0,
 ): void {
   const nx = xs.length;
   for (let j = 0; j < nx; j++) {
@@ -100,8 +103,9 @@ export function hermiteFunctionTable(
           scale = e >= -1022 && e <= 1023 ? Math.pow(2, e) : NaN;
         }
       }
+      if (k < from) continue;
       const v = Number.isNaN(scale) ? ldexp(m, e) : m * scale;
-      const idx = k * nx + j;
+      const idx = (k - from) * nx + j;
       out[idx] = v;
       if (d1) {
         const vp = Number.isNaN(scale) ? ldexp(mPrev, e) : mPrev * scale;

@@ -39,18 +39,37 @@ export function oscillatorBasis(omega: number, center: number, mass: number, cou
     support: valid ? [center - reach, center + reach] : [0, 0],
     breakpoints: [],
     potential: (x: number) => 0.5 * mass * omega * omega * (x - center) * (x - center),
-    table(xs, levels, out, d1, d2) {
+    table(xs, levels, out, d1, d2, from = 0) {
       const lv = Math.min(levels, n);
+      const k0 = Math.max(0, Math.floor(from));
       const nx = xs.length;
       const xi = new Float64Array(nx);
       for (let j = 0; j < nx; j++) xi[j] = (xs[j] - center) / len;
-      hermiteFunctionTable(xi, lv, out, d1, d2);
-      const total = lv * nx;
+      hermiteFunctionTable(xi, lv, out, d1, d2, k0);
+      const total = Math.max(0, lv - k0) * nx;
       for (let i = 0; i < total; i++) {
         out[i] *= f0;
         if (d1) d1[i] *= f1;
         if (d2) d2[i] *= f2;
       }
+    },
+    matrixElements(levels) {
+      // Ladder operators: x - c = l (a + a^+)/sqrt 2 and d/dx = (a - a^+)/(sqrt 2 l), so
+      // <n-1|x|n> = <n|x|n-1> = l sqrt(n/2), <n|x|n> = c, <n-1|d/dx|n> = sqrt(n/2)/l = -<n|d/dx|n-1>
+      // (Sakurai, Modern Quantum Mechanics, harmonic oscillator section (from memory)).
+      const K = Math.max(0, Math.min(levels, n));
+      const x = new Float64Array(K * K);
+      const d = new Float64Array(K * K);
+      for (let k = 0; k < K; k++) {
+        x[k * K + k] = center;
+        if (k === 0) continue;
+        const r = Math.sqrt(k / 2);
+        x[(k - 1) * K + k] = len * r;
+        x[k * K + k - 1] = len * r;
+        d[(k - 1) * K + k] = r / len;
+        d[k * K + k - 1] = -r / len;
+      }
+      return { x, d };
     },
   };
 }

@@ -148,9 +148,9 @@ function makeBasis(
       }
       return out;
     },
-    table(xs, levels, out, d1, d2) {
+    table(xs, levels, out, d1, d2, from = 0) {
       if (!sol) return;
-      sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2);
+      sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2, from);
     },
     matrixElements(levels: number) {
       const K = Math.min(levels, energies.length);

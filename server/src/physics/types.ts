@@ -37,10 +37,12 @@ export interface Eigenbasis {
    */
   matrixElements?(levels: number): { x: Float64Array; d: Float64Array };
   /**
-   * Fills out[k * xs.length + j] with phi_k(xs[j]) for k < levels (and the derivatives when given):
-   * the whole table at once, because recurrences make that much cheaper than level by level.
+   * Fills out[(k - from) * xs.length + j] with phi_k(xs[j]) for from <= k < levels (and the derivatives
+   * when given): the whole table at once, because recurrences make that much cheaper than level by
+   * level. `from` (default 0) skips the rows below it, so one high level costs one row of memory (and,
+   * for closed forms, one row of work) instead of the whole table up to it.
    */
-  table(xs: Float64Array, levels: number, out: Float64Array, d1?: Float64Array, d2?: Float64Array): void;
+  table(xs: Float64Array, levels: number, out: Float64Array, d1?: Float64Array, d2?: Float64Array, from?: number): void;
   /**
    * Optional fast path of projection: adds sum_j wRe[j] phi_k(xs[j]) to outRe[k] and sum_j wIm[j] phi_k(xs[j])
    * to outIm[k] for k < levels, without building the table (wIm may be null). `project` uses it when present.

@@ -152,12 +152,13 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
     support: valid ? [c - a - reach, c + a + reach] : [0, 0],
     breakpoints: valid ? [c - a, c + a] : [],
     potential: (x: number) => (Math.abs(x - c) < a ? 0 : depth),
-    table(xs, want, out, d1, d2) {
+    table(xs, want, out, d1, d2, from = 0) {
       const nx = xs.length;
       const lv = Math.min(want, n);
-      for (let i = 0; i < lv; i++) {
+      const k0 = Math.max(0, Math.floor(from));
+      for (let i = k0; i < lv; i++) {
         const L = levels[i];
-        const base = i * nx;
+        const base = (i - k0) * nx;
         for (let jx = 0; jx < nx; jx++) {
           const s = xs[jx] - c;
           let v: number;
