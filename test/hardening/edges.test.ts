@@ -70,17 +70,20 @@ describe('numbers at the edges', () => {
     expectFinding('system oscillator(omega = 1)\nstate psi(x) = 0\n', 'norm', '0', /zero everywhere/);
   });
 
-  it('a state infinite at a grid point is an evaluation error on the expression', () => {
-    // x = 0 is a wall and a sample of the wall check: the value there is +Infinity.
-    expectFinding('system box(-1, 1)\nstate psi(x) = 1 / x^2\n', 'evaluation', '1 / x^2', /Infinity at x = 0\b/);
+  it('a state infinite at a grid point is a norm error on the expression that names how it grows', () => {
+    // x = 0 is a wall and a sample of the wall check: the value there is +Infinity, and 1/x^2 is not
+    // square-integrable there (the integral of |x|^-4 diverges at 0; common practice).
+    expectFinding('system box(-1, 1)\nstate psi(x) = 1 / x^2\n', 'norm', '1 / x^2', /not square-integrable: near x = 0 it grows like \|x\|\^-2\b/);
   });
 
-  it('a state infinite at one point between grid points is at least flagged, and gives finite numbers', () => {
-    // 1/(x - 0.5) is not square-integrable; today the engine reports the grid cap and an enormous norm
-    // (see the hardening report): the checks here are that it is flagged and nothing non-finite leaks.
+  it('a state infinite at one point between grid points is a norm error naming the point, with no numbers', () => {
     const { r, all } = findings('system box(0, 1)\nstate psi(x) = 1 / (x - 0.5)\n', { limits: { maxMillis: 3000 } });
-    expect(all.some((d) => d.severity === 'error' && d.covered === '1 / (x - 0.5)')).toBe(true);
-    for (const l of r.levels) expect(Number.isFinite(l.weight)).toBe(true);
+    const norm = all.filter((d) => d.code === 'norm');
+    expect(norm).toHaveLength(1);
+    expect(norm[0]!.severity).toBe('error');
+    expect(norm[0]!.covered).toBe('1 / (x - 0.5)');
+    expect(norm[0]!.message).toMatch(/near x = 0\.5 it grows like \|x - 0\.5\|\^-1,/);
+    expect(r.levels).toEqual([]);
   });
 
   it('extreme oscillator parameters finish promptly (once an endless loop in the Hermite tables)', () => {

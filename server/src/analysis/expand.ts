@@ -13,6 +13,7 @@ import { diagnostic, type EngineDiagnostic, type FixData } from '../language/cat
 import type { Span } from '../language/ast';
 import type { StateFunction } from './systems';
 import { fmt } from './model';
+import type { Singularity } from './singular';
 
 /** Options of `expandState`. */
 export interface ExpandOptions {
@@ -62,6 +63,8 @@ const DST_LEVELS = 256;
 
 /** A point inside [a, b] where the state cannot be evaluated. */
 export class BadValue extends Error {
+  /** How the state grows towards x, when the analysis could tell (a pole, a power-law spike). */
+  growth: Singularity | null = null;
   constructor(
     readonly x: number,
     readonly value: number,

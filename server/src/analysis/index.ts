@@ -11,6 +11,7 @@ import { parse } from '../language/parser';
 import { buildModel, fmt, type Model } from './model';
 import { buildBasis, buildState, MissingLevel, type BuiltBasis, type StateFunction } from './systems';
 import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEnergy, parityParts, replaceFix, warn } from './expand';
+import { distanceText, findSingularity, growthAt, type Singularity } from './singular';
 import { checkExpects } from './expects';
 import { evolve, revivalTime } from '../physics/evolution';
 import { timeToDisplay } from '../expr/units';
@@ -162,7 +163,12 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
       const st = stage.model?.state?.stmt;
       const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
       const what = Number.isNaN(err.value) ? 'not a number (as from 0/0 or Infinity - Infinity)' : `${err.value > 0 ? '+' : '-'}Infinity`;
-      result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${what} at ${Number.isFinite(err.x) ? `x = ${fmt(err.x)}` : 'a point the grid cannot represent (a position overflows double precision)'}; it must be finite everywhere.`));
+      if (err.growth && !err.growth.integrable) result.diagnostics.push(diagnostic('norm', span.start, span.end, notSquareIntegrable(err.growth)));
+      else if (err.growth) {
+        result.diagnostics.push(
+          diagnostic('evaluation', span.start, span.end, `The state is infinite at x = ${fmt(err.x)}, growing like ${growthText(err.growth)} there: |psi|^2 is integrable, but the energy is infinite and the grid cannot sample that point. Remove the singularity or move it off x = ${fmt(err.x)}.`),
+        );
+      } else result.diagnostics.push(diagnostic('evaluation', span.start, span.end, `The state is ${what} at ${Number.isFinite(err.x) ? `x = ${fmt(err.x)}` : 'a point the grid cannot represent (a position overflows double precision)'}; it must be finite everywhere.`));
     } else if (err instanceof MissingLevel) {
       // Systems without walls evaluate the state while looking for its window, before the expansion.
       const st = stage.model?.state?.stmt;
@@ -230,6 +236,31 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   const stateSpan = stateStmt.kind === 'state' && stateStmt.state.kind === 'psi' ? stateStmt.state.expr : stateStmt.span;
   const state = buildState(model.state.model, basis, model.mass, out, stateSpan, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
   if (!state) return;
+  try {
+    stateStage(model, stage, options, result, { built, count, state, stateSpan });
+  } catch (err) {
+    // A state infinite at a sampled point: say how it grows there (the message is written above).
+    if (err instanceof BadValue && Number.isFinite(err.x)) err.growth = growthAt(state, err.x, basis.walls ?? basis.support);
+    throw err;
+  }
+}
+
+/** The state's part of the numerical stage: window, expansion, and every finding about the state. */
+function stateStage(
+  model: Model,
+  stage: StaticStage,
+  options: AnalyseOptions,
+  result: AnalysisResult,
+  given: { built: BuiltBasis; count: number; state: StateFunction; stateSpan: { start: number; end: number } },
+): void {
+  const out = result.diagnostics;
+  const limits = stage.limits;
+  const sys = model.system!.model;
+  const sysStmt = model.system!.stmt;
+  const { built, state, stateSpan } = given;
+  const basis = built.basis;
+  let count = given.count;
+  if (!model.state) return;
 
   // The integration window: the walls for hard-walled systems, a scanned window on the line otherwise.
   let window: [number, number];
@@ -256,6 +287,49 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   if (ex.re.length < count) {
     out.push(warn('limits', stateSpan, `Only the first ${ex.re.length} of ${count} levels could be projected within the time limit of ${limits.maxMillis} ms; lower \`basis\` or raise the limit.`));
     count = ex.re.length;
+  }
+  // A refinement that never settles may be chasing a point where the state is infinite.
+  const singular = ex.capped ? findSingularity(state, ex.q, ex.values, window) : null;
+  if (singular && !singular.integrable) {
+    out.push(warn('norm', stateSpan, notSquareIntegrable(singular), undefined, 'error'));
+    return;
+  }
+  // Weight of |psi|^2 closer to an integrable spike than the grid can resolve (see below), relative to the norm.
+  let unresolvedNearSpike = 0;
+  // The state as the projections see it (with the graded breakpoints once a spike is found).
+  let projected: StateFunction = state;
+  if (singular && ex.capped && !ex.late && !(options.cancelled?.() ?? false)) {
+    // An integrable spike: grade the grid geometrically towards it (breakpoints at x0 +- d 2^-k) and
+    // expand again, which integrates |x - x0|^-2p far better than a uniform refinement. The grading
+    // stops where the nodes of a 20-point panel would round onto x0 itself (about 4096 eps |x0| away).
+    const d = 0.25 * (window[1] - window[0]);
+    const x0 = singular.x;
+    const closest = Math.max(4096 * Number.EPSILON * Math.abs(x0), 1e-290, 1e-280 * d);
+    const graded: number[] = [x0];
+    let hMin = d;
+    for (let k = 0; k < 1100; k++) {
+      const h = d * Math.pow(2, -k);
+      if (h < closest) break;
+      hMin = h;
+      graded.push(x0 - h, x0 + h);
+    }
+    const inner = graded.filter((x) => x > window[0] && x < window[1]);
+    const gradedState: StateFunction = { ...state, breakpoints: (a, b) => [...state.breakpoints(a, b), ...inner.filter((x) => x > a && x < b)] };
+    try {
+      ex = expandState(gradedState, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
+      projected = gradedState;
+    } catch (err) {
+      if (!(err instanceof BadValue)) throw err;
+    }
+    // |psi|^2 ~ A s^-2p within hMin of x0 on each side holds about A hMin^(1-2p) / (1 - 2p) there.
+    const probe = state.evaluate(Float64Array.of(x0 - hMin, x0 + hMin), 0);
+    for (let j = 0; j < 2; j++) {
+      const side = j === 0 ? x0 - hMin : x0 + hMin;
+      if (side <= window[0] || side >= window[1]) continue;
+      const a2 = probe.re[j]! ** 2 + probe.im[j]! ** 2;
+      if (Number.isFinite(a2)) unresolvedNearSpike += (a2 * hMin) / (1 - 2 * singular.power);
+    }
+    unresolvedNearSpike /= ex.norm > 0 ? ex.norm : 1;
   }
   if (ex.capped && ex.late) out.push(warn('limits', stateSpan, `The time limit of ${limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`));
   else if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
@@ -322,12 +396,18 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   }
 
   // Hard walls: the state's value at the walls and weight outside them.
-  const scalePsi = maxAbs(ex.values.re, ex.values.im) || 1;
-  const scaleD = maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
+  // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
+  const rms = Math.sqrt(norm / (window[1] - window[0]));
+  const scalePsi = singular ? rms : maxAbs(ex.values.re, ex.values.im) || 1;
+  const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
   let wallBreak = false;
   if (basis.walls) wallBreak = checkWalls(state, basis, norm, stateSpan, scalePsi, out, sys.kind === 'potential' ? sysStmt : null);
 
-  const { jumps, kinks } = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
+  const found = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
+  // A breakpoint at the singularity (the corner of abs(x - x0)) is reported as the singularity, not as a jump or kink.
+  const apart = (x: number): boolean => !singular || Math.abs(x - singular.x) > 1e-6 * (window[1] - window[0]);
+  const jumps = found.jumps.filter(apart);
+  const kinks = found.kinks.filter(apart);
 
   // Energy: from the grid, with divergence decided by jumps, kinks and wall values.
   let meanFromLevels = 0;
@@ -344,6 +424,19 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
     spread = null;
   } else if (kinks.length > 0 || decay?.classification === 'kink') {
     spread = null;
+  }
+  if (singular) {
+    // |psi|^2 integrable across the spike, |psi'|^2 not: the energy mean (and spread) are infinite.
+    mean = null;
+    spread = null;
+    out.push(
+      warn('convergence', stateSpan, `The state is infinite at x = ${fmt(singular.x)}, growing like ${growthText(singular)}: |psi|^2 is integrable there but |psi'|^2 is not, so the energy mean is infinite and the coefficients converge slowly.`),
+    );
+    if (unresolvedNearSpike > 1e-9) {
+      out.push(
+        warn('limits', stateSpan, `Double precision cannot sample closer to x = ${fmt(singular.x)} than about ${fmt(Math.max(4096 * Number.EPSILON * Math.abs(singular.x), 1e-290))}, and about ${fmt(unresolvedNearSpike)} of |psi|^2 lies that close; the norm and coefficients are accurate to about that.`, undefined, 'warning'),
+      );
+    }
   }
   // Overflowing integrals (a subnormal mass makes hbar^2 k^2 / 2m infinite) diverge like a jump: null.
   if (mean !== null && !Number.isFinite(mean)) mean = null;
@@ -386,7 +479,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
       );
     }
   } else if (captured < 1 - TOL && !wallBreak) {
-    const need = levelsNeeded(state, basis, sys, model, window, limits, options);
+    const need = levelsNeeded(projected, basis, sys, model, window, limits, options);
     const basisStmt = model.basis.stmt;
     const fixes = need !== null && need <= limits.maxBasis
       ? [basisStmt && basisStmt.kind === 'basis'
@@ -405,6 +498,16 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
   const plotX = plotGrid(basis, window);
   if (model.evolve) result.evolution = evolution(model, basis, levels, options.samples ? plotX : undefined, options.cancelled);
   if (options.samples) result.samples = samples(state, basis, plotX, norm, levels);
+}
+
+/** The growth law of a singularity for a message: |x - 0.3|^-0.25. */
+function growthText(g: Singularity): string {
+  return `${distanceText(g.x, fmt)}^-${Number(g.power.toFixed(2))}`;
+}
+
+/** The finding for a state whose |psi|^2 cannot be integrated across a point. */
+function notSquareIntegrable(g: Singularity): string {
+  return `The state is not square-integrable: near x = ${fmt(g.x)} it grows like ${growthText(g)}, so the integral of |psi|^2 diverges there and no normalisation exists. Remove the singularity or move it outside the system.`;
 }
 
 function findWindowSafe(state: StateFunction, basis: Eigenbasis): [number, number] | null {
@@ -450,9 +553,10 @@ function checkWalls(
   const vb = Math.hypot(v.re[1]!, v.im[1]!);
   const tol = 1e-6 * scalePsi;
   const sn = Math.sqrt(norm);
-  if (va > tol && vb > tol) problems.push(`it is not zero at the hard walls (psi(${fmt(a)}) = ${fmt(va / sn)}, psi(${fmt(b)}) = ${fmt(vb / sn)}, normalised)`);
-  else if (va > tol) problems.push(`it is not zero at the left wall (psi(${fmt(a)}) = ${fmt(va / sn)}, normalised)`);
-  else if (vb > tol) problems.push(`it is not zero at the right wall (psi(${fmt(b)}) = ${fmt(vb / sn)}, normalised)`);
+  const at = (x: number, v: number): string => (Number.isFinite(v) ? `psi(${fmt(x)}) = ${fmt(v / sn)}` : `psi is infinite at ${fmt(x)}`);
+  if (va > tol && vb > tol) problems.push(`it is not zero at the hard walls (${at(a, va)}, ${at(b, vb)}, normalised)`);
+  else if (va > tol) problems.push(`it is not zero at the left wall (${at(a, va)}, normalised)`);
+  else if (vb > tol) problems.push(`it is not zero at the right wall (${at(b, vb)}, normalised)`);
   // Weight outside the walls is dropped. Only states with an extent of their own (a packet, a level
   // of another system) can have such weight: a formula is read as the state inside the walls.
   const extent = state.support ?? state.window;
