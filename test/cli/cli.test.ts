@@ -107,6 +107,33 @@ describe('eigenspan --time-limit', () => {
   });
 });
 
+describe('eigenspan --limit', () => {
+  it('raises and lowers caps for expand and check, and refuses unknown names and values out of range', () => {
+    const p = file('big-basis.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\nbasis 6000\n');
+    // Over the default cap of 5000: a limits error.
+    const dflt = run(['check', p]);
+    expect(dflt.code).toBe(1);
+    expect(dflt.out).toMatch(/error\[limits\]/);
+    // Raised: the 6000 levels are computed.
+    const raised = JSON.parse(run(['expand', p, '--json', '--limit', 'maxBasis=8000']).out);
+    expect(raised.levels).toHaveLength(6000);
+    expect(raised.diagnostics.filter((d: { code: string }) => d.code === 'limits')).toEqual([]);
+    // Lowered below the file's own line.
+    const small = file('small.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(2) * sin(pi * x)\nbasis 30\n');
+    const lowered = run(['check', small, '--limit', 'maxBasis=20']);
+    expect(lowered.code).toBe(1);
+    expect(lowered.out).toMatch(/error\[limits\].*20/);
+    expect(run(['check', small]).code).toBe(0);
+    // Usage errors: exit 2 with one line naming the problem.
+    for (const bad of [['--limit', 'maxBasis=0'], ['--limit', 'maxBasis=1e9'], ['--limit', 'speed=3'], ['--limit', 'maxBasis'], ['--limit']]) {
+      const r = run(['check', small, ...bad]);
+      expect(r.code, bad.join(' ')).toBe(2);
+      expect(r.err.trim().split('\n')).toHaveLength(1);
+    }
+    expect(run(['check', small, '--limit', 'speed=3']).err).toMatch(/'speed' is not a limit/);
+  });
+});
+
 describe('eigenspan check', () => {
   it('prints FILE:LINE:COL: SEVERITY[CODE]: MESSAGE and exits 1 on a failed expect', () => {
     const p = file('fail.qstate', 'system box(0, 1)\nstate psi(x) = sin(pi x)\nexpect energy 7 +- 0.1\n');

@@ -7,6 +7,7 @@ import { COMMANDS } from '../../client/src/commands';
 import { makeVscode, makeDocument } from './vscode-stub';
 import { parabolaResult } from './fixtures';
 import { readFileSync } from 'node:fs';
+import { DEFAULT_LIMITS, LIMIT_RANGES } from '../../server/src/analysis/index';
 
 describe('workspace trust', () => {
   it('asks for evaluation only in a trusted workspace', () => {
@@ -95,6 +96,16 @@ describe('manifest', () => {
     expect(props['eigenspan.timeBudgetMs'].default).toBe(2000);
     expect(props['eigenspan.plotScale'].enum).toEqual(['linear', 'log']);
     expect(props['eigenspan.defaultBasis'].default).toBe(40);
+    // Every settable cap is a setting whose default and range are the engine's own.
+    for (const [name, [lo, hi]] of Object.entries(LIMIT_RANGES)) {
+      const p = props[`eigenspan.limits.${name}`];
+      expect(p, name).toBeDefined();
+      expect(p.type).toBe('integer');
+      expect(p.default).toBe(DEFAULT_LIMITS[name as keyof typeof DEFAULT_LIMITS]);
+      expect([p.minimum, p.maximum]).toEqual([lo, hi]);
+      expect(p.default).toBeGreaterThanOrEqual(lo);
+      expect(p.default).toBeLessThanOrEqual(hi);
+    }
     for (const p of Object.values(props) as { description: string }[]) expect(p.description.length).toBeGreaterThan(10);
     expect(pkg.capabilities.untrustedWorkspaces.supported).toBe('limited');
     expect(pkg.capabilities.untrustedWorkspaces.description.length).toBeGreaterThan(20);

@@ -4,7 +4,7 @@
  * editor that re-analyses on every keystroke.
  */
 import { describe, expect, it } from 'vitest';
-import { analyse, analyseStatic, DEFAULT_LIMITS } from '../../server/src/analysis/index';
+import { analyse, analyseStatic, DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../../server/src/analysis/index';
 import { expectFinding } from './helpers';
 
 const BOX = 'system box(0, 1)\nstate psi(x) = x * (1 - x)\n';
@@ -86,6 +86,24 @@ describe('resource limits', () => {
     const sum = r.levels.reduce((a, l) => a + l.weight, 0);
     expect(sum).toBeLessThanOrEqual(1 + 1e-9);
     expect(lim.some((d) => /time limit of 300 ms/.test(d.message))).toBe(true);
+  });
+
+  it('stays safe with every settable cap at the top of its range', () => {
+    const top = Object.fromEntries(Object.entries(LIMIT_RANGES).map(([k, [, hi]]) => [k, hi])) as Partial<Limits>;
+    const texts = [
+      // Brackets as deep as the top nesting cap allows, and deeper: a value or a clean limits finding.
+      `system box(0, 1)\nstate psi(x) = ${'('.repeat(top.maxNesting! - 1)}x * (1 - x)${')'.repeat(top.maxNesting! - 1)}\n`,
+      `system box(0, 1)\nstate psi(x) = ${'('.repeat(top.maxNesting! + 5)}x${')'.repeat(top.maxNesting! + 5)}\n`,
+      // A state that refines to the top grid cap; a basis and an evolution at the top of theirs.
+      'system box(0, 1)\nstate psi(x) = log(abs(x - 0.3))\nbasis 50\n',
+      `system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\nbasis ${top.maxBasis}\nevolve to 1 steps ${top.maxEvolveSteps}\n`,
+    ];
+    for (const text of texts) {
+      const r = analyse(text, { limits: { ...top, maxMillis: 3000 } });
+      expect(r.diagnostics.filter((d) => /internal error/.test(d.message)), text.slice(0, 80)).toEqual([]);
+      expect(r.diagnostics.length + r.levels.length).toBeGreaterThan(0);
+      for (const l of r.levels) expect(Number.isFinite(l.weight)).toBe(true);
+    }
   });
 
   it('keeps a default time limit', () => {

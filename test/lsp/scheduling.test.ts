@@ -190,6 +190,24 @@ describe('settings', () => {
     const again = await c.result(u, (q) => c.results.indexOf(q as (typeof c.results)[number]) >= seen);
     expect((again.result.levels as unknown[]).length).toBe(7);
   });
+
+  it('applies eigenspan.limits to the static stage and the worker, and again when they change', async () => {
+    const settings: Record<string, unknown> = { debounceMs: 0, limits: { maxBasis: 20 } };
+    const c = await client(settings);
+    const u = 'file:///sched/limits.qstate';
+    c.open(u, 'system box(0, 1)\nstate psi(x) = sqrt(2) * sin(pi * x)\nbasis 30\n');
+    // basis 30 is over the set cap of 20: a limits error on the basis line.
+    const capped = await c.diagnostics(u, (q) => codes(q.diagnostics).includes('limits'));
+    expect(capped.diagnostics.find((d) => d.code === 'limits')!.range.start.line).toBe(2);
+    await c.result(u, (q) => q.version === 1);
+    const seen = c.results.length;
+    settings.limits = { maxBasis: 40 };
+    c.connection.sendNotification('workspace/didChangeConfiguration', { settings: { eigenspan: settings } });
+    const again = await c.result(u, (q) => c.results.indexOf(q as (typeof c.results)[number]) >= seen);
+    expect((again.result.levels as unknown[]).length).toBe(30);
+    const after = await c.diagnostics(u, (q) => !codes(q.diagnostics).includes('limits'));
+    expect(codes(after.diagnostics)).not.toContain('limits');
+  });
 });
 
 describe('pull diagnostics', () => {

@@ -180,27 +180,6 @@ export function expandState(
   // A first grid already above the cap is capped too, and says so.
   const wanted = panels;
   panels = Math.min(panels, maxPanels);
-  // Under a deadline the first steps must fit the time left, so a large basis cannot freeze the
-  // analysis: the cost of one level at one point is measured on a small probe (it ranges from about
-  // 10 ns for sines to microseconds for numerical levels). The grid a level needs grows with the level,
-  // so fewer levels are projected (the returned arrays are shorter) on a grid still fine enough for
-  // them, rather than all levels on a grid too coarse to resolve the high ones.
-  let cut = false;
-  if (options.deadline !== undefined) {
-    const probe = new Float64Array(16);
-    for (let j = 0; j < 16; j++) probe[j] = window[0] + ((j + 0.5) * width) / 16;
-    const pl = Math.min(levels, 256);
-    const t = performance.now();
-    basis.table(probe, pl, new Float64Array(pl * 16));
-    const perEntry = Math.max((performance.now() - t) / (pl * 16), 1e-5);
-    const entries = (options.deadline - performance.now()) / perEntry / 3;
-    if (levels * panels * ORDER > entries) {
-      const fewer = Math.max(1, Math.min(levels, Math.floor(Math.sqrt((Math.max(entries, 0) * levels) / (panels * ORDER)))));
-      panels = Math.max(16, Math.ceil((panels * fewer) / levels), breakpoints.length + 1);
-      levels = fewer;
-      cut = true;
-    }
-  }
   // Many box levels of a smooth state: a sine transform of equally spaced samples replaces the
   // per-level quadrature (its aliasing error is about (2N)^-3 relative; see dst.ts).
   let fast: { re: Float64Array; im: Float64Array } | null = null;
@@ -217,6 +196,45 @@ export function expandState(
       fast = c;
       // The grid below now only serves the norm and the energy integrals, which the state sets.
       panels = 32;
+    }
+  }
+  // Under a deadline the first steps must fit the time left, so a large basis cannot freeze the
+  // analysis: the cost of one level at one point is measured on a small probe (it ranges from about
+  // 10 ns for sines to microseconds for numerical levels). The grid a level needs grows with the level,
+  // so fewer levels are projected (the returned arrays are shorter) on a grid still fine enough for
+  // them, rather than all levels on a grid too coarse to resolve the high ones.
+  // (A sine transform above needs no such cut: its cost is that of an FFT, not levels x points.)
+  let cut = false;
+  if (options.deadline !== undefined && fast === null) {
+    // The path `project` takes is timed: accumulated sums when the basis has them, else a table. A
+    // first small probe warms the code up; when it is cheap, a larger one measures the steady cost
+    // (a 16-point probe overstates it 25-100 times for sines).
+    const pl = Math.min(levels, 256);
+    const timeProbe = (points: number, reps: number): number => {
+      const probe = new Float64Array(points);
+      for (let j = 0; j < points; j++) probe[j] = window[0] + ((j + 0.5) * width) / points;
+      const ones = new Float64Array(points).fill(1);
+      const scratch = basis.weightedSums ? null : new Float64Array(pl * points);
+      const sumsRe = new Float64Array(pl);
+      const sumsIm = new Float64Array(pl);
+      let best = Infinity;
+      for (let rep = 0; rep < reps; rep++) {
+        const t = performance.now();
+        if (basis.weightedSums) basis.weightedSums(probe, ones, ones, pl, sumsRe, sumsIm);
+        else basis.table(probe, pl, scratch!);
+        best = Math.min(best, performance.now() - t);
+      }
+      return best / (pl * points);
+    };
+    let perEntry = timeProbe(16, 1);
+    if (perEntry * pl * 256 < 10) perEntry = Math.min(perEntry, timeProbe(256, 2));
+    perEntry = Math.max(perEntry, 1e-6);
+    const entries = (options.deadline - performance.now()) / perEntry / 3;
+    if (levels * panels * ORDER > entries) {
+      const fewer = Math.max(1, Math.min(levels, Math.floor(Math.sqrt((Math.max(entries, 0) * levels) / (panels * ORDER)))));
+      panels = Math.max(16, Math.ceil((panels * fewer) / levels), breakpoints.length + 1);
+      levels = fewer;
+      cut = true;
     }
   }
   let prev: { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number } | null = null;

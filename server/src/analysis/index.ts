@@ -56,6 +56,52 @@ export const DEFAULT_LIMITS: Limits = {
   maxMillis: 10_000,
 };
 
+/** The caps a user may set (editor settings `eigenspan.limits.*`, `--limit NAME=VALUE`), the time limit apart. */
+export type SettableLimit = Exclude<keyof Limits, 'maxMillis'>;
+
+/**
+ * The range each settable cap may take. The upper ends keep the engine safe whatever is set: the
+ * expression parser recurses deeply for each bracket (measured: about 260 nested brackets fit Node's
+ * default stack on the main thread, where the command line and the editor's quick stage parse; a
+ * deeper text is still refused cleanly), grids of 2^21 points with two derivatives take about 100 MB,
+ * and the time limit bounds the rest.
+ */
+export const LIMIT_RANGES: Readonly<Record<SettableLimit, readonly [number, number]>> = Object.freeze({
+  maxBasis: [1, 20_000],
+  maxGridPoints: [1024, 1 << 21],
+  maxExpressionLength: [100, 1_000_000],
+  maxNesting: [10, 250],
+  maxFileBytes: [1024, 16 * 1024 * 1024],
+  maxStatements: [10, 100_000],
+  maxEvolveSteps: [1, 100_000],
+});
+
+/**
+ * Reads settable caps from an untrusted object ({ maxBasis: 8000, ... }): whole numbers inside
+ * `LIMIT_RANGES` are kept, anything else is left at its default and named in `problems`
+ * (unknown names too). Never throws.
+ */
+export function readLimits(raw: unknown): { limits: Partial<Limits>; problems: string[] } {
+  const limits: Partial<Limits> = {};
+  const problems: string[] = [];
+  if (raw === undefined || raw === null) return { limits, problems };
+  if (typeof raw !== 'object' || Array.isArray(raw)) return { limits, problems: ['the limits must be an object of names and numbers'] };
+  for (const [name, value] of Object.entries(raw as Record<string, unknown>)) {
+    if (!Object.prototype.hasOwnProperty.call(LIMIT_RANGES, name)) {
+      problems.push(`'${name}' is not a limit (known: ${Object.keys(LIMIT_RANGES).join(', ')})`);
+      continue;
+    }
+    const [lo, hi] = LIMIT_RANGES[name as SettableLimit];
+    const v = typeof value === 'string' && value.trim() !== '' ? Number(value) : value;
+    if (typeof v !== 'number' || !Number.isInteger(v) || v < lo || v > hi) {
+      problems.push(`${name} must be a whole number from ${lo} to ${hi}`);
+      continue;
+    }
+    limits[name as SettableLimit] = v;
+  }
+  return { limits, problems };
+}
+
 /** Default number of levels when a file has no `basis` line. */
 export const DEFAULT_BASIS = 40;
 

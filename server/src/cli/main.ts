@@ -2,19 +2,21 @@
  * The command line: a thin front end over `analyse`.
  *
  *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
- *   eigenspan check FILE|FOLDER... [--quiet]
+                   [--time-limit MS] [--limit NAME=N]... [--limit NAME=N]...
+ *   eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
  *   eigenspan demo [FOLDER]
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
 import { existsSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
-import { analyse, DEFAULT_LIMITS } from '../analysis/index';
+import { analyse, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type Limits } from '../analysis/index';
 import { lineTable } from '../analysis/positions';
 import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
 
 const USAGE = `Usage:
-  eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]] [--time-limit MS]
+  eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
+                   [--time-limit MS] [--limit NAME=N]...
       Expand the state of FILE in its system's energy eigenbasis.
       --json   one JSON object (levels, norm, captured, energy, parity, continuum, diagnostics)
       --table  a readable table (the default)
@@ -24,7 +26,9 @@ const USAGE = `Usage:
                  never replaced unless --force is given
       --time-limit MS  stop the analysis after MS milliseconds with a limits finding
                  and partial results (default 10000)
-  eigenspan check FILE|FOLDER... [--time-limit MS]
+      --limit NAME=N   raise or lower one cap (repeatable); NAME and its range:
+${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padEnd(20)}${String(DEFAULT_LIMITS[k as keyof Limits]).padStart(8)} (${lo} to ${hi})`).join('\n')}
+  eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
       Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE.
       Folders are searched for .qstate files. Exit 1 when an error or a failed expect is found.
   eigenspan demo [FOLDER]
@@ -40,6 +44,15 @@ function timeLimit(value: string | undefined): number {
   const v = Number(value);
   if (value === undefined || !Number.isInteger(v) || v < 1) throw new UsageError('--time-limit needs a whole number of milliseconds');
   return v;
+}
+
+/** Reads the value of `--limit NAME=N` into `into`. */
+function limitOption(value: string | undefined, into: Partial<Limits>): void {
+  const m = value === undefined ? null : /^([A-Za-z]+)=(.*)$/.exec(value);
+  if (!m) throw new UsageError('--limit needs NAME=N, for example --limit maxBasis=8000');
+  const { limits, problems } = readLimits({ [m[1]!]: m[2]! });
+  if (problems.length > 0) throw new UsageError(`--limit: ${problems[0]}`);
+  Object.assign(into, limits);
 }
 
 interface Io {
@@ -81,7 +94,7 @@ function dispatch(argv: string[], io: Io): number {
   }
 }
 
-function readText(path: string): string {
+function readText(path: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): string {
   let st;
   try {
     st = statSync(path);
@@ -89,7 +102,7 @@ function readText(path: string): string {
     throw new UsageError(`cannot read '${path}': no such file`);
   }
   if (st.isDirectory()) throw new UsageError(`'${path}' is a folder, not a file`);
-  if (st.size > DEFAULT_LIMITS.maxFileBytes * 4) throw new UsageError(`'${path}' is ${st.size} bytes, too large for a .qstate file`);
+  if (st.size > maxFileBytes * 4) throw new UsageError(`'${path}' is ${st.size} bytes, too large for a .qstate file`);
   try {
     return readFileSync(path, 'utf8');
   } catch (e) {
@@ -103,7 +116,7 @@ function expand(args: string[], io: Io): number {
   let basis: number | undefined;
   let outPath: string | null = null;
   let force = false;
-  let maxMillis: number | undefined;
+  const limits: Partial<Limits> = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
     if (a === '--out') {
@@ -111,7 +124,8 @@ function expand(args: string[], io: Io): number {
       if (p === undefined || p.startsWith('-')) throw new UsageError('--out needs a file path');
       outPath = p;
     } else if (a === '--force') force = true;
-    else if (a === '--time-limit') maxMillis = timeLimit(args[++i]);
+    else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
+    else if (a === '--limit') limitOption(args[++i], limits);
     else if (a === '--json') format = 'json';
     else if (a === '--table') format = 'table';
     else if (a === '--csv') format = 'csv';
@@ -126,8 +140,8 @@ function expand(args: string[], io: Io): number {
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${outPath}' exists; add --force to overwrite it`);
-  const text = readText(file);
-  const result = analyse(text, { defaultBasis: basis, limits: maxMillis ? { maxMillis } : undefined });
+  const text = readText(file, limits.maxFileBytes);
+  const result = analyse(text, { defaultBasis: basis, limits });
   const rendered = format === 'json' ? renderJson(result, text) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, file);
   if (outPath !== null) {
     try {
@@ -175,10 +189,11 @@ function collect(path: string, into: string[], problems: { path: string; message
 
 function check(args: string[], io: Io): number {
   const targets: string[] = [];
-  let maxMillis: number | undefined;
+  const limits: Partial<Limits> = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--time-limit') maxMillis = timeLimit(args[++i]);
+    if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
+    else if (a === '--limit') limitOption(args[++i], limits);
     else if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for check`);
     else targets.push(a);
   }
@@ -193,8 +208,9 @@ function check(args: string[], io: Io): number {
     let text: string;
     try {
       const st = statSync(f);
-      if (st.size > DEFAULT_LIMITS.maxFileBytes) {
-        io.out(`${f}:1:1: error[limits]: The file is ${st.size} bytes, above the limit of ${DEFAULT_LIMITS.maxFileBytes}.\n`);
+      const maxBytes = limits.maxFileBytes ?? DEFAULT_LIMITS.maxFileBytes;
+      if (st.size > maxBytes) {
+        io.out(`${f}:1:1: error[limits]: The file is ${st.size} bytes, above the limit of ${maxBytes}.\n`);
         failed = true;
         return;
       }
@@ -210,7 +226,7 @@ function check(args: string[], io: Io): number {
       failed = true;
       return;
     }
-    const result = analyse(text, { limits: maxMillis ? { maxMillis } : undefined });
+    const result = analyse(text, { limits });
     const lines = lineTable(text);
     for (const d of result.diagnostics) {
       io.out(renderDiagnostic(f, d, lines) + '\n');

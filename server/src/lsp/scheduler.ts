@@ -5,6 +5,7 @@
  */
 import { Worker } from 'node:worker_threads';
 import type { AnalysisResult } from '../analysis/types';
+import type { Limits } from '../analysis/index';
 import type { AnalyseJob, WorkerReply } from './workerMessages';
 
 /** How a scheduled analysis ended. */
@@ -22,7 +23,7 @@ export interface SchedulerOptions {
   /** Where worker output and scheduler events go (the connection's log, never stdout). */
   log: (message: string) => void;
   /** Current debounce and budget, read at scheduling time. */
-  timing: () => { debounceMs: number; timeBudgetMs: number; defaultBasis: number };
+  timing: () => { debounceMs: number; timeBudgetMs: number; defaultBasis: number; limits?: Partial<Limits> };
   /** Ask for plot samples (for the panel). */
   samples: boolean;
   /** Called once per analysis that ran to an end (not for cancelled ones). */
@@ -160,12 +161,12 @@ export class AnalysisScheduler {
         return this.pump();
       }
     }
-    const { timeBudgetMs, defaultBasis } = this.options.timing();
+    const { timeBudgetMs, defaultBasis, limits } = this.options.timing();
     const id = this.nextId++;
     const cancel = new Int32Array(new SharedArrayBuffer(4));
     const budget = this.ready ? setTimeout(() => this.onBudget(id), timeBudgetMs) : null;
     this.running = { ...job, id, uri, cancel, budget };
-    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, maxMillis: Math.max(50, Math.floor(0.75 * timeBudgetMs)), cancel };
+    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, maxMillis: Math.max(50, Math.floor(0.75 * timeBudgetMs)), limits, cancel };
     this.worker.postMessage(message);
   }
 

@@ -131,7 +131,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
 
   function runStatic(text: string): { file: QFile; diagnostics: EngineDiagnostic[] } {
     try {
-      return analyseStatic(text, { defaultBasis: settings.defaultBasis, evaluate });
+      return analyseStatic(text, { defaultBasis: settings.defaultBasis, evaluate, limits: settings.limits });
     } catch (e) {
       logError(`static analysis threw: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}`);
       return { file: { text, statements: [] }, diagnostics: [] };
@@ -278,12 +278,13 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   });
 
   async function loadSettings(raw?: unknown, first = false): Promise<void> {
-    const before = settings.defaultBasis;
+    const before = { basis: settings.defaultBasis, limits: JSON.stringify(settings.limits) };
     await readClientSettings(raw);
-    // Results depend on the default basis: forget them and analyse again (the first load only
-    // releases the analyses that waited for it).
-    if (!first && settings.defaultBasis !== before) {
-      log(`default basis now ${settings.defaultBasis}; analysing open documents again`);
+    for (const p of settings.limitProblems) logError(`setting eigenspan.limits: ${p}; keeping the default`);
+    // Results depend on the default basis and the limits: forget them and analyse again (the first
+    // load only releases the analyses that waited for it).
+    if (!first && (settings.defaultBasis !== before.basis || JSON.stringify(settings.limits) !== before.limits)) {
+      log(`default basis ${settings.defaultBasis}, limits ${JSON.stringify(settings.limits)}; analysing open documents again`);
       for (const st of docs.values()) {
         st.byText.clear();
         st.full = null;

@@ -1,6 +1,7 @@
 /**
  * The server's settings (section `eigenspan` of `workspace/configuration`) and their defaults.
  */
+import { readLimits, type Limits } from '../analysis/index';
 
 /** Settings the server honours. */
 export interface Settings {
@@ -10,10 +11,14 @@ export interface Settings {
   timeBudgetMs: number;
   /** Levels to project on when a file has no `basis` line (default 40, as in the file format). */
   defaultBasis: number;
+  /** Caps set by the user (`eigenspan.limits.*`); the rest keep the engine's defaults. */
+  limits: Partial<Limits>;
+  /** Why set limits were refused (out of range, unknown names), for the server's log. */
+  limitProblems: string[];
 }
 
 /** The defaults, used when the client cannot answer `workspace/configuration`. */
-export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40 });
+export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40, limits: Object.freeze({}), limitProblems: [] });
 
 /** Reads one number from an untrusted settings object, falling back when it is missing or out of range. */
 function num(raw: unknown, fallback: number, min: number, max: number): number {
@@ -31,5 +36,9 @@ export function readSettings(raw: unknown): Settings {
     debounceMs: num(o.debounceMs, DEFAULT_SETTINGS.debounceMs, 0, 60_000),
     timeBudgetMs: num(o.timeBudgetMs, DEFAULT_SETTINGS.timeBudgetMs, 10, 600_000),
     defaultBasis: Math.round(num(o.defaultBasis, DEFAULT_SETTINGS.defaultBasis, 1, 100_000)),
+    ...(() => {
+      const { limits, problems } = readLimits(o.limits);
+      return { limits, limitProblems: problems };
+    })(),
   };
 }

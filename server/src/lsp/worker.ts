@@ -31,7 +31,7 @@ function run(job: AnalyseJob): void {
       // A hang ignores the cancellation flag on purpose (a runaway); a slow job polls it.
       while (performance.now() < until) if (hook.kind === 'slow' && cancelled()) return reply({ type: 'cancelled', id: job.id });
     }
-    const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled, limits: { maxMillis: job.maxMillis } });
+    const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled, limits: { ...job.limits, maxMillis: job.maxMillis } });
     if (result.values === undefined && result.file) result.values = letValues(result.file, job.defaultBasis);
     if (cancelled()) reply({ type: 'cancelled', id: job.id });
     else reply({ type: 'done', id: job.id, result });

@@ -2,6 +2,7 @@
  * Messages between the server's main thread and its analysis worker thread.
  */
 import type { AnalysisResult } from '../analysis/types';
+import type { Limits } from '../analysis/index';
 
 /** Main thread to worker: analyse one document version. */
 export interface AnalyseJob {
@@ -16,6 +17,8 @@ export interface AnalyseJob {
    * stops itself with partial results and a limits finding before the worker has to be terminated.
    */
   maxMillis: number;
+  /** The caps the user set (settings `eigenspan.limits.*`); absent ones keep the engine's defaults. */
+  limits?: Partial<Limits>;
   /** An Int32Array view of a SharedArrayBuffer; element 0 becomes 1 when the job is superseded. */
   cancel: Int32Array;
 }
