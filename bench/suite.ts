@@ -17,6 +17,7 @@ import { wellBasis } from '../server/src/physics/well';
 import { potentialBasis } from '../server/src/physics/potential';
 import { fdLevels } from '../server/src/physics/fd';
 import { project } from '../server/src/physics/project';
+import { evolve } from '../server/src/physics/evolution';
 import { compositeGaussLegendre } from '../server/src/physics/quadrature';
 import { parseExpression } from '../server/src/expr/sandbox';
 import { checkExpression } from '../server/src/expr/check';
@@ -244,6 +245,45 @@ function benchOscillator(count: number, panels: number, reps: number): Row {
     timing: fast.timing,
     accuracy: { value: accFast, measure: 'max |c_n - c_n(ref)|', reference: 'Glauber, Phys. Rev. 131, 2766 (1963)' },
     baseline: { method: 'direct quadrature, each Hermite function evaluated separately', timing: slow.timing, accuracy: accSlow },
+    ratio: ratioOf(slow.timing, fast.timing),
+    target: null,
+    notes: [],
+  };
+}
+
+/**
+ * Evolution of a coherent state (d = 10) in the oscillator over one period: <x>(t) = d cos t
+ * (Glauber, Phys. Rev. 131, 2766 (1963)); the evolution's matrix elements from the ladder operators
+ * against the same evolution with them integrated over the level tables.
+ */
+export function benchEvolution(count: number, steps: number, reps: number): Row {
+  const d = 10;
+  const basis = oscillatorBasis(1, 0, 1, count);
+  const alpha = d / Math.SQRT2;
+  const cRe = new Float64Array(count);
+  let logFact = 0;
+  for (let n = 0; n < count; n++) {
+    if (n > 0) logFact += Math.log(n);
+    cRe[n] = Math.exp(-0.5 * alpha * alpha + n * Math.log(alpha) - 0.5 * logFact);
+  }
+  const cIm = new Float64Array(count);
+  const times = Float64Array.from({ length: steps + 1 }, (_, j) => (2 * Math.PI * j) / steps);
+  const accuracy = (r: { meanX: Float64Array }): number => {
+    let worst = 0;
+    times.forEach((t, j) => (worst = Math.max(worst, Math.abs(r.meanX[j]! - d * Math.cos(t)))));
+    return worst;
+  };
+  const fast = measure(() => evolve(basis, cRe, cIm, times, { maxLevels: count, weightCutoff: 0 }), { reps });
+  const quadrature = { ...basis, matrixElements: undefined };
+  const slow = measure(() => evolve(quadrature, cRe, cIm, times, { maxLevels: count, weightCutoff: 0 }), { reps: Math.max(1, Math.min(reps, 3)) });
+  return {
+    item: 2,
+    job: `oscillator: <x>(t) of a coherent state (d = 10) over one period`,
+    method: 'matrix elements from the ladder operators, then a sum over level pairs per time',
+    size: `${count} levels, ${steps + 1} times`,
+    timing: fast.timing,
+    accuracy: { value: accuracy(fast.result), measure: 'max |<x>(t) - d cos t|', reference: 'Glauber, Phys. Rev. 131, 2766 (1963)' },
+    baseline: { method: 'the same evolution with X and D integrated over the level tables', timing: slow.timing, accuracy: accuracy(slow.result) },
     ratio: ratioOf(slow.timing, fast.timing),
     target: null,
     notes: [],
@@ -695,6 +735,7 @@ export function runSuite(options: SuiteOptions = {}): SuiteResult {
     scaling.push(scalingBox(tiny ? [8, 9] : [10, 12, 14, 16, 18], reps));
   });
   step('2 oscillator', () => rows.push(benchOscillator(tiny ? 20 : 200, tiny ? 16 : 64, reps)));
+  step('2 evolution', () => rows.push(benchEvolution(tiny ? 20 : 200, tiny ? 10 : 100, reps)));
   step('3 well', () => rows.push(benchWell(tiny ? 50 : 1500, reps, tiny ? 400 : 6000)));
   step('4 quartic', () => {
     rows.push(...benchQuartic(tiny ? 5 : 50, reps, tiny ? [200, 400] : [2000, 4000, 8000, 16000, 32000, 64000], tiny ? 1000 : 20_000));
