@@ -13,7 +13,7 @@ import { diagnostic, type EngineDiagnostic, type FixData } from '../language/cat
 import type { Span } from '../language/ast';
 import type { StateFunction } from './systems';
 import { fmt } from './model';
-import type { Singularity } from './singular';
+import { growthAt, type Singularity } from './singular';
 
 /** Options of `expandState`. */
 export interface ExpandOptions {
@@ -109,6 +109,16 @@ export function findWindow(state: StateFunction, basis: Eigenbasis): [number, nu
     const xs = new Float64Array(n);
     for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
     const v = state.evaluate(xs, 0);
+    // A scan point that lands on an integrable spike (|x|^-1/4 at x = 0) is skipped: the quadrature
+    // nodes never sit on it. Any other non-finite value stops the analysis as usual.
+    for (let j = 0; j < n; j++) {
+      if (Number.isFinite(v.re[j]!) && Number.isFinite(v.im[j]!)) continue;
+      const g = growthAt(state, xs[j]!, [a, b]);
+      if (g && g.integrable) {
+        v.re[j] = 0;
+        v.im[j] = 0;
+      }
+    }
     checkFinite(xs, v);
     let max = 0;
     for (let j = 0; j < n; j++) max = Math.max(max, v.re[j]! ** 2 + v.im[j]! ** 2);

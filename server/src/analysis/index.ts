@@ -209,7 +209,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
       const st = stage.model?.state?.stmt;
       const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
       const what = Number.isNaN(err.value) ? 'not a number (as from 0/0 or Infinity - Infinity)' : `${err.value > 0 ? '+' : '-'}Infinity`;
-      if (err.growth && !err.growth.integrable) result.diagnostics.push(diagnostic('norm', span.start, span.end, notSquareIntegrable(err.growth)));
+      if (err.growth && !err.growth.integrable) result.diagnostics.push(diagnostic('norm', span.start, span.end, notSquareIntegrable(err.growth), { severity: 'error' }));
       else if (err.growth) {
         result.diagnostics.push(
           diagnostic('evaluation', span.start, span.end, `The state is infinite at x = ${fmt(err.x)}, growing like ${growthText(err.growth)} there: |psi|^2 is integrable, but the energy is infinite and the grid cannot sample that point. Remove the singularity or move it off x = ${fmt(err.x)}.`),
