@@ -88,6 +88,18 @@ describe('integrable spikes', () => {
     expect(r.energy?.mean ?? null).toBeNull();
   });
 
+  it.each([
+    // int_0^a log^2 s ds = a (log^2 a - 2 log a + 2) (elementary; common practice).
+    ['log(abs(x - 0.3))', 'log(1/|x - 0.3|)', [0.3, 0.7]],
+    ['log(x)', 'log(1/|x|)', [1]],
+  ])('psi = %s grows like %s: named, its norm the elementary integral of log^2', (state, growth, pieces) => {
+    const r = run('box(0, 1)', state);
+    const exact = (pieces as number[]).reduce((t, a) => t + a * (Math.log(a) ** 2 - 2 * Math.log(a) + 2), 0);
+    expect(Math.abs(r.norm! - exact) / exact).toBeLessThan(1e-6);
+    expect(messages(r, 'convergence').some((m) => m.includes(growth as string))).toBe(true);
+    expect(r.energy?.mean ?? null).toBeNull();
+  });
+
   it('a spike close to |x - x0|^-1/2 says how much of |psi|^2 double precision cannot reach', () => {
     const r = run('box(0, 1)', 'abs(x - 0.3)^(-0.45)');
     const exact = (0.3 ** 0.1 + 0.7 ** 0.1) / 0.1;
@@ -102,7 +114,6 @@ describe('integrable spikes', () => {
 describe('no spike where there is none', () => {
   it.each([
     ['a narrow smooth peak', 'exp(-(x - 0.5)^2 / 1e-8)'],
-    ['a logarithm (not a power law)', 'log(abs(x - 0.3))'],
     ['a kink', 'abs(x - 0.3) * x * (1 - x)'],
   ])('%s is not reported as infinite', (_what, state) => {
     const r = run('box(0, 1)', state);
@@ -131,6 +142,9 @@ describe('growthAt', () => {
     }
     // Only one side inside: a wall.
     expect(growthAt(power(0.7, 0), 0, [0, 1])!.power).toBeCloseTo(0.7, 6);
+    // log(1/|x - x0|): slower than any power, recognised as logarithmic.
+    const log: StateFunction = { ...power(0, 0), evaluate: (xs) => ({ re: xs.map((x) => -Math.log(Math.abs(x - 0.37))), im: new Float64Array(xs.length) }) };
+    expect(growthAt(log, 0.37, [0, 1])).toMatchObject({ power: 0, integrable: true, logarithmic: true });
     // A bounded function has no growth.
     expect(growthAt({ ...power(0, 0), evaluate: (xs) => ({ re: xs.map((x) => Math.cos(x)), im: new Float64Array(xs.length) }) }, 0.2, [0, 1])).toBeNull();
   });

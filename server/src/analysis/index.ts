@@ -548,6 +548,7 @@ function stateStage(
 
 /** The growth law of a singularity for a message: |x - 0.3|^-0.25. */
 function growthText(g: Singularity): string {
+  if (g.logarithmic) return `log(1/${distanceText(g.x, fmt)})`;
   return `${distanceText(g.x, fmt)}^-${Number(g.power.toFixed(2))}`;
 }
 

@@ -10,7 +10,9 @@
  *
  * The growth law is read off the state: log|psi| at distances h = 10^-2 ... 10^-10 of the interval from
  * x0 on each side, whose slopes against log h must agree over the last decades for a power law to be
- * declared (a narrow smooth peak has slope 0 there, a logarithm a slope that keeps drifting).
+ * declared (a narrow smooth peak has slope 0 there). Growth slower than any power is recognised as
+ * logarithmic when |psi| rises by the same amount each decade (|psi| ~ A + B log(1/|x - x0|)): |psi|^2 is
+ * then integrable and the energy infinite, as for small powers.
  */
 import type { StateFunction } from './systems';
 import type { Quadrature } from '../physics/types';
@@ -20,8 +22,10 @@ import type { GridValues } from '../expr/types';
 export interface Singularity {
   x: number;
   power: number;
-  /** Whether |psi|^2 can be integrated across the point (power < 1/2). */
+  /** Whether |psi|^2 can be integrated across the point (power < 1/2, or logarithmic growth). */
   integrable: boolean;
+  /** Growth like log(1/|x - x0|), slower than any power (power is then 0). */
+  logarithmic?: boolean;
 }
 
 /** Slopes of neighbouring decades must agree to this for a power law. */
@@ -47,6 +51,7 @@ export function growthAt(state: StateFunction, x0: number, window: [number, numb
   const width = window[1] - window[0];
   if (!(width > 0) || !Number.isFinite(x0)) return null;
   let best: number | null = null;
+  let logarithmic = false;
   for (const side of [-1, 1]) {
     const room = side < 0 ? x0 - window[0] : window[1] - x0;
     if (!(room > 0)) continue;
@@ -55,24 +60,34 @@ export function growthAt(state: StateFunction, x0: number, window: [number, numb
     for (let i = 0; i < xs.length; i++) xs[i] = x0 + side * H * Math.pow(10, -i);
     const v = state.evaluate(xs, 0);
     const logs: number[] = [];
+    const mags: number[] = [];
     for (let i = 0; i < xs.length; i++) {
       const a = Math.hypot(v.re[i]!, v.im[i]!);
       // Distances below rounding of x0 carry no information.
       if (Math.abs(xs[i]! - x0) < 1e4 * Number.EPSILON * Math.max(Math.abs(x0), width)) break;
       if (!(a > 0) || !Number.isFinite(a)) break;
       logs.push(Math.log(a));
+      mags.push(a);
     }
     if (logs.length < 5) continue;
     const slopes: number[] = [];
     for (let i = 1; i < logs.length; i++) slopes.push((logs[i]! - logs[i - 1]!) / Math.LN10);
     const tail = slopes.slice(-3);
     const p = tail[tail.length - 1]!;
-    if (!(p > MIN_POWER)) continue;
-    if (tail.some((s) => Math.abs(s - p) > SLOPE_AGREEMENT)) continue;
-    if (best === null || p > best) best = p;
+    if (p > MIN_POWER && !tail.some((s) => Math.abs(s - p) > SLOPE_AGREEMENT)) {
+      if (best === null || p > best) best = p;
+      continue;
+    }
+    // Slower than any power: |psi| ~ A + B log(1/|x - x0|) grows by the same amount B ln 10 per decade.
+    const steps = mags.slice(1).map((a, i) => a - mags[i]!);
+    const last = steps.slice(-4);
+    const b = last[last.length - 1]!;
+    if (b > 0 && b > 1e-3 * mags[mags.length - 1]! && last.every((d) => Math.abs(d - b) <= 0.02 * b)) logarithmic = true;
   }
-  if (best === null) return null;
-  return { x: x0, power: best, integrable: best < 0.5 - HALF_TOLERANCE };
+  if (best !== null) return { x: x0, power: best, integrable: best < 0.5 - HALF_TOLERANCE };
+  // |psi|^2 ~ log^2 is integrable; |psi'|^2 ~ 1/|x - x0|^2 is not.
+  if (logarithmic) return { x: x0, power: 0, integrable: true, logarithmic: true };
+  return null;
 }
 
 /**
