@@ -256,7 +256,7 @@ function benchOscillator(count: number, panels: number, reps: number): Row {
  * (Glauber, Phys. Rev. 131, 2766 (1963)); the evolution's matrix elements from the ladder operators
  * against the same evolution with them integrated over the level tables.
  */
-export function benchEvolution(count: number, steps: number, reps: number): Row {
+function benchEvolution(count: number, steps: number, reps: number): Row {
   const d = 10;
   const basis = oscillatorBasis(1, 0, 1, count);
   const alpha = d / Math.SQRT2;

@@ -11,7 +11,7 @@ import { parse } from '../language/parser';
 import { buildModel, fmt, type Model } from './model';
 import { buildBasis, buildState, MissingLevel, type BuiltBasis, type StateFunction } from './systems';
 import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEnergy, parityParts, replaceFix, warn } from './expand';
-import { distanceText, findSingularity, growthAt, type Singularity } from './singular';
+import { distanceText, findSingularity, gradedTowards, growthAt, weightWithin, type Singularity } from './singular';
 import { checkExpects } from './expects';
 import { evolve, revivalTime } from '../physics/evolution';
 import { timeToDisplay } from '../expr/units';
@@ -340,42 +340,22 @@ function stateStage(
     out.push(warn('norm', stateSpan, notSquareIntegrable(singular), undefined, 'error'));
     return;
   }
-  // Weight of |psi|^2 closer to an integrable spike than the grid can resolve (see below), relative to the norm.
+  // An integrable spike: expand again on a grid graded towards it, and measure what double precision
+  // cannot reach (relative to the norm).
   let unresolvedNearSpike = 0;
+  let closest = 0;
   // The state as the projections see it (with the graded breakpoints once a spike is found).
   let projected: StateFunction = state;
-  if (singular && ex.capped && !ex.late && !(options.cancelled?.() ?? false)) {
-    // An integrable spike: grade the grid geometrically towards it (breakpoints at x0 +- d 2^-k) and
-    // expand again, which integrates |x - x0|^-2p far better than a uniform refinement. The grading
-    // stops where the nodes of a 20-point panel would round onto x0 itself (about 4096 eps |x0| away).
-    const d = 0.25 * (window[1] - window[0]);
-    const x0 = singular.x;
-    const closest = Math.max(4096 * Number.EPSILON * Math.abs(x0), 1e-290, 1e-280 * d);
-    const graded: number[] = [x0];
-    let hMin = d;
-    for (let k = 0; k < 1100; k++) {
-      const h = d * Math.pow(2, -k);
-      if (h < closest) break;
-      hMin = h;
-      graded.push(x0 - h, x0 + h);
-    }
-    const inner = graded.filter((x) => x > window[0] && x < window[1]);
-    const gradedState: StateFunction = { ...state, breakpoints: (a, b) => [...state.breakpoints(a, b), ...inner.filter((x) => x > a && x < b)] };
+  if (singular && !ex.late && !(options.cancelled?.() ?? false)) {
+    const graded = gradedTowards(state, singular, window);
+    closest = graded.closest;
     try {
-      ex = expandState(gradedState, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
-      projected = gradedState;
+      ex = expandState(graded.state, basis, count, window, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
+      projected = graded.state;
     } catch (err) {
       if (!(err instanceof BadValue)) throw err;
     }
-    // |psi|^2 ~ A s^-2p within hMin of x0 on each side holds about A hMin^(1-2p) / (1 - 2p) there.
-    const probe = state.evaluate(Float64Array.of(x0 - hMin, x0 + hMin), 0);
-    for (let j = 0; j < 2; j++) {
-      const side = j === 0 ? x0 - hMin : x0 + hMin;
-      if (side <= window[0] || side >= window[1]) continue;
-      const a2 = probe.re[j]! ** 2 + probe.im[j]! ** 2;
-      if (Number.isFinite(a2)) unresolvedNearSpike += (a2 * hMin) / (1 - 2 * singular.power);
-    }
-    unresolvedNearSpike /= ex.norm > 0 ? ex.norm : 1;
+    unresolvedNearSpike = weightWithin(state, singular, closest, window) / (ex.norm > 0 ? ex.norm : 1);
   }
   if (ex.capped && ex.late) out.push(warn('limits', stateSpan, `The time limit of ${limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`));
   else if (ex.capped) out.push(warn('limits', stateSpan, `The grid cap of ${limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`));
@@ -480,7 +460,7 @@ function stateStage(
     );
     if (unresolvedNearSpike > 1e-9) {
       out.push(
-        warn('limits', stateSpan, `Double precision cannot sample closer to x = ${fmt(singular.x)} than about ${fmt(Math.max(4096 * Number.EPSILON * Math.abs(singular.x), 1e-290))}, and about ${fmt(unresolvedNearSpike)} of |psi|^2 lies that close; the norm and coefficients are accurate to about that.`, undefined, 'warning'),
+        warn('limits', stateSpan, `Double precision cannot sample closer to x = ${fmt(singular.x)} than about ${fmt(closest)}, and about ${fmt(unresolvedNearSpike)} of |psi|^2 lies that close; the norm and coefficients are accurate to about that.`, undefined, 'warning'),
       );
     }
   }

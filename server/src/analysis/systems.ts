@@ -189,17 +189,8 @@ export function gaussianState(x0: number, s: number, k: number): StateFunction {
   return {
     evaluate(xs, order) {
       const n = xs.length;
-      const re = new Float64Array(n);
-      const im = new Float64Array(n);
-      const out: GridValues = { re, im };
-      if (order >= 1) {
-        out.d1re = new Float64Array(n);
-        out.d1im = new Float64Array(n);
-      }
-      if (order >= 2) {
-        out.d2re = new Float64Array(n);
-        out.d2im = new Float64Array(n);
-      }
+      const out = zeroValues(n, order);
+      const { re, im } = out;
       for (let j = 0; j < n; j++) {
         const x = xs[j]!;
         const u = x - x0;
@@ -231,20 +222,26 @@ export function gaussianState(x0: number, s: number, k: number): StateFunction {
   };
 }
 
+/** Zeroed values for n points, with first (order >= 1) and second (order >= 2) derivatives. */
+function zeroValues(n: number, order: number): GridValues {
+  const out: GridValues = { re: new Float64Array(n), im: new Float64Array(n) };
+  if (order >= 1) {
+    out.d1re = new Float64Array(n);
+    out.d1im = new Float64Array(n);
+  }
+  if (order >= 2) {
+    out.d2re = new Float64Array(n);
+    out.d2im = new Float64Array(n);
+  }
+  return out;
+}
+
 /** Level `k` (index) of a basis as a state. */
 export function eigenState(basis: Eigenbasis, k: number): StateFunction {
   return {
     evaluate(xs, order) {
       const n = xs.length;
-      const out: GridValues = { re: new Float64Array(n), im: new Float64Array(n) };
-      if (order >= 1) {
-        out.d1re = new Float64Array(n);
-        out.d1im = new Float64Array(n);
-      }
-      if (order >= 2) {
-        out.d2re = new Float64Array(n);
-        out.d2im = new Float64Array(n);
-      }
+      const out = zeroValues(n, order);
       basis.table(xs, k + 1, out.re, out.d1re, out.d2re, k);
       return out;
     },

@@ -42,11 +42,12 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
       const nx = xs.length;
       const lv = Math.min(levels, n);
       const k0 = Math.max(0, Math.floor(from));
+      // One level is one sine; a run of levels comes from the rotation ladder.
+      const single = lv - k0 === 1;
       for (let j = 0; j < nx; j++) {
         const x = xs[j];
         const inside = x >= a && x <= b;
-        // One level is one sine; a run of levels comes from the rotation ladder.
-        if (inside && lv - k0 > 1) sineLadder((Math.PI * (x - a)) / L, lv, S, C);
+        if (inside && !single) sineLadder((Math.PI * (x - a)) / L, lv, S, C);
         for (let k = k0; k < lv; k++) {
           const m = k + 1;
           const idx = (k - k0) * nx + j;
@@ -56,9 +57,8 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
             if (d2) d2[idx] = 0;
             continue;
           }
-          const theta = (m * Math.PI * (x - a)) / L;
-          const s = lv - k0 > 1 ? S[m] : Math.sin(theta);
-          const c = lv - k0 > 1 ? C[m] : Math.cos(theta);
+          const s = single ? Math.sin((m * Math.PI * (x - a)) / L) : S[m];
+          const c = single ? Math.cos((m * Math.PI * (x - a)) / L) : C[m];
           const q = (m * Math.PI) / L;
           out[idx] = amp * s;
           if (d1) d1[idx] = amp * q * c;

@@ -188,7 +188,7 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
     if (result.density) cut.density = result.density.slice(0, done);
     return cut;
   };
-  const me = options.cancelled ? matrixElements(basis, K, options.cancelled) : matrixElements(basis, K);
+  const me = matrixElements(basis, K, options.cancelled ?? (() => false));
   if (me === null) return stopped(0);
   const ar = new Float64Array(K);
   const ai = new Float64Array(K);
