@@ -66,12 +66,6 @@ export function l2Distance(x: ArrayLike<number | null>, fr: ArrayLike<number>, f
   return Math.sqrt(Math.max(0, trapezoid(x, d)));
 }
 
-/** Parity label of level index k when the system is symmetric: ground state even, then alternating. */
-export function levelParity(kind: string | undefined, n: number, firstN: number): 'even' | 'odd' {
-  void kind;
-  return (n - firstN) % 2 === 0 ? 'even' : 'odd';
-}
-
 /** True when the sampled potential is mirror-symmetric about `center` (within 1e-6 of its range). */
 export function isSymmetric(samples: Samples | null, center: number | null): boolean {
   if (!samples || center === null) return false;

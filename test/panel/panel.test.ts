@@ -35,7 +35,6 @@ let browser: Browser;
 let server: PanelServer;
 let page: Page;
 const pageErrors: string[] = [];
-const violations: string[] = [];
 
 const inspect = (p: Page = page) => p.evaluate(() => (window as unknown as { eigenspanPanel: { inspect(): unknown } }).eigenspanPanel.inspect()) as Promise<Inspect>;
 

@@ -280,7 +280,7 @@ function numericStage(model: Model, stage: StaticStage, options: AnalyseOptions,
 
   const stateStmt = model.state.stmt;
   const stateSpan = stateStmt.kind === 'state' && stateStmt.state.kind === 'psi' ? stateStmt.state.expr : stateStmt.span;
-  const state = buildState(model.state.model, basis, model.mass, out, stateSpan, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
+  const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: limits.maxGridPoints, cancelled: options.cancelled, deadline: (options as Timed).deadline });
   if (!state) return;
   try {
     stateStage(model, stage, options, result, { built, count, state, stateSpan });

@@ -10,7 +10,7 @@ import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../expr/sandbox';
 import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
-import { makeUnitSystem, createScope, toInternal } from '../expr/units';
+import { makeUnitSystem, createScope } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
 
 /** A system with its parameters evaluated (internal units). */
@@ -80,7 +80,6 @@ export interface ModelOptions {
   evaluate: boolean;
 }
 
-const NO_SPAN: Span = { start: 0, end: 0 };
 
 /**
  * Checks every statement of a parsed file and evaluates what can be evaluated without numerics.
@@ -495,8 +494,6 @@ export function fmt(v: number): string {
   return v.toExponential(4).replace('e+', 'e');
 }
 
-void NO_SPAN;
-void toInternal;
 
 /** The names an expression refers to (symbols and called functions). */
 function namesOf(e: Expr, into: Set<string>): Set<string> {

@@ -267,7 +267,6 @@ export function buildState(
   target: Eigenbasis | null,
   mass: number,
   out: EngineDiagnostic[],
-  stateSpan: { start: number; end: number },
   options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
 ): StateFunction | null {
   switch (state.kind) {
@@ -313,7 +312,6 @@ export function buildState(
         window: null,
         walls: null,
       };
-      void stateSpan;
       return f;
     }
   }

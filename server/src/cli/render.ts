@@ -59,7 +59,6 @@ export function toJson(result: AnalysisResult, text: string): Record<string, unk
   out.levelsFor999 = result.levelsFor999;
   if (result.evolution) {
     const { density: _density, ...rest } = result.evolution;
-    void _density;
     out.evolution = rest;
   }
   return out;

@@ -76,12 +76,6 @@ export function foldReal(expr: Expr, scope: Scope): number | null {
   }
 }
 
-function isLiteralZero(e: Expr): boolean {
-  if (e.type === 'number') return e.value === 0;
-  if (e.type === 'unary' && e.op !== 'not') return isLiteralZero(e.arg);
-  return false;
-}
-
 /** True when the expression contains no name at all (a bare number such as `2.5` or `3/4`). */
 function isBareNumber(e: Expr): boolean {
   switch (e.type) {

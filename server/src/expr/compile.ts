@@ -1562,10 +1562,9 @@ export function compileFunction(expr: Expr, scope: Scope): Prepared<CompiledFunc
         try {
           const j = root.run({ cache, n: xs.length, xs, order, cx, phi });
           return jetToGrid(j, xs.length, order);
-        } catch (err) {
+        } catch {
           // Only a stack overflow on an extreme tree (or a throwing phi provider) lands here: the values
           // are reported as NaN, which callers detect with findBadPoint.
-          void err;
           const nan = constNode({ re: NaN, im: NaN }).run({ cache: new Map(), n: xs.length, xs, order, cx: true, phi });
           return jetToGrid(nan, xs.length, order);
         }

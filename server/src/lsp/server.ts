@@ -149,7 +149,6 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     publish(st);
     if (init.results ?? init.panel === true) {
       const { file: _file, ...rest } = result;
-      void _file;
       const params: ResultParams = { uri: st.uri, version: st.version, result: rest };
       void connection.sendNotification(RESULT_NOTIFICATION, params);
     }
