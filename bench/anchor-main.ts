@@ -88,6 +88,8 @@ function processRows(): SideBySide[] {
     return [];
   }
   const out: SideBySide[] = [];
+  const bare = startRow();
+  if (bare) out.push(bare);
   for (const name of readdirSync(dir).filter((f) => f.endsWith('.qstate')).sort()) {
     const id = `process:${name.replace(/\.qstate$/, '')}`;
     if (only && !only.includes(id) && !only.includes('process')) continue;
@@ -122,6 +124,29 @@ function processRows(): SideBySide[] {
     });
   }
   return out;
+}
+
+/** Bare start of each side, interleaved: `node -e 0` against python importing what every example imports. */
+function startRow(): SideBySide | null {
+  const id = 'process:start';
+  if (only && !only.includes(id) && !only.includes('process')) return null;
+  const imports = 'import numpy, numpy.polynomial.legendre, scipy.fft, scipy.linalg'; // what every example imports (common.py)
+  const runNode = () => spawnSync(process.execPath, ['-e', '0']);
+  const runPy = () => spawnSync(python, ['-c', imports], { env: pythonEnv() });
+  runNode();
+  runPy();
+  const engine: number[] = [];
+  const pyTimes: number[] = [];
+  for (let r = 0; r < reps; r++) {
+    let t = performance.now();
+    runNode();
+    engine.push(performance.now() - t);
+    t = performance.now();
+    runPy();
+    pyTimes.push(performance.now() - t);
+  }
+  const side = (method: string, times: number[]) => ({ method, timing: summarise(times), accuracy: NaN, note: '' });
+  return { id, job: 'bare start (no work)', engine: side('node -e 0', engine), python: side(`python3 -c "${imports}"`, pyTimes) };
 }
 
 /** max |w_engine - w_python| over the levels both report (the accuracy column of the process rows). */
