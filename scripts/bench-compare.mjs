@@ -1,14 +1,15 @@
 // Old against new: the benchmark rows of two checkouts interleaved in one run (old rep, new rep, ...),
 // each row's medians over the reps and the ratio new/old.
 //
-//   node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--rows 1,4,6,cli] [--build] [--json OUT]
+//   node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT]
 //
 // Each checkout is driven only through its own files, so the two may have different module layouts:
 // - its own bench suite: CHECKOUT/bench/suite.ts (whatever it imports inside that checkout) is bundled
 //   with esbuild, resolving inside that checkout and its node_modules, into a script that runs
-//   `runSuite({ reps: 1 })` once in a fresh process; one process is one rep of every row of that suite
-//   (a row's figure in a rep is the suite's own median of that pass after its own warm-up run: one
-//   sample, or three for sub-ms jobs; --inner-reps N asks the suite for N);
+//   `runSuite({ reps: 3, only: [item] })` once in a fresh process; one process is one rep of the rows of
+//   that item, old and new alternating item by item (a row's figure in a rep is the suite's own median of that pass after its own warm-up run: of 3
+//   samples, 9 for sub-ms jobs; --inner-reps N asks the suite for N: 1 is quicker but leaves sub-ms
+//   jobs barely past the JIT's warm-up);
 // - its own dist/cli.js: `node dist/cli.js expand examples/NAME --json` per example (the fixed command
 //   line of FORMAT.md), timed from here around spawnSync: rows `cli ...`.
 // Rows are matched by item and job text; a row only one side has is listed apart.
@@ -28,7 +29,7 @@ import { join, resolve } from 'node:path';
 const MARK = '@@bench-compare@@';
 
 function parseArgs(argv) {
-  const out = { dirs: [], reps: 9, innerReps: 1, rows: null, build: false, json: null };
+  const out = { dirs: [], reps: 9, innerReps: 3, rows: null, build: false, json: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--reps') out.reps = Math.max(1, Number(argv[++i]));
@@ -39,7 +40,7 @@ function parseArgs(argv) {
     else if (a.startsWith('--')) throw new Error(`unknown option ${a}`);
     else out.dirs.push(resolve(a));
   }
-  if (out.dirs.length !== 2) throw new Error('usage: node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--rows 1,4,6,cli] [--build] [--json OUT]');
+  if (out.dirs.length !== 2) throw new Error('usage: node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT]');
   if (!Number.isFinite(out.reps)) throw new Error('--reps needs a number');
   return out;
 }
@@ -234,14 +235,21 @@ async function main() {
     const keys = [];
     const remember = (pass) => pass.forEach((_, k) => keys.includes(k) || keys.push(k));
     const t0 = performance.now();
+    // Interleaved finely: for every suite item, the old checkout's pass then the new one's, and for every
+    // example, the old cli then the new, so a burst of load on the shared machine hits both sides alike.
+    const units = [...items.map((item) => ({ item })), ...examples.map((name) => ({ name }))];
     for (let rep = -1; rep < args.reps; rep++) {
-      for (let i = 0; i < 2; i++) {
-        const pass = new Map();
-        // The warm-up pass runs the cli rows only: every suite row warms itself up inside the suite.
-        if (workers[i] && rep >= 0) for (const [k, v] of figures(suitePass(workers[i], args.dirs[i], { root: views[i], reps: args.innerReps, only: items }))) if (items.includes(itemOf(k))) pass.set(k, v);
-        for (const [k, v] of cliPass(args.dirs[i], examples)) pass.set(k, v);
-        if (rep >= 0) collect(samples[i], pass); // rep -1 warms the cli rows up and is not counted
-        remember(pass);
+      for (const unit of units) {
+        if (unit.item !== undefined && rep < 0) continue; // every suite row warms itself up inside the suite
+        for (let i = 0; i < 2; i++) {
+          const pass = new Map();
+          if (unit.item !== undefined) {
+            if (!workers[i]) continue;
+            for (const [k, v] of figures(suitePass(workers[i], args.dirs[i], { root: views[i], reps: args.innerReps, only: [unit.item] }))) if (itemOf(k) === unit.item) pass.set(k, v);
+          } else for (const [k, v] of cliPass(args.dirs[i], [unit.name])) pass.set(k, v);
+          if (rep >= 0) collect(samples[i], pass); // rep -1 warms the cli rows up and is not counted
+          remember(pass);
+        }
       }
       log(`${rep < 0 ? 'warm-up' : `rep ${rep + 1}/${args.reps}`} done, ${((performance.now() - t0) / 1000).toFixed(0)} s`);
     }
@@ -249,7 +257,7 @@ async function main() {
       `Old against new, ${new Date().toISOString()}, node ${process.version}, ${cpus().length} x ${cpus()[0]?.model ?? 'unknown'}, load average at end ${loadavg().map((v) => v.toFixed(1)).join(' ')}`,
       `old: ${args.dirs[0]} (${gitHead(args.dirs[0])})`,
       `new: ${args.dirs[1]} (${gitHead(args.dirs[1])})`,
-      `interleaved: old rep, new rep, ... ${args.reps} reps each (a suite pass in a fresh process, ${args.innerReps} run(s) a job inside it) after one warm-up pass of the cli rows; items ${items.join(', ') || 'none'}${wantCli ? ', cli' : ''}`,
+      `interleaved per item and per example: old, new, old, new, ... ${args.reps} reps each (a suite item in a fresh process, ${args.innerReps} run(s) a job inside it) after one warm-up of the cli rows; items ${items.join(', ') || 'none'}${wantCli ? ', cli' : ''}`,
     ];
     const r = report(header, samples, keys);
     process.stdout.write(r.text + '\n');
