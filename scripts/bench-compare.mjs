@@ -25,6 +25,7 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
+import { pathToFileURL } from 'node:url';
 
 const MARK = '@@bench-compare@@';
 
@@ -71,22 +72,21 @@ function viewWithoutLsp(dir, tmp, name) {
  * put at the top of their `step` helper (if the helper is not found, the suite runs every item and the
  * table leaves the others out).
  */
+export function injectOnly(text) {
+  const step = /(const step = \(name: string, f: \(\) => void\) => \{)/;
+  if (text.includes('options.only') || !step.test(text)) return text;
+  return text.replace(step, '$1\n    const only = (options as { only?: number[] }).only;\n    if (only && !only.includes(Number.parseInt(name, 10))) return;');
+}
+
 const onlyPlugin = {
   name: 'bench-compare-only',
   setup(b) {
-    b.onLoad({ filter: /[\\/]bench[\\/]suite\.ts$/ }, (args) => {
-      let text = readFileSync(args.path, 'utf8');
-      const step = /(const step = \(name: string, f: \(\) => void\) => \{)/;
-      if (!text.includes('options.only') && step.test(text)) {
-        text = text.replace(step, '$1\n    const only = (options as { only?: number[] }).only;\n    if (only && !only.includes(Number.parseInt(name, 10))) return;');
-      }
-      return { contents: text, loader: 'ts' };
-    });
+    b.onLoad({ filter: /[\\/]bench[\\/]suite\.ts$/ }, (args) => ({ contents: injectOnly(readFileSync(args.path, 'utf8')), loader: 'ts' }));
   },
 };
 
 /** Bundles the checkout's own bench/suite.ts into a script that runs one suite pass and prints it. */
-async function bundleWorker(dir, tmp, name) {
+export async function bundleWorker(dir, tmp, name) {
   if (!existsSync(join(dir, 'bench', 'suite.ts'))) return null;
   const outfile = join(tmp, `${name}-worker.cjs`);
   const contents = [
@@ -111,7 +111,7 @@ async function bundleWorker(dir, tmp, name) {
 }
 
 /** One suite pass in a fresh process (no heap or JIT state carried from pass to pass or side to side). */
-function suitePass(file, cwd, req) {
+export function suitePass(file, cwd, req) {
   const r = spawnSync(process.execPath, [file, JSON.stringify(req)], { cwd, encoding: 'utf8', maxBuffer: 1 << 28, stdio: ['ignore', 'pipe', 'inherit'] });
   const line = (r.stdout ?? '').split('\n').find((l) => l.startsWith(MARK));
   if (!line) throw new Error(`the suite of ${cwd} printed no result (exit ${r.status ?? r.signal})`);
@@ -121,7 +121,7 @@ function suitePass(file, cwd, req) {
 }
 
 /** Figures of one suite pass by row key: the row's median, its warm median, each scaling point. */
-function figures(result) {
+export function figures(result) {
   const out = new Map();
   for (const row of result.rows ?? []) {
     const key = `[${row.item}] ${row.job}`;
@@ -182,7 +182,7 @@ const fmt = (t) => (!Number.isFinite(t) ? '-' : t >= 100 ? t.toFixed(0) : t >= 1
 const sci = (v) => (v === null || v === undefined || !Number.isFinite(v) ? '-' : v === 0 ? '0' : Math.abs(v) >= 1 && Number.isInteger(v) ? String(v) : v.toExponential(1));
 
 /** The table: per row old and new medians [IQR], new/old, and the accuracy (or error count) of each side. */
-function report(header, samples, keys) {
+export function report(header, samples, keys) {
   const out = [...header, '', 'Times in ms: median [q1-q3] over the reps; ratio = new median / old median (< 1: new is faster).', ''];
   out.push('| row | old | new | new/old | old accuracy | new accuracy |', '|---|---|---|---|---|---|');
   const rows = [];
@@ -272,7 +272,10 @@ function gitHead(dir) {
   return r.status === 0 ? r.stdout.trim().slice(0, 80) : 'not a git checkout';
 }
 
-main().catch((err) => {
-  log(err?.stack ?? String(err));
-  process.exit(1);
-});
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  main().catch((err) => {
+    const usage = /^(usage|unknown option|--reps)/.test(err?.message ?? '');
+    log(usage ? err.message : (err?.stack ?? String(err)));
+    process.exit(usage ? 2 : 1);
+  });
+}
