@@ -1,7 +1,7 @@
 // Scheduling of the full analysis in the built server: debounce, latest version wins, cooperative
 // cancellation, the time budget, crash recovery and exit when the client goes away. The worker's test
 // hooks (`# eigenspan-test: ...`, honoured only with EIGENSPAN_TEST_HOOKS=1) make the slow cases
-// deterministic.
+// deterministic; those tests run the test build (dist/test/server.js).
 import { describe, it, expect, afterEach } from 'vitest';
 import { spawn } from 'node:child_process';
 import type { Hover } from 'vscode-languageserver-protocol';
@@ -10,7 +10,7 @@ import { startClient, codes, SERVER, type TestClient } from './client';
 
 const clients: TestClient[] = [];
 async function client(settings: Record<string, unknown> = {}, initializationOptions: Record<string, unknown> = {}): Promise<TestClient> {
-  const c = await startClient({ settings, initializationOptions });
+  const c = await startClient({ settings, initializationOptions, hooks: true });
   clients.push(c);
   return c;
 }
@@ -82,7 +82,7 @@ describe('time budget and crashes', () => {
   });
 
   it('stops a genuinely slow analysis (a numerical potential with 1000 levels) within the budget without any test hook', async () => {
-    const c = await startClient({ settings: { timeBudgetMs: 1000, debounceMs: 0 }, env: { EIGENSPAN_TEST_HOOKS: '0' } });
+    const c = await startClient({ settings: { timeBudgetMs: 1000, debounceMs: 0 } });
     clients.push(c);
     const a = 'file:///sched/slow-potential.qstate';
     const t0 = performance.now();
