@@ -5,6 +5,13 @@
  */
 import { afterEach, describe, expect, it } from 'vitest';
 import { EventEmitter } from 'node:events';
+import { spawn } from 'node:child_process';
+import { mkdtempSync } from 'node:fs';
+import { createServer, type AddressInfo, type Server, type Socket } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { StreamMessageReader } from 'vscode-languageserver-protocol/node';
+import { SERVER } from './client';
 import { ErrorCodes } from 'vscode-languageserver-protocol';
 import { FrameReader, MAX_FRAME_BYTES } from '../../server/src/lsp/frames';
 import { LIMIT_RANGES } from '../../server/src/analysis/index';
@@ -56,6 +63,42 @@ describe('broken frames', () => {
     const [a, b] = await Promise.all([s.request(5, 'textDocument/hover', hover), s.request(6, 'textDocument/hover', hover)]);
     // After shutdown every request is refused, in order (LSP 3.17 "shutdown").
     expect([a.error?.code, b.error?.code]).toEqual([ErrorCodes.InvalidRequest, ErrorCodes.InvalidRequest]);
+  });
+});
+
+describe('socket and pipe transports', () => {
+  const cases: [string, (server: Server) => Promise<string[]>][] = [
+    ['--socket=PORT', (server) => new Promise((r) => server.listen(0, '127.0.0.1', () => r([`--socket=${(server.address() as AddressInfo).port}`])))],
+    ['--pipe NAME', (server) => {
+      const name = join(mkdtempSync(join(tmpdir(), 'eigenspan-pipe-')), 'lsp.sock');
+      return new Promise((r) => server.listen(name, () => r(['--pipe', name])));
+    }],
+  ];
+  it.each(cases)('%s: the server connects, reads frames with the same reader and recovers after a bad one', async (_name, listen) => {
+    const server = createServer();
+    const connected = new Promise<Socket>((r) => server.once('connection', r));
+    const args = await listen(server);
+    const child = spawn(process.execPath, [SERVER, ...args], { stdio: ['ignore', 'ignore', 'pipe'] });
+    try {
+      const socket = await connected;
+      type Answer = { id?: number; method?: string; error?: unknown };
+      const answers: Answer[] = [];
+      // Log notifications come too; only the answers count.
+      const got = new Promise<void>((done) =>
+        new StreamMessageReader(socket).listen((m) => {
+          const a = m as unknown as Answer;
+          if (a.method === undefined && a.id !== undefined) answers.push(a);
+          if (answers.length === 2) done();
+        }),
+      );
+      socket.write(frame({ jsonrpc: '2.0', id: 1, method: 'initialize', params: INIT }));
+      socket.write('Content-Length: abc\r\n\r\n' + frame(request(2)));
+      await got;
+      expect(answers.map((a) => [a.id, a.error === undefined])).toEqual([[1, true], [2, true]]);
+    } finally {
+      child.kill('SIGKILL');
+      server.close();
+    }
   });
 });
 
