@@ -5,7 +5,7 @@
  * (dist/test/server.js with EIGENSPAN_TEST_HOOKS=1); the shipped build ignores them.
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import type { Hover } from 'vscode-languageserver-protocol';
+import { ErrorCodes, type Hover } from 'vscode-languageserver-protocol';
 import { startClient, codes, type TestClient } from './client';
 
 const GOOD = 'system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\n';
@@ -71,7 +71,7 @@ describe('protocol faults', () => {
   it('answers an unknown request with MethodNotFound and ignores an unknown notification', async () => {
     const c = await client();
     c.connection.sendNotification('eigenspan/noSuchThing', { x: 1 });
-    await expect(c.connection.sendRequest('eigenspan/noSuchRequest', {})).rejects.toMatchObject({ code: -32601 });
+    await expect(c.connection.sendRequest('eigenspan/noSuchRequest', {})).rejects.toMatchObject({ code: ErrorCodes.MethodNotFound });
     await stillServing(c, 'after-unknown');
   });
 

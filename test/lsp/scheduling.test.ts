@@ -4,7 +4,7 @@
 // deterministic; those tests run the test build (dist/test/server.js).
 import { describe, it, expect, afterEach } from 'vitest';
 import { spawn } from 'node:child_process';
-import type { Hover } from 'vscode-languageserver-protocol';
+import { LSPErrorCodes, type Hover } from 'vscode-languageserver-protocol';
 import { CancellationTokenSource, createProtocolConnection, IPCMessageReader, IPCMessageWriter, StreamMessageReader, StreamMessageWriter } from 'vscode-languageserver-protocol/node';
 import { startClient, codes, SERVER, type TestClient } from './client';
 
@@ -159,8 +159,7 @@ describe('request handlers', () => {
     const source = new CancellationTokenSource();
     const pending = c.connection.sendRequest('textDocument/hover', { textDocument: { uri: u }, position: { line: 1, character: 2 } }, source.token);
     source.cancel();
-    // LSP 3.17: RequestCancelled is -32800.
-    await expect(pending).rejects.toMatchObject({ code: -32800 });
+    await expect(pending).rejects.toMatchObject({ code: LSPErrorCodes.RequestCancelled });
   });
 });
 

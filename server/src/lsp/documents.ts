@@ -22,11 +22,11 @@ import type { Session } from './session';
 import type { DocView } from './view';
 
 /** How many analysed texts each document remembers (undo and redo then need no new analysis). */
-export const TEXT_CACHE = 4;
+const TEXT_CACHE = 4;
 /** A request waiting for the full analysis waits at most the budget and debounce plus this slack... */
-export const WAIT_SLACK_MS = 250;
+const WAIT_SLACK_MS = 250;
 /** ...and never longer than this. */
-export const WAIT_CAP_MS = 3000;
+const WAIT_CAP_MS = 3000;
 
 /** One open document. */
 export interface DocState {

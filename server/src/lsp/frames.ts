@@ -14,13 +14,13 @@ import { LIMIT_RANGES } from '../analysis/index';
 /** The largest file the settings allow, after JSON escaping (at most 6 bytes per byte, `\u00XX`), plus room for the rest of the message. */
 export const MAX_FRAME_BYTES = 6 * LIMIT_RANGES.maxFileBytes[1] + 64 * 1024;
 /** Longest header block accepted (real headers are under 100 bytes). */
-export const MAX_HEADER_BYTES = 8 * 1024;
+const MAX_HEADER_BYTES = 8 * 1024;
 
 const HEADER_END = Buffer.from('\r\n\r\n', 'latin1');
 const LENGTH_NAME = 'content-length:';
 
 /** Why a header block is refused, or its Content-Length. */
-export function parseHeader(block: string, maxFrame: number): { length: number } | { problem: string } {
+function parseHeader(block: string, maxFrame: number): { length: number } | { problem: string } {
   let length: number | null = null;
   for (const line of block.split('\r\n')) {
     if (/[\r\n]/.test(line)) return { problem: 'a header line ends with a bare LF or CR (headers end with CRLF)' };

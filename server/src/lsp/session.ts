@@ -16,7 +16,7 @@ import type { ServerInitializationOptions } from '../protocol';
 import { DEFAULT_SETTINGS, readSettings, type Settings } from './settings';
 
 /** How long the client may take to answer `workspace/configuration` before the defaults apply. */
-export const SETTINGS_ANSWER_MS = 2000;
+const SETTINGS_ANSWER_MS = 2000;
 
 /** The server's name and version in the `initialize` answer. */
 const SERVER_INFO = { name: 'eigenspan', version: '0.1.0' };
