@@ -34,7 +34,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
 
   /** Reads the settings; a change of what results depend on analyses every document again (not on the first read). */
   async function loadSettings(raw: unknown, first: boolean): Promise<void> {
-    const changed = await session.readSettings(raw);
+    const changed = await session.load(raw);
     if (first || !changed) return;
     log(`default basis ${session.settings.defaultBasis}, limits ${JSON.stringify(session.settings.limits)}; analysing open documents again`);
     store.reanalyseAll();

@@ -83,7 +83,7 @@ export class Session {
    * SETTINGS_ANSWER_MS), else from the `didChangeConfiguration` payload `raw`. Returns true when the
    * settings that change results (default basis, limits) changed.
    */
-  async readSettings(raw?: unknown): Promise<boolean> {
+  async load(raw?: unknown): Promise<boolean> {
     const before = resultKey(this.settings);
     if (this.caps.workspace?.configuration) {
       try {
