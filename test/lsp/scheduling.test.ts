@@ -177,7 +177,8 @@ describe('results notification', () => {
 
 describe('settings', () => {
   it('reads eigenspan.defaultBasis through workspace/configuration and re-analyses when it changes', async () => {
-    const settings: Record<string, unknown> = { debounceMs: 0, defaultBasis: 12 };
+    // A large budget: under load the engine's own time limit (3/4 of it) must not cut the levels.
+    const settings: Record<string, unknown> = { debounceMs: 0, defaultBasis: 12, timeBudgetMs: 20_000 };
     const c = await client(settings);
     const u = 'file:///sched/settings.qstate';
     c.open(u, 'system box(0, 1)\nstate psi(x) = x < 0.5 ? 1 : 0\n');
