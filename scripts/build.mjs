@@ -1,4 +1,7 @@
 // Bundles the command line, the language server (and its worker) and the VS Code client with esbuild.
+// dist/ holds the bundles that ship; dist/test/ (not with --production) a second server and worker
+// built with EIGENSPAN_TEST_BUILD on, whose worker carries the test hooks (server/src/lsp/testHooks.ts)
+// the fault and scheduling tests use. Everywhere else the define is false and the hooks are dead code.
 import { build } from 'esbuild';
 import { copyFileSync, existsSync, mkdirSync } from 'node:fs';
 
@@ -20,6 +23,12 @@ const entries = [
   { in: 'server/src/lsp/main.ts', out: 'dist/server.js' },
   { in: 'server/src/lsp/worker.ts', out: 'dist/worker.js' },
   { in: 'client/src/extension.ts', out: 'dist/extension.js', external: ['vscode'] },
+  ...(production
+    ? []
+    : [
+        { in: 'server/src/lsp/main.ts', out: 'dist/test/server.js', test: true },
+        { in: 'server/src/lsp/worker.ts', out: 'dist/test/worker.js', test: true },
+      ]),
 ];
 
 await Promise.all(
@@ -32,6 +41,7 @@ await Promise.all(
         outfile: e.out,
         external: e.external ?? [],
         banner: e.banner ? { js: e.banner } : undefined,
+        define: { EIGENSPAN_TEST_BUILD: e.test ? 'true' : 'false' },
       }),
     ),
 );

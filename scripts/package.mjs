@@ -17,6 +17,13 @@ for (const f of ['dist/extension.js', 'dist/server.js', 'dist/worker.js', 'dist/
     process.exit(1);
   }
 }
+// The production build leaves the test hooks out (EIGENSPAN_TEST_BUILD false, scripts/build.mjs); check it.
+for (const f of ['dist/server.js', 'dist/worker.js']) {
+  if (readFileSync(f, 'utf8').includes('EIGENSPAN_TEST_HOOKS')) {
+    console.error(`package: ${f} carries the test hooks`);
+    process.exit(1);
+  }
+}
 mkdirSync(out.slice(0, Math.max(0, out.lastIndexOf('/'))) || '.', { recursive: true });
 await createVSIX({
   packagePath: out,

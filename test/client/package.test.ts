@@ -101,6 +101,17 @@ describe('the .vsix package', () => {
     expect(bad).toEqual([]);
   });
 
+  it('carries no test hooks: no test build, and the shipped worker and server hold none of the hook code', () => {
+    const names = entries.map((e) => e.name);
+    expect(names.filter((n) => n.startsWith('extension/dist/test/'))).toEqual([]);
+    const byName = new Map(entries.map((e) => [e.name, e]));
+    for (const f of ['extension/dist/worker.js', 'extension/dist/server.js']) {
+      const code = readEntry(vsix, byName.get(f)!).toString('utf8');
+      // The hook comment, the environment switch and the log line of testHooks.ts.
+      for (const marker of ['eigenspan-test', 'EIGENSPAN_TEST_HOOKS', 'test hook']) expect(code, `${f} holds '${marker}'`).not.toContain(marker);
+    }
+  });
+
   it('ships the manifest unchanged and minified bundles without source map links', () => {
     const byName = new Map(entries.map((e) => [e.name, e]));
     const manifest = JSON.parse(readEntry(vsix, byName.get('extension/package.json')!).toString('utf8'));

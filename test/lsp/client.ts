@@ -1,5 +1,6 @@
 /**
- * A real LSP client for the tests: spawns the BUILT server (`node dist/server.js --stdio`) and talks
+ * A real LSP client for the tests: spawns the BUILT server (`node dist/server.js --stdio`, or the test
+ * build dist/test/server.js for tests that use the worker's test hooks) and talks
  * to it over the child's stdio with `vscode-languageserver-protocol/node`. Notifications are waited for
  * with promises, never with fixed sleeps.
  */
@@ -18,6 +19,8 @@ import {
 
 /** The built server; `EIGENSPAN_SERVER` may point elsewhere. */
 export const SERVER = resolve(process.env.EIGENSPAN_SERVER ?? 'dist/server.js');
+/** The test build of the server (scripts/build.mjs), whose worker honours the test hooks; `EIGENSPAN_TEST_SERVER` may point elsewhere. */
+export const TEST_SERVER = resolve(process.env.EIGENSPAN_TEST_SERVER ?? 'dist/test/server.js');
 
 /** Client capabilities of a capable editor (push diagnostics, snippets, prepare rename, inlay hints). */
 export const CAPABILITIES: ClientCapabilities = {
@@ -41,7 +44,9 @@ export interface ClientOptions {
   initializationOptions?: Record<string, unknown>;
   /** What the client answers to `workspace/configuration` for section `eigenspan`. */
   settings?: Record<string, unknown>;
-  /** Extra environment; test hooks are on by default. */
+  /** Run the test build with its hooks on (`# eigenspan-test: ...`); default: the shipped build. */
+  hooks?: boolean;
+  /** Extra environment. */
   env?: Record<string, string>;
   /** Working folder of the server process (default: the test's). */
   cwd?: string;
@@ -104,11 +109,12 @@ function deliver<T>(v: T, waiters: Set<Waiter<T>>): void {
 
 /** Spawns the server, initializes it and returns a client. */
 export async function startClient(options: ClientOptions = {}): Promise<TestClient> {
-  if (!existsSync(SERVER)) throw new Error(`${SERVER} is missing: run npm run build first`);
-  const child = spawn(process.execPath, [SERVER, '--stdio'], {
+  const server = options.hooks ? TEST_SERVER : SERVER;
+  if (!existsSync(server)) throw new Error(`${server} is missing: run npm run build first`);
+  const child = spawn(process.execPath, [server, '--stdio'], {
     stdio: ['pipe', 'pipe', 'pipe'],
     cwd: options.cwd,
-    env: { ...process.env, EIGENSPAN_TEST_HOOKS: '1', ...(options.env ?? {}) },
+    env: { ...process.env, EIGENSPAN_TEST_HOOKS: options.hooks ? '1' : '0', ...(options.env ?? {}) },
   });
   const exited = new Promise<number | null>((r) => child.once('exit', (code) => r(code)));
   // A server that is gone makes writes fail; the tests look at exit codes instead.

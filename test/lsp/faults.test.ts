@@ -1,17 +1,18 @@
 /**
  * Fault injection against the built server: a worker that throws, one that runs out of memory,
  * malformed protocol messages and unknown methods. After each, the server keeps serving and the next
- * edit is analysed normally. Faults are injected through the test hooks (EIGENSPAN_TEST_HOOKS=1).
+ * edit is analysed normally. Faults are injected through the test hooks of the test build
+ * (dist/test/server.js with EIGENSPAN_TEST_HOOKS=1); the shipped build ignores them.
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import type { Hover } from 'vscode-languageserver-protocol';
+import { ErrorCodes, type Hover } from 'vscode-languageserver-protocol';
 import { startClient, codes, type TestClient } from './client';
 
 const GOOD = 'system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\n';
 const clients: TestClient[] = [];
 
 async function client(): Promise<TestClient> {
-  const c = await startClient({ settings: { debounceMs: 0, timeBudgetMs: 20_000 } });
+  const c = await startClient({ settings: { debounceMs: 0, timeBudgetMs: 20_000 }, hooks: true });
   clients.push(c);
   return c;
 }
@@ -53,11 +54,24 @@ describe('worker faults', () => {
   });
 });
 
+describe('the shipped build', () => {
+  it('ignores the test hooks even with EIGENSPAN_TEST_HOOKS=1: a crash hook is analysed as a comment', async () => {
+    const c = await startClient({ settings: { debounceMs: 0 }, env: { EIGENSPAN_TEST_HOOKS: '1' } });
+    clients.push(c);
+    const uri = 'file:///faults/shipped.qstate';
+    c.open(uri, GOOD + '# eigenspan-test: crash\n');
+    const r = await c.result(uri, (q) => q.version === 1);
+    // sqrt(30) x (1 - x) has norm 1 on [0, 1] (the integral of 30 x^2 (1 - x)^2 is 1, derived in this comment).
+    expect(r.result.norm as number).toBeCloseTo(1, 6);
+    expect(c.logs.some((l) => /test hook/.test(l))).toBe(false);
+  });
+});
+
 describe('protocol faults', () => {
   it('answers an unknown request with MethodNotFound and ignores an unknown notification', async () => {
     const c = await client();
     c.connection.sendNotification('eigenspan/noSuchThing', { x: 1 });
-    await expect(c.connection.sendRequest('eigenspan/noSuchRequest', {})).rejects.toMatchObject({ code: -32601 });
+    await expect(c.connection.sendRequest('eigenspan/noSuchRequest', {})).rejects.toMatchObject({ code: ErrorCodes.MethodNotFound });
     await stillServing(c, 'after-unknown');
   });
 

@@ -4,7 +4,10 @@
 // the integral of |2 sin(pi x)|^2 over [0, 1] is 2 (derived: the mean of sin^2 over a period is 1/2).
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import type { CodeAction, CompletionItem, Diagnostic, DocumentSymbol, Hover, Location, SignatureHelp, WorkspaceEdit, CodeLens, InlayHint } from 'vscode-languageserver-protocol';
+import { ErrorCodes } from 'vscode-languageserver-protocol';
 import { startClient, codes, applyEdits, type TestClient } from './client';
+
+const INVALID_PARAMS = ErrorCodes.InvalidParams;
 
 let c: TestClient;
 let n = 0;
@@ -31,6 +34,14 @@ async function openAnalysed(text: string, name = 'doc'): Promise<string> {
   c.open(u, text);
   await c.result(u, (r) => r.version === 1);
   return u;
+}
+
+/** The labels of the completion items at (line, character) of a new document holding `text`. */
+async function complete(text: string, line: number, character: number): Promise<string[]> {
+  const u = uri('complete');
+  c.open(u, text);
+  const r = await c.connection.sendRequest<CompletionItem[] | null>('textDocument/completion', { textDocument: { uri: u }, position: { line, character } });
+  return (r ?? []).map((i) => i.label);
 }
 
 describe('diagnostics', () => {
@@ -106,12 +117,6 @@ describe('hover', () => {
 });
 
 describe('completion and signature help', () => {
-  const complete = async (text: string, line: number, character: number): Promise<string[]> => {
-    const u = uri('complete');
-    c.open(u, text);
-    const r = await c.connection.sendRequest<CompletionItem[] | null>('textDocument/completion', { textDocument: { uri: u }, position: { line, character } });
-    return (r ?? []).map((i) => i.label);
-  };
 
   it('offers statement keywords at the start of a line', async () => {
     const labels = await complete('sy', 0, 2);
@@ -213,8 +218,24 @@ describe('names', () => {
     const edit = await c.connection.sendRequest<WorkspaceEdit>('textDocument/rename', { textDocument: { uri: u }, position: { line: 1, character: 10 }, newName: 'len' });
     const renamed = applyEdits(TEXT, edit.changes![u]!);
     expect(renamed).toBe('let len = 1\nlet b = 2 len\nsystem box(0, len)\nstate psi(x) = sin(pi x / len) # a here is a comment\n');
-    await expect(c.connection.sendRequest('textDocument/rename', { textDocument: { uri: u }, position: { line: 0, character: 4 }, newName: 'pi' })).rejects.toThrow(/built-in/);
-    await expect(c.connection.sendRequest('textDocument/rename', { textDocument: { uri: u }, position: { line: 0, character: 4 }, newName: 'b' })).rejects.toThrow(/already defined/);
+    // A built-in name and a name already defined are refused as invalid parameters (JSON-RPC -32602).
+    for (const newName of ['pi', 'b', '2x']) {
+      await expect(c.connection.sendRequest('textDocument/rename', { textDocument: { uri: u }, position: { line: 0, character: 4 }, newName })).rejects.toMatchObject({ code: INVALID_PARAMS });
+    }
+  });
+
+  it('never offers a reserved name in completion and never accepts one as a new name', async () => {
+    const text = 'let __proto__ = 1\nlet constructor = 2\nlet valueOf = 3\nlet ok = 4\nsystem box(0, 1)\nstate psi(x) = ';
+    const labels = await complete(text, 5, 15);
+    expect(labels).toContain('ok');
+    for (const name of ['__proto__', 'constructor', 'valueOf']) expect(labels).not.toContain(name);
+    const u = uri('reserved');
+    c.open(u, text);
+    for (const newName of ['__proto__', 'constructor', 'valueOf', 'hasOwnProperty', 'evaluate']) {
+      await expect(c.connection.sendRequest('textDocument/rename', { textDocument: { uri: u }, position: { line: 3, character: 4 }, newName })).rejects.toMatchObject({ code: INVALID_PARAMS });
+    }
+    const fine = await c.connection.sendRequest<WorkspaceEdit>('textDocument/rename', { textDocument: { uri: u }, position: { line: 3, character: 4 }, newName: 'fine' });
+    expect(applyEdits(text, fine.changes![u]!).split('\n')[3]).toBe('let fine = 4');
   });
 
   it('lists one document symbol per statement', async () => {

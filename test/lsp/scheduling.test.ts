@@ -1,16 +1,16 @@
 // Scheduling of the full analysis in the built server: debounce, latest version wins, cooperative
 // cancellation, the time budget, crash recovery and exit when the client goes away. The worker's test
 // hooks (`# eigenspan-test: ...`, honoured only with EIGENSPAN_TEST_HOOKS=1) make the slow cases
-// deterministic.
+// deterministic; those tests run the test build (dist/test/server.js).
 import { describe, it, expect, afterEach } from 'vitest';
 import { spawn } from 'node:child_process';
-import type { Hover } from 'vscode-languageserver-protocol';
+import { LSPErrorCodes, type Hover } from 'vscode-languageserver-protocol';
 import { CancellationTokenSource, createProtocolConnection, IPCMessageReader, IPCMessageWriter, StreamMessageReader, StreamMessageWriter } from 'vscode-languageserver-protocol/node';
 import { startClient, codes, SERVER, type TestClient } from './client';
 
 const clients: TestClient[] = [];
 async function client(settings: Record<string, unknown> = {}, initializationOptions: Record<string, unknown> = {}): Promise<TestClient> {
-  const c = await startClient({ settings, initializationOptions });
+  const c = await startClient({ settings, initializationOptions, hooks: true });
   clients.push(c);
   return c;
 }
@@ -50,7 +50,7 @@ describe('latest version wins', () => {
     // The worker prints the hook on its stdout; the server forwards it to the log, never to its own stdout.
     await c.log(/^\[worker stdout\] test hook slow/);
     c.change(u, 2, GOOD);
-    await c.log(/cancel\.qstate \(version 1\) cancelled/);
+    await c.log(/cancel\.qstate \(revision \d+\) cancelled/);
     const r = await c.result(u, (q) => q.version === 2);
     expect(r.version).toBe(2);
     expect(c.results.some((q) => q.uri === u && q.version === 1)).toBe(false);
@@ -59,22 +59,23 @@ describe('latest version wins', () => {
 
 describe('time budget and crashes', () => {
   it('terminates a runaway analysis with a limits diagnostic while other documents still get answers', async () => {
-    const c = await client({ timeBudgetMs: 800, debounceMs: 0 });
+    const c = await client({ timeBudgetMs: 1500, debounceMs: 0 });
     const b = 'file:///sched/other.qstate';
     c.open(b, GOOD);
     await c.result(b, (q) => q.version === 1);
     const a = 'file:///sched/runaway.qstate';
     c.open(a, GOOD + '# eigenspan-test: hang\n');
-    // While the worker spins, hover on the other document is answered from its cached result.
-    const t0 = performance.now();
+    await c.log(/^\[worker stdout\] test hook hang/);
+    // While the worker spins, hover on the other document is answered from its cached result: the
+    // answer comes before the runaway's budget runs out (no limits finding for it has arrived yet).
     const h = await c.connection.sendRequest<Hover | null>('textDocument/hover', { textDocument: { uri: b }, position: { line: 1, character: 2 } });
-    const hoverMs = performance.now() - t0;
     expect(h).not.toBeNull();
-    expect(hoverMs).toBeLessThan(300);
+    expect(c.publishes.some((q) => q.uri === a && codes(q.diagnostics).includes('limits'))).toBe(false);
     const p = await c.diagnostics(a, (q) => codes(q.diagnostics).includes('limits'));
     const d = p.diagnostics.find((x) => x.code === 'limits')!;
-    expect(d.message).toMatch(/800 ms/);
-    expect(d.range.start.line).toBe(1);
+    // On the state keyword (line 1, columns 0-5).
+    expect(d.range).toEqual({ start: { line: 1, character: 0 }, end: { line: 1, character: 5 } });
+    await c.log(/runaway\.qstate \(revision \d+\) exceeded 1500 ms/);
     // The worker was restarted: a new edit is analysed again.
     c.change(b, 2, GOOD + '\n');
     const r = await c.result(b, (q) => q.version === 2);
@@ -82,17 +83,16 @@ describe('time budget and crashes', () => {
   });
 
   it('stops a genuinely slow analysis (a numerical potential with 1000 levels) within the budget without any test hook', async () => {
-    const c = await startClient({ settings: { timeBudgetMs: 1000, debounceMs: 0 }, env: { EIGENSPAN_TEST_HOOKS: '0' } });
+    const c = await startClient({ settings: { timeBudgetMs: 1000, debounceMs: 0 } });
     clients.push(c);
     const a = 'file:///sched/slow-potential.qstate';
-    const t0 = performance.now();
     c.open(a, 'system V(x) = x^4 over [-6, 6]\nstate psi(x) = exp(-x^2)\nbasis 1000\n');
-    // The engine runs under 3/4 of the budget and stops itself with a limits finding (750 ms); should it
-    // not, the worker is terminated at the budget (1000 ms). Either way the answer comes near the budget,
-    // far sooner than the tens of seconds the full analysis needs here.
-    const p = await c.diagnostics(a, (q) => q.diagnostics.some((d) => d.code === 'limits' && /(750|1000) ms|time limit/.test(String(d.message))));
-    expect(performance.now() - t0).toBeLessThan(8000);
-    expect(p.diagnostics.some((d) => d.code === 'limits')).toBe(true);
+    // The engine runs under 3/4 of the budget and stops itself with a limits finding and partial
+    // results; should it not, the worker is terminated at the budget. Either way a limits finding
+    // comes, and a result (if any) has fewer than the 1000 levels asked for.
+    const p = await c.diagnostics(a, (q) => q.diagnostics.some((d) => d.code === 'limits'));
+    expect(p.version).toBe(1);
+    for (const r of c.results.filter((q) => q.uri === a)) expect((r.result.levels as unknown[]).length).toBeLessThan(1000);
     const h = await c.connection.sendRequest<Hover | null>('textDocument/hover', { textDocument: { uri: a }, position: { line: 0, character: 2 } });
     expect(h).not.toBeNull();
   });
@@ -111,7 +111,7 @@ describe('time budget and crashes', () => {
     const a = 'file:///sched/crash.qstate';
     c.open(a, GOOD + '# eigenspan-test: crash\n');
     const p = await c.diagnostics(a, (q) => codes(q.diagnostics).includes('limits'));
-    expect(p.diagnostics.find((x) => x.code === 'limits')!.message).toMatch(/stopped unexpectedly/);
+    expect(p.diagnostics.find((x) => x.code === 'limits')!.range.start.line).toBe(1);
     await c.log(/exited unexpectedly/);
     const b = 'file:///sched/after-crash.qstate';
     c.open(b, GOOD);
@@ -159,8 +159,7 @@ describe('request handlers', () => {
     const source = new CancellationTokenSource();
     const pending = c.connection.sendRequest('textDocument/hover', { textDocument: { uri: u }, position: { line: 1, character: 2 } }, source.token);
     source.cancel();
-    // LSP 3.17: RequestCancelled is -32800.
-    await expect(pending).rejects.toMatchObject({ code: -32800 });
+    await expect(pending).rejects.toMatchObject({ code: LSPErrorCodes.RequestCancelled });
   });
 });
 
@@ -178,7 +177,8 @@ describe('results notification', () => {
 
 describe('settings', () => {
   it('reads eigenspan.defaultBasis through workspace/configuration and re-analyses when it changes', async () => {
-    const settings: Record<string, unknown> = { debounceMs: 0, defaultBasis: 12 };
+    // A large budget: under load the engine's own time limit (3/4 of it) must not cut the levels.
+    const settings: Record<string, unknown> = { debounceMs: 0, defaultBasis: 12, timeBudgetMs: 20_000 };
     const c = await client(settings);
     const u = 'file:///sched/settings.qstate';
     c.open(u, 'system box(0, 1)\nstate psi(x) = x < 0.5 ? 1 : 0\n');

@@ -8,6 +8,7 @@ import type { DocView } from './view';
 import { CONSTANTS, CONSTRUCTORS, EXPECT_KINDS, FUNCTIONS, KEYWORDS, PARITIES, UNIT_NAMES } from './vocabulary';
 import { openCallAt, statementStart } from './calls';
 import { fmtComplex, withUnit } from './format';
+import { isReservedName } from '../language/reserved';
 
 /** What the client can do with completion items. */
 export interface CompletionOptions {
@@ -43,7 +44,8 @@ function constructors(after: 'system' | 'state', options: CompletionOptions): Co
 function expressionNames(view: DocView, start: number, lineStart: string, options: CompletionOptions): CompletionItem[] {
   const out: CompletionItem[] = [];
   for (const s of view.file.statements) {
-    if (s.kind !== 'let' || s.span.start >= start) continue;
+    // A reserved name (`let __proto__`) is refused where it is defined and never offered.
+    if (s.kind !== 'let' || s.span.start >= start || isReservedName(s.name)) continue;
     const v = view.result?.values?.find((x) => x.name === s.name);
     const detail = v ? `= ${fmtComplex(v.re, v.im)}${withUnit(v.unit)}` : `= ${s.expr.text.trim()}`;
     out.push(item(s.name, CompletionItemKind.Variable, detail, null, options, `0${s.name}`));

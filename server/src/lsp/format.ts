@@ -1,20 +1,10 @@
 /**
- * Number formatting for hovers, lenses and hints.
+ * Number formatting for hovers, lenses and hints, on top of the shared number formatter.
  */
+import { formatNumber } from '../shared/numbers';
 
-/** `x` with `digits` significant digits, trailing zeros dropped; exponent form outside [1e-4, 1e6). */
-export function fmt(x: number | null | undefined, digits = 6): string {
-  if (x === null || x === undefined || Number.isNaN(x)) return '—';
-  if (!Number.isFinite(x)) return x > 0 ? '∞' : '-∞';
-  if (x === 0) return '0';
-  const a = Math.abs(x);
-  if (a >= 1e-4 && a < 1e6) {
-    const s = x.toPrecision(digits);
-    return s.includes('.') ? s.replace(/\.?0+$/, '') : s;
-  }
-  const [m, e] = x.toExponential(digits - 1).split('e');
-  return `${m!.includes('.') ? m!.replace(/\.?0+$/, '') : m}e${e}`;
-}
+/** The one number formatter (server/src/shared/numbers.ts), under the short name the features use. */
+export const fmt = formatNumber;
 
 /** A complex value; the imaginary part is shown only when it is not negligible. */
 export function fmtComplex(re: number, im: number, digits = 6): string {

@@ -1,13 +1,14 @@
 /**
  * The values of a file's `let` names in the file's own units, for hovers and inlay hints. Used by the
- * worker when the analysis result does not carry `values` itself; it re-runs only the model stage
- * (constant evaluation, no numerics).
+ * worker only while the analysis result does not carry `values` itself (AnalysisResult.values is
+ * optional and not filled by the engine yet); it re-runs only the model stage (constant evaluation, no
+ * numerics) under the user's caps. Once the engine fills `values`, this module and its call go.
  */
 import type { QFile } from '../language/ast';
 import type { AnalysisResult } from '../analysis/types';
 import type { Dimension, UnitSystem } from '../expr/types';
 import { buildModel } from '../analysis/model';
-import { DEFAULT_LIMITS } from '../analysis/index';
+import { DEFAULT_LIMITS, type Limits } from '../analysis/index';
 import { fromInternal, isDimensionless, sameDimension, timeToDisplay, timeUnitName } from '../expr/units';
 import { DIM } from '../expr/constants';
 
@@ -32,12 +33,13 @@ function display(re: number, im: number, dim: Dimension, u: UnitSystem): { re: n
 }
 
 /**
- * The `let` values of `file` in file order. Names whose value could not be computed are left out.
+ * The `let` values of `file` in file order, under the caps `limits` (absent ones keep the defaults). Names whose value could not be computed are left out.
  * Never throws (an engine failure gives an empty list).
  */
-export function letValues(file: QFile, defaultBasis: number): LetValue[] {
+export function letValues(file: QFile, defaultBasis: number, limits: Partial<Limits> = {}): LetValue[] {
   try {
-    const model = buildModel(file, { defaultBasis, maxBasis: DEFAULT_LIMITS.maxBasis, maxEvolveSteps: DEFAULT_LIMITS.maxEvolveSteps, evaluate: true }, []);
+    const caps = { ...DEFAULT_LIMITS, ...limits };
+    const model = buildModel(file, { defaultBasis, maxBasis: caps.maxBasis, maxEvolveSteps: caps.maxEvolveSteps, evaluate: true }, []);
     const out: LetValue[] = [];
     for (const [name, l] of model.lets) out.push({ name, ...display(l.value.re, l.value.im, l.dimension, model.units) });
     return out;

@@ -1,5 +1,5 @@
 /**
- * Runs full analyses in one worker thread: per-document debounce, a queue where the latest version of
+ * Runs full analyses in one worker thread: per-document debounce, a queue where the latest text of
  * each document replaces older ones, cooperative cancellation of superseded work through a shared flag,
  * a wall-clock budget past which the worker is terminated and restarted, and restart after a crash.
  */
@@ -27,13 +27,14 @@ export interface SchedulerOptions {
   /** Ask for plot samples (for the panel). */
   samples: boolean;
   /** Called once per analysis that ran to an end (not for cancelled ones). */
-  onOutcome: (uri: string, version: number, outcome: Outcome) => void;
+  onOutcome: (uri: string, revision: number, outcome: Outcome) => void;
   /** Heap cap of the worker in MB (default 1024), so a runaway allocation cannot take the server down. */
   maxHeapMb?: number;
 }
 
 interface Pending {
-  version: number;
+  /** The document store's revision of the text (only grows per document). */
+  revision: number;
   text: string;
 }
 
@@ -47,6 +48,12 @@ interface Running extends Pending {
 
 /** How long a new worker may take to load before it counts as crashed. */
 const STARTUP_MS = 15_000;
+/** The worker's default heap cap in MB. */
+const DEFAULT_HEAP_MB = 1024;
+/** The engine's own time limit is this fraction of the budget, so it stops itself before it is terminated... */
+const ENGINE_SHARE = 0.75;
+/** ...but never under this many ms. */
+const MIN_ENGINE_MS = 50;
 
 /** Schedules, cancels and supervises full analyses. */
 export class AnalysisScheduler {
@@ -63,17 +70,17 @@ export class AnalysisScheduler {
 
   constructor(private readonly options: SchedulerOptions) {}
 
-  /** Analyse `text` as `version` of `uri` after the debounce; supersedes any earlier version. */
-  schedule(uri: string, version: number, text: string, immediate = false): void {
+  /** Analyse `text` as `revision` of `uri` after the debounce; supersedes any earlier revision. */
+  schedule(uri: string, revision: number, text: string, immediate = false): void {
     if (this.disposed) return;
     const r = this.running;
-    if (r && r.uri === uri && r.version !== version) Atomics.store(r.cancel, 0, 1);
+    if (r && r.uri === uri && r.revision !== revision) Atomics.store(r.cancel, 0, 1);
     const old = this.timers.get(uri);
     if (old) clearTimeout(old);
     this.pending.delete(uri);
     const go = (): void => {
       this.timers.delete(uri);
-      this.pending.set(uri, { version, text });
+      this.pending.set(uri, { revision, text });
       this.pump();
     };
     const delay = immediate ? 0 : this.options.timing().debounceMs;
@@ -123,7 +130,7 @@ export class AnalysisScheduler {
     const w = new Worker(this.options.workerPath, {
       stdout: true,
       stderr: true,
-      resourceLimits: { maxOldGenerationSizeMb: this.options.maxHeapMb ?? 1024 },
+      resourceLimits: { maxOldGenerationSizeMb: this.options.maxHeapMb ?? DEFAULT_HEAP_MB },
     });
     this.workerStarts++;
     this.ready = false;
@@ -157,7 +164,7 @@ export class AnalysisScheduler {
         this.worker = this.startWorker();
       } catch (e) {
         this.options.log(`analysis worker could not start: ${e instanceof Error ? e.message : String(e)}`);
-        this.options.onOutcome(uri, job.version, { kind: 'crashed', message: 'the analysis worker could not start' });
+        this.options.onOutcome(uri, job.revision, { kind: 'crashed', message: 'the analysis worker could not start' });
         return this.pump();
       }
     }
@@ -166,7 +173,7 @@ export class AnalysisScheduler {
     const cancel = new Int32Array(new SharedArrayBuffer(4));
     const budget = this.ready ? setTimeout(() => this.onBudget(id), timeBudgetMs) : null;
     this.running = { ...job, id, uri, cancel, budget };
-    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, maxMillis: Math.max(50, Math.floor(0.75 * timeBudgetMs)), limits, cancel };
+    const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, maxMillis: Math.max(MIN_ENGINE_MS, Math.floor(ENGINE_SHARE * timeBudgetMs)), limits, cancel };
     this.worker.postMessage(message);
   }
 
@@ -190,11 +197,11 @@ export class AnalysisScheduler {
     }
     const r = this.finish(m.id);
     if (r) {
-      if (m.type === 'done') this.options.onOutcome(r.uri, r.version, { kind: 'done', result: m.result });
-      else if (m.type === 'cancelled') this.options.log(`analysis of ${r.uri} (version ${r.version}) cancelled: superseded`);
+      if (m.type === 'done') this.options.onOutcome(r.uri, r.revision, { kind: 'done', result: m.result });
+      else if (m.type === 'cancelled') this.options.log(`analysis of ${r.uri} (revision ${r.revision}) cancelled: superseded`);
       else if (m.type === 'failed') {
-        this.options.log(`analysis of ${r.uri} (version ${r.version}) threw: ${m.message}`);
-        this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: m.message.split('\n')[0] ?? 'unknown error' });
+        this.options.log(`analysis of ${r.uri} (revision ${r.revision}) threw: ${m.message}`);
+        this.options.onOutcome(r.uri, r.revision, { kind: 'crashed', message: m.message.split('\n')[0] ?? 'unknown error' });
       }
     }
     this.pump();
@@ -204,11 +211,11 @@ export class AnalysisScheduler {
     const r = this.finish(id);
     if (!r) return;
     const { timeBudgetMs } = this.options.timing();
-    this.options.log(`analysis of ${r.uri} (version ${r.version}) exceeded ${timeBudgetMs} ms; restarting the worker`);
+    this.options.log(`analysis of ${r.uri} (revision ${r.revision}) exceeded ${timeBudgetMs} ms; restarting the worker`);
     const w = this.worker;
     this.worker = null;
     if (w) void w.terminate();
-    this.options.onOutcome(r.uri, r.version, { kind: 'timeout', budgetMs: timeBudgetMs });
+    this.options.onOutcome(r.uri, r.revision, { kind: 'timeout', budgetMs: timeBudgetMs });
     this.pump();
     this.warmUp();
   }
@@ -223,7 +230,7 @@ export class AnalysisScheduler {
     const r = this.running;
     if (r) {
       this.finish(r.id);
-      this.options.onOutcome(r.uri, r.version, { kind: 'crashed', message: `the analysis worker stopped (exit code ${code})` });
+      this.options.onOutcome(r.uri, r.revision, { kind: 'crashed', message: `the analysis worker stopped (exit code ${code})` });
     }
     this.pump();
     // Warm a replacement only when the lost worker had loaded: one that cannot even load must not respawn in a loop.

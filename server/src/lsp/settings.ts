@@ -20,8 +20,18 @@ export interface Settings {
 /** The defaults, used when the client cannot answer `workspace/configuration`. */
 export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40, limits: Object.freeze({}), limitProblems: [] });
 
+/**
+ * The accepted range of each plain number setting, the same as `minimum` and `maximum` in package.json
+ * (a test holds them together); the limits' ranges are the engine's `LIMIT_RANGES`.
+ */
+export const SETTING_RANGES: Readonly<Record<'debounceMs' | 'timeBudgetMs' | 'defaultBasis', readonly [number, number]>> = Object.freeze({
+  debounceMs: [0, 5000],
+  timeBudgetMs: [100, 60_000],
+  defaultBasis: [1, 5000],
+});
+
 /** Reads one number from an untrusted settings object, falling back when it is missing or out of range. */
-function num(raw: unknown, fallback: number, min: number, max: number): number {
+function num(raw: unknown, fallback: number, [min, max]: readonly [number, number]): number {
   const v = typeof raw === 'string' && raw.trim() !== '' ? Number(raw) : raw;
   return typeof v === 'number' && Number.isFinite(v) && v >= min && v <= max ? v : fallback;
 }
@@ -33,9 +43,9 @@ function num(raw: unknown, fallback: number, min: number, max: number): number {
 export function readSettings(raw: unknown): Settings {
   const o = raw !== null && typeof raw === 'object' ? (raw as Record<string, unknown>) : {};
   return {
-    debounceMs: num(o.debounceMs, DEFAULT_SETTINGS.debounceMs, 0, 60_000),
-    timeBudgetMs: num(o.timeBudgetMs, DEFAULT_SETTINGS.timeBudgetMs, 10, 600_000),
-    defaultBasis: Math.round(num(o.defaultBasis, DEFAULT_SETTINGS.defaultBasis, 1, 100_000)),
+    debounceMs: num(o.debounceMs, DEFAULT_SETTINGS.debounceMs, SETTING_RANGES.debounceMs),
+    timeBudgetMs: num(o.timeBudgetMs, DEFAULT_SETTINGS.timeBudgetMs, SETTING_RANGES.timeBudgetMs),
+    defaultBasis: Math.round(num(o.defaultBasis, DEFAULT_SETTINGS.defaultBasis, SETTING_RANGES.defaultBasis)),
     ...(() => {
       const { limits, problems } = readLimits(o.limits);
       return { limits, limitProblems: problems };

@@ -7,6 +7,7 @@ import type { DocView } from './view';
 import { rangeOf } from './positions';
 import { letDefinitions, letNameAt, occurrences } from './syntax';
 import { RESERVED } from './vocabulary';
+import { isReservedName } from '../language/reserved';
 
 function describe(s: Statement): { name: string; detail: string; kind: SymbolKind } {
   switch (s.kind) {
@@ -66,6 +67,7 @@ export function prepareRenameAt(view: DocView, offset: number): { range: Range; 
 export function renameProblem(view: DocView, oldName: string, name: string): string | null {
   if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(name)) return `'${name}' is not a name (letters, digits and _, not starting with a digit).`;
   if (RESERVED.has(name)) return `'${name}' is a built-in name.`;
+  if (isReservedName(name)) return `'${name}' is a reserved name.`;
   if (name !== oldName && letDefinitions(view.file).has(name)) return `'${name}' is already defined.`;
   return null;
 }

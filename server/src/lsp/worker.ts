@@ -6,7 +6,7 @@
 import { parentPort } from 'node:worker_threads';
 import { analyse } from '../analysis/index';
 import type { AnalyseJob, WorkerReply } from './workerMessages';
-import { testHook } from './testHooks';
+import { runTestHook } from './testHooks';
 import { letValues } from './letValues';
 
 function reply(message: WorkerReply): void {
@@ -16,23 +16,13 @@ function reply(message: WorkerReply): void {
 function run(job: AnalyseJob): void {
   const cancelled = (): boolean => Atomics.load(job.cancel, 0) !== 0;
   try {
-    const hook = testHook(job.text);
-    if (hook) {
-      // Printed on purpose: the server forwards worker output to its log, and tests wait for this line.
-      console.log(`test hook ${hook.kind} for job ${job.id}`);
-      if (hook.kind === 'crash') process.exit(3);
-      if (hook.kind === 'throw') throw new Error('test hook: the engine threw');
-      if (hook.kind === 'oom') {
-        // Keep everything reachable until the worker's heap limit ends it.
-        const hoard: number[][] = [];
-        for (;;) hoard.push(new Array<number>(1 << 20).fill(hoard.length));
-      }
-      const until = performance.now() + (hook.kind === 'hang' ? Infinity : hook.ms);
-      // A hang ignores the cancellation flag on purpose (a runaway); a slow job polls it.
-      while (performance.now() < until) if (hook.kind === 'slow' && cancelled()) return reply({ type: 'cancelled', id: job.id });
+    // Compiled out of every build but the test build (scripts/build.mjs).
+    if (EIGENSPAN_TEST_BUILD) {
+      if (runTestHook(job.text, job.id, cancelled)) return reply({ type: 'cancelled', id: job.id });
     }
     const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled, limits: { ...job.limits, maxMillis: job.maxMillis } });
-    if (result.values === undefined && result.file) result.values = letValues(result.file, job.defaultBasis);
+    // Until the engine fills `values` itself (AnalysisResult.values), the model stage runs again here.
+    if (result.values === undefined && result.file) result.values = letValues(result.file, job.defaultBasis, job.limits);
     if (cancelled()) reply({ type: 'cancelled', id: job.id });
     else reply({ type: 'done', id: job.id, result });
   } catch (e) {
