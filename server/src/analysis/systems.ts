@@ -7,21 +7,35 @@ import type { GridValues, PhiProvider } from '../expr/types';
 import { boxBasis } from '../physics/box';
 import { wellBasis } from '../physics/well';
 import { oscillatorBasis } from '../physics/oscillator';
-import { potentialBasis } from '../physics/potential';
+import { potentialBasis, type PotentialBasisResult } from '../physics/potential';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
+import { physicsTiming, type Budget, type StopReason } from './context';
+import { fmt, plural } from './findings';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
   basis: Eigenbasis;
-  /** Numerical systems: indices of levels above the potential at both walls (box-quantised continuum). */
-  wallArtefacts?: number[];
-  /** Numerical systems: the first level index not resolved to tolerance, or null. */
+  /**
+   * Numerical systems: indices of the wall-only levels, as the solver reports them (`wallLevels`,
+   * `wallEnds`), kept by the one documented rule: a level above the potential at both truncating walls
+   * is a box-quantised stand-in for the continuum.
+   */
+  wallLevels?: number[];
+  /** Numerical systems: the label of the first level not resolved to tolerance, or null. */
   unresolved?: number | null;
   /** Numerical systems: grid points used. */
   points?: number;
-  /** Numerical systems: refinement was stopped by the analysis's time limit. */
-  timeLimited?: boolean;
+  /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
+  stopped?: StopReason | null;
+}
+
+/** Options of `buildBasis` and `buildState`. */
+export interface BuildOptions {
+  /** The grid cap of the analysis. */
+  maxGridPoints: number;
+  /** The budget of the analysis. */
+  budget: Budget;
 }
 
 /** How many solved numerical bases are kept (least recently used dropped first). */
@@ -53,7 +67,7 @@ export function buildBasis(
   mass: number,
   count: number,
   out: EngineDiagnostic[],
-  options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
+  options: BuildOptions,
 ): BuiltBasis | null {
   switch (system.kind) {
     case 'box':
@@ -94,16 +108,16 @@ export function buildBasis(
             system.exprSpan.start,
             system.exprSpan.end,
             b.value === 'complex'
-              ? `The potential is complex at x = ${short(b.x)}; it must be real.`
-              : `The potential is ${b.value} at x = ${short(b.x)}; it must be finite inside the interval.`,
+              ? `The potential is complex at x = ${fmt(b.x)}; it must be real.`
+              : `The potential is ${b.value} at x = ${fmt(b.x)}; it must be finite inside the interval.`,
           ),
         );
         return null;
       }
-      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: options.deadline });
+      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: physicsTiming(options.budget).deadline });
       if (bad !== null) {
         const b = bad as { x: number; value: string };
-        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
+        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
         return null;
       }
       if (solved.basis.count === 0) {
@@ -113,16 +127,16 @@ export function buildBasis(
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
         return null;
       }
-      const timeLimited = solved.notes.some((n) => n.kind === 'cap' && n.message.startsWith('The time limit'));
+      const stopped = solverStop(solved, options.budget);
       const built: BuiltBasis = {
         basis: solved.basis,
-        wallArtefacts: wallArtefacts(solved.basis, probe, evalV(probe)),
+        wallLevels: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
         unresolved: solved.unresolved,
         points: solved.points,
-        timeLimited,
+        stopped,
       };
-      // A solve cut short by the time limit is not kept: the next edit deserves a full one.
-      if (memoKey !== null && !timeLimited) {
+      // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
+      if (memoKey !== null && (stopped === null || stopped === 'cap')) {
         basisMemo.set(memoKey, built);
         while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
       }
@@ -132,23 +146,14 @@ export function buildBasis(
 }
 
 /**
- * Levels that exist only because of an artificial wall. A wall is taken to stand in for open space
- * when the potential rises or levels off towards it (a Morse curve's dissociation side, the far side of
- * a double well); it is taken as deliberate when the potential falls towards it (a hard wall at the
- * bottom of a linear ramp). Levels above the potential at an open wall are box-quantised continuum.
+ * Why the solver stopped short, as data. Glue until the physics layer returns `stopped` itself (its
+ * budget conversion adds that field): then it is read from the result; before, a solve that left
+ * levels unresolved stopped on the time limit when the budget has run out, else on a grid cap.
  */
-function wallArtefacts(basis: Eigenbasis, xs: Float64Array, v: Float64Array): number[] {
-  const n = xs.length;
-  const k = Math.max(2, Math.floor(n / 10));
-  const scale = Math.max(1e-300, ...Array.from(v, Math.abs));
-  const openLeft = v[0]! >= v[k]! - 1e-9 * scale;
-  const openRight = v[n - 1]! >= v[n - 1 - k]! - 1e-9 * scale;
-  const out: number[] = [];
-  for (let i = 0; i < basis.count; i++) {
-    const e = basis.energies[i]!;
-    if ((openLeft && e > v[0]!) || (openRight && e > v[n - 1]!)) out.push(i);
-  }
-  return out;
+function solverStop(solved: PotentialBasisResult, budget: Budget): StopReason | null {
+  if ('stopped' in solved) return (solved as { stopped: StopReason | null }).stopped;
+  if (solved.unresolved === null) return null;
+  return budget.expired() ? budget.reason : 'cap';
 }
 
 /** Something that can be evaluated on a grid: the state as written (not normalised). */
@@ -267,23 +272,23 @@ export function buildState(
   target: Eigenbasis | null,
   mass: number,
   out: EngineDiagnostic[],
-  options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
+  options: BuildOptions,
 ): StateFunction | null {
   switch (state.kind) {
     case 'gaussian':
       return gaussianState(state.center, state.width, state.momentum);
     case 'eigen': {
-      const k0 = state.system.kind === 'oscillator' ? state.level : state.level - 1;
-      const built = buildBasis(state.system, mass, k0 + 1, out, options);
+      // Labels start at the basis's first label (0 or 1), so level + 1 levels always include it.
+      const built = buildBasis(state.system, mass, state.level + 1, out, options);
       if (!built) return null;
+      const k0 = state.level - built.basis.firstLabel;
+      if (k0 < 0) {
+        out.push(diagnostic('evaluation', state.levelSpan.start, state.levelSpan.end, `Levels of this system are numbered from ${built.basis.firstLabel}.`));
+        return null;
+      }
       if (k0 >= built.basis.count) {
         out.push(
-          diagnostic(
-            'evaluation',
-            state.levelSpan.start,
-            state.levelSpan.end,
-            `Level ${state.level} does not exist: that system has ${built.basis.count} bound level${built.basis.count === 1 ? '' : 's'}.`,
-          ),
+          diagnostic('evaluation', state.levelSpan.start, state.levelSpan.end, `Level ${state.level} does not exist: that system has ${plural(built.basis.count, 'bound level')}.`),
         );
         return null;
       }
@@ -322,8 +327,4 @@ export class MissingLevel extends Error {
   constructor(readonly level: number) {
     super(`phi(${level}, x) is not a level of this system`);
   }
-}
-
-function short(x: number): string {
-  return Number(x.toPrecision(6)).toString();
 }
