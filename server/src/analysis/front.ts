@@ -11,7 +11,7 @@ import type { Limits } from './options';
  * Bytes of the UTF-8 encoding of `text`: 1 to 3 per UTF-16 code unit, 4 per surrogate pair (a lone
  * surrogate is written as U+FFFD, 3 bytes), as the Encoding Standard's UTF-8 encoder does.
  */
-export function utf8Length(text: string): number {
+function utf8Length(text: string): number {
   let bytes = 0;
   for (let i = 0; i < text.length; i++) {
     const c = text.charCodeAt(i);

@@ -201,7 +201,8 @@ class ModelBuilder {
   private let(stmt: Extract<Statement, { kind: 'let' }>): void {
     if (isReservedName(stmt.name)) {
       this.refused.add(stmt.name);
-      this.push([reservedFinding(stmt)]);
+      this.out.push(reservedFinding(stmt));
+      this.errors++;
       return;
     }
     const e = this.expr(stmt.expr);

@@ -11,7 +11,7 @@ import { timeToDisplay } from '../expr/units';
 import type { Model } from './model';
 import { buildBasis, buildState, type BuiltBasis, type StateFunction } from './systems';
 import { BadValue } from './expand';
-import { growthAt } from './singular';
+import { growthAt, type Singularity } from './singular';
 import { measureState, type StateMeasurements } from './measure';
 import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from './checks';
 import { checkExpects } from './expects';
@@ -62,7 +62,10 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
     stateStage({ input, built, count: Math.min(asked, basis.count), state, checks }, result);
   } catch (err) {
     // A state infinite at a sampled point: say how it grows there (the caller words it).
-    if (err instanceof BadValue && Number.isFinite(err.x)) err.growth = growthAt(state, err.x, basis.walls ?? basis.support);
+    if (err instanceof BadValue && Number.isFinite(err.x)) {
+      err.growth = growthAt(state, err.x, basis.walls ?? basis.support);
+      if (err.growth) result.singularity = singularityOf(err.growth, 0);
+    }
     throw err;
   }
 }
@@ -75,6 +78,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   const m = measureState({ model, built: s.built, count: s.count, state: s.state, ctx });
   if ('stop' in m) {
     if (m.stop === 'notFinite') result.norm = m.norm;
+    if (m.stop === 'notSquareIntegrable') result.singularity = singularityOf(m.singular, 0);
     out.push(stopFinding(m, checks));
     return;
   }
@@ -97,6 +101,11 @@ function fillResult(m: StateMeasurements, result: AnalysisResult): void {
   result.decay = m.decay;
   if (m.parity) result.parity = m.parity.parity;
   if (m.continuum !== null) result.continuum = m.continuum;
+  if (m.singular) result.singularity = singularityOf(m.singular, m.unresolvedNearSpike);
+}
+
+function singularityOf(g: Singularity, unresolvedWeight: number): NonNullable<AnalysisResult['singularity']> {
+  return { x: g.x, power: g.power, logarithmic: g.logarithmic === true, integrable: g.integrable, unresolvedWeight };
 }
 
 function unitNames(model: Model): AnalysisResult['units'] {

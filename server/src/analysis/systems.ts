@@ -76,73 +76,77 @@ export function buildBasis(
       return { basis: wellBasis(system.depth, system.width, system.center, mass) };
     case 'oscillator':
       return { basis: oscillatorBasis(system.omega, system.center, mass, count) };
-    case 'potential': {
-      const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}`;
-      const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
-      if (hit && memoKey !== null) {
-        // Most recently used last.
-        basisMemo.delete(memoKey);
-        basisMemo.set(memoKey, hit);
-        return hit;
-      }
-      const V = system.V;
-      let bad: { x: number; value: string } | null = null;
-      const evalV = (xs: Float64Array): Float64Array => {
-        const v = V.evaluate(xs, 0);
-        const re = v.re;
-        for (let j = 0; j < xs.length && bad === null; j++) {
-          if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: Number.isNaN(re[j]!) ? 'not a number' : re[j]! > 0 ? 'infinite' : 'minus infinity' };
-          else if (Math.abs(v.im[j]!) > 1e-12 * Math.max(1, Math.abs(re[j]!))) bad = { x: xs[j]!, value: 'complex' };
-        }
-        return re;
-      };
-      // Probe the potential before solving so a bad value is reported, not solved with.
-      const probe = new Float64Array(513);
-      for (let j = 0; j < probe.length; j++) probe[j] = system.a + ((j + 0.5) / probe.length) * (system.b - system.a);
-      evalV(probe);
-      if (bad !== null) {
-        const b = bad as { x: number; value: string };
-        out.push(
-          diagnostic(
-            'evaluation',
-            system.exprSpan.start,
-            system.exprSpan.end,
-            b.value === 'complex'
-              ? `The potential is complex at x = ${fmt(b.x)}; it must be real.`
-              : `The potential is ${b.value} at x = ${fmt(b.x)}; it must be finite inside the interval.`,
-          ),
-        );
-        return null;
-      }
-      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: physicsTiming(options.budget).deadline });
-      if (bad !== null) {
-        const b = bad as { x: number; value: string };
-        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
-        return null;
-      }
-      if (solved.basis.count === 0) {
-        const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
-        // The solver's notes name raw values; say them in words.
-        const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
-        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
-        return null;
-      }
-      const stopped = solverStop(solved, options.budget);
-      const built: BuiltBasis = {
-        basis: solved.basis,
-        wallLevels: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
-        unresolved: solved.unresolved,
-        points: solved.points,
-        stopped,
-      };
-      // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
-      if (memoKey !== null && (stopped === null || stopped === 'cap')) {
-        basisMemo.set(memoKey, built);
-        while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
-      }
-      return built;
-    }
+    case 'potential':
+      return solvePotential(system, mass, count, out, options);
   }
+}
+
+/** A numerical system's basis: V probed for bad values, solved, and remembered in the memo. */
+function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mass: number, count: number, out: EngineDiagnostic[], options: BuildOptions): BuiltBasis | null {
+  const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}`;
+  const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
+  if (hit && memoKey !== null) {
+    // Most recently used last.
+    basisMemo.delete(memoKey);
+    basisMemo.set(memoKey, hit);
+    return hit;
+  }
+  const V = system.V;
+  let bad: { x: number; value: string } | null = null;
+  const evalV = (xs: Float64Array): Float64Array => {
+    const v = V.evaluate(xs, 0);
+    const re = v.re;
+    for (let j = 0; j < xs.length && bad === null; j++) {
+      if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: Number.isNaN(re[j]!) ? 'not a number' : re[j]! > 0 ? 'infinite' : 'minus infinity' };
+      else if (Math.abs(v.im[j]!) > 1e-12 * Math.max(1, Math.abs(re[j]!))) bad = { x: xs[j]!, value: 'complex' };
+    }
+    return re;
+  };
+  // Probe the potential before solving so a bad value is reported, not solved with.
+  const probe = new Float64Array(513);
+  for (let j = 0; j < probe.length; j++) probe[j] = system.a + ((j + 0.5) / probe.length) * (system.b - system.a);
+  evalV(probe);
+  if (bad !== null) {
+    const b = bad as { x: number; value: string };
+    out.push(
+      diagnostic(
+        'evaluation',
+        system.exprSpan.start,
+        system.exprSpan.end,
+        b.value === 'complex'
+          ? `The potential is complex at x = ${fmt(b.x)}; it must be real.`
+          : `The potential is ${b.value} at x = ${fmt(b.x)}; it must be finite inside the interval.`,
+      ),
+    );
+    return null;
+  }
+  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: physicsTiming(options.budget).deadline });
+  if (bad !== null) {
+    const b = bad as { x: number; value: string };
+    out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
+    return null;
+  }
+  if (solved.basis.count === 0) {
+    const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
+    // The solver's notes name raw values; say them in words.
+    const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
+    out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
+    return null;
+  }
+  const stopped = solverStop(solved, options.budget);
+  const built: BuiltBasis = {
+    basis: solved.basis,
+    wallLevels: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
+    unresolved: solved.unresolved,
+    points: solved.points,
+    stopped,
+  };
+  // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
+  if (memoKey !== null && (stopped === null || stopped === 'cap')) {
+    basisMemo.set(memoKey, built);
+    while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
+  }
+  return built;
 }
 
 /**

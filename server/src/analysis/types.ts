@@ -80,7 +80,13 @@ export interface AnalysisResult {
   levelsFor999: number | null;
   evolution: EvolutionResult | null;
   samples: SampleResult | null;
-  /** Milliseconds spent. */
+  /**
+   * A point where the state is infinite, as measured: |psi| ~ |x - x0|^-power (or logarithmic growth),
+   * whether |psi|^2 is integrable across it, and (for an integrable spike) the share of |psi|^2 too close
+   * to it for double precision to sample. Optional; absent or null when there is none.
+   */
+  singularity?: { x: number; power: number; logarithmic: boolean; integrable: boolean; unresolvedWeight: number } | null;
+  /** Milliseconds spent (on the analysis's clock). */
   elapsedMs: number;
   /**
    * The value of each `let` name in the file's units (for hovers and inlay hints), in file order.
