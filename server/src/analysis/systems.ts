@@ -265,11 +265,6 @@ export function eigenState(basis: Eigenbasis, k: number): StateFunction {
   };
 }
 
-/** Index of a level label in a basis. */
-export function levelIndex(basis: Eigenbasis, n: number): number {
-  return n - basis.firstLabel;
-}
-
 /** Builds the state function of a state model; `basis` is the target system's basis (for phi). */
 export function buildState(
   state: StateModel,
