@@ -133,7 +133,9 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (basis.kind === 'well') m.continuum = Math.max(0, 1 - m.captured);
   // A spike's coefficients fall off algebraically and its grids never settle: no basis within the cap
   // captures all but TOL, and the search would only spend the budget on grids that cannot agree.
-  else if (m.captured < 1 - TOL && !(walls?.broken ?? false) && !singular) m.needed = levelsNeeded({ state: projected, basis, window, model: input.model, ctx });
+  else if (m.captured < 1 - TOL && !(walls?.broken ?? false) && !singular && !beyondCap(levels.length, 1 - m.captured, energy.decay, ctx.limits.maxBasis)) {
+    m.needed = levelsNeeded({ state: projected, basis, window, model: input.model, ctx });
+  }
   return m;
 }
 
@@ -339,6 +341,20 @@ function zeroBySymmetry(levels: LevelResult[], basis: Eigenbasis, parity: 'even'
     }
   }
   return captured;
+}
+
+/**
+ * True when the coefficients' algebraic decay |c_n| ~ n^-p puts a basis that captures all but TOL
+ * beyond the cap: the weights' tail from N on is about C N^(1-2p) (the sum of n^-2p; common practice),
+ * so a shortfall s at `count` levels needs about count (s / TOL)^(1/(2p-1)) levels (and no finite
+ * number when p <= 1/2). A jump (p = 1) short by 1e-3 at 200 levels needs about 2e5. The search would
+ * only spend the budget on projections that cannot reach.
+ */
+function beyondCap(count: number, shortfall: number, decay: DecayResult | null, maxBasis: number): boolean {
+  const p = decay?.exponent;
+  if (p === null || p === undefined) return false;
+  if (!(p > 0.5)) return true;
+  return count * Math.pow(shortfall / TOL, 1 / (2 * p - 1)) > maxBasis;
 }
 
 /**
