@@ -63,9 +63,10 @@ export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckCont
   if (basis.kind === 'well' && basisStmt && asked > basis.count) {
     out.push(warn('basis', basisStmt.span, `The well holds ${plural(basis.count, 'bound state')}; basis ${asked} is capped at ${basis.count}.`, undefined, 'info'));
   }
-  if (built.unresolved !== undefined && built.unresolved !== null) {
+  // Unresolved levels after a cancellation need no finding: a cancelled analysis is not shown.
+  if (built.unresolved !== undefined && built.unresolved !== null && built.stopped !== 'cancelled') {
     out.push(
-      warn('limits', sysSpan, built.stopped === 'time' || built.stopped === 'cancelled'
+      warn('limits', sysSpan, built.stopped === 'time'
         ? `The time limit stopped the solver's refinement: level ${built.unresolved} and above are not resolved to 1e-9; lower \`basis\` or raise the limit.`
         : `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
     );
