@@ -96,3 +96,20 @@ describe('the time limit, on an injected clock', () => {
     expect(r.levels).toEqual([]);
   });
 });
+
+describe('work is counted, not timed', () => {
+  it('the projection work of a kinked state grows as the square of the basis', () => {
+    // The grid resolves the highest level, whose wave number grows as n pi / L, so the nodes grow as the
+    // basis and the projection (levels x nodes) as its square: doubling the basis about quadruples the
+    // work (derived in this comment; the refinement may add or save one doubling, hence the bounds).
+    const work = (n: number): number => analyse(`${TENT}basis ${n}\n`, { clock: manualClock(0) }).work!.ops;
+    const small = work(100);
+    const large = work(200);
+    expect(small).toBeGreaterThan(100 * 20 * 16);
+    expect(large / small).toBeGreaterThan(2);
+    expect(large / small).toBeLessThan(8);
+    // The same file and caps count the same work on any clock.
+    expect(analyse(`${TENT}basis 100\n`, { clock: manualClock(7) }).work!.ops).toBe(small);
+  });
+});
+

@@ -112,6 +112,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
     result.diagnostics.push(warn('limits', at, `The analysis took longer than the time limit of ${stage.limits.maxMillis} ms and was stopped; the results are incomplete.`));
   }
   result.diagnostics = sortDiagnostics(result.diagnostics);
+  result.work = { ops: budget.work.ops, points: budget.work.points };
   result.elapsedMs = clock.now() - started;
   return result;
 }

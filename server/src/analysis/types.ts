@@ -86,6 +86,12 @@ export interface AnalysisResult {
    * to it for double precision to sample. Optional; absent or null when there is none.
    */
   singularity?: { x: number; power: number; logarithmic: boolean; integrable: boolean; unresolvedWeight: number } | null;
+  /**
+   * Work the analysis's budget counted: `ops` (one per level per node projected, one per node
+   * evaluated) and `points` (nodes evaluated). Deterministic for a given file and caps, so tests can
+   * bound a stage's cost without timing it. Optional.
+   */
+  work?: { ops: number; points: number };
   /** Milliseconds spent (on the analysis's clock). */
   elapsedMs: number;
   /**
