@@ -9,54 +9,42 @@ import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
 import { boxCoefficientsFromSamples } from '../physics/dst';
 import { fitDecay } from '../physics/decay';
-import { diagnostic, type EngineDiagnostic, type FixData } from '../language/catalogue';
-import type { Span } from '../language/ast';
 import type { StateFunction } from './systems';
-import { fmt } from './model';
+import type { DecayResult } from './types';
+import type { Budget, StopReason } from './context';
 import { growthAt, type Singularity } from './singular';
 
 /** Options of `expandState`. */
 export interface ExpandOptions {
+  /** The grid cap: refinement stops (reason `cap`) before a grid of more nodes. */
   maxGridPoints: number;
-  cancelled?: () => boolean;
-  /** performance.now() time by which refinement must stop (the analysis time limit); none by default. */
-  deadline?: number;
+  /** The analysis's budget: polled between grids and between chunks of the projection. */
+  budget: Budget;
 }
 
-/** What the numerical stage computed (internal units). */
-export interface Expansion {
-  norm: number;
-  /** Coefficients of the normalised state by level index. */
+/** The state projected on one grid. */
+export interface Expanded {
+  q: Quadrature;
+  /** Values of the state (not normalised) on the quadrature nodes, with two derivatives. */
+  values: GridValues;
+  /** Coefficients <phi_k|psi> of the state as written, by level index (empty when the budget ran out on the first grid). */
   re: Float64Array;
   im: Float64Array;
-  weights: Float64Array;
-  captured: number;
-  /** <H> and Delta H of the normalised state, null where they diverge. */
-  mean: number | null;
-  spread: number | null;
-  /** Sum of E_n |c_n|^2 over the levels computed (normalised state). */
-  meanFromLevels: number;
-  parity: 'even' | 'odd' | 'mixed' | null;
-  /** Weight of the minor parity part relative to the norm (null without a centre). */
-  parityMinor: number | null;
-  decay: { exponent: number | null; classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown'; at: number | null } | null;
-  /** The window the state was integrated over. */
-  window: [number, number];
-  quadrature: Quadrature;
-  /** Values of the state (not normalised) on the quadrature nodes. */
-  values: GridValues;
-  /** Fraction of |psi|^2 outside hard walls (dropped), if any. */
-  outside: number;
-  /** |psi|^2 L / norm at each wall. */
-  wallValues: [number, number] | null;
-  /** Interior points where the state jumps or has a kink. */
-  jumps: number[];
-  kinks: number[];
-  /** Weight within 2% of the interval length from each wall (numerical systems). */
-  nearWalls: [number, number] | null;
+  /** Integral of |psi|^2 on the grid. */
+  norm: number;
+  /** Why refinement stopped before two grids agreed: the grid cap, the time limit or a cancellation. */
+  stopped: StopReason | null;
 }
 
 const ORDER = 20;
+
+/**
+ * Entries (levels x nodes) of one chunk of a projection: the budget is polled between chunks, so a
+ * projection of any size stops within about one chunk's work of the deadline (2^18 entries, at least
+ * 64 nodes: measured about 3 ms for box sines and 25 ms for oscillator levels, whose tables cost about
+ * 90 ns an entry). A fixed size, so results never depend on the clock.
+ */
+const CHUNK_ENTRIES = 1 << 18;
 
 /** From this many box levels on, coefficients come from the sine transform. */
 const DST_LEVELS = 256;
@@ -166,21 +154,63 @@ function quadratureFor(window: [number, number], breakpoints: number[], panels: 
 }
 
 /**
- * Projects the state on the first `levels` levels of `basis` over `window`, refining the grid until
- * the coefficients agree between two grids to 1e-12 of the norm (or the grid cap is hit).
+ * The coefficients of the state on the first `levels` levels, projected chunk by chunk of nodes (the
+ * sums are linear in the nodes), polling the budget between chunks; null when it ran out first.
  */
-export function expandState(
-  state: StateFunction,
-  basis: Eigenbasis,
-  levels: number,
-  window: [number, number],
-  options: ExpandOptions,
-): { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number; capped: boolean; late?: boolean } {
+function projectWithin(basis: Eigenbasis, q: Quadrature, values: GridValues, levels: number, budget: Budget): { re: Float64Array; im: Float64Array } | null {
+  const n = q.x.length;
+  const chunk = Math.max(64, Math.floor(CHUNK_ENTRIES / Math.max(1, levels)));
+  const re = new Float64Array(levels);
+  const im = new Float64Array(levels);
+  for (let start = 0; start < n; start += chunk) {
+    if (budget.expired()) return null;
+    const end = Math.min(n, start + chunk);
+    const part = { x: q.x.subarray(start, end), w: q.w.subarray(start, end) };
+    const c = project(basis, part, values.re.subarray(start, end), values.im.subarray(start, end), levels);
+    for (let k = 0; k < levels; k++) {
+      re[k]! += c.re[k]!;
+      im[k]! += c.im[k]!;
+    }
+    budget.count(levels * (end - start), 0);
+  }
+  return { re, im };
+}
+
+/** The breakpoints of the state, the basis and the state's old walls inside the window, sorted. */
+function allBreakpoints(state: StateFunction, basis: Eigenbasis, window: [number, number]): number[] {
   const bps = new Set<number>();
   for (const x of state.breakpoints(window[0], window[1])) bps.add(x);
   for (const x of basis.breakpoints) if (x > window[0] && x < window[1]) bps.add(x);
   if (state.walls) for (const x of state.walls) if (x > window[0] && x < window[1]) bps.add(x);
-  const breakpoints = [...bps].sort((a, b) => a - b);
+  return [...bps].sort((a, b) => a - b);
+}
+
+/**
+ * Many box levels of a smooth state: a sine transform of equally spaced samples replaces the per-level
+ * quadrature (its aliasing error is about (2N)^-3 relative; see dst.ts). Null when it does not apply.
+ */
+function sineTransform(state: StateFunction, basis: Eigenbasis, levels: number, breakpoints: number[], options: ExpandOptions): { re: Float64Array; im: Float64Array } | null {
+  if (!(basis.kind === 'box' && levels >= DST_LEVELS && breakpoints.length === 0 && basis.walls)) return null;
+  let N = 1 << 14;
+  while (N < 8 * levels && N < options.maxGridPoints) N *= 2;
+  const [a, b] = basis.walls;
+  const xs = new Float64Array(N + 1);
+  for (let j = 0; j <= N; j++) xs[j] = a + ((b - a) * j) / N;
+  const v = state.evaluate(xs, 0);
+  checkFinite(xs, v);
+  options.budget.count(N * Math.log2(N), N + 1);
+  const c = boxCoefficientsFromSamples(v.re, v.im, a, b, levels);
+  return c.ok && c.re.length === levels ? c : null;
+}
+
+/**
+ * Projects the state on the first `levels` levels of `basis` over `window`, refining the grid until
+ * the coefficients agree between two grids to 1e-12 of the norm. Stops short on the grid cap or when
+ * the budget runs out (`stopped` says which), with the last grid's values; the grid sizes depend only
+ * on the state, the basis and the caps, never on the clock.
+ */
+export function expandState(state: StateFunction, basis: Eigenbasis, levels: number, window: [number, number], options: ExpandOptions): Expanded {
+  const breakpoints = allBreakpoints(state, basis, window);
   const k = maxWaveNumber(basis, levels, window);
   const width = window[1] - window[0];
   // One wavelength of the highest level per 20-point panel: Gauss–Legendre on a full period is
@@ -190,83 +220,34 @@ export function expandState(
   // A first grid already above the cap is capped too, and says so.
   const wanted = panels;
   panels = Math.min(panels, maxPanels);
-  // Many box levels of a smooth state: a sine transform of equally spaced samples replaces the
-  // per-level quadrature (its aliasing error is about (2N)^-3 relative; see dst.ts).
-  let fast: { re: Float64Array; im: Float64Array } | null = null;
-  if (basis.kind === 'box' && levels >= DST_LEVELS && breakpoints.length === 0 && basis.walls) {
-    let N = 1 << 14;
-    while (N < 8 * levels && N < options.maxGridPoints) N *= 2;
-    const [a, b] = basis.walls;
-    const xs = new Float64Array(N + 1);
-    for (let j = 0; j <= N; j++) xs[j] = a + ((b - a) * j) / N;
-    const v = state.evaluate(xs, 0);
-    checkFinite(xs, v);
-    const c = boxCoefficientsFromSamples(v.re, v.im, a, b, levels);
-    if (c.ok && c.re.length === levels) {
-      fast = c;
-      // The grid below now only serves the norm and the energy integrals, which the state sets.
-      panels = 32;
-    }
-  }
-  // Under a deadline the first steps must fit the time left, so a large basis cannot freeze the
-  // analysis: the cost of one level at one point is measured on a small probe (it ranges from about
-  // 10 ns for sines to microseconds for numerical levels). The grid a level needs grows with the level,
-  // so fewer levels are projected (the returned arrays are shorter) on a grid still fine enough for
-  // them, rather than all levels on a grid too coarse to resolve the high ones.
-  // (A sine transform above needs no such cut: its cost is that of an FFT, not levels x points.)
-  let cut = false;
-  if (options.deadline !== undefined && fast === null) {
-    // The path `project` takes is timed: accumulated sums when the basis has them, else a table. A
-    // first small probe warms the code up; when it is cheap, a larger one measures the steady cost
-    // (a 16-point probe overstates it 25-100 times for sines).
-    const pl = Math.min(levels, 256);
-    const timeProbe = (points: number, reps: number): number => {
-      const probe = new Float64Array(points);
-      for (let j = 0; j < points; j++) probe[j] = window[0] + ((j + 0.5) * width) / points;
-      const ones = new Float64Array(points).fill(1);
-      const scratch = basis.weightedSums ? null : new Float64Array(pl * points);
-      const sumsRe = new Float64Array(pl);
-      const sumsIm = new Float64Array(pl);
-      let best = Infinity;
-      for (let rep = 0; rep < reps; rep++) {
-        const t = performance.now();
-        if (basis.weightedSums) basis.weightedSums(probe, ones, ones, pl, sumsRe, sumsIm);
-        else basis.table(probe, pl, scratch!);
-        best = Math.min(best, performance.now() - t);
-      }
-      return best / (pl * points);
-    };
-    let perEntry = timeProbe(16, 1);
-    if (perEntry * pl * 256 < 10) perEntry = Math.min(perEntry, timeProbe(256, 2));
-    perEntry = Math.max(perEntry, 1e-6);
-    const entries = (options.deadline - performance.now()) / perEntry / 3;
-    if (levels * panels * ORDER > entries) {
-      const fewer = Math.max(1, Math.min(levels, Math.floor(Math.sqrt((Math.max(entries, 0) * levels) / (panels * ORDER)))));
-      panels = Math.max(16, Math.ceil((panels * fewer) / levels), breakpoints.length + 1);
-      levels = fewer;
-      cut = true;
-    }
-  }
-  let prev: { q: Quadrature; values: GridValues; re: Float64Array; im: Float64Array; norm: number } | null = null;
+  const fast = sineTransform(state, basis, levels, breakpoints, options);
+  // With the sine transform the grid only serves the norm and the energy integrals, which the state sets.
+  if (fast) panels = 32;
+  const budget = options.budget;
+  let prev: Expanded | null = null;
   for (;;) {
-    const t0 = performance.now();
     const q = quadratureFor(window, breakpoints, panels);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
+    budget.count(q.x.length, q.x.length);
     const norm = integrateAbs2(q, values);
-    const c = fast ?? project(basis, q, values.re, values.im, levels);
-    const cur = { q, values, re: c.re, im: c.im, norm };
-    if (prev) {
-      let diff = Math.abs(prev.norm - norm);
-      for (let j = 0; j < levels; j++) diff = Math.max(diff, Math.hypot(prev.re[j]! - c.re[j]!, prev.im[j]! - c.im[j]!) ** 1);
-      if (diff <= 1e-12 * Math.max(norm, 1e-300) ** 0.5 || diff <= 1e-13 * Math.max(norm, 1e-300)) return { ...cur, capped: false, late: cut };
-    }
-    if (panels * 2 > maxPanels || options.cancelled?.()) return { ...cur, capped: (prev !== null || (fast === null && wanted > maxPanels)) && panels * 2 > maxPanels, late: cut };
-    // The next step costs about twice this one: stop before it would overrun the deadline.
-    if (options.deadline !== undefined && performance.now() + 2.5 * (performance.now() - t0) > options.deadline) return { ...cur, capped: true, late: true };
+    const c = fast ?? projectWithin(basis, q, values, levels, budget);
+    if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, stopped: budget.reason };
+    const cur: Expanded = { q, values, re: c.re, im: c.im, norm, stopped: null };
+    if (prev && agree(prev, cur, levels)) return cur;
+    if (panels * 2 > maxPanels) return { ...cur, stopped: (prev !== null || (fast === null && wanted > maxPanels)) ? 'cap' : null };
+    if (budget.expired()) return { ...cur, stopped: budget.reason };
     prev = cur;
     panels *= 2;
   }
+}
+
+/** Two grids agree when every coefficient and the norm differ by at most 1e-12 of sqrt(norm) (or 1e-13 of the norm). */
+function agree(prev: Expanded, cur: Expanded, levels: number): boolean {
+  let diff = Math.abs(prev.norm - cur.norm);
+  for (let j = 0; j < levels; j++) diff = Math.max(diff, Math.hypot(prev.re[j]! - cur.re[j]!, prev.im[j]! - cur.im[j]!));
+  const norm = Math.max(cur.norm, 1e-300);
+  return diff <= 1e-12 * norm ** 0.5 || diff <= 1e-13 * norm;
 }
 
 /** Left and right values and slopes of the state at interior breakpoints: jumps and kinks. */
@@ -340,7 +321,7 @@ export function gridEnergy(basis: Eigenbasis, q: Quadrature, v: GridValues, norm
 }
 
 /** Decay of |c_n| fitted over the tail, for systems whose levels are sine-like (box, potential). */
-export function decayOf(basis: Eigenbasis, weights: Float64Array): Expansion['decay'] {
+export function decayOf(basis: Eigenbasis, weights: Float64Array): DecayResult | null {
   if (basis.kind === 'well' || weights.length < 12) return null;
   const labels = new Float64Array(weights.length);
   for (let k = 0; k < labels.length; k++) labels[k] = k + basis.firstLabel;
@@ -348,18 +329,8 @@ export function decayOf(basis: Eigenbasis, weights: Float64Array): Expansion['de
   let classification = f.classification as 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
   // Weights that grow along the tail (a box-quantised continuum, say) have no decay law to report.
   if (f.exponent !== null && !(f.exponent > 0)) return { exponent: null, classification: 'unknown', at: null };
-  if (basis.kind === 'oscillator' && (classification === 'jump' || classification === 'kink')) classification = 'algebraic';
+  // The jump and kink laws (1/n, 1/n^2) are those of sine-like levels between hard walls; on the line
+  // (the oscillator) a slow decay is only algebraic.
+  if (basis.walls === null && (classification === 'jump' || classification === 'kink')) classification = 'algebraic';
   return { exponent: f.exponent ?? null, classification, at: null };
 }
-
-/** Quick fix: replace a span's text. */
-export function replaceFix(title: string, span: Span, text: string): FixData {
-  return { kind: 'replace', title, start: span.start, end: span.end, text };
-}
-
-/** Builds a warning (or other severity) diagnostic on a span. */
-export function warn(code: Parameters<typeof diagnostic>[0], span: Span, message: string, fixes?: FixData[], severity?: 'error' | 'warning' | 'info'): EngineDiagnostic {
-  return diagnostic(code, span.start, span.end, message, { fixes, severity });
-}
-
-export { fmt };

@@ -4,8 +4,7 @@
 import type { AnalysisResult } from './types';
 import type { EngineDiagnostic } from '../language/catalogue';
 import type { ComparisonModel, Model } from './model';
-import { fmt } from './model';
-import { replaceFix, warn } from './expand';
+import { capital, fmt, replaceFix, warn } from './findings';
 
 /** Appends an `expect` error for every expect line the result does not satisfy. */
 export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[]): void {
@@ -41,7 +40,7 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
         if (found < x.to - x.from + 1 && result.levels.length > 0) {
           const last = result.levels[result.levels.length - 1]!.n;
           if (x.to > last) {
-            out.push(warn('expect', span, `${cap(what)} cannot be checked: the expansion stops at level ${last} (raise \`basis\`).`));
+            out.push(warn('expect', span, `${capital(what)} cannot be checked: the expansion stops at level ${last} (raise \`basis\`).`));
             break;
           }
         }
@@ -54,7 +53,7 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
 
 function compare(c: ComparisonModel, measured: number | null, what: string, unit: string, span: { start: number; end: number }, out: EngineDiagnostic[]): void {
   if (measured === null) {
-    out.push(warn('expect', span, `${cap(what)} could not be measured (it diverges or the analysis stopped), so the expectation fails.`));
+    out.push(warn('expect', span, `${capital(what)} could not be measured (it diverges or the analysis stopped), so the expectation fails.`));
     return;
   }
   let ok: boolean;
@@ -84,8 +83,4 @@ function compare(c: ComparisonModel, measured: number | null, what: string, unit
 /** A measured value with 10 significant digits (enough for a tolerance of 1e-9 relative). */
 function measuredText(v: number): string {
   return String(Number(v.toPrecision(10)));
-}
-
-function cap(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
 }

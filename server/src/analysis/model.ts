@@ -10,8 +10,10 @@ import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../expr/sandbox';
 import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
-import { makeUnitSystem, createScope } from '../expr/units';
+import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
+import { isReservedName } from '../language/reserved';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { capital, fmt } from './findings';
 
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
@@ -76,8 +78,11 @@ export interface ModelOptions {
   /** Longest expression and deepest bracket nesting the sandbox parses (its own defaults when absent). */
   maxExpressionLength?: number;
   maxNesting?: number;
-  /** When false only syntax and sandbox checks run; no value is evaluated. */
-  evaluate: boolean;
+  /**
+   * Ignored: the model always evaluates (untrusted files go through `analyseUntrusted`, which builds
+   * no model). Accepted until the language server stops passing it.
+   */
+  evaluate?: boolean;
 }
 
 
@@ -95,18 +100,30 @@ class ModelBuilder {
   private scope!: Scope;
   private errors = 0;
   private readonly lets: Model['lets'] = new Map();
+  /** Reserved names a `let` tried to define: refused once there, so their later uses add no finding. */
+  private readonly refused = new Set<string>();
+  /** The parts of the model the statements fill in. */
+  private readonly model: Pick<Model, 'mass' | 'system' | 'state' | 'basis' | 'expects' | 'evolve'>;
 
   constructor(
     private readonly file: QFile,
     private readonly options: ModelOptions,
     private readonly out: EngineDiagnostic[],
-  ) {}
+  ) {
+    this.model = { mass: 1, system: null, state: null, basis: { value: options.defaultBasis, stmt: null }, expects: [], evolve: null };
+  }
 
   private push(d: EngineDiagnostic[]): void {
     for (const x of d) {
+      if (this.refusedUse(x)) continue;
       this.out.push(x);
       if (x.severity === 'error') this.errors++;
     }
+  }
+
+  /** A finding on a later use of a refused reserved name (already reported where it was defined). */
+  private refusedUse(d: EngineDiagnostic): boolean {
+    return this.refused.size > 0 && (d.code === 'forbidden' || d.code === 'name') && this.refused.has(this.file.text.slice(d.start, d.end));
   }
 
   private error(code: Parameters<typeof diagnostic>[0], span: Span, message: string): void {
@@ -122,103 +139,80 @@ class ModelBuilder {
       if (u.result) this.units = u.result;
     }
     this.scope = createScope(this.units);
-
-    let mass = 1;
-    let system: Model['system'] = null;
-    let state: Model['state'] = null;
-    let basis: Model['basis'] = { value: this.options.defaultBasis, stmt: null };
-    const expects: ExpectModel[] = [];
-    let evolve: Model['evolve'] = null;
     // A physical file defaults to the electron mass.
     const me = this.scope.values.get('m_e');
-    if (this.units.mode === 'physical' && me) mass = me.value.re;
-
-    for (const stmt of statements) {
-      switch (stmt.kind) {
-        case 'units':
-          break;
-        case 'mass': {
-          const v = this.constant(stmt.expr, 'mass', 'the mass');
-          if (v !== null) {
-            if (!(v > 0) || !Number.isFinite(v)) this.error('evaluation', stmt.expr, 'The mass must be positive and finite.');
-            else mass = v;
-          }
-          break;
-        }
-        case 'let': {
-          if (!this.options.evaluate) {
-            this.syntaxOnly(stmt.expr);
-            break;
-          }
-          const e = this.expr(stmt.expr);
-          if (!e) break;
-          const checked = checkExpression(e, this.scope, null, `'${stmt.name}'`);
-          this.push(checked.diagnostics);
-          if (checked.dimension === null) break;
-          const v = evaluateConstant(e, this.scope);
-          this.push(v.diagnostics);
-          if (!v.result) break;
-          this.scope.values.set(stmt.name, {
-            value: v.result.value,
-            dimension: v.result.dimension,
-            definedAt: stmt.nameSpan,
-          });
-          this.lets.set(stmt.name, {
-            value: v.result.value,
-            dimension: v.result.dimension,
-            span: stmt.nameSpan,
-            valueSpan: stmt.expr,
-          });
-          break;
-        }
-        case 'system': {
-          const m = this.system(stmt.system);
-          if (m) system = { model: m, stmt };
-          break;
-        }
-        case 'state':
-          break; // Handled after all statements, when the system (for phi) is known.
-        case 'basis': {
-          const n = this.integer(stmt.expr, 'the basis size', 1, this.options.maxBasis);
-          if (n !== null) basis = { value: n, stmt };
-          break;
-        }
-        case 'expect': {
-          const m = this.expect(stmt);
-          if (m) expects.push(m);
-          break;
-        }
-        case 'evolve': {
-          const t = this.constant(stmt.to, 'time', 'the evolution time');
-          let steps = 200;
-          if (stmt.steps) {
-            const k = this.integer(stmt.steps, 'the number of steps', 1, this.options.maxEvolveSteps);
-            if (k !== null) steps = k;
-          }
-          if (t !== null) {
-            if (!(t > 0) || !Number.isFinite(t)) this.error('evaluation', stmt.to, 'The evolution time must be positive and finite.');
-            else evolve = { to: t, steps, stmt };
-          }
-          break;
-        }
-      }
-    }
+    if (this.units.mode === 'physical' && me) this.model.mass = me.value.re;
+    for (const stmt of statements) this.statement(stmt);
     const stateStmt = statements.find((s) => s.kind === 'state');
     if (stateStmt && stateStmt.kind === 'state') {
-      const m = this.state(stateStmt.state, system !== null);
-      if (m) state = { model: m, stmt: stateStmt };
+      const m = this.state(stateStmt.state, this.model.system !== null);
+      if (m) this.model.state = { model: m, stmt: stateStmt };
     }
-    return {
-      units: this.units,
-      mass,
-      system,
-      state,
-      basis,
-      expects,
-      evolve,
-      lets: this.lets,
-      ok: this.errors === 0,
-    };
+    return { ...this.model, units: this.units, lets: this.lets, ok: this.errors === 0 };
+  }
+
+  /** One statement into the model (the state waits until the system, which `phi` needs, is known). */
+  private statement(stmt: Statement): void {
+    const m = this.model;
+    switch (stmt.kind) {
+      case 'units':
+      case 'state':
+        return;
+      case 'mass': {
+        const v = this.constant(stmt.expr, 'mass', 'the mass');
+        if (v === null) return;
+        if (!(v > 0) || !Number.isFinite(v)) this.error('evaluation', stmt.expr, 'The mass must be positive and finite.');
+        else m.mass = v;
+        return;
+      }
+      case 'let':
+        return this.let(stmt);
+      case 'system': {
+        const sys = this.system(stmt.system);
+        if (sys) m.system = { model: sys, stmt };
+        return;
+      }
+      case 'basis': {
+        const n = this.integer(stmt.expr, 'the basis size', 1, this.options.maxBasis);
+        if (n !== null) m.basis = { value: n, stmt };
+        return;
+      }
+      case 'expect': {
+        const x = this.expect(stmt);
+        if (x) m.expects.push(x);
+        return;
+      }
+      case 'evolve': {
+        const t = this.constant(stmt.to, 'time', 'the evolution time');
+        let steps = 200;
+        if (stmt.steps) {
+          const k = this.integer(stmt.steps, 'the number of steps', 1, this.options.maxEvolveSteps);
+          if (k !== null) steps = k;
+        }
+        if (t === null) return;
+        if (!(t > 0) || !Number.isFinite(t)) this.error('evaluation', stmt.to, 'The evolution time must be positive and finite.');
+        else m.evolve = { to: t, steps, stmt };
+        return;
+      }
+    }
+  }
+
+  /** A `let`: a reserved name is refused where it is defined; any other name gets its value. */
+  private let(stmt: Extract<Statement, { kind: 'let' }>): void {
+    if (isReservedName(stmt.name)) {
+      this.refused.add(stmt.name);
+      this.out.push(reservedFinding(stmt));
+      this.errors++;
+      return;
+    }
+    const e = this.expr(stmt.expr);
+    if (!e) return;
+    // evaluateConstant checks names and dimensions itself (no dimension is expected of a `let`).
+    const v = evaluateConstant(e, this.scope);
+    this.push(v.diagnostics);
+    if (!v.result) return;
+    this.scope.values.set(stmt.name, { value: v.result.value, dimension: v.result.dimension, definedAt: stmt.nameSpan });
+    this.lets.set(stmt.name, { value: v.result.value, dimension: v.result.dimension, span: stmt.nameSpan, valueSpan: stmt.expr });
   }
 
   private expr(src: ExprText): Expr | null {
@@ -227,32 +221,29 @@ class ModelBuilder {
     return p.result;
   }
 
-  private syntaxOnly(src: ExprText): void {
-    this.expr(src);
-  }
-
-  /** Parses, checks and evaluates a constant of the given kind; returns its real value or null. */
+  /**
+   * Parses, checks and evaluates a constant of the given kind; returns its real value or null. The
+   * names and dimension are checked once, inside `evaluateConstant`; `checkExpression` runs again only
+   * to word a dimension that differs from the one expected (a literal 0 fits any and passes there).
+   */
   private constant(src: ExprText, kind: ValueKind, what: string): number | null {
     const e = this.expr(src);
-    if (!e || !this.options.evaluate) return null;
-    const checked = checkExpression(e, this.scope, dimensionOf(kind, this.units), what);
-    this.push(checked.diagnostics);
-    if (checked.dimension === null || checked.diagnostics.some((d) => d.severity === 'error')) return null;
+    if (!e) return null;
     const v = evaluateConstant(e, this.scope);
     this.push(v.diagnostics);
     if (!v.result) return null;
-    const { re, im } = v.result.value;
-    if (!Number.isFinite(re) || !Number.isFinite(im)) {
-      this.error('evaluation', src, `${capital(what)} is not a finite number.`);
-      return null;
+    const expected = dimensionOf(kind, this.units);
+    if (this.units.mode === 'physical' && !sameDimension(v.result.dimension, expected)) {
+      const worded = checkExpression(e, this.scope, expected, what).diagnostics;
+      this.push(worded);
+      if (worded.some((d) => d.severity === 'error')) return null;
     }
+    const { re, im } = v.result.value;
     if (Math.abs(im) > 1e-12 * Math.max(1, Math.abs(re))) {
       this.error('evaluation', src, `${capital(what)} must be real, but it is complex (${fmt(re)} + ${fmt(im)} i).`);
       return null;
     }
-    let value = re;
-    if (kind === 'frequency') value *= 2 * Math.PI;
-    return value;
+    return kind === 'frequency' ? re * 2 * Math.PI : re;
   }
 
   private integer(src: ExprText, what: string, min: number, max: number): number | null {
@@ -280,100 +271,96 @@ class ModelBuilder {
   }
 
   private system(spec: SystemSpec): SystemModel | null {
-    if (!this.options.evaluate) {
-      if (spec.kind === 'potential') {
-        this.syntaxOnly(spec.expr);
-        this.syntaxOnly(spec.from);
-        this.syntaxOnly(spec.to);
-      } else for (const a of spec.args) this.syntaxOnly(a.value);
-      return null;
-    }
     switch (spec.kind) {
-      case 'box': {
-        const pos = spec.args.filter((a) => a.name === null);
-        const named = this.args(spec.args);
-        const aArg = pos[0] ?? named.get('left');
-        const bArg = pos[1] ?? named.get('right');
-        if (!aArg || !bArg) return null;
-        const a = this.constant(aArg.value, 'length', "the box's left end");
-        const b = this.constant(bArg.value, 'length', "the box's right end");
-        if (a === null || b === null) return null;
-        if (!(b > a)) {
-          this.error('evaluation', spec.span, `The box's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
-          return null;
-        }
-        return { kind: 'box', a, b, span: spec.span };
-      }
-      case 'well': {
-        const named = this.args(spec.args);
-        const d = named.get('depth');
-        const w = named.get('width');
-        if (!d || !w) return null;
-        const depth = this.constant(d.value, 'energy', "the well's depth");
-        const width = this.constant(w.value, 'length', "the well's width");
-        const c = named.get('center');
-        const center = c ? this.constant(c.value, 'length', "the well's centre") : 0;
-        if (depth === null || width === null || center === null) return null;
-        if (!(depth > 0)) {
-          this.error('evaluation', d.value, `The well's depth must be positive (it is the potential outside the well), not ${fmt(depth)}.`);
-          return null;
-        }
-        if (!(width > 0)) {
-          this.error('evaluation', w.value, `The well's width must be positive, not ${fmt(width)}.`);
-          return null;
-        }
-        return { kind: 'well', depth, width, center, span: spec.span };
-      }
-      case 'oscillator': {
-        const named = this.args(spec.args);
-        let omega: number | null = null;
-        const o = named.get('omega');
-        const f = named.get('frequency');
-        const q = named.get('quantum');
-        const given = o ?? f ?? q;
-        if (!given) return null;
-        if (o) omega = this.constant(o.value, 'angularFrequency', 'the angular frequency');
-        else if (f) omega = this.constant(f.value, 'frequency', 'the frequency');
-        else if (q) omega = this.constant(q.value, 'energy', 'the oscillator quantum'); // hbar = 1 internally
-        const c = named.get('center');
-        const center = c ? this.constant(c.value, 'length', "the oscillator's centre") : 0;
-        if (omega === null || center === null) return null;
-        if (!(omega > 0)) {
-          this.error('evaluation', given.value, `The oscillator's frequency must be positive, not ${fmt(omega)}.`);
-          return null;
-        }
-        return { kind: 'oscillator', omega, center, span: spec.span };
-      }
-      case 'potential': {
-        const a = this.constant(spec.from, 'length', "the interval's left end");
-        const b = this.constant(spec.to, 'length', "the interval's right end");
-        const e = this.expr(spec.expr);
-        if (!e) return null;
-        const scope: Scope = { ...this.scope, hasX: true, hasPhi: false };
-        const checked = checkExpression(e, scope, dimensionOf('energy', this.units), 'the potential');
-        this.push(checked.diagnostics);
-        if (checked.dimension === null || a === null || b === null) return null;
-        if (!(b > a)) {
-          this.error('evaluation', spec.span, `The interval's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
-          return null;
-        }
-        const c = compileFunction(e, scope);
-        this.push(c.diagnostics);
-        if (!c.result) return null;
-        return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
-      }
+      case 'box':
+        return this.box(spec);
+      case 'well':
+        return this.well(spec);
+      case 'oscillator':
+        return this.oscillator(spec);
+      case 'potential':
+        return this.potential(spec);
     }
   }
 
-  private state(spec: StateSpec, hasSystem: boolean): StateModel | null {
-    if (!this.options.evaluate) {
-      if (spec.kind === 'psi') this.syntaxOnly(spec.expr);
-      else if (spec.kind === 'eigen') {
-        this.syntaxOnly(spec.level);
-        this.system(spec.system);
-      } else for (const a of spec.args) this.syntaxOnly(a.value);
+  private box(spec: Extract<SystemSpec, { kind: 'box' }>): SystemModel | null {
+    const pos = spec.args.filter((a) => a.name === null);
+    const named = this.args(spec.args);
+    const aArg = pos[0] ?? named.get('left');
+    const bArg = pos[1] ?? named.get('right');
+    if (!aArg || !bArg) return null;
+    const a = this.constant(aArg.value, 'length', "the box's left end");
+    const b = this.constant(bArg.value, 'length', "the box's right end");
+    if (a === null || b === null) return null;
+    if (!(b > a)) {
+      this.error('evaluation', spec.span, `The box's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
       return null;
     }
+    return { kind: 'box', a, b, span: spec.span };
+  }
+
+  private well(spec: Extract<SystemSpec, { kind: 'well' }>): SystemModel | null {
+    const named = this.args(spec.args);
+    const d = named.get('depth');
+    const w = named.get('width');
+    if (!d || !w) return null;
+    const depth = this.constant(d.value, 'energy', "the well's depth");
+    const width = this.constant(w.value, 'length', "the well's width");
+    const c = named.get('center');
+    const center = c ? this.constant(c.value, 'length', "the well's centre") : 0;
+    if (depth === null || width === null || center === null) return null;
+    if (!(depth > 0)) {
+      this.error('evaluation', d.value, `The well's depth must be positive (it is the potential outside the well), not ${fmt(depth)}.`);
+      return null;
+    }
+    if (!(width > 0)) {
+      this.error('evaluation', w.value, `The well's width must be positive, not ${fmt(width)}.`);
+      return null;
+    }
+    return { kind: 'well', depth, width, center, span: spec.span };
+  }
+
+  private oscillator(spec: Extract<SystemSpec, { kind: 'oscillator' }>): SystemModel | null {
+    const named = this.args(spec.args);
+    let omega: number | null = null;
+    const o = named.get('omega');
+    const f = named.get('frequency');
+    const q = named.get('quantum');
+    const given = o ?? f ?? q;
+    if (!given) return null;
+    if (o) omega = this.constant(o.value, 'angularFrequency', 'the angular frequency');
+    else if (f) omega = this.constant(f.value, 'frequency', 'the frequency');
+    else if (q) omega = this.constant(q.value, 'energy', 'the oscillator quantum'); // hbar = 1 internally
+    const c = named.get('center');
+    const center = c ? this.constant(c.value, 'length', "the oscillator's centre") : 0;
+    if (omega === null || center === null) return null;
+    if (!(omega > 0)) {
+      this.error('evaluation', given.value, `The oscillator's frequency must be positive, not ${fmt(omega)}.`);
+      return null;
+    }
+    return { kind: 'oscillator', omega, center, span: spec.span };
+  }
+
+  private potential(spec: Extract<SystemSpec, { kind: 'potential' }>): SystemModel | null {
+    const a = this.constant(spec.from, 'length', "the interval's left end");
+    const b = this.constant(spec.to, 'length', "the interval's right end");
+    const e = this.expr(spec.expr);
+    if (!e) return null;
+    const scope: Scope = { ...this.scope, hasX: true, hasPhi: false };
+    const checked = checkExpression(e, scope, dimensionOf('energy', this.units), 'the potential');
+    this.push(checked.diagnostics);
+    if (checked.dimension === null || a === null || b === null) return null;
+    if (!(b > a)) {
+      this.error('evaluation', spec.span, `The interval's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
+      return null;
+    }
+    const c = compileFunction(e, scope);
+    this.push(c.diagnostics);
+    if (!c.result) return null;
+    return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+  }
+
+  private state(spec: StateSpec, hasSystem: boolean): StateModel | null {
     switch (spec.kind) {
       case 'psi': {
         const e = this.expr(spec.expr);
@@ -390,11 +377,8 @@ class ModelBuilder {
       case 'eigen': {
         const level = this.integer(spec.level, 'the level', 0, this.options.maxBasis);
         const system = this.system(spec.system);
+        // Whether the level exists (and the system's first label) is a fact of its basis, checked when it is built.
         if (level === null || system === null) return null;
-        if (system.kind === 'oscillator' ? false : level < 1) {
-          this.error('evaluation', spec.level, 'Levels of this system are numbered from 1.');
-          return null;
-        }
         return { kind: 'eigen', level, levelSpan: spec.level, system };
       }
       case 'gaussian': {
@@ -434,17 +418,6 @@ class ModelBuilder {
   private expect(stmt: Statement): ExpectModel | null {
     if (stmt.kind !== 'expect') return null;
     const x = stmt.expectation;
-    if (!this.options.evaluate) {
-      if (x.kind === 'norm' || x.kind === 'energy' || x.kind === 'spread' || x.kind === 'weight') {
-        this.syntaxOnly(x.comparison.value);
-        if (x.comparison.kind === 'tolerance') this.syntaxOnly(x.comparison.tolerance);
-      }
-      if (x.kind === 'weight') {
-        this.syntaxOnly(x.from);
-        if (x.to) this.syntaxOnly(x.to);
-      }
-      return null;
-    }
     switch (x.kind) {
       case 'parity':
         return { kind: 'parity', stmt, value: x.value };
@@ -472,6 +445,11 @@ class ModelBuilder {
   }
 }
 
+/** The one finding for a `let` of a reserved name (language/reserved.ts), on the name. */
+export function reservedFinding(stmt: Extract<Statement, { kind: 'let' }>): EngineDiagnostic {
+  return diagnostic('name', stmt.nameSpan.start, stmt.nameSpan.end, `'${stmt.name}' is a reserved name and cannot be defined; choose another name.`, { severity: 'error' });
+}
+
 /** True when the expression mentions `name` as a symbol or a call. */
 export function usesName(e: Expr, name: string): boolean {
   let found = false;
@@ -480,20 +458,6 @@ export function usesName(e: Expr, name: string): boolean {
   });
   return found;
 }
-
-function capital(s: string): string {
-  return s.charAt(0).toUpperCase() + s.slice(1);
-}
-
-/** Formats a number for messages: up to 6 significant digits. */
-export function fmt(v: number): string {
-  if (!Number.isFinite(v)) return String(v);
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e6) return String(Number(v.toPrecision(6)));
-  return v.toExponential(4).replace('e+', 'e');
-}
-
 
 /** The names an expression refers to (symbols and called functions). */
 function namesOf(e: Expr, into: Set<string>): Set<string> {

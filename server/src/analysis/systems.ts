@@ -7,21 +7,35 @@ import type { GridValues, PhiProvider } from '../expr/types';
 import { boxBasis } from '../physics/box';
 import { wellBasis } from '../physics/well';
 import { oscillatorBasis } from '../physics/oscillator';
-import { potentialBasis } from '../physics/potential';
+import { potentialBasis, type PotentialBasisResult } from '../physics/potential';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
+import { physicsTiming, type Budget, type StopReason } from './context';
+import { fmt, plural } from './findings';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
   basis: Eigenbasis;
-  /** Numerical systems: indices of levels above the potential at both walls (box-quantised continuum). */
-  wallArtefacts?: number[];
-  /** Numerical systems: the first level index not resolved to tolerance, or null. */
+  /**
+   * Numerical systems: indices of the wall-only levels, as the solver reports them (`wallLevels`,
+   * `wallEnds`), kept by the one documented rule: a level above the potential at both truncating walls
+   * is a box-quantised stand-in for the continuum.
+   */
+  wallLevels?: number[];
+  /** Numerical systems: the label of the first level not resolved to tolerance, or null. */
   unresolved?: number | null;
   /** Numerical systems: grid points used. */
   points?: number;
-  /** Numerical systems: refinement was stopped by the analysis's time limit. */
-  timeLimited?: boolean;
+  /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
+  stopped?: StopReason | null;
+}
+
+/** Options of `buildBasis` and `buildState`. */
+export interface BuildOptions {
+  /** The grid cap of the analysis. */
+  maxGridPoints: number;
+  /** The budget of the analysis. */
+  budget: Budget;
 }
 
 /** How many solved numerical bases are kept (least recently used dropped first). */
@@ -53,7 +67,7 @@ export function buildBasis(
   mass: number,
   count: number,
   out: EngineDiagnostic[],
-  options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
+  options: BuildOptions,
 ): BuiltBasis | null {
   switch (system.kind) {
     case 'box':
@@ -62,93 +76,88 @@ export function buildBasis(
       return { basis: wellBasis(system.depth, system.width, system.center, mass) };
     case 'oscillator':
       return { basis: oscillatorBasis(system.omega, system.center, mass, count) };
-    case 'potential': {
-      const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}`;
-      const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
-      if (hit && memoKey !== null) {
-        // Most recently used last.
-        basisMemo.delete(memoKey);
-        basisMemo.set(memoKey, hit);
-        return hit;
-      }
-      const V = system.V;
-      let bad: { x: number; value: string } | null = null;
-      const evalV = (xs: Float64Array): Float64Array => {
-        const v = V.evaluate(xs, 0);
-        const re = v.re;
-        for (let j = 0; j < xs.length && bad === null; j++) {
-          if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: Number.isNaN(re[j]!) ? 'not a number' : re[j]! > 0 ? 'infinite' : 'minus infinity' };
-          else if (Math.abs(v.im[j]!) > 1e-12 * Math.max(1, Math.abs(re[j]!))) bad = { x: xs[j]!, value: 'complex' };
-        }
-        return re;
-      };
-      // Probe the potential before solving so a bad value is reported, not solved with.
-      const probe = new Float64Array(513);
-      for (let j = 0; j < probe.length; j++) probe[j] = system.a + ((j + 0.5) / probe.length) * (system.b - system.a);
-      evalV(probe);
-      if (bad !== null) {
-        const b = bad as { x: number; value: string };
-        out.push(
-          diagnostic(
-            'evaluation',
-            system.exprSpan.start,
-            system.exprSpan.end,
-            b.value === 'complex'
-              ? `The potential is complex at x = ${short(b.x)}; it must be real.`
-              : `The potential is ${b.value} at x = ${short(b.x)}; it must be finite inside the interval.`,
-          ),
-        );
-        return null;
-      }
-      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: options.deadline });
-      if (bad !== null) {
-        const b = bad as { x: number; value: string };
-        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
-        return null;
-      }
-      if (solved.basis.count === 0) {
-        const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
-        // The solver's notes name raw values; say them in words.
-        const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
-        out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
-        return null;
-      }
-      const timeLimited = solved.notes.some((n) => n.kind === 'cap' && n.message.startsWith('The time limit'));
-      const built: BuiltBasis = {
-        basis: solved.basis,
-        wallArtefacts: wallArtefacts(solved.basis, probe, evalV(probe)),
-        unresolved: solved.unresolved,
-        points: solved.points,
-        timeLimited,
-      };
-      // A solve cut short by the time limit is not kept: the next edit deserves a full one.
-      if (memoKey !== null && !timeLimited) {
-        basisMemo.set(memoKey, built);
-        while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
-      }
-      return built;
-    }
+    case 'potential':
+      return solvePotential(system, mass, count, out, options);
   }
 }
 
-/**
- * Levels that exist only because of an artificial wall. A wall is taken to stand in for open space
- * when the potential rises or levels off towards it (a Morse curve's dissociation side, the far side of
- * a double well); it is taken as deliberate when the potential falls towards it (a hard wall at the
- * bottom of a linear ramp). Levels above the potential at an open wall are box-quantised continuum.
- */
-function wallArtefacts(basis: Eigenbasis, xs: Float64Array, v: Float64Array): number[] {
-  const n = xs.length;
-  const k = Math.max(2, Math.floor(n / 10));
-  const scale = Math.max(1e-300, ...Array.from(v, Math.abs));
-  const openLeft = v[0]! >= v[k]! - 1e-9 * scale;
-  const openRight = v[n - 1]! >= v[n - 1 - k]! - 1e-9 * scale;
-  const out: number[] = [];
-  for (let i = 0; i < basis.count; i++) {
-    const e = basis.energies[i]!;
-    if ((openLeft && e > v[0]!) || (openRight && e > v[n - 1]!)) out.push(i);
+/** A numerical system's basis: V probed for bad values, solved, and remembered in the memo. */
+function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mass: number, count: number, out: EngineDiagnostic[], options: BuildOptions): BuiltBasis | null {
+  const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}`;
+  const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
+  if (hit && memoKey !== null) {
+    // Most recently used last.
+    basisMemo.delete(memoKey);
+    basisMemo.set(memoKey, hit);
+    return hit;
   }
-  return out;
+  const V = system.V;
+  let bad: { x: number; value: string } | null = null;
+  const evalV = (xs: Float64Array): Float64Array => {
+    const v = V.evaluate(xs, 0);
+    const re = v.re;
+    for (let j = 0; j < xs.length && bad === null; j++) {
+      if (!Number.isFinite(re[j]!)) bad = { x: xs[j]!, value: Number.isNaN(re[j]!) ? 'not a number' : re[j]! > 0 ? 'infinite' : 'minus infinity' };
+      else if (Math.abs(v.im[j]!) > 1e-12 * Math.max(1, Math.abs(re[j]!))) bad = { x: xs[j]!, value: 'complex' };
+    }
+    return re;
+  };
+  // Probe the potential before solving so a bad value is reported, not solved with.
+  const probe = new Float64Array(513);
+  for (let j = 0; j < probe.length; j++) probe[j] = system.a + ((j + 0.5) / probe.length) * (system.b - system.a);
+  evalV(probe);
+  if (bad !== null) {
+    const b = bad as { x: number; value: string };
+    out.push(
+      diagnostic(
+        'evaluation',
+        system.exprSpan.start,
+        system.exprSpan.end,
+        b.value === 'complex'
+          ? `The potential is complex at x = ${fmt(b.x)}; it must be real.`
+          : `The potential is ${b.value} at x = ${fmt(b.x)}; it must be finite inside the interval.`,
+      ),
+    );
+    return null;
+  }
+  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: physicsTiming(options.budget).deadline });
+  if (bad !== null) {
+    const b = bad as { x: number; value: string };
+    out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
+    return null;
+  }
+  if (solved.basis.count === 0) {
+    const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
+    // The solver's notes name raw values; say them in words.
+    const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
+    out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
+    return null;
+  }
+  const stopped = solverStop(solved, options.budget);
+  const built: BuiltBasis = {
+    basis: solved.basis,
+    wallLevels: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
+    unresolved: solved.unresolved,
+    points: solved.points,
+    stopped,
+  };
+  // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
+  if (memoKey !== null && (stopped === null || stopped === 'cap')) {
+    basisMemo.set(memoKey, built);
+    while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
+  }
+  return built;
+}
+
+/**
+ * Why the solver stopped short, as data. Glue until the physics layer returns `stopped` itself (its
+ * budget conversion adds that field): then it is read from the result; before, a solve that left
+ * levels unresolved stopped on the time limit when the budget has run out, else on a grid cap.
+ */
+function solverStop(solved: PotentialBasisResult, budget: Budget): StopReason | null {
+  if ('stopped' in solved) return (solved as { stopped: StopReason | null }).stopped;
+  if (solved.unresolved === null) return null;
+  return budget.expired() ? budget.reason : 'cap';
 }
 
 /** Something that can be evaluated on a grid: the state as written (not normalised). */
@@ -256,34 +265,29 @@ export function eigenState(basis: Eigenbasis, k: number): StateFunction {
   };
 }
 
-/** Index of a level label in a basis. */
-export function levelIndex(basis: Eigenbasis, n: number): number {
-  return n - basis.firstLabel;
-}
-
 /** Builds the state function of a state model; `basis` is the target system's basis (for phi). */
 export function buildState(
   state: StateModel,
   target: Eigenbasis | null,
   mass: number,
   out: EngineDiagnostic[],
-  options: { maxGridPoints: number; cancelled?: () => boolean; deadline?: number },
+  options: BuildOptions,
 ): StateFunction | null {
   switch (state.kind) {
     case 'gaussian':
       return gaussianState(state.center, state.width, state.momentum);
     case 'eigen': {
-      const k0 = state.system.kind === 'oscillator' ? state.level : state.level - 1;
-      const built = buildBasis(state.system, mass, k0 + 1, out, options);
+      // Labels start at the basis's first label (0 or 1), so level + 1 levels always include it.
+      const built = buildBasis(state.system, mass, state.level + 1, out, options);
       if (!built) return null;
+      const k0 = state.level - built.basis.firstLabel;
+      if (k0 < 0) {
+        out.push(diagnostic('evaluation', state.levelSpan.start, state.levelSpan.end, `Levels of this system are numbered from ${built.basis.firstLabel}.`));
+        return null;
+      }
       if (k0 >= built.basis.count) {
         out.push(
-          diagnostic(
-            'evaluation',
-            state.levelSpan.start,
-            state.levelSpan.end,
-            `Level ${state.level} does not exist: that system has ${built.basis.count} bound level${built.basis.count === 1 ? '' : 's'}.`,
-          ),
+          diagnostic('evaluation', state.levelSpan.start, state.levelSpan.end, `Level ${state.level} does not exist: that system has ${plural(built.basis.count, 'bound level')}.`),
         );
         return null;
       }
@@ -322,8 +326,4 @@ export class MissingLevel extends Error {
   constructor(readonly level: number) {
     super(`phi(${level}, x) is not a level of this system`);
   }
-}
-
-function short(x: number): string {
-  return Number(x.toPrecision(6)).toString();
 }

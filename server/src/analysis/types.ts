@@ -80,7 +80,19 @@ export interface AnalysisResult {
   levelsFor999: number | null;
   evolution: EvolutionResult | null;
   samples: SampleResult | null;
-  /** Milliseconds spent. */
+  /**
+   * A point where the state is infinite, as measured: |psi| ~ |x - x0|^-power (or logarithmic growth),
+   * whether |psi|^2 is integrable across it, and (for an integrable spike) the share of |psi|^2 too close
+   * to it for double precision to sample. Optional; absent or null when there is none.
+   */
+  singularity?: { x: number; power: number; logarithmic: boolean; integrable: boolean; unresolvedWeight: number } | null;
+  /**
+   * Work the analysis's budget counted: `ops` (one per level per node projected, one per node
+   * evaluated) and `points` (nodes evaluated). Deterministic for a given file and caps, so tests can
+   * bound a stage's cost without timing it. Optional.
+   */
+  work?: { ops: number; points: number };
+  /** Milliseconds spent (on the analysis's clock). */
   elapsedMs: number;
   /**
    * The value of each `let` name in the file's units (for hovers and inlay hints), in file order.

@@ -1,9 +1,12 @@
 /**
  * Renderings of an analysis result for the command line: JSON (the fixed contract), CSV and a table.
+ * Lines and columns come from the one offset-to-line table (analysis/positions.ts), numbers in the
+ * table from the one formatter (shared/numbers.ts).
  */
 import type { AnalysisResult } from '../analysis/types';
 import type { EngineDiagnostic } from '../language/catalogue';
 import { lineTable, positionAt, type LineTable } from '../analysis/positions';
+import { formatNumber } from '../shared/numbers';
 
 /** A diagnostic with 1-based lines and columns, as the JSON and `check` print them. */
 export interface LocatedDiagnostic {
@@ -76,13 +79,8 @@ export function renderCsv(result: AnalysisResult): string {
   return rows.join('\n') + '\n';
 }
 
-function num(v: number | null | undefined, digits = 6): string {
-  if (v === null || v === undefined) return '—';
-  if (!Number.isFinite(v)) return String(v);
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  return a >= 1e-3 && a < 1e6 ? v.toPrecision(digits) : v.toExponential(digits - 1);
-}
+/** A number in the table, through the one formatter every front end shares. */
+const num = formatNumber;
 
 /** `expand --table` and `demo`: a readable summary with the levels table. */
 export function renderTable(result: AnalysisResult, text: string, file: string): string {

@@ -1,0 +1,221 @@
+/**
+ * The findings about a system and a state, one small check per family (limits of the expansion, norm,
+ * walls, a spike, convergence, parity, capture): each `(measurements, context) => diagnostics`, pure
+ * wording of numbers measure.ts computed. Nothing here computes physics.
+ */
+import type { EngineDiagnostic, FixData } from '../language/catalogue';
+import type { Span, Statement } from '../language/ast';
+import type { Eigenbasis } from '../physics/types';
+import type { Model } from './model';
+import type { Limits } from './options';
+import { MissingLevel, type BuiltBasis } from './systems';
+import { BadValue } from './expand';
+import { TOL, type StateMeasurements, type Stop } from './measure';
+import { captureText, fmt, formatFactor, growthText, notSquareIntegrable, pct, plural, replaceFix, warn } from './findings';
+
+/** What the checks need besides the measurements. */
+export interface CheckContext {
+  model: Model;
+  basis: Eigenbasis;
+  /** Where findings about the state go: its formula, or the state line. */
+  stateSpan: Span;
+  /** The system's statement (a `basis` line is inserted after it). */
+  systemStmt: Statement;
+  limits: Limits;
+}
+
+/** One family of findings about a measured state. */
+export type StateCheck = (m: StateMeasurements, ctx: CheckContext) => EngineDiagnostic[];
+
+/** The finding that says why a state could not be measured. */
+export function stopFinding(s: Stop, ctx: CheckContext): EngineDiagnostic {
+  const span = ctx.stateSpan;
+  const basis = ctx.basis;
+  switch (s.stop) {
+    case 'noFalloff':
+      return warn('norm', span, 'The state does not fall off away from the system: |psi|^2 cannot be integrated over the line.', undefined, 'error');
+    case 'missingLevel':
+      return warn('evaluation', span, `'phi(${s.level}, x)' is not a level of this system: levels run from ${basis.firstLabel} to ${basis.firstLabel + basis.count - 1}${basis.kind === 'well' ? '' : ' (raise `basis`)'}.`);
+    case 'noTime':
+      return warn('limits', span, `The time limit of ${ctx.limits.maxMillis} ms ran out before the state was projected on a first grid; lower \`basis\` or raise the limit.`);
+    case 'notSquareIntegrable':
+      return warn('norm', span, notSquareIntegrable(s.singular), undefined, 'error');
+    case 'overflow':
+      return warn('evaluation', span, 'The integral of |psi|^2 overflows (the state is too large to square in double precision); scale the state down.', undefined, 'error');
+    case 'underflow':
+      return warn('norm', span, 'The state is so small that |psi|^2 underflows to zero in double precision; multiply it by a large factor.', undefined, 'error');
+    case 'tooNarrow':
+      return warn('norm', span, `The state is far narrower than the system's extent (${fmt(s.window[0])} to ${fmt(s.window[1])}), so the grid misses it; check the mass and the system's size.`, undefined, 'error');
+    case 'zero':
+      return warn('norm', span, 'The state is zero everywhere in the system; there is nothing to expand.', undefined, 'error');
+    case 'notFinite':
+      // Overflowing or underflowing parameters (a mass of 1e-300) make coefficients NaN or energies infinite.
+      return warn('evaluation', span, "The coefficients or level energies are not finite numbers: the system's, the mass's or the state's values are beyond what double precision can compute; rescale them.", undefined, 'error');
+  }
+}
+
+/** Facts of the basis itself: a well's bound-state count, levels the solver left unresolved, wall-only levels. */
+export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckContext): EngineDiagnostic[] {
+  const out: EngineDiagnostic[] = [];
+  const basis = built.basis;
+  const sysSpan = ctx.systemStmt.span;
+  const basisStmt = ctx.model.basis.stmt;
+  if (basis.kind === 'well' && basisStmt && asked > basis.count) {
+    out.push(warn('basis', basisStmt.span, `The well holds ${plural(basis.count, 'bound state')}; basis ${asked} is capped at ${basis.count}.`, undefined, 'info'));
+  }
+  // Unresolved levels after a cancellation need no finding: a cancelled analysis is not shown.
+  if (built.unresolved !== undefined && built.unresolved !== null && built.stopped !== 'cancelled') {
+    out.push(
+      warn('limits', sysSpan, built.stopped === 'time'
+        ? `The time limit stopped the solver's refinement: level ${built.unresolved} and above are not resolved to 1e-9; lower \`basis\` or raise the limit.`
+        : `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
+    );
+  }
+  if (built.wallLevels && built.wallLevels.length > 0) {
+    const first = built.wallLevels[0]! + basis.firstLabel;
+    out.push(warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential at both walls: they are the walls' box-quantised continuum, not bound states of the potential.`, undefined, 'info'));
+  }
+  return out;
+}
+
+/** Limits the expansion ran into: the time limit or the grid cap stopped the refinement. */
+export const checkExpansion: StateCheck = (m, ctx) => {
+  if (m.stopped === 'time') return [warn('limits', ctx.stateSpan, `The time limit of ${ctx.limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`)];
+  if (m.stopped === 'cap') return [warn('limits', ctx.stateSpan, `The grid cap of ${ctx.limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`)];
+  return [];
+};
+
+/** A formula whose integral of |psi|^2 is not 1, with the fix that normalises it. */
+export const checkNorm: StateCheck = (m, ctx) => {
+  const state = ctx.model.state?.model;
+  if (state?.kind !== 'psi' || !(Math.abs(m.norm - 1) > TOL)) return [];
+  const factorText = formatFactor(1 / Math.sqrt(m.norm));
+  const expr = state.expr;
+  return [
+    warn('norm', ctx.stateSpan, `The integral of |psi|^2 is ${fmt(m.norm)}, not 1; results are for the normalised state. Multiply psi by ${factorText} to normalise it.`, [
+      replaceFix('Normalise the state', expr, `${factorText} * (${expr.text})`),
+    ]),
+  ];
+};
+
+/** The walls' boundary condition: the state's values at hard walls, weight outside them, weight piled against them. */
+export const checkWalls: StateCheck = (m, ctx) => {
+  const w = m.walls;
+  if (!w || !w.broken) return [];
+  const [a, b] = w.walls;
+  const [va, vb] = w.values;
+  const at = (x: number, v: number): string => (Number.isFinite(v) ? `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)}` : `psi is infinite at ${fmt(x)}`);
+  const problems: string[] = [];
+  if (va > w.tolerance && vb > w.tolerance) problems.push(`it is not zero at the hard walls (${at(a, va)}, ${at(b, vb)}, normalised)`);
+  else if (va > w.tolerance) problems.push(`it is not zero at the left wall (${at(a, va)}, normalised)`);
+  else if (vb > w.tolerance) problems.push(`it is not zero at the right wall (${at(b, vb)}, normalised)`);
+  if (w.outside > 1e-9) problems.push(`${pct(w.outside)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)} and is dropped`);
+  if (w.nearWalls !== null && w.nearWalls > 1e-8) problems.push(`${pct(w.nearWalls)} of |psi|^2 lies within 2% of the walls`);
+  let message = `The state breaks the walls' boundary condition: ${problems.join('; ')}.`;
+  let fixes: FixData[] | undefined;
+  const spec = ctx.systemStmt.kind === 'system' && ctx.systemStmt.system.kind === 'potential' ? ctx.systemStmt.system : null;
+  if (spec) {
+    const half = fmt((b - a) / 2);
+    message += ' The walls cut the state: widen the interval.';
+    fixes = [replaceFix('Widen the interval', { start: spec.from.start, end: spec.to.end }, `(${spec.from.text}) - ${half}, (${spec.to.text}) + ${half}`)];
+  } else if (va > w.tolerance || vb > w.tolerance) {
+    message += ' Its coefficients fall off only as 1/n and its energy mean is infinite.';
+  }
+  return [warn('boundary', ctx.stateSpan, message, fixes)];
+};
+
+/** An integrable spike: the infinite energy it brings, and the share of |psi|^2 too close to it for double precision. */
+export const checkSpike: StateCheck = (m, ctx) => {
+  const g = m.singular;
+  if (!g) return [];
+  const out = [
+    warn('convergence', ctx.stateSpan, `The state is infinite at x = ${fmt(g.x)}, growing like ${growthText(g)}: |psi|^2 is integrable there but |psi'|^2 is not, so the energy mean is infinite and the coefficients converge slowly.`),
+  ];
+  if (m.unresolvedNearSpike > 1e-9) {
+    out.push(
+      warn('limits', ctx.stateSpan, `Double precision cannot sample closer to x = ${fmt(g.x)} than about ${fmt(m.closest)}, and about ${fmt(m.unresolvedNearSpike)} of |psi|^2 lies that close; the norm and coefficients are accurate to about that.`, undefined, 'warning'),
+    );
+  }
+  return out;
+};
+
+/** Slow convergence: a jump, a kink, a slow decay, or high levels that carry energy the basis leaves out. */
+export const checkConvergence: StateCheck = (m, ctx) => {
+  const span = ctx.stateSpan;
+  const decay = m.decay;
+  const p = decay?.exponent != null ? ` |c_n| falls off as n^-${fmt(decay.exponent)}.` : '';
+  if (m.jumps.length > 0) return [warn('convergence', span, `The state jumps at x = ${fmt(m.jumps[0]!)}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`)];
+  if (m.walls?.broken) return []; // Already explained by the boundary finding.
+  if (m.kinks.length > 0) return [warn('convergence', span, `The state has a kink at x = ${fmt(m.kinks[0]!)}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info')];
+  if (decay && (decay.classification === 'jump' || decay.classification === 'kink')) {
+    return [warn('convergence', span, `The coefficients decay slowly, as for a ${decay.classification}, so ${decay.classification === 'jump' ? 'the energy mean is infinite' : 'the energy spread is infinite'}.${p}`)];
+  }
+  const basis = m.basis;
+  if (m.mean === null || basis.kind === 'well' || !(m.captured > 1 - 1e-3)) return [];
+  const scale = Math.max(Math.abs(m.mean), Math.abs(basis.energies[0]!), 1e-300);
+  const fromLevels = m.meanFromLevels / m.captured;
+  const rel = Math.abs(fromLevels - m.mean) / scale;
+  if (!(rel > 1e-3)) return [];
+  return [warn('convergence', span, `The energy mean from the levels computed (${fmt(fromLevels)}) differs from <psi|H|psi> (${fmt(m.mean)}) by ${pct(rel)}: the high levels carry energy the basis leaves out; raise \`basis\`.`)];
+};
+
+/** Symmetry: the levels that vanish for an even or odd state, or a state almost of one parity. */
+export const checkParity: StateCheck = (m, ctx) => {
+  const p = m.parity;
+  if (!p) return [];
+  const c = fmt(p.center);
+  // Levels of the other parity: index 1, 3, ... vanish for an even state, 0, 2, ... for an odd one.
+  const vanish = (parity: 'even' | 'odd'): string => {
+    const first = m.basis.firstLabel + (parity === 'even' ? 1 : 0);
+    return `n = ${first}, ${first + 2}, ${first + 4}, ...`;
+  };
+  if (p.parity !== 'mixed') return [warn('parity', ctx.stateSpan, `The state is ${p.parity} about x = ${c}: the levels ${vanish(p.parity)} vanish by symmetry.`, undefined, 'info')];
+  if (!(p.minor < 1e-3)) return [];
+  return [warn('parity', ctx.stateSpan, `The state is almost ${p.major} about x = ${c} but not quite: the ${p.major === 'even' ? 'odd' : 'even'} part carries ${pct(p.minor)} of the weight.`, undefined, 'warning')];
+};
+
+/** Capture: weight in a finite well's continuum, or a basis too small for the state (with the basis that suffices). */
+export const checkCapture: StateCheck = (m, ctx) => {
+  if (m.continuum !== null) {
+    if (!(m.continuum > TOL)) return [];
+    return [
+      warn('continuum', ctx.stateSpan, `${pct(m.continuum)} of the state lies outside the ${plural(m.basis.count, 'bound state')} (in the continuum of unbound states); the bound levels capture ${pct(m.captured)}.`),
+    ];
+  }
+  if (!(m.captured < 1 - TOL) || m.walls?.broken) return [];
+  const need = m.needed;
+  const basisStmt = ctx.model.basis.stmt;
+  const fixes: FixData[] | undefined =
+    need !== null && need <= ctx.limits.maxBasis
+      ? [basisStmt && basisStmt.kind === 'basis'
+          ? replaceFix(`Raise basis to ${need}`, basisStmt.expr, String(need))
+          : { kind: 'insert', title: `Add basis ${need}`, at: ctx.systemStmt.span.end, text: `\nbasis ${need}` }]
+      : undefined;
+  const count = m.levels.length;
+  const tail = need !== null ? ` ${need} levels capture all but 1e-6.` : ' Even the largest basis allowed does not capture all but 1e-6.';
+  return [warn('basis', basisStmt ? basisStmt.span : ctx.stateSpan, `The ${count} levels capture ${captureText(m.captured)} of the state, short of 1 by ${fmt(1 - m.captured)}.${tail}`, fixes)];
+};
+
+/** The state checks, in the order their findings are listed. */
+export const STATE_CHECKS: readonly StateCheck[] = [checkExpansion, checkNorm, checkWalls, checkSpike, checkConvergence, checkParity, checkCapture];
+
+/**
+ * The finding for a state that could not be evaluated (thrown by the measurement as `BadValue` or
+ * `MissingLevel`), on the state's formula; null for any other error.
+ */
+export function evaluationFinding(err: unknown, model: Model | null): EngineDiagnostic | null {
+  const st = model?.state?.stmt;
+  const span = st && st.kind === 'state' && st.state.kind === 'psi' ? st.state.expr : st?.span ?? { start: 0, end: 0 };
+  if (err instanceof MissingLevel) {
+    // Systems without walls evaluate the state while looking for its window, before the expansion.
+    return warn('evaluation', span, `'phi(${err.level}, x)' is not among the levels of the basis; raise \`basis\` until it includes level ${err.level}.`);
+  }
+  if (!(err instanceof BadValue)) return null;
+  if (err.growth && !err.growth.integrable) return warn('norm', span, notSquareIntegrable(err.growth), undefined, 'error');
+  if (err.growth) {
+    return warn('evaluation', span, `The state is infinite at x = ${fmt(err.x)}, growing like ${growthText(err.growth)} there: |psi|^2 is integrable, but the energy is infinite and the grid cannot sample that point. Remove the singularity or move it off x = ${fmt(err.x)}.`);
+  }
+  const what = Number.isNaN(err.value) ? 'not a number (as from 0/0 or Infinity - Infinity)' : `${err.value > 0 ? '+' : '-'}Infinity`;
+  const where = Number.isFinite(err.x) ? `x = ${fmt(err.x)}` : 'a point the grid cannot represent (a position overflows double precision)';
+  return warn('evaluation', span, `The state is ${what} at ${where}; it must be finite everywhere.`);
+}

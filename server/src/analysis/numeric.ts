@@ -1,0 +1,191 @@
+/**
+ * The numerical stage: the system's basis, the state's measurements, the findings of each check
+ * family, the `expect` lines, the evolution and the plot samples, in that order, under the one budget
+ * of the compute context.
+ */
+import type { AnalysisResult, EvolutionResult, LevelResult, SampleResult } from './types';
+import type { QFile } from '../language/ast';
+import type { Eigenbasis } from '../physics/types';
+import { evolve, revivalTime } from '../physics/evolution';
+import { timeToDisplay } from '../expr/units';
+import type { Model } from './model';
+import { buildBasis, buildState, type BuiltBasis, type StateFunction } from './systems';
+import { BadValue } from './expand';
+import { growthAt, type Singularity } from './singular';
+import { measureState, type StateMeasurements } from './measure';
+import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from './checks';
+import { checkExpects } from './expects';
+import { fmt, warn } from './findings';
+import { physicsTiming, type ComputeContext } from './context';
+
+/** What the numerical stage works on. */
+export interface NumericInput {
+  model: Model;
+  file: QFile;
+  ctx: ComputeContext;
+  /** Include plot samples for the panel. */
+  samples: boolean;
+}
+
+/** Runs the numerical stage, filling `result` (its diagnostics included). Throws `BadValue` and `MissingLevel` for the caller to word. */
+export function numericStage(input: NumericInput, result: AnalysisResult): void {
+  const { model, ctx } = input;
+  const out = result.diagnostics;
+  result.units = unitNames(model);
+  if (!model.system) {
+    const systemRejected = input.file.rejected?.some((r) => r.keyword === 'system') ?? false;
+    if (model.state && model.ok && !systemRejected) {
+      const st = model.state.stmt;
+      out.push(warn('name', st.keywordSpan, 'The file has a state but no system to expand it in; add a `system` line.'));
+    }
+    return;
+  }
+  const sysStmt = model.system.stmt;
+  const asked = model.basis.value;
+  const built = buildBasis(model.system.model, model.mass, asked, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
+  if (!built) return;
+  const basis = built.basis;
+  const extent = extentProblem(basis);
+  if (extent) {
+    out.push(warn('evaluation', sysStmt.span, extent));
+    return;
+  }
+  const stateStmt = model.state?.stmt;
+  const stateSpan = stateStmt ? (stateStmt.kind === 'state' && stateStmt.state.kind === 'psi' ? stateStmt.state.expr : stateStmt.span) : sysStmt.span;
+  const checks: CheckContext = { model, basis, stateSpan, systemStmt: sysStmt, limits: ctx.limits };
+  out.push(...checkBasisFacts(built, asked, checks));
+  result.system = systemFacts(basis);
+  if (!model.state || ctx.budget.expired()) return;
+  const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
+  if (!state) return;
+  try {
+    stateStage({ input, built, count: Math.min(asked, basis.count), state, checks }, result);
+  } catch (err) {
+    // A state infinite at a sampled point: say how it grows there (the caller words it).
+    if (err instanceof BadValue && Number.isFinite(err.x)) {
+      err.growth = growthAt(state, err.x, basis.walls ?? basis.support);
+      if (err.growth) result.singularity = singularityOf(err.growth, 0);
+    }
+    throw err;
+  }
+}
+
+/** The state's part: measure, judge each family, then the expects, the evolution and the samples. */
+function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; state: StateFunction; checks: CheckContext }, result: AnalysisResult): void {
+  const { input, checks } = s;
+  const { model, ctx } = input;
+  const out = result.diagnostics;
+  const m = measureState({ model, built: s.built, count: s.count, state: s.state, ctx });
+  if ('stop' in m) {
+    if (m.stop === 'notFinite') result.norm = m.norm;
+    if (m.stop === 'notSquareIntegrable') result.singularity = singularityOf(m.singular, 0);
+    out.push(stopFinding(m, checks));
+    return;
+  }
+  for (const check of STATE_CHECKS) out.push(...check(m, checks));
+  fillResult(m, result);
+  if (ctx.budget.expired()) return;
+  checkExpects(model, result, out);
+  const plotX = plotGrid(m.basis, m.window);
+  if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
+  if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels);
+}
+
+/** The measured numbers a front end shows. */
+function fillResult(m: StateMeasurements, result: AnalysisResult): void {
+  result.norm = m.norm;
+  result.levels = m.levels;
+  result.captured = m.captured;
+  result.levelsFor999 = m.levelsFor999;
+  result.energy = { mean: m.mean, spread: m.spread };
+  result.decay = m.decay;
+  if (m.parity) result.parity = m.parity.parity;
+  if (m.continuum !== null) result.continuum = m.continuum;
+  if (m.singular) result.singularity = singularityOf(m.singular, m.unresolvedNearSpike);
+}
+
+function singularityOf(g: Singularity, unresolvedWeight: number): NonNullable<AnalysisResult['singularity']> {
+  return { x: g.x, power: g.power, logarithmic: g.logarithmic === true, integrable: g.integrable, unresolvedWeight };
+}
+
+function unitNames(model: Model): AnalysisResult['units'] {
+  const u = model.units;
+  if (u.mode === 'natural') return { length: null, energy: null, time: null };
+  return { length: u.length.name, energy: u.energy.name, time: u.time ? u.time.name : null };
+}
+
+/**
+ * Extents at the ends of double precision (box(-1e308, 1e308), box(0, 5e-324), a subnormal mass) would
+ * give grids of Infinity or NaN: the message naming the cause, or null when the extent is usable.
+ */
+function extentProblem(basis: Eigenbasis): string | null {
+  const [ea, eb] = basis.walls ?? basis.support;
+  const extent = eb - ea;
+  if (basis.count === 0 || (Number.isFinite(extent) && extent > 1e-12 * Math.max(Math.abs(ea), Math.abs(eb)) && extent > 1e-290)) return null;
+  const what = Number.isFinite(extent) || Number.isNaN(extent) ? 'too small to compute with in double precision' : 'too large for double precision';
+  return `The system's extent (${fmt(ea)} to ${fmt(eb)}) is ${what}; rescale its parameters or the mass, or choose other units.`;
+}
+
+/** The system's facts for hovers: kind, the first 20 energies, the well's bound-state count, the centre. */
+function systemFacts(basis: Eigenbasis): NonNullable<AnalysisResult['system']> {
+  const energies = Array.from(basis.energies.subarray(0, Math.min(20, basis.count)));
+  const system: NonNullable<AnalysisResult['system']> = { kind: basis.kind, energies, center: basis.center };
+  if (basis.uncertainty) system.uncertainties = Array.from(basis.uncertainty.subarray(0, energies.length));
+  if (basis.kind === 'well') system.boundCount = basis.count;
+  return system;
+}
+
+function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densityX: Float64Array | undefined, ctx: ComputeContext): EvolutionResult {
+  const ev = model.evolve!;
+  const k = levels.length;
+  const cRe = new Float64Array(k);
+  const cIm = new Float64Array(k);
+  levels.forEach((l, i) => {
+    cRe[i] = l.re;
+    cIm[i] = l.im;
+  });
+  const times = new Float64Array(ev.steps + 1);
+  for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
+  const { cancelled } = physicsTiming(ctx.budget);
+  const r = evolve(basis, cRe, cIm, times, { density: densityX, cancelled });
+  // Cut short by the time limit (reported once for the whole analysis): the times finished, no revival search.
+  const rev = r.complete ? revivalTime(basis, cRe, cIm, { cancelled }) : null;
+  const t = (x: number): number => timeToDisplay(x, model.units);
+  const res: EvolutionResult = {
+    times: Array.from(times.subarray(0, r.survival.length), t),
+    meanX: Array.from(r.meanX),
+    meanP: Array.from(r.meanP),
+    survival: Array.from(r.survival),
+    revival: rev === null ? null : t(rev),
+  };
+  if (r.density) res.density = r.density.map((d: Float64Array) => Array.from(d));
+  return res;
+}
+
+/** 400 points over the walls (or the integration window) for plots. */
+function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
+  const [a, b] = basis.walls ?? window;
+  const n = 400;
+  const xs = new Float64Array(n);
+  for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
+  return xs;
+}
+
+function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[]): SampleResult {
+  const n = xs.length;
+  const v = state.evaluate(xs, 0);
+  const s = 1 / Math.sqrt(norm);
+  const kmax = Math.min(levels.length, 100);
+  const table = new Float64Array(kmax * n);
+  basis.table(xs, kmax, table);
+  const phi: number[][] = [];
+  for (let k = 0; k < kmax; k++) phi.push(Array.from(table.subarray(k * n, (k + 1) * n)));
+  const pot: number[] = [];
+  for (let j = 0; j < n; j++) {
+    const p = basis.potential(xs[j]!);
+    pot.push(Number.isFinite(p) ? p : 0);
+  }
+  // Plots take finite numbers only: a state that is infinite at a plot point (1/x at a wall) is drawn as 0 there.
+  const finite = (r: number): number => (Number.isFinite(r * s) ? r * s : 0);
+  return { x: Array.from(xs), re: Array.from(v.re, finite), im: Array.from(v.im, finite), potential: pot, phi, walls: basis.walls };
+}
