@@ -23,6 +23,9 @@ import { didYouMean } from '../language/suggest';
 import { candidateNames, checkExpression } from './check';
 import { BUILTIN_NUMBERS } from './constants';
 import { lookupPhysical, toInternal } from './units';
+import { builtin, type Builtin } from './builtins/table';
+import { KERNEL_BUFFER, signOf } from './builtins/kernels';
+import { chypot, cdiv, clog, cmul, cpow } from './compile/complex';
 import type { CompiledFunction, Complex, Dimension, Expr, GridValues, PhiProvider, Prepared, Scope } from './types';
 
 type F64 = Float64Array;
@@ -85,484 +88,46 @@ function alloc(c: Ctx, key: object): Jet {
   return j;
 }
 
-// Scratch outputs of the scalar kernels: no allocation per point.
-const S = new Float64Array(6);
-let R = 0;
-let I = 0;
-
-// ---------------------------------------------------------------------------------------------------
-// Complex scalar helpers, following the formulas of complex.js (the complex type mathjs uses) so that
-// results agree with mathjs to rounding. They write their result to R, I.
-
-function logHypot(a: number, b: number): number {
-  const aa = Math.abs(a);
-  const bb = Math.abs(b);
-  if (a === 0) return Math.log(bb);
-  if (b === 0) return Math.log(aa);
-  if (aa < 3000 && bb < 3000) return Math.log(a * a + b * b) * 0.5;
-  const ha = a * 0.5;
-  const hb = b * 0.5;
-  return 0.5 * Math.log(ha * ha + hb * hb) + Math.LN2;
-}
-/** |a + ib| as complex.js computes it (plain formula below 3000, scaled above). */
-function chypot(x: number, y: number): number {
-  let a = Math.abs(x);
-  let b = Math.abs(y);
-  if (a < 3000 && b < 3000) return Math.sqrt(a * a + b * b);
-  if (a < b) {
-    a = b;
-    b = x / y;
-  } else b = y / x;
-  return a * Math.sqrt(1 + b * b);
-}
-function cmul(a: number, b: number, c: number, d: number): void {
-  R = a * c - b * d;
-  I = a * d + b * c;
-}
-function cdiv(a: number, b: number, c: number, d: number): void {
-  if (d === 0) {
-    R = a / c;
-    I = b / c;
-  } else if (Math.abs(c) < Math.abs(d)) {
-    const x = c / d;
-    const t = c * x + d;
-    R = (a * x + b) / t;
-    I = (b * x - a) / t;
-  } else {
-    const x = d / c;
-    const t = d * x + c;
-    R = (a + b * x) / t;
-    I = (b - a * x) / t;
-  }
-}
-function cexp(a: number, b: number): void {
-  const t = Math.exp(a);
-  if (b === 0) {
-    R = t;
-    I = 0;
-  } else {
-    R = t * Math.cos(b);
-    I = t * Math.sin(b);
-  }
-}
-function clog(a: number, b: number): void {
-  if (b === 0 && a > 0) {
-    R = Math.log(a);
-    I = 0;
-  } else {
-    R = logHypot(a, b);
-    I = Math.atan2(b, a);
-  }
-}
-function csqrt(a: number, b: number): void {
-  const r = chypot(a, b);
-  let re: number;
-  let im: number;
-  if (a >= 0) {
-    if (b === 0) {
-      R = Math.sqrt(a);
-      I = 0;
-      return;
-    }
-    re = 0.5 * Math.sqrt(2 * (r + a));
-  } else re = Math.abs(b) / Math.sqrt(2 * (r - a));
-  if (a <= 0) im = 0.5 * Math.sqrt(2 * (r - a));
-  else im = Math.abs(b) / Math.sqrt(2 * (r + a));
-  R = re;
-  I = b < 0 ? -im : im;
-}
-/** Principal power a^b for complex a and b, with complex.js's special cases for real exponents. */
-function cpow(a: number, b: number, p: number, q: number): void {
-  if (p === 0 && q === 0) {
-    R = 1;
-    I = 0;
-    return;
-  }
-  if (q === 0) {
-    if (b === 0 && a >= 0) {
-      R = Math.pow(a, p);
-      I = 0;
-      return;
-    }
-    if (b === 0 && Number.isInteger(p)) {
-      // Real base, integer exponent: mathjs stays with real numbers here.
-      R = Math.pow(a, p);
-      I = 0;
-      return;
-    }
-    if (a === 0) {
-      const t = Math.pow(b, p);
-      switch (((p % 4) + 4) % 4) {
-        case 0:
-          R = t;
-          I = 0;
-          return;
-        case 1:
-          R = 0;
-          I = t;
-          return;
-        case 2:
-          R = -t;
-          I = 0;
-          return;
-        case 3:
-          R = 0;
-          I = -t;
-          return;
-      }
-    }
-  }
-  if (a === 0 && b === 0 && p > 0 && q >= 0) {
-    R = 0;
-    I = 0;
-    return;
-  }
-  const arg = Math.atan2(b, a);
-  const loh = logHypot(a, b);
-  const m = Math.exp(p * loh - q * arg);
-  const ph = q * loh + p * arg;
-  R = m * Math.cos(ph);
-  I = m * Math.sin(ph);
-}
-
-// ---------------------------------------------------------------------------------------------------
-// Unary function kernels: value, first and second derivative with respect to the argument.
-
-type RealKernel = (u: number) => void; // writes S[0..2]
-type ComplexKernel = (a: number, b: number) => void; // writes S[0..5] as re/im pairs
-
-const LN10 = Math.LN10;
-
-const REAL: Record<string, RealKernel> = {
-  exp: (u) => {
-    const e = Math.exp(u);
-    S[0] = e;
-    S[1] = e;
-    S[2] = e;
-  },
-  log: (u) => {
-    S[0] = Math.log(u);
-    S[1] = 1 / u;
-    S[2] = -1 / (u * u);
-  },
-  log10: (u) => {
-    S[0] = Math.log10(u);
-    S[1] = 1 / (u * LN10);
-    S[2] = -1 / (u * u * LN10);
-  },
-  sqrt: (u) => {
-    const s = Math.sqrt(u);
-    S[0] = s;
-    S[1] = 0.5 / s;
-    S[2] = -0.25 / (s * u);
-  },
-  sin: (u) => {
-    const s = Math.sin(u);
-    S[0] = s;
-    S[1] = Math.cos(u);
-    S[2] = -s;
-  },
-  cos: (u) => {
-    const c = Math.cos(u);
-    S[0] = c;
-    S[1] = -Math.sin(u);
-    S[2] = -c;
-  },
-  tan: (u) => {
-    const t = Math.tan(u);
-    S[0] = t;
-    S[1] = 1 + t * t;
-    S[2] = 2 * t * (1 + t * t);
-  },
-  asin: (u) => {
-    const w = 1 - u * u;
-    S[0] = Math.asin(u);
-    S[1] = 1 / Math.sqrt(w);
-    S[2] = u / (w * Math.sqrt(w));
-  },
-  acos: (u) => {
-    const w = 1 - u * u;
-    S[0] = Math.acos(u);
-    S[1] = -1 / Math.sqrt(w);
-    S[2] = -u / (w * Math.sqrt(w));
-  },
-  atan: (u) => {
-    const w = 1 + u * u;
-    S[0] = Math.atan(u);
-    S[1] = 1 / w;
-    S[2] = (-2 * u) / (w * w);
-  },
-  sinh: (u) => {
-    const s = Math.sinh(u);
-    S[0] = s;
-    S[1] = Math.cosh(u);
-    S[2] = s;
-  },
-  cosh: (u) => {
-    const c = Math.cosh(u);
-    S[0] = c;
-    S[1] = Math.sinh(u);
-    S[2] = c;
-  },
-  tanh: (u) => {
-    const t = Math.tanh(u);
-    S[0] = t;
-    S[1] = 1 - t * t;
-    S[2] = -2 * t * (1 - t * t);
-  },
-  sech: (u) => {
-    const s = 1 / Math.cosh(u);
-    const t = Math.tanh(u);
-    S[0] = s;
-    S[1] = -s * t;
-    S[2] = s * t * t - s * s * s;
-  },
-};
-
-/** Writes f(z), f'(z), f''(z) of a holomorphic f given f and g = f' via complex helpers. */
-const COMPLEX: Record<string, ComplexKernel> = {
-  exp: (a, b) => {
-    cexp(a, b);
-    S[0] = S[2] = S[4] = R;
-    S[1] = S[3] = S[5] = I;
-  },
-  log: (a, b) => {
-    clog(a, b);
-    S[0] = R;
-    S[1] = I;
-    cdiv(1, 0, a, b);
-    S[2] = R;
-    S[3] = I;
-    cmul(R, I, R, I);
-    S[4] = -R;
-    S[5] = -I;
-  },
-  log10: (a, b) => {
-    clog(a, b);
-    S[0] = R / LN10;
-    S[1] = I / LN10;
-    cdiv(1, 0, a, b);
-    S[2] = R / LN10;
-    S[3] = I / LN10;
-    cmul(R, I, R, I);
-    S[4] = -R / LN10;
-    S[5] = -I / LN10;
-  },
-  sqrt: (a, b) => {
-    csqrt(a, b);
-    const sr = R;
-    const si = I;
-    S[0] = sr;
-    S[1] = si;
-    cdiv(0.5, 0, sr, si);
-    S[2] = R;
-    S[3] = I;
-    cmul(sr, si, a, b);
-    cdiv(-0.25, 0, R, I);
-    S[4] = R;
-    S[5] = I;
-  },
-  sin: (a, b) => {
-    const sa = Math.sin(a);
-    const ca = Math.cos(a);
-    const chb = Math.cosh(b);
-    const shb = Math.sinh(b);
-    S[0] = sa * chb;
-    S[1] = ca * shb;
-    S[2] = ca * chb;
-    S[3] = -sa * shb;
-    S[4] = -S[0]!;
-    S[5] = -S[1]!;
-  },
-  cos: (a, b) => {
-    const sa = Math.sin(a);
-    const ca = Math.cos(a);
-    const chb = Math.cosh(b);
-    const shb = Math.sinh(b);
-    S[0] = ca * chb;
-    S[1] = -sa * shb;
-    S[2] = -sa * chb;
-    S[3] = -ca * shb;
-    S[4] = -S[0]!;
-    S[5] = -S[1]!;
-  },
-  sinh: (a, b) => {
-    const sh = Math.sinh(a);
-    const ch = Math.cosh(a);
-    const cb = Math.cos(b);
-    const sb = Math.sin(b);
-    S[0] = sh * cb;
-    S[1] = ch * sb;
-    S[2] = ch * cb;
-    S[3] = sh * sb;
-    S[4] = S[0]!;
-    S[5] = S[1]!;
-  },
-  cosh: (a, b) => {
-    const sh = Math.sinh(a);
-    const ch = Math.cosh(a);
-    const cb = Math.cos(b);
-    const sb = Math.sin(b);
-    S[0] = ch * cb;
-    S[1] = sh * sb;
-    S[2] = sh * cb;
-    S[3] = ch * sb;
-    S[4] = S[0]!;
-    S[5] = S[1]!;
-  },
-  tan: (a, b) => {
-    // tan z = sin z / cos z; tan' = 1 + tan^2; tan'' = 2 tan (1 + tan^2).
-    // Value as complex.js: (sin 2a, sinh 2b) / (cos 2a + cosh 2b).
-    const d = Math.cos(2 * a) + Math.cosh(2 * b);
-    setFromDerivativePolynomial(Math.sin(2 * a) / d, Math.sinh(2 * b) / d, 1);
-  },
-  tanh: (a, b) => {
-    // Value as complex.js: (sinh 2a, sin 2b) / (cosh 2a + cos 2b).
-    const d = Math.cosh(2 * a) + Math.cos(2 * b);
-    setFromDerivativePolynomial(Math.sinh(2 * a) / d, Math.sin(2 * b) / d, -1);
-  },
-  sech: (a, b) => {
-    COMPLEX['cosh']!(a, b);
-    const cr = S[0]!;
-    const ci = S[1]!;
-    const shr = S[2]!;
-    const shi = S[3]!;
-    // Value as complex.js: 2 (cosh a cos b, -sinh a sin b) / (cos 2b + cosh 2a).
-    const d = Math.cos(2 * b) + Math.cosh(2 * a);
-    const sr = (2 * Math.cosh(a) * Math.cos(b)) / d;
-    const si = (-2 * Math.sinh(a) * Math.sin(b)) / d;
-    cdiv(shr, shi, cr, ci);
-    const tr = R;
-    const ti = I;
-    // sech' = -sech tanh; sech'' = sech tanh^2 - sech^3.
-    cmul(sr, si, tr, ti);
-    S[0] = sr;
-    S[1] = si;
-    S[2] = -R;
-    S[3] = -I;
-    const str = R;
-    const sti = I;
-    cmul(str, sti, tr, ti);
-    const a1 = R;
-    const b1 = I;
-    cmul(sr, si, sr, si);
-    cmul(R, I, sr, si);
-    S[4] = a1 - R;
-    S[5] = b1 - I;
-  },
-  asin: (a, b) => {
-    // asin z = -i log(i z + sqrt(1 - z^2)); asin' = 1/sqrt(1 - z^2); asin'' = z asin'^3.
-    cmul(a, b, a, b);
-    csqrt(1 - R, -I);
-    const qr = R;
-    const qi = I;
-    clog(qr - b, qi + a);
-    S[0] = I;
-    S[1] = -R;
-    inverseSqrtDerivatives(a, b, qr, qi, 1);
-  },
-  acos: (a, b) => {
-    cmul(a, b, a, b);
-    csqrt(1 - R, -I);
-    const qr = R;
-    const qi = I;
-    clog(qr - b, qi + a);
-    S[0] = Math.PI / 2 - I;
-    S[1] = R;
-    inverseSqrtDerivatives(a, b, qr, qi, -1);
-  },
-  atan: (a, b) => {
-    // atan z = (i/2) [log(1 - i z) - log(1 + i z)]; atan' = 1/(1 + z^2); atan'' = -2 z atan'^2.
-    // Value as complex.js: atan z = (i/2) log((1 - b^2 - a^2, -2a)/d), d = a^2 + (1 - b)^2.
-    if (a === 0 && (b === 1 || b === -1)) {
-      S[0] = 0;
-      S[1] = b * Infinity;
-    } else {
-      const d = a * a + (1 - b) * (1 - b);
-      clog((1 - b * b - a * a) / d, (-2 * a) / d);
-      S[0] = -0.5 * I;
-      S[1] = 0.5 * R;
-    }
-    cmul(a, b, a, b);
-    cdiv(1, 0, 1 + R, I);
-    const gr = R;
-    const gi = I;
-    S[2] = gr;
-    S[3] = gi;
-    cmul(gr, gi, gr, gi);
-    cmul(R, I, a, b);
-    S[4] = -2 * R;
-    S[5] = -2 * I;
-  },
-};
-
-/** For f = tan (s = 1) or tanh (s = -1) with value t: f' = 1 + s t^2, f'' = 2 s t f'. */
-function setFromDerivativePolynomial(tr: number, ti: number, s: number): void {
-  cmul(tr, ti, tr, ti);
-  const fr = 1 + s * R;
-  const fi = s * I;
-  S[0] = tr;
-  S[1] = ti;
-  S[2] = fr;
-  S[3] = fi;
-  cmul(tr, ti, fr, fi);
-  S[4] = 2 * s * R;
-  S[5] = 2 * s * I;
-}
-
-/** For asin (sign 1) and acos (sign -1): f' = sign/q with q = sqrt(1 - z^2), f'' = sign z/q^3. */
-function inverseSqrtDerivatives(a: number, b: number, qr: number, qi: number, sign: number): void {
-  cdiv(1, 0, qr, qi);
-  const gr = R;
-  const gi = I;
-  S[2] = sign * gr;
-  S[3] = sign * gi;
-  cmul(gr, gi, gr, gi);
-  cmul(R, I, gr, gi);
-  cmul(R, I, a, b);
-  S[4] = sign * R;
-  S[5] = sign * I;
-}
-
-function applyHolomorphic(c: Ctx, u: Jet, name: string, key: object): Jet {
+/**
+ * A holomorphic built-in applied to a node's values, with the chain rule y' = f'(u) u',
+ * y'' = f''(u) u'^2 + f'(u) u''. `k` is the node's own kernel buffer.
+ */
+function applyHolomorphic(c: Ctx, u: Jet, f: Builtin, k: F64, key: object): Jet {
   const y = alloc(c, key);
   const n = c.n;
   const o = c.order;
+  const rk = f.real!;
   if (!c.cx) {
-    const k = REAL[name]!;
     const uv = u.v;
     for (let i = 0; i < n; i++) {
-      k(uv[i]!);
-      y.v[i] = S[0]!;
+      rk(uv[i]!, k);
+      y.v[i] = k[0]!;
       if (o >= 1) {
         const u1 = u.d1![i]!;
-        y.d1![i] = S[1]! * u1;
-        if (o === 2) y.d2![i] = S[2]! * u1 * u1 + S[1]! * u.d2![i]!;
+        y.d1![i] = k[1]! * u1;
+        if (o === 2) y.d2![i] = k[2]! * u1 * u1 + k[1]! * u.d2![i]!;
       }
     }
     return y;
   }
-  const k = COMPLEX[name]!;
-  const rk = REAL[name]!;
+  const ck = f.complex!;
   // On real arguments inside the real domain the real kernel runs, as mathjs uses its number functions.
-  const lo = name === 'asin' || name === 'acos' ? -1 : name === 'sqrt' || name === 'log' || name === 'log10' ? 0 : -Infinity;
-  const hi = name === 'asin' || name === 'acos' ? 1 : Infinity;
+  const [lo, hi] = f.realDomain ?? [-Infinity, Infinity];
   for (let i = 0; i < n; i++) {
     const ar = u.v[i]!;
     if (u.vi![i] === 0 && ar >= lo && ar <= hi) {
-      rk(ar);
-      S[3] = S[4];
-      S[4] = S[2]!;
-      S[2] = S[1]!;
-      S[1] = 0;
-      S[3] = 0;
-      S[5] = 0;
-    } else k(ar, u.vi![i]!);
-    y.v[i] = S[0]!;
-    y.vi![i] = S[1]!;
+      rk(ar, k);
+      k[4] = k[2]!;
+      k[2] = k[1]!;
+      k[1] = 0;
+      k[3] = 0;
+      k[5] = 0;
+    } else ck(ar, u.vi![i]!, k);
+    y.v[i] = k[0]!;
+    y.vi![i] = k[1]!;
     if (o >= 1) {
-      const f1r = S[2]!;
-      const f1i = S[3]!;
+      const f1r = k[2]!;
+      const f1i = k[3]!;
       const u1r = u.d1![i]!;
       const u1i = u.d1i![i]!;
       y.d1![i] = f1r * u1r - f1i * u1i;
@@ -572,8 +137,8 @@ function applyHolomorphic(c: Ctx, u: Jet, name: string, key: object): Jet {
         const sqi = 2 * u1r * u1i;
         const u2r = u.d2![i]!;
         const u2i = u.d2i![i]!;
-        y.d2![i] = S[4]! * sqr - S[5]! * sqi + f1r * u2r - f1i * u2i;
-        y.d2i![i] = S[4]! * sqi + S[5]! * sqr + f1r * u2i + f1i * u2r;
+        y.d2![i] = k[4]! * sqr - k[5]! * sqi + f1r * u2r - f1i * u2i;
+        y.d2i![i] = k[4]! * sqi + k[5]! * sqr + f1r * u2i + f1i * u2r;
       }
     }
   }
@@ -727,6 +292,8 @@ function mul(a: CNode, b: CNode): CNode {
 }
 
 function div(a: CNode, b: CNode): CNode {
+  // Output slots of the complex helpers, owned by this node.
+  const t = new Float64Array(2);
   const key = {};
   return finish(
     {
@@ -757,28 +324,28 @@ function div(a: CNode, b: CNode): CNode {
         for (let i = 0; i < n; i++) {
           const qr = w.v[i]!;
           const qi = w.vi![i]!;
-          cdiv(u.v[i]!, u.vi![i]!, qr, qi);
-          const vr = R;
-          const vi = I;
+          cdiv(u.v[i]!, u.vi![i]!, qr, qi, t, 0);
+          const vr = t[0]!;
+          const vi = t[1]!;
           y.v[i] = vr;
           y.vi![i] = vi;
           if (o >= 1) {
             const q1r = w.d1![i]!;
             const q1i = w.d1i![i]!;
-            cmul(vr, vi, q1r, q1i);
-            cdiv(u.d1![i]! - R, u.d1i![i]! - I, qr, qi);
-            const v1r = R;
-            const v1i = I;
+            cmul(vr, vi, q1r, q1i, t, 0);
+            cdiv(u.d1![i]! - t[0]!, u.d1i![i]! - t[1]!, qr, qi, t, 0);
+            const v1r = t[0]!;
+            const v1i = t[1]!;
             y.d1![i] = v1r;
             y.d1i![i] = v1i;
             if (o === 2) {
-              cmul(v1r, v1i, q1r, q1i);
-              const tr = 2 * R;
-              const ti = 2 * I;
-              cmul(vr, vi, w.d2![i]!, w.d2i![i]!);
-              cdiv(u.d2![i]! - tr - R, u.d2i![i]! - ti - I, qr, qi);
-              y.d2![i] = R;
-              y.d2i![i] = I;
+              cmul(v1r, v1i, q1r, q1i, t, 0);
+              const tr = 2 * t[0]!;
+              const ti = 2 * t[1]!;
+              cmul(vr, vi, w.d2![i]!, w.d2i![i]!, t, 0);
+              cdiv(u.d2![i]! - tr - t[0]!, u.d2i![i]! - ti - t[1]!, qr, qi, t, 0);
+              y.d2![i] = t[0]!;
+              y.d2i![i] = t[1]!;
             }
           }
         }
@@ -818,6 +385,8 @@ function neg(a: CNode): CNode {
 
 /** Power with a constant exponent p (real or complex). */
 function powConst(a: CNode, p: Complex): CNode {
+  // Output slots of the complex helpers, owned by this node.
+  const t = new Float64Array(2);
   const key = {};
   const integer = p.im === 0 && Number.isInteger(p.re);
   const even = integer && p.re % 2 === 0;
@@ -854,43 +423,43 @@ function powConst(a: CNode, p: Complex): CNode {
         for (let i = 0; i < n; i++) {
           const br = u.v[i]!;
           const bi = u.vi![i]!;
-          cpow(br, bi, pr, pi);
-          y.v[i] = R;
-          y.vi![i] = I;
+          cpow(br, bi, pr, pi, t, 0);
+          y.v[i] = t[0]!;
+          y.vi![i] = t[1]!;
           if (o >= 1) {
             // g1 = p b^(p-1), g2 = p (p-1) b^(p-2).
             let g1r = 0;
             let g1i = 0;
             if (pr !== 0 || pi !== 0) {
-              cpow(br, bi, pr - 1, pi);
-              cmul(pr, pi, R, I);
-              g1r = R;
-              g1i = I;
+              cpow(br, bi, pr - 1, pi, t, 0);
+              cmul(pr, pi, t[0]!, t[1]!, t, 0);
+              g1r = t[0]!;
+              g1i = t[1]!;
             }
             const u1r = u.d1![i]!;
             const u1i = u.d1i![i]!;
-            cmul(g1r, g1i, u1r, u1i);
-            y.d1![i] = R;
-            y.d1i![i] = I;
+            cmul(g1r, g1i, u1r, u1i, t, 0);
+            y.d1![i] = t[0]!;
+            y.d1i![i] = t[1]!;
             if (o === 2) {
               let g2r = 0;
               let g2i = 0;
-              cmul(pr, pi, pr - 1, pi);
-              const kr = R;
-              const ki = I;
+              cmul(pr, pi, pr - 1, pi, t, 0);
+              const kr = t[0]!;
+              const ki = t[1]!;
               if (kr !== 0 || ki !== 0) {
-                cpow(br, bi, pr - 2, pi);
-                cmul(kr, ki, R, I);
-                g2r = R;
-                g2i = I;
+                cpow(br, bi, pr - 2, pi, t, 0);
+                cmul(kr, ki, t[0]!, t[1]!, t, 0);
+                g2r = t[0]!;
+                g2i = t[1]!;
               }
-              cmul(u1r, u1i, u1r, u1i);
-              cmul(g2r, g2i, R, I);
-              const ar = R;
-              const ai = I;
-              cmul(g1r, g1i, u.d2![i]!, u.d2i![i]!);
-              y.d2![i] = ar + R;
-              y.d2i![i] = ai + I;
+              cmul(u1r, u1i, u1r, u1i, t, 0);
+              cmul(g2r, g2i, t[0]!, t[1]!, t, 0);
+              const ar = t[0]!;
+              const ai = t[1]!;
+              cmul(g1r, g1i, u.d2![i]!, u.d2i![i]!, t, 0);
+              y.d2![i] = ar + t[0]!;
+              y.d2i![i] = ai + t[1]!;
             }
           }
         }
@@ -903,6 +472,8 @@ function powConst(a: CNode, p: Complex): CNode {
 
 /** General power u^w = exp(w log u) with both operands depending on x. */
 function powGeneral(a: CNode, b: CNode): CNode {
+  // Output slots of the complex helpers, owned by this node.
+  const t = new Float64Array(2);
   const key = {};
   return {
     cst: null,
@@ -941,56 +512,56 @@ function powGeneral(a: CNode, b: CNode): CNode {
         const pi = u.vi![i]!;
         const qr = w.v[i]!;
         const qi = w.vi![i]!;
-        cpow(pr, pi, qr, qi);
-        const vr = R;
-        const vi = I;
+        cpow(pr, pi, qr, qi, t, 0);
+        const vr = t[0]!;
+        const vi = t[1]!;
         y.v[i] = vr;
         y.vi![i] = vi;
         if (o >= 1) {
-          clog(pr, pi);
-          const Lr = R;
-          const Li = I;
+          clog(pr, pi, t, 0);
+          const Lr = t[0]!;
+          const Li = t[1]!;
           const p1r = u.d1![i]!;
           const p1i = u.d1i![i]!;
           const q1r = w.d1![i]!;
           const q1i = w.d1i![i]!;
-          cdiv(p1r, p1i, pr, pi);
-          const rr = R; // u'/u
-          const ri = I;
-          cmul(q1r, q1i, Lr, Li);
-          const t1r = R;
-          const t1i = I;
-          cmul(qr, qi, rr, ri);
-          const gr = t1r + R;
-          const gi = t1i + I;
-          cmul(vr, vi, gr, gi);
-          const y1r = R;
-          const y1i = I;
+          cdiv(p1r, p1i, pr, pi, t, 0);
+          const rr = t[0]!; // u'/u
+          const ri = t[1]!;
+          cmul(q1r, q1i, Lr, Li, t, 0);
+          const t1r = t[0]!;
+          const t1i = t[1]!;
+          cmul(qr, qi, rr, ri, t, 0);
+          const gr = t1r + t[0]!;
+          const gi = t1i + t[1]!;
+          cmul(vr, vi, gr, gi, t, 0);
+          const y1r = t[0]!;
+          const y1i = t[1]!;
           y.d1![i] = y1r;
           y.d1i![i] = y1i;
           if (o === 2) {
             // (u'' u - u'^2)/u^2 = u''/u - (u'/u)^2.
-            cdiv(u.d2![i]!, u.d2i![i]!, pr, pi);
-            const sr = R;
-            const si = I;
-            cmul(rr, ri, rr, ri);
-            const hr = sr - R;
-            const hi = si - I;
-            cmul(qr, qi, hr, hi);
-            let gpr = R;
-            let gpi = I;
-            cmul(q1r, q1i, rr, ri);
-            gpr += 2 * R;
-            gpi += 2 * I;
-            cmul(w.d2![i]!, w.d2i![i]!, Lr, Li);
-            gpr += R;
-            gpi += I;
-            cmul(y1r, y1i, gr, gi);
-            const ar = R;
-            const ai = I;
-            cmul(vr, vi, gpr, gpi);
-            y.d2![i] = ar + R;
-            y.d2i![i] = ai + I;
+            cdiv(u.d2![i]!, u.d2i![i]!, pr, pi, t, 0);
+            const sr = t[0]!;
+            const si = t[1]!;
+            cmul(rr, ri, rr, ri, t, 0);
+            const hr = sr - t[0]!;
+            const hi = si - t[1]!;
+            cmul(qr, qi, hr, hi, t, 0);
+            let gpr = t[0]!;
+            let gpi = t[1]!;
+            cmul(q1r, q1i, rr, ri, t, 0);
+            gpr += 2 * t[0]!;
+            gpi += 2 * t[1]!;
+            cmul(w.d2![i]!, w.d2i![i]!, Lr, Li, t, 0);
+            gpr += t[0]!;
+            gpi += t[1]!;
+            cmul(y1r, y1i, gr, gi, t, 0);
+            const ar = t[0]!;
+            const ai = t[1]!;
+            cmul(vr, vi, gpr, gpi, t, 0);
+            y.d2![i] = ar + t[0]!;
+            y.d2i![i] = ai + t[1]!;
           }
         }
       }
@@ -1145,8 +716,59 @@ function partNode(a: CNode, which: 're' | 'im' | 'conj'): CNode {
   );
 }
 
-function roundHalfAway(u: number): number {
-  return u < 0 ? -Math.round(-u) : Math.round(u);
+/** min (lt) or max of two nodes: picks one operand per point, derivatives included. */
+function extremumNode(a: CNode, b: CNode, lt: boolean): CNode {
+  const key = {};
+  return finish(
+    {
+      cst: null,
+      complex: a.complex || b.complex,
+      nonneg: a.nonneg && b.nonneg,
+      run(c) {
+        const u = a.run(c);
+        const w = b.run(c);
+        return select(c, key, (i) => (lt ? u.v[i]! <= w.v[i]! : u.v[i]! >= w.v[i]!), u, w);
+      },
+    },
+    [a, b],
+  );
+}
+
+/** atan2(y, x) = atan(y/x) + branch; its derivative is (x y' - y x')/(x^2 + y^2). */
+function atan2Node(a: CNode, b: CNode): CNode {
+  const key = {};
+  return finish(
+    {
+      cst: null,
+      complex: false,
+      nonneg: false,
+      run(c) {
+        const p = a.run(c);
+        const q = b.run(c);
+        const y = alloc(c, key);
+        const o = c.order;
+        for (let i = 0; i < c.n; i++) {
+          const yy = p.v[i]!;
+          const xx = q.v[i]!;
+          y.v[i] = Math.atan2(yy, xx);
+          if (o >= 1) {
+            const r2 = xx * xx + yy * yy;
+            const y1 = p.d1![i]!;
+            const x1 = q.d1![i]!;
+            const num = xx * y1 - yy * x1;
+            y.d1![i] = num / r2;
+            if (o === 2) {
+              const num1 = xx * p.d2![i]! - yy * q.d2![i]!;
+              const r21 = 2 * (xx * x1 + yy * y1);
+              y.d2![i] = (num1 * r2 - num * r21) / (r2 * r2);
+            }
+          }
+        }
+        return y;
+      },
+    },
+    [a, b],
+  );
 }
 
 function phiNode(n: number, a: CNode): CNode {
@@ -1292,125 +914,49 @@ class Compiler {
   }
 
   private call(e: Extract<Expr, { type: 'call' }>): CNode {
-    const jumps = ['sign', 'floor', 'ceil', 'round'].includes(e.name);
-    const args = e.args.map((a) => (jumps ? this.inDiscrete(() => this.node(a)) : this.node(a)));
+    const f = builtin(e.name);
+    if (!f) return this.fail({ start: e.nameStart, end: e.nameEnd }, 'name', `Unknown function '${e.name}'.`);
+    // The argument of a function that jumps only feeds a discrete result.
+    const args = e.args.map((a) => (f.breaks === 'jump' ? this.inDiscrete(() => this.node(a)) : this.node(a)));
     const a = args[0]!;
     const kink = (node: CNode, indicator: (r: number, m: number) => number, sub: CNode = a): CNode => {
       if (node.cst === null) this.register(sub, indicator);
       return node;
     };
-    const signOf = (r: number) => (r > 0 ? 1 : r < 0 ? -1 : 0);
-    switch (e.name) {
-      case 'exp':
-      case 'sin':
-      case 'cos':
-      case 'tan':
-      case 'atan':
-      case 'sinh':
-      case 'cosh':
-      case 'tanh':
-      case 'sech':
-        return this.holo(e.name, a, e.name === 'exp' || e.name === 'cosh' || e.name === 'sech');
-      case 'sqrt':
-      case 'log':
-      case 'log10':
-        return this.holo(e.name, a, e.name === 'sqrt', !a.nonneg);
-      case 'asin':
-      case 'acos':
-        return this.holo(e.name, a, e.name === 'acos', true);
+    switch (f.form) {
+      case 'holomorphic':
+        return this.holo(f, a);
+      case 'step': {
+        const g = f.step!;
+        return kink(flat([a], ([u], i) => g(u!.v[i]!), f.nonneg === 'always'), g);
+      }
       case 'abs':
         return a.complex ? absNode(a) : kink(absNode(a), signOf);
-      case 'sign':
-        return kink(flat([a], ([u], i) => signOf(u!.v[i]!), false), signOf);
-      case 'floor':
-        return kink(flat([a], ([u], i) => Math.floor(u!.v[i]!), false), Math.floor);
-      case 'ceil':
-        return kink(flat([a], ([u], i) => Math.ceil(u!.v[i]!), false), Math.ceil);
-      case 'round':
-        return kink(flat([a], ([u], i) => roundHalfAway(u!.v[i]!), false), roundHalfAway);
-      case 'min':
-      case 'max': {
-        const b = args[1]!;
-        const lt = e.name === 'min';
-        const key = {};
-        const node = finish(
-          {
-            cst: null,
-            complex: a.complex || b.complex,
-            nonneg: a.nonneg && b.nonneg,
-            run(c) {
-              const u = a.run(c);
-              const w = b.run(c);
-              return select(c, key, (i) => (lt ? u.v[i]! <= w.v[i]! : u.v[i]! >= w.v[i]!), u, w);
-            },
-          },
-          [a, b],
-        );
-        const diff = addSub(a, b, -1);
-        return kink(node, signOf, diff);
-      }
-      case 'atan2': {
-        const b = args[1]!;
-        // atan2(y, x) = atan(y/x) + branch; d = (x y' - y x')/(x^2 + y^2).
-        const key = {};
-        const node = finish(
-          {
-            cst: null,
-            complex: false,
-            nonneg: false,
-            run(c) {
-              const p = a.run(c);
-              const q = b.run(c);
-              const y = alloc(c, key);
-              const o = c.order;
-              for (let i = 0; i < c.n; i++) {
-                const yy = p.v[i]!;
-                const xx = q.v[i]!;
-                y.v[i] = Math.atan2(yy, xx);
-                if (o >= 1) {
-                  const r2 = xx * xx + yy * yy;
-                  const y1 = p.d1![i]!;
-                  const x1 = q.d1![i]!;
-                  const num = xx * y1 - yy * x1;
-                  y.d1![i] = num / r2;
-                  if (o === 2) {
-                    const num1 = xx * p.d2![i]! - yy * q.d2![i]!;
-                    const r21 = 2 * (xx * x1 + yy * y1);
-                    y.d2![i] = (num1 * r2 - num * r21) / (r2 * r2);
-                  }
-                }
-              }
-              return y;
-            },
-          },
-          [a, b],
-        );
-        return node;
-      }
-      case 're':
-      case 'im':
-      case 'conj':
-        return partNode(a, e.name);
+      case 'extremum':
+        return kink(extremumNode(a, args[1]!, f.name === 'min'), signOf, addSub(a, args[1]!, -1));
+      case 'atan2':
+        return atan2Node(a, args[1]!);
+      case 'part':
+        return partNode(a, e.name as 're' | 'im' | 'conj');
       case 'phi': {
-        const n = args[0]!.cst;
+        const n = a.cst;
         if (n === null || n.im !== 0 || !Number.isInteger(n.re)) return this.fail(e.args[0]!, 'syntax', 'The level number of phi must be a constant whole number.');
         if (!this.scope.hasPhi) return this.fail(e, 'name', "'phi(n, x)' is only available in psi(x) of a file with a system.");
         return phiNode(n.re, args[1]!);
       }
-      default:
-        return this.fail({ start: e.nameStart, end: e.nameEnd }, 'name', `Unknown function '${e.name}'.`);
     }
   }
 
-  private holo(name: string, a: CNode, nonneg: boolean, forcesComplex = false): CNode {
-    const complex = a.complex || forcesComplex;
+  private holo(f: Builtin, a: CNode): CNode {
+    const complex = a.complex || f.forcesComplex === 'always' || (f.forcesComplex === 'negative' && !a.nonneg);
     const key = {};
+    const k = new Float64Array(KERNEL_BUFFER);
     return finish(
       {
         cst: null,
         complex,
-        nonneg: nonneg && !a.complex,
-        run: (c) => applyHolomorphic(c, a.run(c), name, key),
+        nonneg: f.nonneg === 'real' && !a.complex,
+        run: (c) => applyHolomorphic(c, a.run(c), f, k, key),
       },
       [a],
     );

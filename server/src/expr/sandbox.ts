@@ -11,6 +11,7 @@ import type { ExprText, Span } from '../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import { didYouMean } from '../language/suggest';
 import type { Expr, Prepared } from './types';
+import { BUILTINS } from './builtins/table';
 
 /** A function an expression may call: arity range and a one-line description (for completion and hover). */
 export interface AllowedFunction {
@@ -20,35 +21,8 @@ export interface AllowedFunction {
   doc: string;
 }
 
-/** The whitelist of callable functions. `phi` is further limited to `psi(x)` of a file with a system. */
-export const ALLOWED_FUNCTIONS: readonly AllowedFunction[] = [
-  { name: 'exp', minArgs: 1, maxArgs: 1, doc: 'exp(z): the exponential e^z' },
-  { name: 'log', minArgs: 1, maxArgs: 1, doc: 'log(z): natural logarithm (principal value)' },
-  { name: 'log10', minArgs: 1, maxArgs: 1, doc: 'log10(z): base-10 logarithm' },
-  { name: 'sqrt', minArgs: 1, maxArgs: 1, doc: 'sqrt(z): principal square root; halves the dimension' },
-  { name: 'abs', minArgs: 1, maxArgs: 1, doc: 'abs(z): absolute value |z|' },
-  { name: 'sign', minArgs: 1, maxArgs: 1, doc: 'sign(x): -1, 0 or 1' },
-  { name: 'sin', minArgs: 1, maxArgs: 1, doc: 'sin(z): sine (radians)' },
-  { name: 'cos', minArgs: 1, maxArgs: 1, doc: 'cos(z): cosine (radians)' },
-  { name: 'tan', minArgs: 1, maxArgs: 1, doc: 'tan(z): tangent (radians)' },
-  { name: 'asin', minArgs: 1, maxArgs: 1, doc: 'asin(z): inverse sine (principal value)' },
-  { name: 'acos', minArgs: 1, maxArgs: 1, doc: 'acos(z): inverse cosine (principal value)' },
-  { name: 'atan', minArgs: 1, maxArgs: 1, doc: 'atan(x): inverse tangent' },
-  { name: 'atan2', minArgs: 2, maxArgs: 2, doc: 'atan2(y, x): angle of the point (x, y)' },
-  { name: 'sinh', minArgs: 1, maxArgs: 1, doc: 'sinh(z): hyperbolic sine' },
-  { name: 'cosh', minArgs: 1, maxArgs: 1, doc: 'cosh(z): hyperbolic cosine' },
-  { name: 'tanh', minArgs: 1, maxArgs: 1, doc: 'tanh(z): hyperbolic tangent' },
-  { name: 'sech', minArgs: 1, maxArgs: 1, doc: 'sech(z): hyperbolic secant 1/cosh(z)' },
-  { name: 'floor', minArgs: 1, maxArgs: 1, doc: 'floor(x): largest integer <= x' },
-  { name: 'ceil', minArgs: 1, maxArgs: 1, doc: 'ceil(x): smallest integer >= x' },
-  { name: 'round', minArgs: 1, maxArgs: 1, doc: 'round(x): nearest integer' },
-  { name: 'min', minArgs: 2, maxArgs: 2, doc: 'min(a, b): the smaller of two real values' },
-  { name: 'max', minArgs: 2, maxArgs: 2, doc: 'max(a, b): the larger of two real values' },
-  { name: 're', minArgs: 1, maxArgs: 1, doc: 're(z): real part' },
-  { name: 'im', minArgs: 1, maxArgs: 1, doc: 'im(z): imaginary part' },
-  { name: 'conj', minArgs: 1, maxArgs: 1, doc: 'conj(z): complex conjugate' },
-  { name: 'phi', minArgs: 2, maxArgs: 2, doc: "phi(n, x): the system's eigenfunction n (only in psi(x))" },
-];
+/** The whitelist of callable functions: the built-in table's records (`phi` is limited to `psi(x)` of a file with a system). */
+export const ALLOWED_FUNCTIONS: readonly AllowedFunction[] = BUILTINS;
 
 const ALLOWED = new Map(ALLOWED_FUNCTIONS.map((f) => [f.name, f]));
 
