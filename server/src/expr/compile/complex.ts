@@ -9,7 +9,7 @@
 type F64 = Float64Array;
 
 /** log |a + ib| as complex.js computes it (halved log of the square below 3000, scaled above). */
-export function logHypot(a: number, b: number): number {
+function logHypot(a: number, b: number): number {
   const aa = Math.abs(a);
   const bb = Math.abs(b);
   if (a === 0) return Math.log(bb);
