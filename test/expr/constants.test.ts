@@ -66,6 +66,9 @@ describe('constants against the CODATA 2018 table', () => {
     toLastDigit(RYDBERG_SI, 2.1798723611035e-18, 14, 0.25e-31);
     toLastDigit(RYDBERG_SI / EV_SI, 13.605693122994, 14);
     toLastDigit(UNITS.get('meV')!.si, 1.602176634e-22, 10);
+    // The SI prefixes (SI brochure 9th ed.): 1 neV = 1e-9 eV, exactly the elementary charge times 1e-9 V.
+    toLastDigit(UNITS.get('neV')!.si, 1.602176634e-28, 10);
+    expect(UNITS.get('neV')!.kind).toBe('energy');
   });
 });
 

@@ -97,6 +97,7 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['eV', unit(EV_SI, 'energy', 'electronvolt')],
   ['meV', unit(EV_SI * 1e-3, 'energy', 'millielectronvolt')],
   ['ueV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
+  ['neV', unit(EV_SI * 1e-9, 'energy', 'nanoelectronvolt')],
   ['\u00B5eV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
   ['\u03BCeV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
   ['keV', unit(EV_SI * 1e3, 'energy', 'kiloelectronvolt')],
