@@ -8,15 +8,14 @@
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import { didYouMean } from '../language/suggest';
 import { BUILTIN_NUMBERS, DIM } from './constants';
-import { ALLOWED_FUNCTIONS } from './sandbox';
+import { BUILTINS, builtin } from './builtins/table';
 import { isDimensionless, lookupPhysical, physicalNames, sameDimension, withArticle } from './units';
 import type { Dimension, Expr, Scope } from './types';
 
 /** Dimension of psi: length^(-1/2) in physical mode. */
 export const WAVEFUNCTION_DIM: Dimension = [-0.5, 0, 0, 0];
 
-const FUNCTIONS = new Map(ALLOWED_FUNCTIONS.map((f) => [f.name, f]));
-const DIMENSIONLESS_IN = new Set(['exp', 'log', 'log10', 'sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'sinh', 'cosh', 'tanh', 'sech', 'floor', 'ceil', 'round']);
+const FUNCTION_NAMES = BUILTINS.map((f) => f.name);
 
 /** 'any' marks a literal zero, which fits every dimension. */
 type D = Dimension | 'any' | null;
@@ -27,7 +26,7 @@ const concrete = (d: Dimension | 'any'): Dimension => (d === 'any' ? DIM.none : 
 
 /** Every name an expression could have meant, for "did you mean". */
 export function candidateNames(scope: Scope): string[] {
-  const out = [...scope.values.keys(), ...BUILTIN_NUMBERS.keys(), ...FUNCTIONS.keys()];
+  const out = [...scope.values.keys(), ...BUILTIN_NUMBERS.keys(), ...FUNCTION_NAMES];
   if (scope.units.mode === 'physical') out.push(...physicalNames());
   if (scope.hasX) out.push('x');
   return out;
@@ -158,7 +157,7 @@ class Checker {
       return phys.dimension;
     }
     if (name === 'x') return this.err('name', e, "'x' is only defined inside psi(x) and V(x).");
-    if (FUNCTIONS.has(name)) return this.err('name', e, `'${name}' is a function; call it as ${name}(...).`);
+    if (builtin(name)) return this.err('name', e, `'${name}' is a function; call it as ${name}(...).`);
     return this.err('name', e, `Unknown name '${name}'.${didYouMean(name, candidateNames(this.scope))}`);
   }
 
@@ -198,35 +197,30 @@ class Checker {
   }
 
   private call(e: Extract<Expr, { type: 'call' }>): D {
-    const f = FUNCTIONS.get(e.name);
+    const f = builtin(e.name);
     const nameSpan = { start: e.nameStart, end: e.nameEnd };
-    if (!f) return this.err('name', nameSpan, `Unknown function '${e.name}'.${didYouMean(e.name, FUNCTIONS.keys())}`);
+    if (!f) return this.err('name', nameSpan, `Unknown function '${e.name}'.${didYouMean(e.name, FUNCTION_NAMES)}`);
     if (e.args.length < f.minArgs || e.args.length > f.maxArgs) {
       const want = f.minArgs === f.maxArgs ? `${f.minArgs}` : `${f.minArgs} to ${f.maxArgs}`;
       return this.err('syntax', e, `'${e.name}' takes ${want} argument${f.maxArgs === 1 ? '' : 's'}, found ${e.args.length}.`);
     }
-    if (e.name === 'phi') return this.phi(e);
+    if (f.dimensions === 'phi') return this.phi(e);
     const ds = e.args.map((a) => this.infer(a));
     if (ds.some((d) => d === null)) return null;
     const d0 = ds[0]!;
-    if (DIMENSIONLESS_IN.has(e.name)) return this.needDimensionless(d0, e.args[0]!, e.name) ? DIM.none : null;
-    switch (e.name) {
-      case 'sqrt':
+    switch (f.dimensions) {
+      case 'dimensionless':
+        return this.needDimensionless(d0, e.args[0]!, e.name) ? DIM.none : null;
+      case 'half':
         return d0 === 'any' ? 'any' : scale(d0 as Dimension, 0.5);
-      case 'abs':
-      case 're':
-      case 'im':
-      case 'conj':
+      case 'same':
         return d0;
-      case 'sign':
+      case 'none':
         return DIM.none;
-      case 'min':
-      case 'max':
+      case 'equal':
         return this.unify(d0, ds[1]!, e, `${e.name} cannot compare`);
-      case 'atan2':
-        return this.unify(d0, ds[1]!, e, 'atan2 needs arguments of one dimension, found') === null ? null : DIM.none;
-      default:
-        return DIM.none;
+      case 'equal-none':
+        return this.unify(d0, ds[1]!, e, `${e.name} needs arguments of one dimension, found`) === null ? null : DIM.none;
     }
   }
 

@@ -17,26 +17,43 @@ export const DIM = {
   action: [2, 1, -1, 0] as Dimension,
 } as const;
 
-/** Reduced Planck constant in J s (exact). Source: CODATA 2018 recommended values (NIST). */
-export const HBAR_SI = 1.054571817e-34;
-/** Planck constant in J s (exact). Source: CODATA 2018 recommended values (NIST). */
+/*
+ * The defining constants of the SI (exact since 2019; SI brochure, 9th edition) and the measured ones
+ * as CODATA 2018 publishes them (NIST). Everything else is derived here from these in one place, the
+ * way CODATA derives it, so that no truncated copy of an exact value can drift from its definition.
+ */
+
+/** Planck constant in J s (exact, a defining constant of the SI). */
 export const H_SI = 6.62607015e-34;
-/** Elementary charge in C (exact). Source: CODATA 2018 recommended values (NIST). */
+/** Elementary charge in C (exact, a defining constant of the SI). */
 export const QE_SI = 1.602176634e-19;
-/** Electron mass in kg. Source: CODATA 2018 recommended values (NIST). */
+/** Speed of light in vacuum in m/s (exact, a defining constant of the SI). */
+export const C_SI = 299792458;
+/** Reduced Planck constant h/(2 pi) in J s: exact, since h is (1.054571817646...e-34). */
+export const HBAR_SI = H_SI / (2 * Math.PI);
+/** The electronvolt in J: one elementary charge times one volt, e * 1 J/C (exact since 2019). */
+export const EV_SI = QE_SI * 1;
+/** Electron mass in kg (measured). Source: CODATA 2018 recommended values (NIST). */
 export const ME_SI = 9.1093837015e-31;
-/** Proton mass in kg. Source: CODATA 2018 recommended values (NIST). */
+/** Proton mass in kg (measured). Source: CODATA 2018 recommended values (NIST). */
 export const MP_SI = 1.67262192369e-27;
-/** Atomic mass constant in kg. Source: CODATA 2018 recommended values (NIST). */
+/** Atomic mass constant m_u = m(12C)/12 in kg (measured). Source: CODATA 2018 recommended values (NIST). */
 export const U_SI = 1.6605390666e-27;
-/** Bohr radius in m. Source: CODATA 2018 recommended values (NIST). */
+/** Bohr radius in m (measured). Source: CODATA 2018 recommended values (NIST). */
 export const A0_SI = 5.29177210903e-11;
-/** Hartree energy in J. Source: CODATA 2018 recommended values (NIST). */
+/**
+ * Hartree energy in J (measured). Source: CODATA 2018 recommended values (NIST). It is kept as published
+ * rather than derived as 2 R_inf h c: the published R_inf is rounded, and that product misses the last
+ * published digit of the hartree (4.35974472220717e-18 against 4.3597447222071e-18).
+ */
 export const HARTREE_SI = 4.3597447222071e-18;
-/** Rydberg energy (half a hartree) in J. Source: CODATA 2018 recommended values (NIST). */
+/** Rydberg energy R_inf h c in J: half a hartree by definition. */
 export const RYDBERG_SI = HARTREE_SI / 2;
-/** The electronvolt in J: one elementary charge times one volt (exact since 2019). */
-export const EV_SI = QE_SI;
+
+/** Value and unit of a constant for a doc line, with 13 significant digits, e.g. "1.054571817646e-34 J s". */
+function docValue(si: number, unit: string): string {
+  return `${Number(si.toPrecision(13)).toExponential()} ${unit}`;
+}
 
 /** What a unit measures; `kind` decides where it may appear on a `units` line. */
 export type UnitKind = 'length' | 'energy' | 'time' | 'frequency' | 'mass';
@@ -80,6 +97,7 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['eV', unit(EV_SI, 'energy', 'electronvolt')],
   ['meV', unit(EV_SI * 1e-3, 'energy', 'millielectronvolt')],
   ['ueV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
+  ['neV', unit(EV_SI * 1e-9, 'energy', 'nanoelectronvolt')],
   ['\u00B5eV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
   ['\u03BCeV', unit(EV_SI * 1e-6, 'energy', 'microelectronvolt')],
   ['keV', unit(EV_SI * 1e3, 'energy', 'kiloelectronvolt')],
@@ -117,12 +135,13 @@ export interface ConstantInfo {
 
 /**
  * Dimensional constants an expression may use in physical mode. The particle masses and the Bohr radius
- * are also units (`UNITS`), with the same values. Source: CODATA 2018 recommended values (NIST).
+ * are also units (`UNITS`), with the same values. Source: CODATA 2018 recommended values (NIST); the SI
+ * brochure, 9th edition, for the exact ones.
  */
 export const CONSTANTS: ReadonlyMap<string, ConstantInfo> = new Map<string, ConstantInfo>([
-  ['hbar', { si: HBAR_SI, dimension: DIM.action, doc: 'reduced Planck constant, 1.054571817e-34 J s (exact)' }],
-  ['h', { si: H_SI, dimension: DIM.action, doc: 'Planck constant, 6.62607015e-34 J s (exact)' }],
-  ['q_e', { si: QE_SI, dimension: DIM.charge, doc: 'elementary charge, 1.602176634e-19 C (exact)' }],
+  ['hbar', { si: HBAR_SI, dimension: DIM.action, doc: `reduced Planck constant h/(2 pi), ${docValue(HBAR_SI, 'J s')}... (exact)` }],
+  ['h', { si: H_SI, dimension: DIM.action, doc: `Planck constant, ${docValue(H_SI, 'J s')} (exact)` }],
+  ['q_e', { si: QE_SI, dimension: DIM.charge, doc: `elementary charge, ${docValue(QE_SI, 'C')} (exact)` }],
 ]);
 
 /** Dimensionless built-in names, available in both modes: Euler's number, pi and the imaginary unit. */

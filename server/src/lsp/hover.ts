@@ -8,7 +8,7 @@ import type { DocView } from './view';
 import { letNameAt, statementAt, letDefinitions } from './syntax';
 import { rangeOf } from './positions';
 import { fmt, fmtComplex, fmtPhase, withUnit } from './format';
-import { KEYWORDS } from './vocabulary';
+import { FUNCTIONS, KEYWORDS } from './vocabulary';
 
 /** How many levels the state hover lists, and how many energies the system hover lists. */
 const TOP_LEVELS = 6;
@@ -120,12 +120,27 @@ function letHover(view: DocView, name: string): string[] {
   return lines;
 }
 
+/** The built-in function called at `offset` (the name under the cursor, followed by '('), or null. */
+function functionAt(text: string, offset: number): { doc: string; start: number; end: number } | null {
+  const word = /[A-Za-z0-9_]/;
+  let start = offset;
+  while (start > 0 && word.test(text.charAt(start - 1))) start--;
+  let end = offset;
+  while (end < text.length && word.test(text.charAt(end))) end++;
+  if (start === end || !/^[ \t]*\(/.test(text.slice(end, end + 80))) return null;
+  const name = text.slice(start, end);
+  const f = FUNCTIONS.find((g) => g.name === name);
+  return f ? { doc: f.doc, start, end } : null;
+}
+
 /** The hover at `offset`, or null when there is nothing to say. */
 export function hoverAt(view: DocView, offset: number): Hover | null {
   const name = letNameAt(view.file, offset);
   if (name) return { contents: md(letHover(view, name.name)), range: rangeOf(view.lines, name.span.start, name.span.end) };
   const s = statementAt(view.file, offset);
   if (!s) return null;
+  const fn = functionAt(view.text, offset);
+  if (fn) return { contents: md([fn.doc]), range: rangeOf(view.lines, fn.start, fn.end) };
   let lines: string[] | null = null;
   if (s.kind === 'state') lines = stateHover(view);
   else if (s.kind === 'system') lines = systemHover(view);

@@ -1,12 +1,12 @@
 /**
  * What the editor offers while typing, gathered from the engine's own tables so the server never
  * disagrees with the parser: statement keywords and their forms (language/keywords), constructor
- * parameters (language/signatures), allowed functions (expr/sandbox), units and constants
+ * parameters (language/signatures), the built-in functions (expr/builtins/table, the one record per function that the sandbox, checker and compiler also read), units and constants
  * (expr/constants). This module only reshapes them for completion, signature help and hover.
  */
 import { KEYWORDS as KEYWORD_TABLE, PARITY_VALUES, INNER_WORDS, RESERVED_NAMES, OPERATOR_WORDS } from '../language/keywords';
 import { SIGNATURES } from '../language/signatures';
-import { ALLOWED_FUNCTIONS } from '../expr/sandbox';
+import { BUILTINS } from '../expr/builtins/table';
 import { BUILTIN_NUMBERS, CONSTANTS as PHYSICAL_CONSTANTS, UNITS } from '../expr/constants';
 
 /** One parameter of a constructor such as `well(...)`. */
@@ -74,8 +74,8 @@ export const CONSTANTS: readonly { name: string; doc: string }[] = [
   ...[...PHYSICAL_CONSTANTS].map(([name, v]) => ({ name, doc: v.doc })),
 ];
 
-/** Functions the sandbox allows (`phi` is offered separately, only inside `psi(x)`). */
-export const FUNCTIONS: readonly { name: string; doc: string; arity: number }[] = ALLOWED_FUNCTIONS.filter((f) => f.name !== 'phi').map((f) => ({
+/** The built-in functions (`phi` is offered separately, only inside `psi(x)`). */
+export const FUNCTIONS: readonly { name: string; doc: string; arity: number }[] = BUILTINS.filter((f) => f.name !== 'phi').map((f) => ({
   name: f.name,
   doc: f.doc,
   arity: f.minArgs,
@@ -89,7 +89,7 @@ export const RESERVED: ReadonlySet<string> = new Set<string>([
   ...KEYWORD_TABLE.map((k) => k.keyword),
   ...CONSTRUCTORS.map((c) => c.name),
   ...CONSTANTS.map((c) => c.name),
-  ...ALLOWED_FUNCTIONS.map((f) => f.name),
+  ...BUILTINS.map((f) => f.name),
   ...UNITS.keys(),
   ...PARITY_VALUES,
   ...INNER_WORDS,
