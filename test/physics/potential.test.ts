@@ -2,6 +2,8 @@ import { describe, it, expect } from 'vitest';
 import { potentialBasis, type PotentialFn } from '../../server/src/physics/potential';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
 import type { Eigenbasis } from '../../server/src/physics/types';
+import { createBudget, manualClock } from '../../server/src/physics/budget';
+import { sineDvrWork } from '../../server/src/physics/dvr';
 
 const pot = (f: (x: number) => number): PotentialFn => (xs) => xs.map(f);
 
@@ -208,5 +210,46 @@ describe('potentialBasis: conventions and robustness', () => {
     expect(Math.abs(inf.basis.energies[0] - Math.PI ** 2 / 2) / (Math.PI ** 2 / 2)).toBeLessThan(0.05);
     expect(inf.basis.potential(-0.5)).toBe(Infinity);
     expect(inf.basis.potential(2)).toBe(Infinity);
+  });
+});
+
+describe('potentialBasis: the budget', () => {
+  const step = pot((x) => (x < 0.5 ? 0 : 20));
+
+  it('two solves of the same potential give bit-identical energies, whatever the clock does short of the limit', () => {
+    const quiet = potentialBasis(step, 0, 1, 1, 4);
+    // A clock that jumps 1e6 ms per reading under a limit it never reaches: the grid must not notice.
+    const busy = potentialBasis(step, 0, 1, 1, 4, { budget: createBudget({ limitMs: 1e300, clock: manualClock(1e6) }) });
+    expect(busy.sizes).toEqual(quiet.sizes);
+    expect(Array.from(busy.basis.energies)).toEqual(Array.from(quiet.basis.energies));
+    expect(Array.from(busy.basis.uncertainty!)).toEqual(Array.from(quiet.basis.uncertainty!));
+    expect(busy.stopped).toBe(quiet.stopped);
+  });
+
+  it('an expired budget stops before the next solve and says why, as data', () => {
+    // The first poll (after the first solve) reads 2 ms past a 1 ms limit.
+    const quartic = pot((x) => x ** 4);
+    const budget = createBudget({ limitMs: 1, clock: manualClock(2) });
+    const r = potentialBasis(quartic, -8, 8, 0.5, 10, { budget });
+    expect(r.sizes.length).toBe(1);
+    expect(r.stopped).toBe('time');
+    expect(r.unresolved).toBe(1);
+    expect(r.notes.some((n) => n.kind === 'cap')).toBe(true);
+    // Work: one symmetric solve of the first size, counted in flops and grid points.
+    expect(budget.work.ops).toBe(sineDvrWork(r.sizes[0], true));
+    expect(budget.work.points).toBe(r.sizes[0] - 1);
+    const cancelled = potentialBasis(quartic, -8, 8, 0.5, 10, { budget: createBudget({ cancelled: () => true }) });
+    expect(cancelled.stopped).toBe('cancelled');
+    // Unlimited: the same potential resolves every level and counts every solve.
+    const full = createBudget();
+    const done = potentialBasis(quartic, -8, 8, 0.5, 10, { budget: full });
+    expect(done.stopped).toBeNull();
+    expect(done.unresolved).toBeNull();
+    expect(full.work.ops).toBe(done.sizes.reduce((s, N) => s + sineDvrWork(N, true), 0));
+  });
+
+  it('the grid cap is a stop reason too', () => {
+    const r = potentialBasis(pot((x) => x ** 4), -8, 8, 0.5, 20, { maxPoints: 40 });
+    expect(r.stopped).toBe('cap');
   });
 });

@@ -8,6 +8,7 @@ import { boxBasis } from '../physics/box';
 import { wellBasis } from '../physics/well';
 import { oscillatorBasis } from '../physics/oscillator';
 import { potentialBasis } from '../physics/potential';
+import { createBudget } from '../physics/budget';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
 
@@ -100,7 +101,9 @@ export function buildBasis(
         );
         return null;
       }
-      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: options.deadline });
+      // Bridge until analyse passes its Budget: the deadline and cancellation as one budget.
+      const budget = createBudget({ limitMs: options.deadline === undefined ? Infinity : options.deadline - performance.now(), cancelled: options.cancelled });
+      const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget });
       if (bad !== null) {
         const b = bad as { x: number; value: string };
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${short(b.x)}.`));
@@ -113,7 +116,7 @@ export function buildBasis(
         out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
         return null;
       }
-      const timeLimited = solved.notes.some((n) => n.kind === 'cap' && n.message.startsWith('The time limit'));
+      const timeLimited = solved.stopped === 'time' || solved.stopped === 'cancelled';
       const built: BuiltBasis = {
         basis: solved.basis,
         wallArtefacts: wallArtefacts(solved.basis, probe, evalV(probe)),
