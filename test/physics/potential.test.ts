@@ -51,7 +51,10 @@ describe('potentialBasis: exactly solvable potentials', () => {
     const r6 = potentialBasis(V, -2.5, 45, 1, 6);
     expect(r6.wallLevels).toEqual([5]);
     expect(r6.wallEnds).toEqual(['right']);
-    expect(r6.notes.some((n) => n.kind === 'walls')).toBe(true);
+    // Above V at the right wall only, so not wall-only by the documented rule (both walls).
+    expect(r6.wallOnly).toEqual([]);
+    expect(r6.notes.some((n) => n.kind === 'walls')).toBe(false);
+    expect(r6.wallTrend).toEqual({ left: 'rises', right: 'levels' });
   });
 
   it('Pöschl–Teller -6 sech^2 x on [-20, 20] (symmetric blocks)', () => {
@@ -251,5 +254,41 @@ describe('potentialBasis: the budget', () => {
   it('the grid cap is a stop reason too', () => {
     const r = potentialBasis(pot((x) => x ** 4), -8, 8, 0.5, 20, { maxPoints: 40 });
     expect(r.stopped).toBe('cap');
+  });
+});
+
+describe('potentialBasis: wall-only levels (docs/format.md, README: above the potential at both walls)', () => {
+  it('the step box: levels below V = 20 at the right wall are not wall-only, levels above 20 are', () => {
+    // Box levels of [0, 1] are n^2 pi^2 / 2 = 4.93, 19.7, 44.4 before the step: the first lies
+    // below V(1-) = 20, and the step only raises levels, by less than 20 (derived in this comment).
+    const r = potentialBasis(pot((x) => (x < 0.5 ? 0 : 20)), 0, 1, 1, 6);
+    const E = r.basis.energies;
+    expect(E[0]).toBeLessThan(20);
+    expect(r.wallOnly).not.toContain(0);
+    const above = Array.from(E).flatMap((e, k) => (e > 20 ? [k] : []));
+    expect(above.length).toBeGreaterThan(0);
+    expect(r.wallOnly).toEqual(above);
+    expect(r.notes.find((n) => n.kind === 'walls')?.message).toContain(`n = ${above[0] + 1}`);
+    expect(r.wallTrend).toEqual({ left: 'levels', right: 'levels' });
+  });
+
+  it('a quartic gets none: its levels lie far below V at the walls', () => {
+    // H = p^2 + x^4 on [-6, 6]: V(+-6) = 1296; the 12th level is about 70 (WKB, from memory).
+    const r = potentialBasis(pot((x) => x ** 4), -6, 6, 0.5, 12);
+    expect(r.wallOnly).toEqual([]);
+    expect(r.wallLevels).toEqual([]);
+    expect(r.notes.some((n) => n.kind === 'walls')).toBe(false);
+    expect(r.wallTrend).toEqual({ left: 'rises', right: 'rises' });
+  });
+
+  it('a double well cut at its rim: levels above V at both walls are wall-only', () => {
+    // V = (x^2 - 1)^2 on [-1.5, 1.5]: V(+-1.5) = 1.5625 at both walls; the barrier at 0 is 1.
+    const r = potentialBasis(pot((x) => (x * x - 1) ** 2), -1.5, 1.5, 1, 8);
+    const E = Array.from(r.basis.energies);
+    const above = E.flatMap((e, k) => (e > 1.5625 ? [k] : []));
+    expect(above.length).toBeGreaterThan(2);
+    expect(above[0]).toBeGreaterThan(0);
+    expect(r.wallOnly).toEqual(above);
+    expect(r.wallEnds.every((e) => e === 'both')).toBe(true);
   });
 });

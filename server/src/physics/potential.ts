@@ -43,6 +43,9 @@ export interface PotentialOptions {
   budget?: Budget;
 }
 
+/** What V does towards a wall (see `PotentialBasisResult.wallTrend`). */
+export type WallTrend = 'rises' | 'levels' | 'falls';
+
 /** Something the solver wants the analysis to know. */
 export interface PotentialNote {
   /**
@@ -73,6 +76,21 @@ export interface PotentialBasisResult {
    * solver cannot tell which the user meant.
    */
   wallEnds: ('left' | 'right' | 'both')[];
+  /**
+   * The documented rule, in one place: indices (0-based, ascending) of the levels above the potential at
+   * both walls, E_k > V(a+) and E_k > V(b-). Without the walls such a level would be unbound on both
+   * sides (or, where V rises on, bound by V beyond the interval): either way the walls, not V, quantise
+   * it. A level above V at one wall only (a deliberate wall under a ramp, Morse above D on one side) is
+   * not wall-only; `wallEnds` tells those apart. The analysis labels these levels `continuum`.
+   */
+  wallOnly: number[];
+  /**
+   * What V does towards each wall, from V at the wall against V a tenth of the interval inside (relative
+   * tolerance 1e-6 of the potential's scale): 'rises' (a quartic: the wall truncates a potential that
+   * goes on rising), 'levels' (levels off: Morse towards dissociation, a flat step), 'falls' (V drops
+   * towards the wall). For wording only; `wallOnly` does not depend on it.
+   */
+  wallTrend: { left: WallTrend; right: WallTrend };
   notes: PotentialNote[];
   /** Grid sizes solved, in order (for benchmarks and reports). */
   sizes: number[];
@@ -133,6 +151,8 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     unresolved: levels >= 1 ? 1 : null,
     wallLevels: [],
     wallEnds: [],
+    wallOnly: [],
+    wallTrend: { left: 'levels', right: 'levels' },
     notes: [note],
     sizes: [],
     stopped: null,
@@ -178,8 +198,9 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   fixSigns(sol);
   const walls = wallClassification(V, a, b, sol.energies);
   if (walls.note) notes.push(walls.note);
+  const wallTrend = { left: trendTowards(scan.sv, 0, scan.vscale), right: trendTowards(scan.sv, scan.sv.length - 1, scan.vscale) };
   const basis = makeBasis(sol, a, b, mass, V, scan.symmetric ? 0.5 * (a + b) : null, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
-  return { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, notes, sizes: r.sizes, stopped };
+  return { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
 }
 
 /**
@@ -194,23 +215,46 @@ function gridCap(maxPoints: number, maxWork: number, symmetric: boolean): { cap:
   return { cap, capWhy };
 }
 
-/** Levels above the potential at one or both ends (see `wallLevels`, `wallEnds`), with the solver's note. */
-function wallClassification(V: PotentialFn, a: number, b: number, energies: Float64Array): { wallLevels: number[]; wallEnds: ('left' | 'right' | 'both')[]; note: PotentialNote | null } {
+/**
+ * Levels above the potential at one or both ends (`wallLevels`, `wallEnds`) and at both (`wallOnly`),
+ * with the solver's note about the latter. V at the ends is read 1e-9 L inside each wall.
+ */
+function wallClassification(
+  V: PotentialFn,
+  a: number,
+  b: number,
+  energies: Float64Array,
+): { wallLevels: number[]; wallEnds: ('left' | 'right' | 'both')[]; wallOnly: number[]; note: PotentialNote | null } {
   const L = b - a;
   const ends = evalV(V, Float64Array.of(a + 1e-9 * L, b - 1e-9 * L));
   const wallLevels: number[] = [];
   const wallEnds: ('left' | 'right' | 'both')[] = [];
-  if (!ends) return { wallLevels, wallEnds, note: null };
-  const vend = Math.min(ends[0], ends[1]);
+  const wallOnly: number[] = [];
+  if (!ends) return { wallLevels, wallEnds, wallOnly, note: null };
+  const [va, vb] = [ends[0], ends[1]];
   for (let k = 0; k < energies.length; k++) {
     const e = energies[k];
-    if (!(e > vend)) continue;
+    if (!(e > Math.min(va, vb))) continue;
+    const both = e > va && e > vb;
     wallLevels.push(k);
-    wallEnds.push(e > ends[0] && e > ends[1] ? 'both' : e > ends[0] ? 'left' : 'right');
+    wallEnds.push(both ? 'both' : e > va ? 'left' : 'right');
+    if (both) wallOnly.push(k);
   }
   const note: PotentialNote | null =
-    wallLevels.length > 0
-      ? { kind: 'walls', message: `${wallLevels.length} level(s) lie above the potential at both walls (${vend}); they belong to a continuum quantised by the walls.` }
+    wallOnly.length > 0
+      ? {
+          kind: 'walls',
+          message: `${wallOnly.length} level(s) from n = ${wallOnly[0] + 1} lie above the potential at both walls (V = ${va} at the left, ${vb} at the right): the walls quantise them, not the potential.`,
+        }
       : null;
-  return { wallLevels, wallEnds, note };
+  return { wallLevels, wallEnds, wallOnly, note };
+}
+
+/** What the samples do towards the wall at sample `end` (0 or the last): see `wallTrend`. */
+function trendTowards(sv: Float64Array, end: number, vscale: number): WallTrend {
+  const inner = end === 0 ? Math.floor(sv.length / 10) : sv.length - 1 - Math.floor(sv.length / 10);
+  const tol = 1e-6 * Math.max(vscale, Number.MIN_VALUE);
+  const d = sv[end] - sv[inner];
+  if (!Number.isFinite(d)) return sv[end] === Infinity ? 'rises' : 'falls';
+  return d > tol ? 'rises' : d < -tol ? 'falls' : 'levels';
 }
