@@ -17,12 +17,13 @@ import { sineLadder } from './sines';
 /** Gauss–Legendre points per panel of the interface arrangement. */
 const ORDER = 20;
 /**
- * Panels per shortest wavelength 2 L / qMax of the highest moment. A 20-point Gauss–Legendre rule
- * integrates a polynomial of degree 39 exactly; cos over one third of a wavelength (phase 2.1) is
- * matched by its Taylor series to degree 39 within (2.1)^40 / 40! ~ 1e-35 (derived), so the moments
- * carry the smooth part of f to rounding.
+ * Panels per shortest wavelength 2 L / qMax of the highest moment. The remainder of the n-point
+ * Gauss–Legendre rule on a panel of length l is l^(2n+1) (n!)^4 / ((2n+1) ((2n)!)^3) f^(2n)
+ * (Abramowitz & Stegun 25.4.30, from memory); for cos(w x) over one wavelength (w l = 2 pi) and n = 20
+ * that is below 1e-39 l (derived), so one panel per wavelength carries the moments of a smooth f to
+ * rounding.
  */
-const PANELS_PER_WAVELENGTH = 3;
+const PANELS_PER_WAVELENGTH = 1;
 
 /** A panel arrangement of [a, b] with an edge on every jump. */
 export interface InterfaceGrid extends Quadrature {

@@ -5,7 +5,7 @@
 import type { Eigenbasis } from './types';
 import { unlimitedBudget, type Budget, type StopReason } from './budget';
 import { firstGridSize, scanPotential, evalV } from './potentialScan';
-import { levelScale, refine } from './potentialRefine';
+import { JUMP_ORDER, levelScale, refine } from './potentialRefine';
 import { emptyBasis, fixSigns, makeBasis } from './potentialView';
 
 /** A vectorised potential: V at every x of the array, in internal units. */
@@ -126,11 +126,12 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
  * `uncertainty` (a conservative bound while convergence is fast). For smooth V the error falls
  * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
- * grid cell holding it is integrated exactly in the DVR matrix (dvr.ts, `jumps`); the energy error is
- * then O(N^-2) with a steady coefficient (measured in test/physics/potential.test.ts: slope 2.0 for a
- * step in a box). With the order known, the first comparison predicts the size the tolerance needs;
- * when that exceeds the cap, one last grid of max(2 N, `algebraicPoints`) is solved and its uncertainty
- * is twice the Richardson estimate |E_f - E_c| / ((N_f / N_c)^2 - 1).
+ * potential matrix is integrated exactly over panels that end on every jump (interfaces.ts), a Galerkin
+ * solve in the same sine basis: the energy error is then O(N^-3) with a steady coefficient, from above
+ * (variational; measured in test/physics/potential.test.ts). With the order known, the first comparison
+ * predicts the size the tolerance needs; when that exceeds the cap, one last grid of
+ * max(2 N, `algebraicPoints`) is solved and its uncertainty is twice the Richardson estimate
+ * |E_f - E_c| / ((N_f / N_c)^3 - 1).
  * When V'(wall) != 0 with the level non-negligible at that wall (a wall at 0 with V = F x, a box in a
  * field), the DVR's quadrature has an O(N^-4) endpoint error; its Euler–Maclaurin term is removed with
  * V'(a), V'(b) from one-sided differences (dvr.ts, `wallSlopes`), leaving O(N^-6) (measured: the Airy
@@ -170,7 +171,7 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   if (scan.jumps.length > 0) {
     notes.push({
       kind: 'jumps',
-      message: `The potential jumps at ${scan.jumps.length} point(s); energies converge algebraically (about N^-2), not exponentially.`,
+      message: `The potential jumps at ${scan.jumps.length} point(s); energies converge algebraically (about N^-${JUMP_ORDER}), not exponentially.`,
       at: scan.jumps[0].x,
     });
   }

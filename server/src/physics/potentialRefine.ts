@@ -8,6 +8,7 @@ import type { Budget, StopReason } from './budget';
 import type { PotentialFn } from './potential';
 import { evalV, type PotentialScan } from './potentialScan';
 import { sineDvrGrid, sineDvrSolve, sineDvrWork, type SineDvrSolution } from './dvr';
+import { cosineMoments, cosineMomentsWork, interfaceGrid } from './interfaces';
 
 /** What one refinement needs. */
 export interface RefineSetup {
@@ -42,29 +43,38 @@ export interface Refined {
   capNote: string | null;
 }
 
-/** Order of the energy error for a V with jumps in the sine DVR with exact jump cells (measured, test/physics/potential.test.ts). */
-const JUMP_ORDER = 2;
+/**
+ * Order of the energy error for a V with jumps, solved by Galerkin in the sine basis with exact moments
+ * (`jumpSolve`): the level is C^1 with a jump in phi'' at each step, so its sine coefficients fall as
+ * k^-3 and the variational energy error as sum_{k > N} k^2 k^-6 ~ N^-3 (derived; measured in
+ * test/physics/potential.test.ts).
+ */
+export const JUMP_ORDER = 3;
 
-/** The potential on the solver grid of N intervals, ready for `sineDvrSolve`; null when V fails there. */
-function solveAt(s: RefineSetup, N: number): SineDvrSolution | null {
-  const { a, b, mass, scan } = s;
-  const L = b - a;
-  const xs = sineDvrGrid(a, b, N);
+/** V on xs with +Infinity replaced by `wall` (far above the spectrum of N intervals); null when V fails. */
+function clampedV(s: RefineSetup, xs: Float64Array, wall: number): Float64Array | null {
   const vv = evalV(s.V, xs);
   if (!vv) return null;
-  const h = L / N;
-  const wall = Math.max(scan.vmaxFinite, scan.vmin + (4 * (Math.PI * N) ** 2) / (2 * mass * L * L));
   for (let i = 0; i < vv.length; i++) {
     if (vv[i] === Infinity) vv[i] = wall;
     else if (!Number.isFinite(vv[i])) return null;
   }
-  const cells: { index: number; at: number; left: number; right: number }[] = [];
-  for (const jp of scan.jumps) {
-    // The cell [x_i - h/2, x_i + h/2] holding the jump is integrated exactly (dvr.ts, `jumps`).
-    const i = Math.round((jp.x - a) / h);
-    if (i < 1 || i > vv.length) continue;
-    cells.push({ index: i, at: jp.x, left: jp.left === Infinity ? wall : jp.left, right: jp.right === Infinity ? wall : jp.right });
-  }
+  return vv;
+}
+
+/**
+ * One solve with N intervals: the sine DVR for a smooth V; for a V with jumps, a Galerkin solve in the
+ * same sine basis whose potential matrix is integrated over panels ending on every jump
+ * (interfaces.ts), so each jump is a grid point of the integration and no cell straddles it.
+ * Null when V fails on the grid.
+ */
+function solveAt(s: RefineSetup, N: number): SineDvrSolution | null {
+  const { a, b, mass, scan } = s;
+  const L = b - a;
+  const wall = Math.max(scan.vmaxFinite, scan.vmin + (4 * (Math.PI * N) ** 2) / (2 * mass * L * L));
+  if (scan.jumps.length > 0) return jumpSolve(s, N, wall);
+  const vv = clampedV(s, sineDvrGrid(a, b, N), wall);
+  if (!vv) return null;
   if (scan.symmetric) {
     for (let i = 0, j = vv.length - 1; i < j; i++, j--) {
       const m = 0.5 * (vv[i] + vv[j]);
@@ -73,8 +83,19 @@ function solveAt(s: RefineSetup, N: number): SineDvrSolution | null {
     }
   }
   s.budget.count(sineDvrWork(N, scan.symmetric), N - 1);
-  const sol = sineDvrSolve(vv, a, b, mass, s.K, { symmetric: scan.symmetric, jumps: cells, wallSlopes: scan.slopes });
+  const sol = sineDvrSolve(vv, a, b, mass, s.K, { symmetric: scan.symmetric, wallSlopes: scan.slopes });
   // Values near the floating-point limit overflow the matrix: report, do not return NaN levels.
+  return sol.energies.every(Number.isFinite) ? sol : null;
+}
+
+/** The Galerkin solve of a V with jumps (see `solveAt`): moments C(q), q < 2N, from the interface grid. */
+function jumpSolve(s: RefineSetup, N: number, wall: number): SineDvrSolution | null {
+  const grid = interfaceGrid(s.a, s.b, s.scan.jumps.map((j) => j.x), 2 * N);
+  const vg = clampedV(s, grid.x, wall);
+  if (!vg) return null;
+  s.budget.count(sineDvrWork(N, s.scan.symmetric) + cosineMomentsWork(grid, 2 * N), N - 1 + grid.x.length);
+  const moments = cosineMoments(grid, vg, 2 * N);
+  const sol = sineDvrSolve(new Float64Array(N - 1), s.a, s.b, s.mass, s.K, { symmetric: s.scan.symmetric, moments });
   return sol.energies.every(Number.isFinite) ? sol : null;
 }
 
@@ -109,12 +130,13 @@ interface Climb {
 
 /**
  * The climb: sizes grow by `growth` until two successive ones agree on every level to the tolerance.
- * Algebraic convergence (a steady measured order p, or the known order of a V with jumps, or a cap out
- * of reach) ends it with one solve at the size N_f the order predicts, whose uncertainty is twice
+ * A V with jumps climbs by `jumpClimb` instead. Algebraic convergence (a steady measured order p, or a
+ * cap out of reach) ends it with one solve at the size N_f the order predicts, whose uncertainty is twice
  * Richardson's |E_f - E_N| / ((N_f / N)^p - 1) (twice because p is measured); when the prediction
  * exceeds the cap, N_f = min(cap, max(2 N, algebraicPoints)).
  */
 export function refine(s: RefineSetup, N0: number): Refined {
+  if (s.scan.jumps.length > 0) return jumpClimb(s, N0);
   const first = solveAt(s, N0);
   if (!first) return { sol: null, diffs: new Float64Array(0), sizes: [N0], capped: false, expired: null, capNote: null };
   const c: Climb = { N: N0, cur: first, diffs: new Float64Array(0), sizes: [N0], capped: N0 >= s.cap, expired: null, capNote: null, failed: false };
@@ -140,10 +162,9 @@ export function refine(s: RefineSetup, N0: number): Refined {
       c.capped = true;
       break;
     }
-    const jumps = s.scan.jumps.length > 0;
-    if ((prevWorst && worst < prevWorst.ratio) || jumps) {
-      const p = jumps ? JUMP_ORDER : Math.log(prevWorst!.ratio / worst) / Math.log(c.N / prevWorst!.N);
-      const steady = jumps || (prevOrder !== null && Math.abs(p - prevOrder) <= 0.15 * p);
+    if (prevWorst && worst < prevWorst.ratio) {
+      const p = Math.log(prevWorst.ratio / worst) / Math.log(c.N / prevWorst.N);
+      const steady = prevOrder !== null && Math.abs(p - prevOrder) <= 0.15 * p;
       prevOrder = p;
       // worst ~ the error of the coarser size prevN in units of the tolerance.
       const need = prevN * Math.pow(4 * worst, 1 / p);
@@ -184,4 +205,56 @@ function richardsonStep(s: RefineSetup, c: Climb, p: number, need: number, outOf
   for (let k = 0; k < mm; k++) c.diffs[k] = (2 * Math.abs(fin.energies[k] - c.cur.energies[k])) / factor;
   c.cur = fin;
   c.N = Nf;
+}
+
+/**
+ * The climb for a V with jumps, whose Galerkin energies converge as E(N) = E + A N^-3 + O(N^-4)
+ * (`JUMP_ORDER`). Sizes grow by `growth`; from the second size on, each level's energy is Richardson's
+ * extrapolation R = E_f + (E_f - E_c) / ((N_f / N_c)^3 - 1) of the last two sizes, whose error is
+ * O(N^-4) with a coefficient that wanders with the jump's place among the grid's nodes (measured: the
+ * error of R changes sign and is up to 1.4 times the last change of R). Its uncertainty is therefore
+ * twice the larger of the last change of R and the change before, scaled down by growth^4 (the
+ * envelope of an O(N^-4) sequence): measured 2.8 times the true error or more on steps at 0.3, 0.4321
+ * and 0.5 of a box. With only two sizes (the cap), the energy is E_f and its
+ * uncertainty twice Richardson's estimate of its own error. The climb stops when every level's
+ * uncertainty meets the tolerance, at the cap, or when the budget expires. The levels' functions are
+ * those of the finest size; only their energies are extrapolated.
+ */
+function jumpClimb(s: RefineSetup, N0: number): Refined {
+  const sizes = [N0];
+  let coarse = solveAt(s, N0);
+  const none = { diffs: new Float64Array(0), sizes, capped: false, expired: null, capNote: null };
+  if (!coarse) return { sol: null, ...none };
+  let N = N0;
+  let extrapolated: Float64Array | null = null;
+  let lastChange: Float64Array | null = null;
+  const envelope = Math.pow(s.growth, JUMP_ORDER + 1);
+  let best: Refined = { sol: coarse, ...none, capped: N0 >= s.cap };
+  while (N < s.cap) {
+    if (s.budget.expired()) return { ...best, expired: s.budget.reason };
+    const N1 = Math.min(s.cap, Math.ceil(N * s.growth));
+    const fine = solveAt(s, N1);
+    if (!fine) return { ...best, sol: null };
+    sizes.push(N1);
+    const factor = Math.pow(N1 / N, JUMP_ORDER) - 1;
+    const m = fine.energies.length;
+    const R = new Float64Array(m);
+    const diffs = new Float64Array(m).fill(Infinity);
+    for (let k = 0; k < m; k++) {
+      const change = k < coarse.energies.length ? (fine.energies[k] - coarse.energies[k]) / factor : NaN;
+      R[k] = Number.isFinite(change) ? fine.energies[k] + change : fine.energies[k];
+      if (extrapolated === null) diffs[k] = 2 * Math.abs(change);
+      else if (k < extrapolated.length) diffs[k] = 2 * Math.max(Math.abs(R[k] - extrapolated[k]), lastChange && k < lastChange.length ? lastChange[k] / envelope : 0);
+    }
+    if (extrapolated !== null) lastChange = R.map((r, k) => (k < extrapolated!.length ? Math.abs(r - extrapolated![k]) : Infinity));
+    const sol = extrapolated === null ? fine : { ...fine, energies: R };
+    let worst = 0;
+    for (let k = 0; k < m; k++) worst = Math.max(worst, diffs[k] / (s.tolerance * levelScale(sol.energies, k, s.scan.vmin)));
+    best = { sol, diffs, sizes, capped: N1 >= s.cap && worst > 1, expired: null, capNote: null };
+    if (!(worst > 1)) break;
+    extrapolated = R;
+    coarse = fine;
+    N = N1;
+  }
+  return best;
 }
