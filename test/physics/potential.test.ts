@@ -14,8 +14,11 @@ function check(V: PotentialFn, a: number, b: number, mass: number, refs: number[
   expect(r.unresolved).toBeNull();
   expect(r.basis.count).toBe(levels);
   refs.forEach((e, k) => {
-    expect(Math.abs(r.basis.energies[k] - e)).toBeLessThanOrEqual(rel * Math.abs(e));
-    // The reported uncertainty must not be smaller than the true error by much (two-size check).
+    const err = Math.abs(r.basis.energies[k] - e);
+    expect(err).toBeLessThanOrEqual(rel * Math.abs(e));
+    // The stated uncertainty is honest (never below the true error, never 0) and meets the tolerance.
+    expect(err).toBeLessThanOrEqual(r.basis.uncertainty![k]);
+    expect(r.basis.uncertainty![k]).toBeGreaterThan(0);
     expect(r.basis.uncertainty![k]).toBeLessThanOrEqual(1e-9 * Math.max(Math.abs(e), 1));
   });
   return r;
@@ -145,6 +148,15 @@ describe('potentialBasis: exactly solvable potentials', () => {
       }
     });
     expect(orthonormalityError(r.basis, 10)).toBeLessThan(1e-10);
+  });
+
+  it('V = x^2/2 on [0, 8], a half oscillator: E = 2n + 3/2, stated uncertainty above the true error', () => {
+    // The wall at 0 keeps the odd states of the full oscillator, E = 2n + 3/2 = 1.5, 3.5, 5.5 (hbar = m =
+    // omega = 1; derived). The wall at 8 shifts E = 5.5 by about |phi(8)|^2 ~ e^-60 (negligible).
+    check(pot((x) => x * x / 2), 0, 8, 1, [1.5, 3.5, 5.5], 1e-12);
+    // More levels asked for: a finer grid, where rounding dominates the first levels' error.
+    const r = potentialBasis(pot((x) => x * x / 2), 0, 8, 1, 12);
+    [1.5, 3.5, 5.5].forEach((e, k) => expect(Math.abs(r.basis.energies[k] - e)).toBeLessThanOrEqual(r.basis.uncertainty![k]));
   });
 
   it('V = 0 on [0, 1] gives the box n^2 pi^2/2', () => {

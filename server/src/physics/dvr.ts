@@ -46,6 +46,12 @@ export interface SineDvrSolution {
    * rounding noise and are skipped when the series is evaluated.
    */
   terms: Int32Array;
+  /**
+   * An upper bound on the 2-norm of the Hamiltonian matrix solved: the largest kinetic term
+   * (n pi / L)^2 / (2 m) plus the largest |V| on the grid (||T + V|| <= ||T|| + ||V||, and the sine-basis
+   * matrix of V has norm at most max |V|). The scale of its rounding errors.
+   */
+  normBound: number;
 }
 
 /** Options of `sineDvrSolve`. */
@@ -71,6 +77,8 @@ export interface SineDvrOptions {
    * solve in the sine basis; `jumps` and `wallSlopes` are then ignored (the integrals are exact).
    */
   moments?: Float64Array;
+  /** With `moments`: the largest |V| they were integrated from (for `normBound`; default: max |v|). */
+  potentialBound?: number;
 }
 
 /**
@@ -118,7 +126,10 @@ export function sineDvrSolve(
     parity[j] = blk.parity;
     for (let r = 0; r < blk.ks.length; r++) coefficients[j * n + blk.ks[r] - 1] = f.vec[r];
   }
-  return { a, b, mass, intervals: N, energies, coefficients, parity, terms: significantTerms(coefficients, count, n) };
+  let vabs = options.potentialBound ?? 0;
+  if (options.potentialBound === undefined) for (let i = 0; i < n; i++) vabs = Math.max(vabs, Math.abs(v[i]));
+  const normBound = kin * n * n + vabs;
+  return { a, b, mass, intervals: N, energies, coefficients, parity, terms: significantTerms(coefficients, count, n), normBound };
 }
 
 /**

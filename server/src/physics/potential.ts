@@ -5,7 +5,7 @@
 import type { Eigenbasis } from './types';
 import { unlimitedBudget, type Budget, type StopReason } from './budget';
 import { firstGridSize, scanPotential, evalV } from './potentialScan';
-import { JUMP_ORDER, levelScale, refine } from './potentialRefine';
+import { JUMP_ORDER, levelScale, refine, roundingFloor } from './potentialRefine';
 import { emptyBasis, fixSigns, makeBasis } from './potentialView';
 
 /** A vectorised potential: V at every x of the array, in internal units. */
@@ -124,7 +124,9 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  * estimate of the highest level E_K; the grid then grows by `growth` until two successive sizes agree on
  * every level to `tolerance` relative (relative to max(|E|, 1e-3 (E_K - V_min)), so levels near E = 0 are
  * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
- * `uncertainty` (a conservative bound while convergence is fast). For smooth V the error falls
+ * `uncertainty` (a conservative bound while convergence is fast), floored at the rounding error double
+ * precision allows for that grid, sqrt(n) eps ||H|| (`roundingFloor`), so it is never 0 and never
+ * below the true error where the two sizes agree to rounding. For smooth V the error falls
  * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
  * potential matrix is integrated exactly over panels that end on every jump (interfaces.ts), a Galerkin
  * solve in the same sine basis: the energy error is then O(N^-3) with a steady coefficient, from above
@@ -182,8 +184,10 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   const count = sol.energies.length;
   const uncertainty = new Float64Array(count);
   let unresolved: number | null = null;
+  // Never below what double precision can resolve for this grid (`roundingFloor`).
+  const floor = roundingFloor(sol);
   for (let k = 0; k < count; k++) {
-    uncertainty[k] = k < r.diffs.length ? r.diffs[k] : Infinity;
+    uncertainty[k] = Math.max(k < r.diffs.length ? r.diffs[k] : Infinity, floor);
     if (unresolved === null && !(uncertainty[k] <= o.tolerance * levelScale(sol.energies, k, scan.vmin))) unresolved = k + 1;
   }
   if (count < K && unresolved === null) unresolved = count + 1;
