@@ -287,6 +287,23 @@ describe('potentialBasis: the budget', () => {
     expect(full.work.ops).toBe(done.sizes.reduce((s, N) => s + sineDvrWork(N, true), 0));
   });
 
+  it('double precision is a stop reason too: a tolerance below the rounding floor', () => {
+    // The box is exact at any size (dvr.ts), so only rounding stands between it and a tolerance of 1e-18.
+    const r = potentialBasis(pot(() => 0), 0, 1, 1, 3, { tolerance: 1e-18 });
+    expect(r.unresolved).toBe(1);
+    expect(r.stopped).toBe('cap');
+    expect(r.notes.some((n) => n.kind === 'cap' && n.message.includes('Double precision'))).toBe(true);
+    expect(r.basis.uncertainty![0]).toBeGreaterThan(1e-18 * r.basis.energies[0]);
+  });
+
+  it('a step whose tolerance is out of reach stops once past algebraicPoints, with the cap as reason', () => {
+    const r = potentialBasis(pot((x) => (x < 0.5 ? 0 : 20)), 0, 1, 1, 1, { tolerance: 1e-14, maxPoints: 200, algebraicPoints: 100 });
+    expect(r.stopped).toBe('cap');
+    expect(Math.max(...r.sizes)).toBeLessThan(200);
+    expect(Math.max(...r.sizes)).toBeGreaterThanOrEqual(100);
+    expect(Math.abs(r.basis.energies[0] - stepBoxLevel(0.5, 20))).toBeLessThanOrEqual(r.basis.uncertainty![0]);
+  });
+
   it('the grid cap is a stop reason too', () => {
     const r = potentialBasis(pot((x) => x ** 4), -8, 8, 0.5, 20, { maxPoints: 40 });
     expect(r.stopped).toBe('cap');

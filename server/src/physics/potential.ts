@@ -96,8 +96,9 @@ export interface PotentialBasisResult {
   sizes: number[];
   /**
    * Why refinement stopped short of the tolerance: 'time' or 'cancelled' (the budget expired before a
-   * solve the tolerance needed), 'cap' (the grid or work cap), or null when every level asked for met
-   * the tolerance. The notes say the same in words (kind 'cap').
+   * solve the tolerance needed), 'cap' (the grid or work cap, or the rounding floor of double precision
+   * above the tolerance), or null when every level asked for met the tolerance. The notes say the same
+   * in words (kind 'cap').
    */
   stopped: StopReason | null;
 }
@@ -125,7 +126,7 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  * every level to `tolerance` relative (relative to max(|E|, 1e-3 (E_K - V_min)), so levels near E = 0 are
  * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
  * `uncertainty` (a conservative bound while convergence is fast), floored at the rounding error double
- * precision allows for that grid, sqrt(n) eps ||H|| (`roundingFloor`), so it is never 0 and never
+ * precision allows for that grid, 4 eps ||H|| (`roundingFloor`), so it is never 0 and never
  * below the true error where the two sizes agree to rounding. For smooth V the error falls
  * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
  * potential matrix is integrated exactly over panels that end on every jump (interfaces.ts), a Galerkin
@@ -192,10 +193,15 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   }
   if (count < K && unresolved === null) unresolved = count + 1;
   if (r.capNote) notes.push({ kind: 'cap', message: r.capNote });
-  const stopped: StopReason | null = unresolved === null ? null : r.expired ?? (r.capped ? 'cap' : null);
+  // Double precision itself can stop a level short of the tolerance: its floor is above it.
+  const byRounding = unresolved !== null && unresolved <= count && floor > o.tolerance * levelScale(sol.energies, unresolved - 1, scan.vmin);
+  const stopped: StopReason | null = unresolved === null ? null : r.expired ?? (r.capped || byRounding ? 'cap' : null);
+  if (byRounding && !r.expired) {
+    notes.push({ kind: 'cap', message: `Double precision resolves level ${unresolved} only to ${floor.toExponential(1)} on ${sol.intervals} grid intervals, above the tolerance.` });
+  }
   if (stopped === 'time' || stopped === 'cancelled') {
     notes.push({ kind: 'cap', message: `The time limit stopped refinement before level ${unresolved} met the tolerance.` });
-  } else if (stopped === 'cap' && !r.capNote) {
+  } else if (stopped === 'cap' && !r.capNote && !byRounding) {
     notes.push({ kind: 'cap', message: `${capWhy.charAt(0).toUpperCase()}${capWhy.slice(1)} stopped refinement before level ${unresolved} met the tolerance.` });
   }
   if (scan.clamped) notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
