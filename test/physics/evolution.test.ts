@@ -1,5 +1,6 @@
 import { describe, it, expect } from 'vitest';
-import { evolve, psiAt, revivalTime, evolutionQuadrature, matrixElements } from '../../server/src/physics/evolution';
+import { evolve, psiAt, revival, revivalTime, evolutionQuadrature, matrixElements } from '../../server/src/physics/evolution';
+import { createBudget, manualClock } from '../../server/src/physics/budget';
 import { boxBasis } from '../../server/src/physics/box';
 import { oscillatorBasis } from '../../server/src/physics/oscillator';
 import { potentialBasis } from '../../server/src/physics/potential';
@@ -104,17 +105,44 @@ describe('evolution: expectation values', () => {
     c[0] = Math.SQRT1_2;
     c[1] = Math.SQRT1_2;
     let polls = 0;
-    const r = evolve(basis, c, new Float64Array(30), times(5, 100), { cancelled: () => ++polls > 10 });
+    const r = evolve(basis, c, new Float64Array(30), times(5, 100), { budget: createBudget({ cancelled: () => ++polls > 10 }) });
     expect(r.complete).toBe(false);
-    expect(r.survival.length).toBeGreaterThan(0);
-    expect(r.survival.length).toBeLessThan(100);
+    expect(r.stopped).toBe('cancelled');
+    expect(r.survival.length).toBe(10);
     expect(r.meanX.length).toBe(r.survival.length);
     const full = evolve(basis, c, new Float64Array(30), times(5, 100));
     expect(full.complete).toBe(true);
+    expect(full.stopped).toBeNull();
     expect(Array.from(r.meanX)).toEqual(Array.from(full.meanX.subarray(0, r.meanX.length)));
+  });
+
+  it('the time limit stops an evolution after a known number of polls (manual clock), and work is counted', () => {
+    const basis = oscillatorBasis(1, 0, 1, 30);
+    const c = new Float64Array(30);
+    c[0] = 0.6;
+    c[2] = 0.8;
+    // Each poll reads the clock once and advances it by 1 ms; the limit of 10 ms passes on the 11th poll.
+    const budget = createBudget({ limitMs: 10, clock: manualClock(1) });
+    const r = evolve(basis, c, new Float64Array(30), times(5, 100), { budget });
+    expect(r.stopped).toBe('time');
+    expect(r.survival.length).toBe(10);
+    // Kept levels K = 3: 4 K^2 + 2 n operations per time (n = 30 levels in the survival).
+    expect(budget.work.ops).toBe(10 * (4 * 9 + 2 * 30));
     // The quadrature of a basis without closed forms polls too, row by row.
-    let rows = 0;
-    expect(matrixElements({ ...basis, matrixElements: undefined }, 30, () => ++rows > 3)).toBeNull();
+    const rows = createBudget({ limitMs: 3, clock: manualClock(1) });
+    const me = matrixElements({ ...basis, matrixElements: undefined }, 30, { budget: rows });
+    expect(me.stopped).toBe('time');
+    expect(rows.work.points).toBeGreaterThan(0);
+    expect(matrixElements(basis, 30).stopped).toBeNull();
+  });
+
+  it('a revival search stopped by the budget says so', () => {
+    // Levels E = 0, 1, sqrt(2): incommensurate, so S(t) never returns to 1 within a short horizon.
+    const num = { ...boxBasis(0, 1, 1, 3), kind: 'potential' as const, energies: Float64Array.of(0, 1, Math.SQRT2) };
+    const c = Float64Array.of(0.6, 0.6, Math.sqrt(1 - 0.72));
+    const budget = createBudget({ limitMs: 2, clock: manualClock(1) });
+    const r = revival(num, c, new Float64Array(3), { budget, high: 0.999999, horizon: 1e6 });
+    expect(r).toEqual({ time: null, stopped: 'time' });
   });
 });
 

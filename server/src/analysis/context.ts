@@ -16,13 +16,3 @@ export interface ComputeContext {
   /** The caps of the analysis. */
   limits: Limits;
 }
-
-/**
- * The budget in the form today's physics functions take (`cancelled`, and a deadline on the
- * machine's clock). Glue until the physics layer takes the budget itself: the deadline is "now plus
- * what the budget has left", so an injected clock still governs how much time is left.
- */
-export function physicsTiming(budget: Budget): { cancelled: () => boolean; deadline: number | undefined } {
-  const left = budget.remaining();
-  return { cancelled: () => budget.expired(), deadline: Number.isFinite(left) ? performance.now() + left : undefined };
-}

@@ -16,7 +16,7 @@ import { measureState, type StateMeasurements } from './measure';
 import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from './checks';
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
-import { physicsTiming, type ComputeContext } from './context';
+import type { ComputeContext } from './context';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -146,10 +146,9 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
   });
   const times = new Float64Array(ev.steps + 1);
   for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
-  const { cancelled } = physicsTiming(ctx.budget);
-  const r = evolve(basis, cRe, cIm, times, { density: densityX, cancelled });
+  const r = evolve(basis, cRe, cIm, times, { density: densityX, budget: ctx.budget });
   // Cut short by the time limit (reported once for the whole analysis): the times finished, no revival search.
-  const rev = r.complete ? revivalTime(basis, cRe, cIm, { cancelled }) : null;
+  const rev = r.stopped === null ? revivalTime(basis, cRe, cIm, { budget: ctx.budget }) : null;
   const t = (x: number): number => timeToDisplay(x, model.units);
   const res: EvolutionResult = {
     times: Array.from(times.subarray(0, r.survival.length), t),

@@ -7,10 +7,10 @@ import type { GridValues, PhiProvider } from '../expr/types';
 import { boxBasis } from '../physics/box';
 import { wellBasis } from '../physics/well';
 import { oscillatorBasis } from '../physics/oscillator';
-import { potentialBasis, type PotentialBasisResult } from '../physics/potential';
+import { potentialBasis } from '../physics/potential';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
-import { physicsTiming, type Budget, type StopReason } from './context';
+import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
 
 /** A built basis together with facts the diagnostics need. */
@@ -120,7 +120,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     );
     return null;
   }
-  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { deadline: physicsTiming(options.budget).deadline });
+  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget });
   if (bad !== null) {
     const b = bad as { x: number; value: string };
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
@@ -133,10 +133,10 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, why));
     return null;
   }
-  const stopped = solverStop(solved, options.budget);
+  const stopped = solved.stopped;
   const built: BuiltBasis = {
     basis: solved.basis,
-    wallLevels: solved.wallLevels.filter((_, i) => solved.wallEnds[i] === 'both'),
+    wallLevels: solved.wallOnly,
     unresolved: solved.unresolved,
     points: solved.points,
     stopped,
@@ -147,17 +147,6 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
   }
   return built;
-}
-
-/**
- * Why the solver stopped short, as data. Glue until the physics layer returns `stopped` itself (its
- * budget conversion adds that field): then it is read from the result; before, a solve that left
- * levels unresolved stopped on the time limit when the budget has run out, else on a grid cap.
- */
-function solverStop(solved: PotentialBasisResult, budget: Budget): StopReason | null {
-  if ('stopped' in solved) return (solved as { stopped: StopReason | null }).stopped;
-  if (solved.unresolved === null) return null;
-  return budget.expired() ? budget.reason : 'cap';
 }
 
 /** Something that can be evaluated on a grid: the state as written (not normalised). */

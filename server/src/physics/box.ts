@@ -81,26 +81,29 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
         }
       }
     },
-    matrixElements(levels) {
-      // With u = x - a, for labels m != n of opposite parity (m + n odd)
-      // <m|u|n> = -8 L m n / (pi^2 (m^2 - n^2)^2) and integral phi_m phi_n' = 4 m n / (L (m^2 - n^2));
-      // both vanish for m + n even, and <n|x|n> = a + L/2 (the sine integrals done by parts; Griffiths,
-      // Introduction to Quantum Mechanics, infinite square well problems (from memory)).
-      const K = Math.max(0, Math.min(levels, n));
-      const x = new Float64Array(K * K);
-      const d = new Float64Array(K * K);
-      for (let j = 0; j < K; j++) {
-        const m = j + 1;
-        x[j * K + j] = a + 0.5 * L;
-        for (let k = 0; k < K; k++) {
-          const q = k + 1;
-          if ((m + q) % 2 === 0) continue;
-          const diff = m * m - q * q;
-          x[j * K + k] = (-8 * L * m * q) / (Math.PI * Math.PI * diff * diff);
-          d[j * K + k] = (4 * m * q) / (L * diff);
-        }
-      }
-      return { x, d };
-    },
+    matrixElements: (levels) => boxMatrixElements(a, L, Math.max(0, Math.min(levels, n))),
   };
+}
+
+/**
+ * X and D of the first K box levels in closed form. With u = x - a, for labels m != n of opposite parity
+ * (m + n odd) <m|u|n> = -8 L m n / (pi^2 (m^2 - n^2)^2) and integral phi_m phi_n' = 4 m n / (L (m^2 - n^2));
+ * both vanish for m + n even, and <n|x|n> = a + L/2 (the sine integrals done by parts; Griffiths,
+ * Introduction to Quantum Mechanics, infinite square well problems (from memory)).
+ */
+function boxMatrixElements(a: number, L: number, K: number): { x: Float64Array; d: Float64Array } {
+  const x = new Float64Array(K * K);
+  const d = new Float64Array(K * K);
+  for (let j = 0; j < K; j++) {
+    const m = j + 1;
+    x[j * K + j] = a + 0.5 * L;
+    for (let k = 0; k < K; k++) {
+      const q = k + 1;
+      if ((m + q) % 2 === 0) continue;
+      const diff = m * m - q * q;
+      x[j * K + k] = (-8 * L * m * q) / (Math.PI * Math.PI * diff * diff);
+      d[j * K + k] = (4 * m * q) / (L * diff);
+    }
+  }
+  return { x, d };
 }

@@ -46,6 +46,12 @@ export interface SineDvrSolution {
    * rounding noise and are skipped when the series is evaluated.
    */
   terms: Int32Array;
+  /**
+   * An upper bound on the 2-norm of the Hamiltonian matrix solved: the largest kinetic term
+   * (n pi / L)^2 / (2 m) plus the largest |V| on the grid (||T + V|| <= ||T|| + ||V||, and the sine-basis
+   * matrix of V has norm at most max |V|). The scale of its rounding errors.
+   */
+  normBound: number;
 }
 
 /** Options of `sineDvrSolve`. */
@@ -65,6 +71,14 @@ export interface SineDvrOptions {
    * (Euler–Maclaurin summation formula, Abramowitz & Stegun 23.1.30 (from memory)). Default none.
    */
   wallSlopes?: [number, number];
+  /**
+   * The moments C(q), q = 0..2N-1, computed elsewhere (interfaces.ts: exact integrals over panels that
+   * end on every jump of V). They replace the DVR's point sums, which turns the DVR into a Galerkin
+   * solve in the sine basis; `jumps` and `wallSlopes` are then ignored (the integrals are exact).
+   */
+  moments?: Float64Array;
+  /** With `moments`: the largest |V| they were integrated from (for `normBound`; default: max |v|). */
+  potentialBound?: number;
 }
 
 /**
@@ -72,6 +86,7 @@ export interface SineDvrOptions {
  * H_kl = k^2 pi^2/(2 m L^2) delta_kl + C(k - l) - C(k + l), k, l = 1..N-1, C(q) = (1/N) sum_i V_i cos(q pi i/N)
  * (Colbert & Miller, J. Chem. Phys. 96, 1982 (1992), appendix A, transformed to the sine basis).
  * `v` holds V at `sineDvrGrid(a, b, N)` (length N - 1). Energies are exact for V = const (the box).
+ * With `options.moments` the C(q) are given instead (a Galerkin solve, see interfaces.ts).
  */
 export function sineDvrSolve(
   v: Float64Array,
@@ -85,75 +100,15 @@ export function sineDvrSolve(
   const N = n + 1;
   const L = b - a;
   const want = Math.max(0, Math.min(levels, n));
-  // C(q) for q = 0..2N-1 from a cosine table indexed by (q i) mod 2N.
-  const twoN = 2 * N;
-  const ct = new Float64Array(twoN);
-  for (let j = 0; j < twoN; j++) ct[j] = Math.cos((Math.PI * j) / N);
-  const C = new Float64Array(twoN);
-  for (let q = 0; q < twoN; q++) {
-    let s = 0;
-    let idx = 0;
-    for (let i = 1; i <= n; i++) {
-      idx += q;
-      if (idx >= twoN) idx -= twoN;
-      s += v[i - 1] * ct[idx];
-    }
-    C[q] = s / N;
-  }
-  for (const j of options.jumps ?? []) {
-    if (!(j.index >= 1 && j.index <= n)) continue;
-    const h = L / N;
-    const lo = j.index * h - h / 2;
-    const hi = j.index * h + h / 2;
-    const at = Math.min(Math.max(j.at - a, lo), hi);
-    for (let q = 0; q < twoN; q++) {
-      const w = (q * Math.PI) / L;
-      // integral of cos(w u) du over [u0, u1], with the q = 0 limit.
-      const seg = (u0: number, u1: number): number => (q === 0 ? u1 - u0 : (Math.sin(w * u1) - Math.sin(w * u0)) / w);
-      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * ct[(q * j.index) % twoN]) / N;
-    }
-  }
+  const C = options.moments ?? dvrMoments(v, a, L, options.jumps ?? []);
   const kin = (Math.PI * Math.PI) / (2 * mass * L * L);
-  const blocks: { ks: Int32Array; parity: number; want: number }[] = [];
-  if (options.symmetric) {
-    const odd = new Int32Array(Math.ceil(n / 2));
-    const even = new Int32Array(Math.floor(n / 2));
-    for (let r = 0; r < odd.length; r++) odd[r] = 2 * r + 1;
-    for (let r = 0; r < even.length; r++) even[r] = 2 * r + 2;
-    // Levels alternate even, odd, even, ... (node theorem); one spare per block guards the merge.
-    blocks.push({ ks: odd, parity: 1, want: Math.min(odd.length, Math.ceil(want / 2) + 1) });
-    blocks.push({ ks: even, parity: 2, want: Math.min(even.length, Math.floor(want / 2) + 1) });
-  } else {
-    const all = new Int32Array(n);
-    for (let r = 0; r < n; r++) all[r] = r + 1;
-    blocks.push({ ks: all, parity: 0, want });
-  }
+  const blocks = parityBlocks(n, want, options.symmetric === true);
+  const slopes = options.moments ? undefined : options.wallSlopes;
   const found: { e: number; block: number; vec: Float64Array }[] = [];
   blocks.forEach((blk, bi) => {
     const m = blk.ks.length;
     if (m === 0 || blk.want === 0) return;
-    const H = new Float64Array(m * m);
-    for (let r = 0; r < m; r++) {
-      const k = blk.ks[r];
-      const row = r * m;
-      for (let s = 0; s <= r; s++) {
-        const l = blk.ks[s];
-        H[row + s] = C[k - l] - C[k + l];
-      }
-      H[row + r] += kin * k * k;
-    }
-    if (options.wallSlopes) {
-      const [sa, sb] = options.wallSlopes;
-      const h = L / N;
-      const f = ((h * h * h * h) / 120) * (2 / L) * (Math.PI / L) ** 2;
-      for (let r = 0; r < m; r++) {
-        const k = blk.ks[r];
-        for (let s2 = 0; s2 <= r; s2++) {
-          const l = blk.ks[s2];
-          H[r * m + s2] += f * k * l * (((k + l) & 1 ? -sb : sb) - sa);
-        }
-      }
-    }
+    const H = blockMatrix(blk.ks, C, kin, slopes ? { slopes, f: wallFactor(L, N) } : null);
     const eig = symmetricLowest(H, m, blk.want);
     for (let j = 0; j < eig.values.length; j++) {
       found.push({ e: eig.values[j], block: bi, vec: eig.vectors.slice(j * m, (j + 1) * m) });
@@ -171,6 +126,109 @@ export function sineDvrSolve(
     parity[j] = blk.parity;
     for (let r = 0; r < blk.ks.length; r++) coefficients[j * n + blk.ks[r] - 1] = f.vec[r];
   }
+  let vabs = options.potentialBound ?? 0;
+  if (options.potentialBound === undefined) for (let i = 0; i < n; i++) vabs = Math.max(vabs, Math.abs(v[i]));
+  const normBound = kin * n * n + vabs;
+  return { a, b, mass, intervals: N, energies, coefficients, parity, terms: significantTerms(coefficients, count, n), normBound };
+}
+
+/**
+ * Flops of one `sineDvrSolve` of N intervals (4/3 n^3 per block of size n for the reduction, with the
+ * moments' 2 N^2): the deterministic cost the refinement budgets with.
+ */
+export function sineDvrWork(intervals: number, symmetric: boolean): number {
+  const n = Math.max(0, intervals - 1);
+  const blocks = symmetric ? 2 * (4 / 3) * (n / 2) ** 3 : (4 / 3) * n ** 3;
+  return blocks + 2 * intervals * intervals;
+}
+
+/** C(q), q = 0..2N-1, of the DVR quadrature (with the exact cell integral of each jump's cell). */
+function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<SineDvrOptions['jumps']>): Float64Array {
+  const n = v.length;
+  const N = n + 1;
+  // C(q) for q = 0..2N-1 from a cosine table indexed by (q i) mod 2N.
+  const twoN = 2 * N;
+  const ct = new Float64Array(twoN);
+  for (let j = 0; j < twoN; j++) ct[j] = Math.cos((Math.PI * j) / N);
+  const C = new Float64Array(twoN);
+  for (let q = 0; q < twoN; q++) {
+    let s = 0;
+    let idx = 0;
+    for (let i = 1; i <= n; i++) {
+      idx += q;
+      if (idx >= twoN) idx -= twoN;
+      s += v[i - 1] * ct[idx];
+    }
+    C[q] = s / N;
+  }
+  for (const j of jumps) {
+    if (!(j.index >= 1 && j.index <= n)) continue;
+    const h = L / N;
+    const lo = j.index * h - h / 2;
+    const hi = j.index * h + h / 2;
+    const at = Math.min(Math.max(j.at - a, lo), hi);
+    for (let q = 0; q < twoN; q++) {
+      const w = (q * Math.PI) / L;
+      // integral of cos(w u) du over [u0, u1], with the q = 0 limit.
+      const seg = (u0: number, u1: number): number => (q === 0 ? u1 - u0 : (Math.sin(w * u1) - Math.sin(w * u0)) / w);
+      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * ct[(q * j.index) % twoN]) / N;
+    }
+  }
+  return C;
+}
+
+interface ParityBlock {
+  ks: Int32Array;
+  parity: number;
+  want: number;
+}
+
+/** The sine indices solved together: all k, or odd k and even k apart for a symmetric V. */
+function parityBlocks(n: number, want: number, symmetric: boolean): ParityBlock[] {
+  if (!symmetric) return [{ ks: Int32Array.from({ length: n }, (_, r) => r + 1), parity: 0, want }];
+  const odd = Int32Array.from({ length: Math.ceil(n / 2) }, (_, r) => 2 * r + 1);
+  const even = Int32Array.from({ length: Math.floor(n / 2) }, (_, r) => 2 * r + 2);
+  // Levels alternate even, odd, even, ... (node theorem); one spare per block guards the merge.
+  return [
+    { ks: odd, parity: 1, want: Math.min(odd.length, Math.ceil(want / 2) + 1) },
+    { ks: even, parity: 2, want: Math.min(even.length, Math.floor(want / 2) + 1) },
+  ];
+}
+
+/** The Euler–Maclaurin wall term's prefactor (h^4/120) (2/L) (pi/L)^2 (see `wallSlopes`). */
+function wallFactor(L: number, N: number): number {
+  const h = L / N;
+  return ((h * h * h * h) / 120) * (2 / L) * (Math.PI / L) ** 2;
+}
+
+/** The lower triangle of one block of H (row-major m x m), with the wall-slope term when given. */
+function blockMatrix(ks: Int32Array, C: Float64Array, kin: number, wall: { slopes: [number, number]; f: number } | null): Float64Array {
+  const m = ks.length;
+  const H = new Float64Array(m * m);
+  for (let r = 0; r < m; r++) {
+    const k = ks[r];
+    const row = r * m;
+    for (let s = 0; s <= r; s++) {
+      const l = ks[s];
+      H[row + s] = C[k - l] - C[k + l];
+    }
+    H[row + r] += kin * k * k;
+  }
+  if (wall) {
+    const [sa, sb] = wall.slopes;
+    for (let r = 0; r < m; r++) {
+      const k = ks[r];
+      for (let s2 = 0; s2 <= r; s2++) {
+        const l = ks[s2];
+        H[r * m + s2] += wall.f * k * l * (((k + l) & 1 ? -sb : sb) - sa);
+      }
+    }
+  }
+  return H;
+}
+
+/** Per level, the highest k whose coefficient exceeds 1e-15 of the level's largest (see `terms`). */
+function significantTerms(coefficients: Float64Array, count: number, n: number): Int32Array {
   const terms = new Int32Array(count);
   for (let j = 0; j < count; j++) {
     let mx = 0;
@@ -179,7 +237,7 @@ export function sineDvrSolve(
     while (last > 1 && !(Math.abs(coefficients[j * n + last - 1]) > 1e-15 * mx)) last--;
     terms[j] = last;
   }
-  return { a, b, mass, intervals: N, energies, coefficients, parity, terms };
+  return terms;
 }
 
 /**

@@ -5,6 +5,7 @@
  */
 import type { Eigenbasis, Quadrature } from './types';
 import { compositeGaussLegendre } from './quadrature';
+import { unlimitedBudget, type Budget, type StopReason } from './budget';
 
 /** Complex coefficients c_k = re[k] + i im[k] by level index. */
 export interface Coefficients {
@@ -50,10 +51,11 @@ export interface EvolveOptions {
   /** Most levels used for <x> and <p> (default 400); matrix elements cost O(K^3). */
   maxLevels?: number;
   /**
-   * Polled between rows of the matrix elements and between times; once it returns true the evolution
-   * stops, and the result holds only the times finished (`complete` false).
+   * The analysis's budget (default: unlimited), polled between rows of the matrix elements and between
+   * times; once it has expired the evolution stops, the result holds only the times finished
+   * (`complete` false) and `stopped` says why. Counts K^2 operations per time and the quadrature's work.
    */
-  cancelled?: () => boolean;
+  budget?: Budget;
 }
 
 /** Real symmetric X_jk = <j|x|k> and real antisymmetric D_jk = integral phi_j phi_k' dx (so <j|p|k> = -i D_jk). */
@@ -61,6 +63,8 @@ export interface MatrixElements {
   levels: number;
   x: Float64Array;
   d: Float64Array;
+  /** Null when complete; otherwise why the budget stopped the quadrature (x and d are then partial sums). */
+  stopped: StopReason | null;
 }
 
 /**
@@ -78,15 +82,14 @@ export function evolutionQuadrature(basis: Eigenbasis, levels: number): Quadratu
  * (`evolutionQuadrature`). D is antisymmetrised, (D - D^T)/2, which is exact when phi vanishes at both
  * ends (walls or decay), because integrating by parts leaves no boundary term. A basis with its own
  * closed form (`Eigenbasis.matrixElements`: box, oscillator, the sine series of numerical systems) is
- * used directly. With `cancelled`, the quadrature polls it once per row and returns null once it is true.
+ * used directly. With a budget, the quadrature polls it once per row and counts 2 K^2 operations per
+ * node; once it has expired the result says so in `stopped`.
  */
-export function matrixElements(basis: Eigenbasis, levels: number): MatrixElements;
-export function matrixElements(basis: Eigenbasis, levels: number, cancelled: () => boolean): MatrixElements | null;
-export function matrixElements(basis: Eigenbasis, levels: number, cancelled?: () => boolean): MatrixElements | null {
+export function matrixElements(basis: Eigenbasis, levels: number, options: { budget?: Budget } = {}): MatrixElements {
   const K = Math.max(0, Math.min(levels, basis.count));
   const x = new Float64Array(K * K);
   const d = new Float64Array(K * K);
-  if (K === 0) return { levels: 0, x, d };
+  if (K === 0) return { levels: 0, x, d, stopped: null };
   if (basis.matrixElements) {
     // Closed form from the basis (sine series): no table on a grid.
     const m = basis.matrixElements(K);
@@ -94,35 +97,42 @@ export function matrixElements(basis: Eigenbasis, levels: number, cancelled?: ()
     d.set(m.d.subarray(0, K * K));
     return symmetrise(K, x, d);
   }
+  const budget = options.budget ?? unlimitedBudget();
   const quad = evolutionQuadrature(basis, K);
   const nq = quad.x.length;
   const chunk = Math.max(1, Math.floor(4194304 / (2 * K)));
   for (let s = 0; s < nq; s += chunk) {
     const e = Math.min(nq, s + chunk);
-    const m = e - s;
     const xs = quad.x.subarray(s, e);
-    const f = new Float64Array(K * m);
-    const f1 = new Float64Array(K * m);
+    const f = new Float64Array(K * xs.length);
+    const f1 = new Float64Array(K * xs.length);
     basis.table(xs, K, f, f1);
-    const wx = new Float64Array(m);
-    const w = quad.w.subarray(s, e);
-    for (let i = 0; i < m; i++) wx[i] = w[i] * xs[i];
-    for (let j = 0; j < K; j++) {
-      if (cancelled?.()) return null;
-      const rj = j * m;
-      for (let k = 0; k < K; k++) {
-        const rk = k * m;
-        let sd = 0;
-        for (let i = 0; i < m; i++) sd += w[i] * f[rj + i] * f1[rk + i];
-        d[j * K + k] += sd;
-        if (k < j) continue;
-        let sx = 0;
-        for (let i = 0; i < m; i++) sx += wx[i] * f[rj + i] * f[rk + i];
-        x[j * K + k] += sx;
-      }
-    }
+    budget.count(2 * K * K * xs.length, xs.length);
+    if (!accumulateChunk(K, xs, quad.w.subarray(s, e), f, f1, x, d, budget)) return { levels: K, x, d, stopped: budget.reason };
   }
   return symmetrise(K, x, d);
+}
+
+/** Adds one chunk of nodes to X (upper triangle) and D; false once the budget has expired (polled per row). */
+function accumulateChunk(K: number, xs: Float64Array, w: Float64Array, f: Float64Array, f1: Float64Array, x: Float64Array, d: Float64Array, budget: Budget): boolean {
+  const m = xs.length;
+  const wx = new Float64Array(m);
+  for (let i = 0; i < m; i++) wx[i] = w[i] * xs[i];
+  for (let j = 0; j < K; j++) {
+    if (budget.expired()) return false;
+    const rj = j * m;
+    for (let k = 0; k < K; k++) {
+      const rk = k * m;
+      let sd = 0;
+      for (let i = 0; i < m; i++) sd += w[i] * f[rj + i] * f1[rk + i];
+      d[j * K + k] += sd;
+      if (k < j) continue;
+      let sx = 0;
+      for (let i = 0; i < m; i++) sx += wx[i] * f[rj + i] * f[rk + i];
+      x[j * K + k] += sx;
+    }
+  }
+  return true;
 }
 
 /** X made symmetric from its upper triangle, D antisymmetrised, (D - D^T)/2. */
@@ -136,7 +146,7 @@ function symmetrise(K: number, x: Float64Array, d: Float64Array): MatrixElements
     }
     d[j * K + j] = 0;
   }
-  return { levels: K, x, d };
+  return { levels: K, x, d, stopped: null };
 }
 
 /** The result of `evolve`: one entry per time. */
@@ -146,8 +156,10 @@ export interface EvolveResult {
   survival: Float64Array;
   /** |psi(x, t)|^2 on options.density for each time (normalised state). */
   density?: Float64Array[];
-  /** False when `cancelled` stopped the evolution: the arrays then hold only the first times. */
+  /** False when the budget stopped the evolution: the arrays then hold only the first times. */
   complete: boolean;
+  /** Why the budget stopped it ('time' or 'cancelled'), or null when every time is done. */
+  stopped: StopReason | null;
 }
 
 /** Levels kept: up to the last one above the weight cutoff, at most maxLevels. */
@@ -176,22 +188,21 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   const survival = new Float64Array(nt);
   const n = Math.min(cRe.length, cIm.length, basis.count);
   const { K, total } = keptLevels(basis, cRe, cIm, options.weightCutoff ?? 1e-14, Math.max(1, options.maxLevels ?? 400));
-  const result: EvolveResult = { meanX, meanP, survival, complete: true };
+  const result: EvolveResult = { meanX, meanP, survival, complete: true, stopped: null };
   if (!(total > 0) || n === 0) {
     meanX.fill(NaN);
     meanP.fill(NaN);
     survival.fill(NaN);
     return result;
   }
-  const stopped = (done: number): EvolveResult => {
-    const cut: EvolveResult = { meanX: meanX.slice(0, done), meanP: meanP.slice(0, done), survival: survival.slice(0, done), complete: false };
-    if (result.density) cut.density = result.density.slice(0, done);
-    return cut;
+  const budget = options.budget ?? unlimitedBudget();
+  const cut = (done: number): EvolveResult => {
+    const part: EvolveResult = { meanX: meanX.slice(0, done), meanP: meanP.slice(0, done), survival: survival.slice(0, done), complete: false, stopped: budget.reason };
+    if (result.density) part.density = result.density.slice(0, done);
+    return part;
   };
-  const me = matrixElements(basis, K, options.cancelled ?? (() => false));
-  if (me === null) return stopped(0);
-  const ar = new Float64Array(K);
-  const ai = new Float64Array(K);
+  const me = matrixElements(basis, K, { budget });
+  if (me.stopped !== null) return cut(0);
   const xs = options.density;
   let table: Float64Array | null = null;
   if (xs) {
@@ -199,68 +210,86 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
     basis.table(xs, K, table);
     result.density = [];
   }
+  const a = { re: new Float64Array(K), im: new Float64Array(K) };
   let wK = 0;
   for (let k = 0; k < K; k++) wK += cRe[k] * cRe[k] + cIm[k] * cIm[k];
   for (let it = 0; it < nt; it++) {
-    if (options.cancelled?.()) return stopped(it);
-    const t = times[it];
-    let sr = 0;
-    let si = 0;
-    for (let k = 0; k < n; k++) {
-      const p = cRe[k] * cRe[k] + cIm[k] * cIm[k];
-      const ph = -basis.energies[k] * t;
-      sr += p * Math.cos(ph);
-      si += p * Math.sin(ph);
-      if (k < K) {
-        const c = Math.cos(ph);
-        const s = Math.sin(ph);
-        ar[k] = cRe[k] * c - cIm[k] * s;
-        ai[k] = cRe[k] * s + cIm[k] * c;
-      }
-    }
-    survival[it] = (sr * sr + si * si) / (total * total);
-    // <x> = ar.X ar + ai.X ai; <p> = ar.D ai - ai.D ar (X symmetric, D antisymmetric).
-    let mx = 0;
-    let mp = 0;
-    for (let j = 0; j < K; j++) {
-      const row = j * K;
-      let xr = 0;
-      let xi = 0;
-      let dr = 0;
-      let di = 0;
-      for (let k = 0; k < K; k++) {
-        const X = me.x[row + k];
-        const D = me.d[row + k];
-        xr += X * ar[k];
-        xi += X * ai[k];
-        dr += D * ar[k];
-        di += D * ai[k];
-      }
-      mx += ar[j] * xr + ai[j] * xi;
-      mp += ar[j] * di - ai[j] * dr;
-    }
-    meanX[it] = mx / wK;
-    meanP[it] = mp / wK;
-    if (xs && table && result.density) {
-      const nx = xs.length;
-      const pr = new Float64Array(nx);
-      const pi = new Float64Array(nx);
-      for (let k = 0; k < K; k++) {
-        const row = k * nx;
-        for (let j = 0; j < nx; j++) {
-          pr[j] += ar[k] * table[row + j];
-          pi[j] += ai[k] * table[row + j];
-        }
-      }
-      const dens = new Float64Array(nx);
-      for (let j = 0; j < nx; j++) dens[j] = (pr[j] * pr[j] + pi[j] * pi[j]) / wK;
-      result.density.push(dens);
-    }
+    if (budget.expired()) return cut(it);
+    budget.count(4 * K * K + 2 * n + (xs ? 2 * K * xs.length : 0));
+    survival[it] = phasesAt(basis.energies, cRe, cIm, n, times[it], a) / (total * total);
+    const m = quadraticForms(me, a.re, a.im);
+    meanX[it] = m.x / wK;
+    meanP[it] = m.p / wK;
+    if (xs && table && result.density) result.density.push(densityAt(table, a.re, a.im, xs.length, wK));
   }
   return result;
 }
 
-/** Options of `revivalTime`, with their defaults. */
+/**
+ * Sets a_k = c_k e^{-i E_k t} for k < a.re.length and returns |sum_k |c_k|^2 e^{-i E_k t}|^2 over the n
+ * levels (the survival's numerator).
+ */
+function phasesAt(E: Float64Array, cRe: Float64Array, cIm: Float64Array, n: number, t: number, a: { re: Float64Array; im: Float64Array }): number {
+  const K = a.re.length;
+  let sr = 0;
+  let si = 0;
+  for (let k = 0; k < n; k++) {
+    const p = cRe[k] * cRe[k] + cIm[k] * cIm[k];
+    const ph = -E[k] * t;
+    const c = Math.cos(ph);
+    const s = Math.sin(ph);
+    sr += p * c;
+    si += p * s;
+    if (k < K) {
+      a.re[k] = cRe[k] * c - cIm[k] * s;
+      a.im[k] = cRe[k] * s + cIm[k] * c;
+    }
+  }
+  return sr * sr + si * si;
+}
+
+/** <x> W = ar.X ar + ai.X ai and <p> W = ar.D ai - ai.D ar (X symmetric, D antisymmetric). */
+function quadraticForms(me: MatrixElements, ar: Float64Array, ai: Float64Array): { x: number; p: number } {
+  const K = ar.length;
+  let mx = 0;
+  let mp = 0;
+  for (let j = 0; j < K; j++) {
+    const row = j * K;
+    let xr = 0;
+    let xi = 0;
+    let dr = 0;
+    let di = 0;
+    for (let k = 0; k < K; k++) {
+      const X = me.x[row + k];
+      const D = me.d[row + k];
+      xr += X * ar[k];
+      xi += X * ai[k];
+      dr += D * ar[k];
+      di += D * ai[k];
+    }
+    mx += ar[j] * xr + ai[j] * xi;
+    mp += ar[j] * di - ai[j] * dr;
+  }
+  return { x: mx, p: mp };
+}
+
+/** |sum_k a_k phi_k(x)|^2 / W on the table's points. */
+function densityAt(table: Float64Array, ar: Float64Array, ai: Float64Array, nx: number, wK: number): Float64Array {
+  const pr = new Float64Array(nx);
+  const pi = new Float64Array(nx);
+  for (let k = 0; k < ar.length; k++) {
+    const row = k * nx;
+    for (let j = 0; j < nx; j++) {
+      pr[j] += ar[k] * table[row + j];
+      pi[j] += ai[k] * table[row + j];
+    }
+  }
+  const dens = new Float64Array(nx);
+  for (let j = 0; j < nx; j++) dens[j] = (pr[j] * pr[j] + pi[j] * pi[j]) / wK;
+  return dens;
+}
+
+/** Options of `revival` and `revivalTime`, with their defaults. */
 export interface RevivalOptions {
   /** The survival must first fall below this (default 0.5). */
   low?: number;
@@ -270,8 +299,45 @@ export interface RevivalOptions {
   horizon?: number;
   /** Most time steps in the search (default 200000). */
   maxSteps?: number;
-  /** Polled every 256 steps of the search; once it returns true the search gives up (null). */
-  cancelled?: () => boolean;
+  /** The analysis's budget (default: unlimited), polled every 256 steps; counts one operation per level per step. */
+  budget?: Budget;
+}
+
+/** The result of `revival`. */
+export interface RevivalResult {
+  /** The revival time (internal units), or null when there is none (or the search was stopped). */
+  time: number | null;
+  /** Why the budget stopped the search, or null. */
+  stopped: StopReason | null;
+}
+
+/** The revival time, or null (see `revival`, which also says whether the budget stopped the search). */
+export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, options: RevivalOptions = {}): number | null {
+  return revival(basis, cRe, cIm, options).time;
+}
+
+/** The populated levels of a state: their indices, weights p_k = |c_k|^2 and the total. */
+interface Populated {
+  idx: number[];
+  p: Float64Array;
+  total: number;
+  /** Mean level index, sum p_k k / total. */
+  mean: number;
+}
+
+function populated(cRe: Float64Array, cIm: Float64Array, count: number): Populated {
+  const n = Math.min(cRe.length, cIm.length, count);
+  const p = new Float64Array(n);
+  let total = 0;
+  for (let k = 0; k < n; k++) {
+    p[k] = cRe[k] * cRe[k] + cIm[k] * cIm[k];
+    total += p[k];
+  }
+  const idx: number[] = [];
+  let mean = 0;
+  for (let k = 0; k < n; k++) if (p[k] > 1e-12 * total) idx.push(k);
+  for (const k of idx) mean += (p[k] / total) * k;
+  return { idx, p, total, mean };
 }
 
 /**
@@ -284,54 +350,46 @@ export interface RevivalOptions {
  * for a narrow packet in a nearly harmonic spectrum the answer is its classical period.
  * The default horizon follows from the expansion E_n ~ E + E' (n - m) + E'' (n - m)^2 / 2 about the mean
  * level m, whose quadratic phases realign after 4 pi / |E''| (the same source, from memory).
- * A search stopped by `cancelled` returns null too.
+ * A search stopped by the budget gives time null and `stopped`.
  */
-export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, options: RevivalOptions = {}): number | null {
+export function revival(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, options: RevivalOptions = {}): RevivalResult {
   if (basis.kind === 'box' && basis.walls) {
     const L = basis.walls[1] - basis.walls[0];
-    return (4 * basis.mass * L * L) / Math.PI;
+    return { time: (4 * basis.mass * L * L) / Math.PI, stopped: null };
   }
   if (basis.kind === 'oscillator') {
-    if (basis.count < 2) return null;
-    return (2 * Math.PI) / (basis.energies[1] - basis.energies[0]);
+    return { time: basis.count < 2 ? null : (2 * Math.PI) / (basis.energies[1] - basis.energies[0]), stopped: null };
   }
-  const n = Math.min(cRe.length, cIm.length, basis.count);
-  const p = new Float64Array(n);
-  let total = 0;
-  for (let k = 0; k < n; k++) {
-    p[k] = cRe[k] * cRe[k] + cIm[k] * cIm[k];
-    total += p[k];
-  }
-  if (!(total > 0)) return null;
-  const idx: number[] = [];
-  for (let k = 0; k < n; k++) if (p[k] > 1e-12 * total) idx.push(k);
-  if (idx.length < 2) return null;
+  const pop = populated(cRe, cIm, basis.count);
+  if (!(pop.total > 0) || pop.idx.length < 2) return { time: null, stopped: null };
   const E = basis.energies;
   let emin = Infinity;
   let emax = -Infinity;
-  let mean = 0;
-  for (const k of idx) {
+  for (const k of pop.idx) {
     emin = Math.min(emin, E[k]);
     emax = Math.max(emax, E[k]);
-    mean += (p[k] / total) * k;
   }
   const spread = emax - emin;
-  if (!(spread > 0)) return null;
+  if (!(spread > 0)) return { time: null, stopped: null };
   const dt = (2 * Math.PI) / spread / 16;
-  // Horizon from the curvature of E_n near the mean level.
-  const m = Math.min(Math.max(1, Math.round(mean)), basis.count - 2);
-  let horizon = options.horizon;
-  if (horizon === undefined) {
-    const e1 = basis.count >= 3 ? E[m + 1] - E[m - 1] : spread;
-    const e2 = basis.count >= 3 ? E[m + 1] - 2 * E[m] + E[m - 1] : 0;
-    const period = (2 * Math.PI * 2) / Math.max(Math.abs(e1), 1e-300);
-    const rev = Math.abs(e2) > 0 ? (4 * Math.PI) / Math.abs(e2) : 0;
-    horizon = Math.max(4 * rev, 40 * period);
-  }
-  const maxSteps = Math.max(16, options.maxSteps ?? 200000);
-  const steps = Math.min(maxSteps, Math.ceil(horizon / dt));
-  const low = options.low ?? 0.5;
-  const high = options.high ?? 0.9;
+  const horizon = options.horizon ?? defaultHorizon(E, basis.count, pop.mean, spread);
+  const steps = Math.min(Math.max(16, options.maxSteps ?? 200000), Math.ceil(horizon / dt));
+  return searchRevival(E, pop, dt, steps, options.low ?? 0.5, options.high ?? 0.9, options.budget ?? unlimitedBudget());
+}
+
+/** Horizon from the curvature of E_n near the mean level m: max(4 (4 pi / |E''|), 40 periods). */
+function defaultHorizon(E: Float64Array, count: number, mean: number, spread: number): number {
+  const m = Math.min(Math.max(1, Math.round(mean)), count - 2);
+  const e1 = count >= 3 ? E[m + 1] - E[m - 1] : spread;
+  const e2 = count >= 3 ? E[m + 1] - 2 * E[m] + E[m - 1] : 0;
+  const period = (2 * Math.PI * 2) / Math.max(Math.abs(e1), 1e-300);
+  const rev = Math.abs(e2) > 0 ? (4 * Math.PI) / Math.abs(e2) : 0;
+  return Math.max(4 * rev, 40 * period);
+}
+
+/** S(t) = |sum p_k e^{-i E_k t}|^2 / W^2 and its slope S'(t) (up to the factor 2 / W^2, whose sign is S's). */
+function survivalOf(E: Float64Array, pop: Populated): { S: (t: number) => number; slope: (t: number) => number } {
+  const { idx, p, total } = pop;
   const S = (t: number): number => {
     let sr = 0;
     let si = 0;
@@ -357,11 +415,20 @@ export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Ar
     }
     return ar * br + ai * bi;
   };
+  return { S, slope };
+}
+
+/** Steps through S(t) for the first maximum >= high after a dip below low, then bisects its slope. */
+function searchRevival(E: Float64Array, pop: Populated, dt: number, steps: number, low: number, high: number, budget: Budget): RevivalResult {
+  const { S, slope } = survivalOf(E, pop);
   let fallen = false;
   let s0 = S(0);
   let s1 = S(dt);
   for (let j = 1; j < steps; j++) {
-    if ((j & 255) === 0 && options.cancelled?.()) return null;
+    if ((j & 255) === 0) {
+      budget.count(256 * pop.idx.length);
+      if (budget.expired()) return { time: null, stopped: budget.reason };
+    }
     const s2 = S((j + 1) * dt);
     if (!fallen) {
       if (s1 < low) fallen = true;
@@ -376,10 +443,10 @@ export function revivalTime(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Ar
         if (slope(mid) > 0) lo = mid;
         else hi = mid;
       }
-      return 0.5 * (lo + hi);
+      return { time: 0.5 * (lo + hi), stopped: null };
     }
     s0 = s1;
     s1 = s2;
   }
-  return null;
+  return { time: null, stopped: null };
 }

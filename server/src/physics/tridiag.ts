@@ -170,77 +170,28 @@ export function lowestEigenvalues(t: Tridiagonal, k: number): Float64Array {
  * for inverse iteration. Returns the vectors row by row (vector j at [j * n, (j + 1) * n)), unit length.
  */
 export function tridiagonalEigenvectors(t: Tridiagonal, values: Float64Array): Float64Array {
-  const { d, e } = t;
-  const n = d.length;
+  const n = t.d.length;
   const m = values.length;
   const out = new Float64Array(m * n);
   if (n === 0) return out;
   const [glo, ghi] = gershgorin(t);
   const tnorm = Math.max(Math.abs(glo), Math.abs(ghi), Number.MIN_VALUE);
   const tiny = 2.220446049250313e-16 * tnorm;
-  const U0 = new Float64Array(n);
-  const U1 = new Float64Array(n);
-  const U2 = new Float64Array(n);
-  const mult = new Float64Array(n);
-  const swapped = new Uint8Array(n);
+  const lu: ShiftedLU = { U0: new Float64Array(n), U1: new Float64Array(n), U2: new Float64Array(n), mult: new Float64Array(n), swapped: new Uint8Array(n) };
   const b = new Float64Array(n);
   let clusterStart = 0;
   let seed = 12345;
   for (let j = 0; j < m; j++) {
     const lambda = values[j];
     if (j > 0 && Math.abs(lambda - values[j - 1]) > 1e-3 * tnorm) clusterStart = j;
-    // Factor T - lambda I = P L U.
-    let c0 = d[0] - lambda;
-    let c1 = n > 1 ? e[0] : 0;
-    for (let i = 0; i < n - 1; i++) {
-      const n0 = e[i];
-      const n1 = d[i + 1] - lambda;
-      const n2 = i + 1 < n - 1 ? e[i + 1] : 0;
-      if (Math.abs(c0) >= Math.abs(n0)) {
-        if (c0 === 0) c0 = tiny;
-        const mu = n0 / c0;
-        U0[i] = c0;
-        U1[i] = c1;
-        U2[i] = 0;
-        mult[i] = mu;
-        swapped[i] = 0;
-        c0 = n1 - mu * c1;
-        c1 = n2;
-      } else {
-        const mu = c0 / n0;
-        U0[i] = n0;
-        U1[i] = n1;
-        U2[i] = n2;
-        mult[i] = mu;
-        swapped[i] = 1;
-        c0 = c1 - mu * n1;
-        c1 = -mu * n2;
-      }
-      if (Math.abs(U0[i]) < tiny) U0[i] = U0[i] < 0 ? -tiny : tiny;
-    }
-    U0[n - 1] = Math.abs(c0) < tiny ? (c0 < 0 ? -tiny : tiny) : c0;
+    factorShifted(t, lambda, tiny, lu);
     // Pseudo-random start so that no eigenvector is missed by a zero component.
     for (let i = 0; i < n; i++) {
       seed = (seed * 1103515245 + 12345) % 2147483648;
       b[i] = seed / 2147483648 - 0.5;
     }
-    const vec = out.subarray(j * n, (j + 1) * n);
     for (let iter = 0; iter < 3; iter++) {
-      // Solve (T - lambda I) x = b.
-      for (let i = 0; i < n - 1; i++) {
-        if (swapped[i]) {
-          const tmp = b[i];
-          b[i] = b[i + 1];
-          b[i + 1] = tmp;
-        }
-        b[i + 1] -= mult[i] * b[i];
-      }
-      for (let i = n - 1; i >= 0; i--) {
-        let s = b[i];
-        if (i + 1 < n) s -= U1[i] * b[i + 1];
-        if (i + 2 < n) s -= U2[i] * b[i + 2];
-        b[i] = s / U0[i];
-      }
+      solveShifted(lu, b);
       // Orthogonalise within the cluster.
       for (let q = clusterStart; q < j; q++) {
         const w = out.subarray(q * n, (q + 1) * n);
@@ -259,9 +210,74 @@ export function tridiagonalEigenvectors(t: Tridiagonal, values: Float64Array): F
       // Once a solve amplifies a unit vector by ~1/(eps ||T||) the vector is converged.
       if (iter >= 1 && nrm > 1e-4 / (tnorm * 2.220446049250313e-16)) break;
     }
-    vec.set(b);
+    out.set(b, j * n);
   }
   return out;
+}
+
+/** T - lambda I = P L U of a tridiagonal: U's three diagonals, L's multipliers and the row swaps. */
+interface ShiftedLU {
+  U0: Float64Array;
+  U1: Float64Array;
+  U2: Float64Array;
+  mult: Float64Array;
+  swapped: Uint8Array;
+}
+
+/** Factors T - lambda I with partial pivoting into `lu`; pivots below `tiny` are lifted to it. */
+function factorShifted(t: Tridiagonal, lambda: number, tiny: number, lu: ShiftedLU): void {
+  const { d, e } = t;
+  const n = d.length;
+  const { U0, U1, U2, mult, swapped } = lu;
+  let c0 = d[0] - lambda;
+  let c1 = n > 1 ? e[0] : 0;
+  for (let i = 0; i < n - 1; i++) {
+    const n0 = e[i];
+    const n1 = d[i + 1] - lambda;
+    const n2 = i + 1 < n - 1 ? e[i + 1] : 0;
+    if (Math.abs(c0) >= Math.abs(n0)) {
+      if (c0 === 0) c0 = tiny;
+      const mu = n0 / c0;
+      U0[i] = c0;
+      U1[i] = c1;
+      U2[i] = 0;
+      mult[i] = mu;
+      swapped[i] = 0;
+      c0 = n1 - mu * c1;
+      c1 = n2;
+    } else {
+      const mu = c0 / n0;
+      U0[i] = n0;
+      U1[i] = n1;
+      U2[i] = n2;
+      mult[i] = mu;
+      swapped[i] = 1;
+      c0 = c1 - mu * n1;
+      c1 = -mu * n2;
+    }
+    if (Math.abs(U0[i]) < tiny) U0[i] = U0[i] < 0 ? -tiny : tiny;
+  }
+  U0[n - 1] = Math.abs(c0) < tiny ? (c0 < 0 ? -tiny : tiny) : c0;
+}
+
+/** Solves (T - lambda I) x = b in place with the factors of `factorShifted`. */
+function solveShifted(lu: ShiftedLU, b: Float64Array): void {
+  const { U0, U1, U2, mult, swapped } = lu;
+  const n = b.length;
+  for (let i = 0; i < n - 1; i++) {
+    if (swapped[i]) {
+      const tmp = b[i];
+      b[i] = b[i + 1];
+      b[i + 1] = tmp;
+    }
+    b[i + 1] -= mult[i] * b[i];
+  }
+  for (let i = n - 1; i >= 0; i--) {
+    let s = b[i];
+    if (i + 1 < n) s -= U1[i] * b[i + 1];
+    if (i + 2 < n) s -= U2[i] * b[i + 2];
+    b[i] = s / U0[i];
+  }
 }
 
 /** Maps an eigenvector y of T back to A: z = Q y = H_0 (H_1 (... H_{n-3} y)), in place. */

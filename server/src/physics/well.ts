@@ -152,40 +152,55 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
     support: valid ? [c - a - reach, c + a + reach] : [0, 0],
     breakpoints: valid ? [c - a, c + a] : [],
     potential: (x: number) => (Math.abs(x - c) < a ? 0 : depth),
-    table(xs, want, out, d1, d2, from = 0) {
-      const nx = xs.length;
-      const lv = Math.min(want, n);
-      const k0 = Math.max(0, Math.floor(from));
-      for (let i = k0; i < lv; i++) {
-        const L = levels[i];
-        const base = (i - k0) * nx;
-        for (let jx = 0; jx < nx; jx++) {
-          const s = xs[jx] - c;
-          let v: number;
-          let dv: number;
-          let ddv: number;
-          if (Math.abs(s) <= a) {
-            const ks = L.k * s;
-            if (L.even) {
-              v = L.amp * Math.cos(ks);
-              dv = -L.amp * L.k * Math.sin(ks);
-            } else {
-              v = L.amp * Math.sin(ks);
-              dv = L.amp * L.k * Math.cos(ks);
-            }
-            ddv = -L.k * L.k * v;
-          } else {
-            const e = Math.exp(-L.kappa * (Math.abs(s) - a));
-            const side = s > 0 ? 1 : L.even ? 1 : -1;
-            v = side * L.edge * e;
-            dv = -Math.sign(s) * L.kappa * v;
-            ddv = L.kappa * L.kappa * v;
-          }
-          out[base + jx] = v;
-          if (d1) d1[base + jx] = dv;
-          if (d2) d2[base + jx] = ddv;
-        }
-      }
-    },
+    table: (xs, want, out, d1, d2, from = 0) => wellTable(levels, c, a, xs, Math.min(want, n), out, d1, d2, from),
   };
+}
+
+/**
+ * Fills out[(i - from) nx + j] with phi_i(xs[j]) (and the exact derivatives) for from <= i < lv: cos or
+ * sin inside the well |s| <= a (s = x - c), the matching exponential tail outside (see `wellBasis`).
+ */
+function wellTable(
+  levels: WellLevel[],
+  c: number,
+  a: number,
+  xs: Float64Array,
+  lv: number,
+  out: Float64Array,
+  d1: Float64Array | undefined,
+  d2: Float64Array | undefined,
+  from: number,
+): void {
+  const nx = xs.length;
+  const k0 = Math.max(0, Math.floor(from));
+  for (let i = k0; i < lv; i++) {
+    const L = levels[i];
+    const base = (i - k0) * nx;
+    for (let jx = 0; jx < nx; jx++) {
+      const s = xs[jx] - c;
+      let v: number;
+      let dv: number;
+      let ddv: number;
+      if (Math.abs(s) <= a) {
+        const ks = L.k * s;
+        if (L.even) {
+          v = L.amp * Math.cos(ks);
+          dv = -L.amp * L.k * Math.sin(ks);
+        } else {
+          v = L.amp * Math.sin(ks);
+          dv = L.amp * L.k * Math.cos(ks);
+        }
+        ddv = -L.k * L.k * v;
+      } else {
+        const e = Math.exp(-L.kappa * (Math.abs(s) - a));
+        const side = s > 0 ? 1 : L.even ? 1 : -1;
+        v = side * L.edge * e;
+        dv = -Math.sign(s) * L.kappa * v;
+        ddv = L.kappa * L.kappa * v;
+      }
+      out[base + jx] = v;
+      if (d1) d1[base + jx] = dv;
+      if (d2) d2[base + jx] = ddv;
+    }
+  }
 }

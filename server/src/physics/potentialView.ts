@@ -1,0 +1,100 @@
+/**
+ * The Eigenbasis view of a sine-DVR solution of a numerical potential (potential.ts): levels as sine
+ * series, V evaluated on demand, and the sign convention.
+ */
+import type { Eigenbasis } from './types';
+import type { PotentialFn } from './potential';
+import { evalV } from './potentialScan';
+import { sineDvrGrid, sineSeriesMatrixElements, sineSeriesTable, sineSeriesWeightedSums, type SineDvrSolution } from './dvr';
+
+/** A basis with no levels (bad input or a bad V). */
+export function emptyBasis(a: number, b: number, mass: number, V: PotentialFn): Eigenbasis {
+  return makeBasis(null, a, b, mass, V, null, [], new Float64Array(0), new Float64Array(0));
+}
+
+/** The basis of a solution (or of none). */
+export function makeBasis(
+  sol: SineDvrSolution | null,
+  a: number,
+  b: number,
+  mass: number,
+  V: PotentialFn,
+  center: number | null,
+  breakpoints: number[],
+  energies: Float64Array,
+  uncertainty: Float64Array,
+): Eigenbasis {
+  return {
+    kind: 'potential',
+    count: energies.length,
+    firstLabel: 1,
+    energies,
+    uncertainty,
+    mass,
+    center,
+    walls: [a, b],
+    support: [a, b],
+    breakpoints,
+    potential(x: number): number {
+      if (!(x >= a && x <= b)) return Infinity;
+      const r = evalV(V, Float64Array.of(x));
+      return r ? r[0] : NaN;
+    },
+    potentials(xs: Float64Array): Float64Array {
+      // One evaluation of V for all points inside the walls; +Infinity outside, NaN if V fails.
+      const out = new Float64Array(xs.length);
+      let inside = 0;
+      for (let j = 0; j < xs.length; j++) if (xs[j] >= a && xs[j] <= b) inside++;
+      const pts = new Float64Array(inside);
+      for (let j = 0, i = 0; j < xs.length; j++) if (xs[j] >= a && xs[j] <= b) pts[i++] = xs[j];
+      const r = inside > 0 ? evalV(V, pts) : new Float64Array(0);
+      for (let j = 0, i = 0; j < xs.length; j++) {
+        if (xs[j] >= a && xs[j] <= b) out[j] = r ? r[i++] : NaN;
+        else out[j] = Infinity;
+      }
+      return out;
+    },
+    table(xs, levels, out, d1, d2, from = 0) {
+      if (!sol) return;
+      sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2, from);
+    },
+    matrixElements(levels: number) {
+      const K = Math.min(levels, energies.length);
+      return sol ? sineSeriesMatrixElements(sol, K) : { x: new Float64Array(K * K), d: new Float64Array(K * K) };
+    },
+    weightedSums(xs, wRe, wIm, levels, outRe, outIm) {
+      if (!sol) return;
+      sineSeriesWeightedSums(sol, xs, wRe, wIm, Math.min(levels, energies.length), outRe, outIm);
+    },
+  };
+}
+
+/** Flips each level so that it is positive at the first grid point where |phi| exceeds ~1e-6 of its maximum. */
+export function fixSigns(sol: SineDvrSolution): void {
+  const count = sol.energies.length;
+  const n = sol.intervals - 1;
+  const threshold = new Float64Array(count);
+  const norm = Math.sqrt(2 / (sol.b - sol.a));
+  for (let k = 0; k < count; k++) {
+    let s = 0;
+    for (let t = 0; t < n; t++) s += Math.abs(sol.coefficients[k * n + t]);
+    threshold[k] = 1e-6 * norm * s;
+  }
+  const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
+  const settled = new Uint8Array(count);
+  let left = count;
+  const one = new Float64Array(1);
+  const vals = new Float64Array(count);
+  for (let i = 0; i < grid.length && left > 0; i++) {
+    one[0] = grid[i];
+    sineSeriesTable(sol, one, count, vals);
+    for (let k = 0; k < count; k++) {
+      const y = vals[k];
+      if (settled[k] || !(Math.abs(y) > threshold[k])) continue;
+      if (y < 0) for (let t = 0; t < n; t++) sol.coefficients[k * n + t] *= -1;
+      settled[k] = 1;
+      left--;
+    }
+  }
+}
+
