@@ -10,8 +10,10 @@
  */
 import { existsSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
 import { join, relative } from 'node:path';
-import { analyse, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type Limits } from '../analysis/index';
+import { analyse, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type AnalyseOptions, type Limits } from '../analysis/index';
+import type { AnalysisResult } from '../analysis/types';
 import { lineTable } from '../analysis/positions';
+import { withQuickStage } from '../language/meter';
 import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
 
 const USAGE = `Usage:
@@ -110,6 +112,11 @@ function readText(path: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): str
   }
 }
 
+/** `analyse` with the quick stage's suggestion allowance sized by the text (see language/meter.ts). */
+function analyseBounded(text: string, options: AnalyseOptions = {}): AnalysisResult {
+  return withQuickStage({ textLength: text.length }, () => analyse(text, options));
+}
+
 function expand(args: string[], io: Io): number {
   let format: 'json' | 'table' | 'csv' = 'table';
   let file: string | null = null;
@@ -141,7 +148,7 @@ function expand(args: string[], io: Io): number {
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${outPath}' exists; add --force to overwrite it`);
   const text = readText(file, limits.maxFileBytes);
-  const result = analyse(text, { defaultBasis: basis, limits });
+  const result = analyseBounded(text, { defaultBasis: basis, limits });
   const rendered = format === 'json' ? renderJson(result, text) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, file);
   if (outPath !== null) {
     try {
@@ -226,7 +233,7 @@ function check(args: string[], io: Io): number {
       failed = true;
       return;
     }
-    const result = analyse(text, { limits });
+    const result = analyseBounded(text, { limits });
     const lines = lineTable(text);
     for (const d of result.diagnostics) {
       io.out(renderDiagnostic(f, d, lines) + '\n');
@@ -247,7 +254,7 @@ function demo(args: string[], io: Io): number {
   let failed = false;
   for (const f of files) {
     const text = readText(f);
-    const result = analyse(text);
+    const result = analyseBounded(text);
     io.out(renderTable(result, text, relative(process.cwd(), f) || f));
     io.out('\n');
     if (result.diagnostics.some((d) => d.severity === 'error')) failed = true;
