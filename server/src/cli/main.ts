@@ -8,7 +8,7 @@
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
-import { existsSync, writeFileSync } from 'node:fs';
+import { existsSync, statSync, writeFileSync } from 'node:fs';
 import { relative } from 'node:path';
 import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
@@ -117,6 +117,8 @@ function expand(args: string[], io: Io): number {
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${escapeText(outPath)}' exists; add --force to overwrite it`);
+  // Even with --force only a regular file is replaced: writing to a FIFO would block, to a device stream.
+  if (outPath !== null && existsSync(outPath) && !statSync(outPath).isFile()) throw new UsageError(`'${escapeText(outPath)}' is not a regular file`);
   const text = readText(file, limits.maxFileBytes);
   const result = analyseBounded(text, { defaultBasis: basis, limits });
   const shown = escapeText(file);
