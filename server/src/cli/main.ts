@@ -32,8 +32,10 @@ const USAGE = `Usage:
       --limit NAME=N   raise or lower one cap (repeatable); NAME and its range:
 ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padEnd(20)}${String(DEFAULT_LIMITS[k as keyof Limits]).padStart(8)} (${lo} to ${hi})`).join('\n')}
   eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
-      Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE.
-      Folders are searched for .qstate files. Exit 1 when an error or a failed expect is found.
+      Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE, one a line, and a
+      summary line (files, errors, warnings) on standard error. Folders are searched for
+      .qstate files; links are followed only inside the folder, and anything that is not a
+      regular file is skipped with a warning. Exit 1 when an error or a failed expect is found.
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan --help
@@ -139,7 +141,7 @@ function demo(args: string[], io: Io): number {
   const folder = args[0] ?? 'examples';
   const { files, refused } = findQstateFiles([folder]);
   if (refused.some((r) => r.path === folder)) throw new UsageError(`cannot read '${escapeText(folder)}'`);
-  for (const r of refused) io.err(`eigenspan: not shown: ${escapeText(r.path)}: ${r.message}\n`);
+  for (const r of refused) io.err(`eigenspan: not shown: ${escapeText(r.path)}: ${r.message}.\n`);
   if (files.length === 0) throw new UsageError(`no .qstate files in '${escapeText(folder)}'`);
   let failed = false;
   for (const f of files) {
