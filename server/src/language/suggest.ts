@@ -17,9 +17,9 @@ export const SUGGEST_CAPS = {
   /** Words (and candidates) longer than this many UTF-16 code units get no suggestion. */
   maxWordLength: 64,
   /** Candidates looked at per call; the rest are ignored (the scope's own names come first). */
-  maxCandidates: 2000,
+  maxCandidates: 1000,
   /** Edit-distance table cells computed per call before the search stops with what it has. */
-  maxCellsPerCall: 10000,
+  maxCellsPerCall: 5000,
 } as const;
 
 /**
@@ -30,6 +30,17 @@ export const SUGGEST_CAPS = {
  * Source: Damerau, Comm. ACM 7, 171 (1964); common practice for spelling suggestions.
  */
 export function editDistance(a: string, b: string, max = Math.max(a.length, b.length)): number {
+  const d = banded(a, b, max);
+  countWork(lastCells);
+  return d;
+}
+
+/** Cells filled by the last call of `banded`. */
+let lastCells = 0;
+
+/** The distance of `editDistance`, recording the cells it filled in `lastCells`. */
+function banded(a: string, b: string, max: number): number {
+  lastCells = 0;
   const n = a.length;
   const m = b.length;
   const big = max + 1;
@@ -60,7 +71,7 @@ export function editDistance(a: string, b: string, max = Math.max(a.length, b.le
     }
     cells += hi - lo + 1;
     if (rowMin > max) {
-      countWork(cells);
+      lastCells = cells;
       return big;
     }
     const spare = older;
@@ -68,7 +79,7 @@ export function editDistance(a: string, b: string, max = Math.max(a.length, b.le
     prev = cur;
     cur = spare;
   }
-  countWork(cells);
+  lastCells = cells;
   return Math.min(prev[m]!, big);
 }
 
@@ -108,15 +119,15 @@ export function suggest(word: string, candidates: Iterable<string>): string | nu
     let score: number;
     if (c.length === word.length && c.toLowerCase() === lower) score = 0.5;
     else {
-      score = editDistance(word, c, bound);
-      cells += Math.min(word.length, c.length) * (2 * bound + 1);
+      score = banded(word, c, bound);
+      cells += lastCells + 1;
     }
     if (score < bestScore || (score === bestScore && best !== null && c < best)) {
       best = c;
       bestScore = score;
     }
   }
-  countWork(seen);
+  countWork(seen + cells);
   spendSuggestionCells(cells);
   return best !== null && bestScore <= allowed ? best : null;
 }
