@@ -74,6 +74,7 @@ import {
 import { lineOf, scan, isSpace, type ScannedStatement } from './scanner';
 import { bindArguments, SIGNATURES, type Signature } from './signatures';
 import { suggest } from './suggest';
+import { isReservedName } from './reserved';
 import { countWork } from './meter';
 import {
   commaNear,
@@ -269,6 +270,9 @@ function parseLet(ctx: Ctx, span: Span, kwSpan: Span, order: OrderState): Statem
   }
   if ((RESERVED_NAMES as readonly string[]).includes(name)) {
     return fail(ctx, 'name', nameSpan, `'${name}' is reserved (x, i, pi, e, phi and psi have a built-in meaning).`);
+  }
+  if (isReservedName(name)) {
+    return fail(ctx, 'name', nameSpan, `'${name}' cannot be a name: it belongs to the machinery that evaluates expressions; choose another name.`);
   }
   const earlier = order.lets.get(name);
   if (earlier !== undefined) return fail(ctx, 'name', nameSpan, `'${name}' is already defined on line ${lineNo(ctx, earlier)}.`);
