@@ -148,6 +148,20 @@ describe('eigenspan check', () => {
     expect(run(['check', file('warn.qstate', 'system box(0, 1)\nstate psi(x) = 3 sin(pi x)\n')]).code).toBe(0);
   });
 
+  it('ends with one summary line on standard error, saying so when everything is clean (issue 13)', () => {
+    const clean = run(['check', file('clean.qstate', 'system box(0, 1)\nstate psi(x) = sqrt(2) sin(pi x)\n')]);
+    expect(clean.out.split('\n').filter((l) => l.length > 0 && !l.includes(': info['))).toEqual([]);
+    expect(clean.err).toBe('eigenspan check: 1 file, no errors or warnings: all clean.\n');
+    const bad = file('two.qstate', 'system box(0, 1)\nstate psi(x) = 3 sin(pi x)\nexpect energy 7 +- 0.1\n');
+    const r = run(['check', bad, file('three.qstate', 'system box(0, 1)\nstate psi(x) = y\n')]);
+    const lines = r.out.split('\n').filter((l) => l.length > 0);
+    const count = (sev: string) => lines.filter((l) => l.includes(`: ${sev}[`)).length;
+    // Standard output holds only the findings; the counts on standard error are theirs.
+    expect(lines.every((l) => /^.+:\d+:\d+: (error|warning|info)\[[a-z]+\]: /.test(l))).toBe(true);
+    expect(r.err).toBe(`eigenspan check: 2 files, ${count('error')} error${count('error') === 1 ? '' : 's'}, ${count('warning')} warning${count('warning') === 1 ? '' : 's'}.\n`);
+    expect(count('error')).toBeGreaterThanOrEqual(2);
+  });
+
   it('checks every .qstate file of a folder and reports unreadable or binary ones', () => {
     const sub = mkdtempSync(join(tmpdir(), 'eigenspan-folder-'));
     writeFileSync(join(sub, 'a.qstate'), 'system box(0, 1)\nstate psi(x) = sqrt(2) sin(pi x)\n');

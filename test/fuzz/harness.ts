@@ -14,6 +14,12 @@
  * - the command line exits 0 or 1 (never 2 on a readable file), its `check` lines follow
  *   FILE:LINE:COL: SEVERITY[CODE]: MESSAGE, its `--json` output parses and agrees with the exit code.
  *
+ * - hostile classes (test/fuzz/hostile.ts, issue 14): long names and many names finish in the budget;
+ *   control characters never reach the command line's output raw; generated folders with link loops,
+ *   links out of the tree and to the root, devices, FIFOs and odd names are checked without hanging,
+ *   leaking a file from outside or checking a file twice; broken frames of the language server's stream
+ *   (behind `frames`) are answered after or end the server with a reason.
+ *
  * The harness is plain TypeScript with no test-runner imports, so `scripts/fuzz.mjs` can bundle and run it
  * outside vitest and `test/fuzz/fuzz.test.ts` can run it at CI size.
  */
@@ -26,9 +32,10 @@ import type { AnalysisResult } from '../../server/src/analysis/types';
 import { CATALOGUE, type EngineDiagnostic } from '../../server/src/language/catalogue';
 import { parse } from '../../server/src/language/parser';
 import { run } from '../../server/src/cli/main';
+import { brokenFrame, checkFramesCase, checkOutputProblems, checkTreeCase, controlsText, longNamesText, manyNamesText, RAW_UNSAFE, treeEntries, type TreeEntry } from './hostile';
 
 /** Which front door a case goes through. */
-export type CaseKind = 'parse' | 'static' | 'analyse' | 'cli-check' | 'cli-json';
+export type CaseKind = 'parse' | 'static' | 'analyse' | 'cli-check' | 'cli-json' | 'cli-tree' | 'lsp-frames';
 
 /** One fuzz case: a document and the way it is run. Saved as JSON when it fails. */
 export interface FuzzCase {
@@ -38,6 +45,10 @@ export interface FuzzCase {
   origin: string;
   /** Analysis options for 'analyse' cases (samples on or off). */
   samples?: boolean;
+  /** The folder of a 'cli-tree' case (built in a temporary folder, checked with `check`). */
+  tree?: TreeEntry[];
+  /** The broken frames of an 'lsp-frames' case, sent to a spawned dist/server.js before a valid request. */
+  frames?: string[];
 }
 
 /** A case that broke a promise, with the promises it broke. */
@@ -75,8 +86,13 @@ export interface FuzzOptions {
   maxFailures?: number;
   /** Limits of the whole-analysis cases (default `FUZZ_LIMITS`). */
   limits?: AnalyseOptions['limits'];
-  /** Shares of the kinds of case, out of 100 (default: 20 parse, 20 static, 50 analyse, 5 + 5 command line). */
+  /** Shares of the kinds of case, out of 100 (default: 20 parse, 20 static, 47 analyse, 5 + 5 command line, 3 trees). */
   shares?: [CaseKind, number][];
+  /**
+   * Also send broken frames to a spawned language server ('lsp-frames', 2 in 100 cases; default off: each
+   * case spawns dist/server.js, and the server's reader is fixed on its own branch).
+   */
+  frames?: boolean;
 }
 
 // ---------------------------------------------------------------------------------------------------
@@ -342,6 +358,7 @@ export function resultProblems(r: AnalysisResult): string[] {
 }
 
 const CHECK_LINE = /^(.+):(\d+):(\d+): (error|warning|info)\[([a-z]+)\]: (.*)$/;
+const SERVER = join(__dirname, '..', '..', 'dist', 'server.js');
 
 function runCli(argv: string[]): { code: number; out: string; err: string } {
   let out = '';
@@ -397,25 +414,26 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
       case 'cli-check': {
         const f = scratchFile(c.text);
         const { code, out, err } = runCli(['check', f, '--time-limit', String(FUZZ_LIMITS.maxMillis)]);
-        if (code !== 0 && code !== 1) problems.push(`check exited ${code}: ${err.trim()}`);
-        if (err.length > 0) problems.push(`check wrote to stderr: ${err.trim()}`);
-        let errors = false;
+        problems.push(...checkOutputProblems(code, out, err));
         for (const line of out.split('\n').filter((l) => l.length > 0)) {
           const m = CHECK_LINE.exec(line);
-          if (!m) {
-            problems.push(`check printed a line not of the form FILE:LINE:COL: SEVERITY[CODE]: MESSAGE: ${JSON.stringify(line)}`);
-            continue;
-          }
-          if (m[4] === 'error') errors = true;
-          problems.push(...messageProblems(m[6]!));
+          if (m) problems.push(...messageProblems(m[6]!));
         }
-        if ((code === 1) !== errors) problems.push(`check exited ${code} but ${errors ? 'printed' : 'did not print'} an error`);
+        break;
+      }
+      case 'cli-tree': {
+        problems.push(...checkTreeCase(c.tree ?? []));
+        break;
+      }
+      case 'lsp-frames': {
+        problems.push(...checkFramesCase(c.frames ?? [], SERVER));
         break;
       }
       case 'cli-json': {
         const f = scratchFile(c.text);
         const { code, out, err } = runCli(['expand', f, '--json', '--time-limit', String(FUZZ_LIMITS.maxMillis)]);
         if (code !== 0 && code !== 1) problems.push(`expand exited ${code}: ${err.trim()}`);
+        if (RAW_UNSAFE.test(out.replace(/\n/g, '')) || RAW_UNSAFE.test(err)) problems.push(`expand --json printed a raw control character: ${JSON.stringify(out.slice(0, 200))}`);
         let j: { levels?: unknown[]; diagnostics?: { severity: string; line: number; column: number; endLine: number; endColumn: number; message: string }[] };
         try {
           j = JSON.parse(out);
@@ -452,9 +470,10 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
 const KIND_SHARES: [CaseKind, number][] = [
   ['parse', 20],
   ['static', 20],
-  ['analyse', 50],
+  ['analyse', 47],
   ['cli-check', 5],
   ['cli-json', 5],
+  ['cli-tree', 3],
 ];
 
 function chooseKind(r: () => number, shares: [CaseKind, number][]): CaseKind {
@@ -497,6 +516,12 @@ export function generateCases(options: FuzzOptions): FuzzCase[] {
     } else if (which < 0.5 && q < random.length) {
       text = random[q++]!;
       origin = 'random';
+    } else if (which < 0.56) {
+      // The hostile texts of issue 14: long names, many names, control characters.
+      const h = Math.floor(r() * 3);
+      const ex = options.examples.length > 0 ? pick(r, options.examples).text : '';
+      text = h === 0 ? longNamesText(r) : h === 1 ? manyNamesText(r) : controlsText(r, ex);
+      origin = `hostile:${['long-names', 'many-names', 'controls'][h]}`;
     } else if (options.examples.length > 0) {
       const ex = pick(r, options.examples);
       text = mutate(ex.text, r);
@@ -505,9 +530,15 @@ export function generateCases(options: FuzzOptions): FuzzCase[] {
       text = generated[g++ % generated.length]!;
       origin = 'generated';
     }
-    const kind = chooseKind(r, options.shares ?? KIND_SHARES);
+    const shares = options.shares ?? KIND_SHARES;
+    const kind = chooseKind(r, options.frames === true ? [...shares, ['lsp-frames', 2]] : shares);
     const c: FuzzCase = { kind, text, origin };
     if (kind === 'analyse') c.samples = r() < 0.3;
+    if (kind === 'cli-tree') [c.text, c.origin, c.tree] = ['', 'hostile:tree', treeEntries(r)];
+    if (kind === 'lsp-frames') {
+      c.frames = Array.from({ length: 1 + Math.floor(r() * 3) }, () => brokenFrame(r));
+      [c.text, c.origin] = ['', 'hostile:frames'];
+    }
     out.push(c);
   }
   return out;
@@ -523,7 +554,7 @@ export function runFuzz(options: FuzzOptions): FuzzReport {
     cases: 0,
     failures: [],
     slowest: { ms: 0, case: null },
-    byKind: { parse: 0, static: 0, analyse: 0, 'cli-check': 0, 'cli-json': 0 },
+    byKind: { parse: 0, static: 0, analyse: 0, 'cli-check': 0, 'cli-json': 0, 'cli-tree': 0, 'lsp-frames': 0 },
     totalMs: 0,
     times: [],
   };

@@ -302,6 +302,24 @@ let steps = 1
     expect(r.file.statements.map((s) => (s.kind === 'let' ? s.expr.text : null))).toEqual(['1', '2']);
   });
 
+  it('a let name that belongs to the expression machinery (issue 14): one finding where it is defined', () => {
+    const r = check(`
+let __proto__ = 1
+    ^^^^^^^^^ name
+let constructor = 2
+    ^^^^^^^^^^^ name
+let valueOf = 3
+    ^^^^^^^ name
+let hasOwnProperty = 4
+    ^^^^^^^^^^^^^^ name
+let evaluate = 5
+    ^^^^^^^^ name
+let fine = 6
+`);
+    // Each refused definition is left out, so nothing later can use it as if it were defined.
+    expect(r.file.statements.map((s) => (s.kind === 'let' ? s.name : null))).toEqual(['fine']);
+  });
+
   it('units after a statement that uses values; mass after the model', () => {
     const r = check(`
 let a = 1

@@ -8,11 +8,14 @@
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
-import { existsSync, readFileSync, readdirSync, statSync, writeFileSync } from 'node:fs';
-import { join, relative } from 'node:path';
-import { analyse, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type Limits } from '../analysis/index';
-import { lineTable } from '../analysis/positions';
-import { renderCsv, renderJson, renderTable, renderDiagnostic } from './render';
+import { existsSync, statSync, writeFileSync } from 'node:fs';
+import { relative } from 'node:path';
+import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
+import { check, findQstateFiles } from './check';
+import { escapeJson, escapeLines, escapeText } from './escape';
+import { readBounded } from './files';
+import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { renderCsv, renderJson, renderTable } from './render';
 
 const USAGE = `Usage:
   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
@@ -29,53 +32,37 @@ const USAGE = `Usage:
       --limit NAME=N   raise or lower one cap (repeatable); NAME and its range:
 ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padEnd(20)}${String(DEFAULT_LIMITS[k as keyof Limits]).padStart(8)} (${lo} to ${hi})`).join('\n')}
   eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
-      Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE.
-      Folders are searched for .qstate files. Exit 1 when an error or a failed expect is found.
+      Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE, one a line, and a
+      summary line (files, errors, warnings) on standard error. Folders are searched for
+      .qstate files; links are followed only inside the folder, and anything that is not a
+      regular file is skipped with a warning. Exit 1 when an error or a failed expect is found.
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan --help
       Show this text.
 `;
 
-class UsageError extends Error {}
-
-/** Reads the value of `--time-limit MS` (a whole number of milliseconds per file). */
-function timeLimit(value: string | undefined): number {
-  const v = Number(value);
-  if (value === undefined || !Number.isInteger(v) || v < 1) throw new UsageError('--time-limit needs a whole number of milliseconds');
-  return v;
-}
-
-/** Reads the value of `--limit NAME=N` into `into`. */
-function limitOption(value: string | undefined, into: Partial<Limits>): void {
-  const m = value === undefined ? null : /^([A-Za-z]+)=(.*)$/.exec(value);
-  if (!m) throw new UsageError('--limit needs NAME=N, for example --limit maxBasis=8000');
-  const { limits, problems } = readLimits({ [m[1]!]: m[2]! });
-  if (problems.length > 0) throw new UsageError(`--limit: ${problems[0]}`);
-  Object.assign(into, limits);
-}
-
-interface Io {
-  out: (s: string) => void;
-  err: (s: string) => void;
-  isTTY: boolean;
-}
-
 /** Runs the command line with `argv` (without node and the script); returns the exit code. */
 export function run(argv: string[], io: Io): number {
+  // Everything printed passes one escaping funnel; only the progress line of a terminal goes raw.
+  const safe: Io = { out: (t) => io.out(escapeLines(t)), err: (t) => io.err(escapeLines(t)), isTTY: io.isTTY };
+  return runSafe(argv, safe, io.err);
+}
+
+function runSafe(argv: string[], io: Io, raw: (s: string) => void): number {
   try {
-    return dispatch(argv, io);
+    return dispatch(argv, io, raw);
   } catch (e) {
     if (e instanceof UsageError) {
-      io.err(`eigenspan: ${e.message}\n`);
+      io.err(`eigenspan: ${escapeText(e.message)}\n`);
       return 2;
     }
-    io.err(`eigenspan: internal error: ${e instanceof Error ? e.message : String(e)}\n`);
+    io.err(`eigenspan: internal error: ${escapeText(e instanceof Error ? e.message : String(e))}\n`);
     return 2;
   }
 }
 
-function dispatch(argv: string[], io: Io): number {
+function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
   if (argv.length === 0) throw new UsageError("no command given; try 'eigenspan --help'");
   const [cmd, ...rest] = argv;
   if (cmd === '--help' || cmd === '-h' || cmd === 'help') {
@@ -86,7 +73,7 @@ function dispatch(argv: string[], io: Io): number {
     case 'expand':
       return expand(rest, io);
     case 'check':
-      return check(rest, io);
+      return check(rest, io, raw);
     case 'demo':
       return demo(rest, io);
     default:
@@ -94,20 +81,12 @@ function dispatch(argv: string[], io: Io): number {
   }
 }
 
+/** Reads one file named on the command line under the file rules (files.ts); refusals are usage errors. */
 function readText(path: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): string {
-  let st;
-  try {
-    st = statSync(path);
-  } catch {
-    throw new UsageError(`cannot read '${path}': no such file`);
-  }
-  if (st.isDirectory()) throw new UsageError(`'${path}' is a folder, not a file`);
-  if (st.size > maxFileBytes * 4) throw new UsageError(`'${path}' is ${st.size} bytes, too large for a .qstate file`);
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (e) {
-    throw new UsageError(`cannot read '${path}': ${(e as NodeJS.ErrnoException).code ?? 'error'}`);
-  }
+  // Bytes, not characters: a UTF-8 file of maxFileBytes characters has at most four bytes a character.
+  const read = readBounded(path, { maxBytes: maxFileBytes * 4 });
+  if (!read.ok) throw new UsageError(`cannot read '${escapeText(path)}': ${read.refusal.message}`);
+  return read.data.toString('utf8');
 }
 
 function expand(args: string[], io: Io): number {
@@ -139,116 +118,36 @@ function expand(args: string[], io: Io): number {
   }
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
-  if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${outPath}' exists; add --force to overwrite it`);
+  if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${escapeText(outPath)}' exists; add --force to overwrite it`);
+  // Even with --force only a regular file is replaced: writing to a FIFO would block, to a device stream.
+  if (outPath !== null && existsSync(outPath) && !statSync(outPath).isFile()) throw new UsageError(`'${escapeText(outPath)}' is not a regular file`);
   const text = readText(file, limits.maxFileBytes);
-  const result = analyse(text, { defaultBasis: basis, limits });
-  const rendered = format === 'json' ? renderJson(result, text) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, file);
+  const result = analyseBounded(text, { defaultBasis: basis, limits });
+  const shown = escapeText(file);
+  const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, shown);
   if (outPath !== null) {
     try {
-      writeFileSync(outPath, rendered, { flag: force ? 'w' : 'wx' });
+      writeFileSync(outPath, escapeLines(rendered), { flag: force ? 'w' : 'wx' });
     } catch (e) {
       const code = (e as NodeJS.ErrnoException).code;
-      throw new UsageError(code === 'EEXIST' ? `'${outPath}' exists; add --force to overwrite it` : `cannot write '${outPath}': ${code ?? 'error'}`);
+      const where = escapeText(outPath);
+      throw new UsageError(code === 'EEXIST' ? `'${where}' exists; add --force to overwrite it` : `cannot write '${where}': ${code ?? 'error'}`);
     }
   } else io.out(rendered);
   return result.diagnostics.some((d) => d.severity === 'error') ? 1 : 0;
 }
 
-function collect(path: string, into: string[], problems: { path: string; message: string }[]): void {
-  let st;
-  try {
-    st = statSync(path);
-  } catch {
-    problems.push({ path, message: 'no such file or folder' });
-    return;
-  }
-  if (st.isDirectory()) {
-    let names: string[];
-    try {
-      names = readdirSync(path).sort();
-    } catch {
-      problems.push({ path, message: 'cannot list the folder' });
-      return;
-    }
-    for (const n of names) {
-      if (n === 'node_modules' || n.startsWith('.')) continue;
-      const p = join(path, n);
-      let s;
-      try {
-        s = statSync(p);
-      } catch {
-        // A dangling link or an entry that cannot be examined: report it and go on with the rest.
-        if (n.endsWith('.qstate')) problems.push({ path: p, message: 'a broken link or an entry that cannot be examined' });
-        continue;
-      }
-      if (s.isDirectory()) collect(p, into, problems);
-      else if (n.endsWith('.qstate')) into.push(p);
-    }
-  } else into.push(path);
-}
-
-function check(args: string[], io: Io): number {
-  const targets: string[] = [];
-  const limits: Partial<Limits> = {};
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i]!;
-    if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
-    else if (a === '--limit') limitOption(args[++i], limits);
-    else if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for check`);
-    else targets.push(a);
-  }
-  if (targets.length === 0) throw new UsageError('check needs at least one file or folder');
-  const files: string[] = [];
-  const problems: { path: string; message: string }[] = [];
-  for (const t of targets) collect(t, files, problems);
-  let failed = problems.length > 0;
-  for (const p of problems) io.out(`${p.path}:1:1: error[limits]: Cannot check it: ${p.message}.\n`);
-  files.forEach((f, i) => {
-    if (io.isTTY && files.length > 3) io.err(`\r[${i + 1}/${files.length}] ${f}\x1b[K`);
-    let text: string;
-    try {
-      const st = statSync(f);
-      const maxBytes = limits.maxFileBytes ?? DEFAULT_LIMITS.maxFileBytes;
-      if (st.size > maxBytes) {
-        io.out(`${f}:1:1: error[limits]: The file is ${st.size} bytes, above the limit of ${maxBytes}.\n`);
-        failed = true;
-        return;
-      }
-      const buf = readFileSync(f);
-      if (buf.includes(0)) {
-        io.out(`${f}:1:1: error[syntax]: The file is binary, not a .qstate text file.\n`);
-        failed = true;
-        return;
-      }
-      text = buf.toString('utf8');
-    } catch (e) {
-      io.out(`${f}:1:1: error[limits]: Cannot read the file (${(e as NodeJS.ErrnoException).code ?? 'error'}).\n`);
-      failed = true;
-      return;
-    }
-    const result = analyse(text, { limits });
-    const lines = lineTable(text);
-    for (const d of result.diagnostics) {
-      io.out(renderDiagnostic(f, d, lines) + '\n');
-      if (d.severity === 'error') failed = true;
-    }
-  });
-  if (io.isTTY && files.length > 3) io.err(`\r\x1b[K`);
-  return failed ? 1 : 0;
-}
-
 function demo(args: string[], io: Io): number {
   const folder = args[0] ?? 'examples';
-  const files: string[] = [];
-  const problems: { path: string; message: string }[] = [];
-  collect(folder, files, problems);
-  if (problems.length > 0) throw new UsageError(`cannot read '${folder}'`);
-  if (files.length === 0) throw new UsageError(`no .qstate files in '${folder}'`);
+  const { files, refused } = findQstateFiles([folder]);
+  if (refused.some((r) => r.path === folder)) throw new UsageError(`cannot read '${escapeText(folder)}'`);
+  for (const r of refused) io.err(`eigenspan: not shown: ${escapeText(r.path)}: ${r.message}.\n`);
+  if (files.length === 0) throw new UsageError(`no .qstate files in '${escapeText(folder)}'`);
   let failed = false;
   for (const f of files) {
     const text = readText(f);
-    const result = analyse(text);
-    io.out(renderTable(result, text, relative(process.cwd(), f) || f));
+    const result = analyseBounded(text);
+    io.out(renderTable(result, text, escapeText(relative(process.cwd(), f) || f)));
     io.out('\n');
     if (result.diagnostics.some((d) => d.severity === 'error')) failed = true;
   }

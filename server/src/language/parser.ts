@@ -74,6 +74,25 @@ import {
 import { lineOf, scan, isSpace, type ScannedStatement } from './scanner';
 import { bindArguments, SIGNATURES, type Signature } from './signatures';
 import { suggest } from './suggest';
+import { isReservedName } from './reserved';
+import { countWork } from './meter';
+import {
+  commaNear,
+  exprText,
+  identEnd,
+  IDENT_PART,
+  isOpenBracket,
+  isSingleEquals,
+  lastBefore,
+  levelEnd,
+  matchClose,
+  scanTop,
+  skipSpace,
+  splitTop,
+  takeSteps,
+  tokenEnd,
+  trim,
+} from './text';
 
 /** What `parse` returns. */
 export interface ParseResult {
@@ -89,8 +108,6 @@ interface Ctx {
   diags: EngineDiagnostic[];
 }
 
-const IDENT_START = /[\p{L}_]/u;
-const IDENT_PART = /[\p{L}\p{N}_]/u;
 const UNIT_START = /\p{L}/u;
 
 /**
@@ -98,6 +115,7 @@ const UNIT_START = /\p{L}/u;
  */
 export function parse(text: string): ParseResult {
   const input = typeof text === 'string' ? text : '';
+  takeSteps();
   const sc = scan(input);
   const ctx: Ctx = { m: sc.masked, lineStarts: sc.lineStarts, diags: [] };
   const statements: Statement[] = [];
@@ -119,6 +137,7 @@ export function parse(text: string): ParseResult {
       rejected.push({ keyword: result.keyword.word, span: { start: st.start, end: st.end }, keywordSpan: result.keyword.span });
     }
   }
+  countWork(takeSteps());
   return { file: { text: input, statements, rejected }, diagnostics: ctx.diags };
 }
 
@@ -251,6 +270,9 @@ function parseLet(ctx: Ctx, span: Span, kwSpan: Span, order: OrderState): Statem
   }
   if ((RESERVED_NAMES as readonly string[]).includes(name)) {
     return fail(ctx, 'name', nameSpan, `'${name}' is reserved (x, i, pi, e, phi and psi have a built-in meaning).`);
+  }
+  if (isReservedName(name)) {
+    return fail(ctx, 'name', nameSpan, `'${name}' cannot be a name: it belongs to the machinery that evaluates expressions; choose another name.`);
   }
   const earlier = order.lets.get(name);
   if (earlier !== undefined) return fail(ctx, 'name', nameSpan, `'${name}' is already defined on line ${lineNo(ctx, earlier)}.`);
@@ -556,151 +578,4 @@ function unknownName(ctx: Ctx, span: Span, word: string, candidates: readonly st
 /** 1-based line of an offset, for messages. */
 function lineNo(ctx: Ctx, offset: number): number {
   return lineOf(ctx.lineStarts, offset) + 1;
-}
-
-/** The comma after piece k (or before it, for the last piece): where an empty argument is reported. */
-function commaNear(pieces: readonly [number, number][], k: number, fallback: Span): Span {
-  if (k + 1 < pieces.length) return { start: pieces[k]![1], end: pieces[k]![1] + 1 };
-  if (k > 0) return { start: pieces[k - 1]![1], end: pieces[k - 1]![1] + 1 };
-  return fallback;
-}
-
-// ---------------------------------------------------------------------------------------------
-// Character helpers (all on the masked text, bounded by `hi`)
-
-function isOpenBracket(m: string, p: number, hi: number): boolean {
-  return p < hi && m[p] === '[';
-}
-
-function skipSpace(m: string, p: number, hi: number): number {
-  while (p < hi && isSpace(m[p])) p++;
-  return p;
-}
-
-/** End of the identifier starting at `p` (equal to `p` when there is none). */
-function identEnd(m: string, p: number, hi: number): number {
-  const first = charIn(m, p, hi, IDENT_START);
-  if (first === 0) return p;
-  let e = p + first;
-  for (let len = charIn(m, e, hi, IDENT_PART); len > 0; len = charIn(m, e, hi, IDENT_PART)) e += len;
-  return e;
-}
-
-/** Length (1 or 2 code units) of the code point at `p` when it matches `re`, else 0. */
-function charIn(m: string, p: number, hi: number, re: RegExp): number {
-  if (p >= hi) return 0;
-  const c = m.codePointAt(p)!;
-  // Letters outside the basic plane (such as mathematical italic alpha) take two code units.
-  const len = c > 0xffff ? 2 : 1;
-  if (p + len > hi) return 0;
-  return re.test(len === 1 ? m[p]! : String.fromCodePoint(c)) ? len : 0;
-}
-
-/** End of the token at `p`: an identifier, a number-like run, or one code point. */
-function tokenEnd(m: string, p: number, hi: number): number {
-  const e = identEnd(m, p, hi);
-  if (e > p) return e;
-  if (/[0-9.]/.test(m[p]!)) {
-    let q = p + 1;
-    while (q < hi && /[0-9.eE]/.test(m[q]!)) q++;
-    return q;
-  }
-  const code = m.charCodeAt(p);
-  return code >= 0xd800 && code <= 0xdbff && p + 1 < hi ? p + 2 : p + 1;
-}
-
-/** The offset just after the last non-space character before `p`. */
-function lastBefore(m: string, p: number): number {
-  while (p > 0 && isSpace(m[p - 1])) p--;
-  return p;
-}
-
-function trim(m: string, a: number, b: number): [number, number] {
-  while (a < b && isSpace(m[a])) a++;
-  while (b > a && isSpace(m[b - 1])) b--;
-  return [a, b];
-}
-
-/** The trimmed text of [a, b), or null when it is blank. */
-function exprText(m: string, a: number, b: number): ExprText | null {
-  const [s, e] = trim(m, a, b);
-  return s < e ? { start: s, end: e, text: m.slice(s, e) } : null;
-}
-
-/** A single `=` at `p` (not part of `==`, `<=`, `>=`, `!=`). */
-function isSingleEquals(m: string, p: number): boolean {
-  if (m[p] !== '=' || m[p + 1] === '=') return false;
-  const prev = m[p - 1];
-  return prev !== '=' && prev !== '<' && prev !== '>' && prev !== '!';
-}
-
-/**
- * Calls `visit(k)` for every offset k in [lo, hi) that is at top level (outside brackets and
- * double-quoted strings), including the opening brackets themselves; stops when it returns true.
- */
-function scanTop(m: string, lo: number, hi: number, visit: (k: number) => boolean): void {
-  let depth = 0;
-  for (let k = lo; k < hi; k++) {
-    const c = m[k];
-    if (c === '"') {
-      if (depth === 0 && visit(k)) return;
-      k++;
-      while (k < hi && m[k] !== '"') k += m[k] === '\\' ? 2 : 1;
-      continue;
-    }
-    if (depth === 0 && visit(k)) return;
-    if (c === '(' || c === '[' || c === '{') depth++;
-    else if ((c === ')' || c === ']' || c === '}') && depth > 0) depth--;
-  }
-}
-
-/** Pieces of [lo, hi) between top-level separators. */
-function splitTop(m: string, lo: number, hi: number, sep: string): [number, number][] {
-  const pieces: [number, number][] = [];
-  let start = lo;
-  scanTop(m, lo, hi, (k) => {
-    if (m[k] === sep) {
-      pieces.push([start, k]);
-      start = k + 1;
-    }
-    return false;
-  });
-  pieces.push([start, hi]);
-  return pieces;
-}
-
-/** Offset of the bracket closing the one at `open` (any bracket kind closes), or -1. */
-function matchClose(m: string, open: number, hi: number): number {
-  let depth = 0;
-  for (let k = open; k < hi; k++) {
-    const c = m[k];
-    if (c === '"') {
-      k++;
-      while (k < hi && m[k] !== '"') k += m[k] === '\\' ? 2 : 1;
-      continue;
-    }
-    if (c === '(' || c === '[' || c === '{') depth++;
-    else if (c === ')' || c === ']' || c === '}') {
-      depth--;
-      if (depth === 0) return k;
-    }
-  }
-  return -1;
-}
-
-/** End of one level of `expect weight`: up to top-level space, `..` or a comparison sign. */
-function levelEnd(m: string, p: number, hi: number): number {
-  let end = p;
-  let depth = 0;
-  for (let k = p; k < hi; k++) {
-    const c = m[k]!;
-    if (depth === 0) {
-      if (isSpace(c) || m.startsWith('..', k) || c === '>' || c === '<' || c === '≥' || c === '≤' || c === '±') break;
-      if (c === '+' && m[k + 1] === '-') break;
-    }
-    if (c === '(' || c === '[' || c === '{') depth++;
-    else if ((c === ')' || c === ']' || c === '}') && depth > 0) depth--;
-    end = k + 1;
-  }
-  return end;
 }

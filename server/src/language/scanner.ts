@@ -13,6 +13,7 @@
  * The scanner never throws and runs in one pass over the text.
  */
 import type { Span } from './ast';
+import { countWork } from './meter';
 
 /** One logical statement: the first line's code plus its continuation lines. */
 export interface ScannedStatement {
@@ -64,6 +65,7 @@ export function scan(text: string): ScanResult {
   let current: ScannedStatement | null = null;
   let line = 0;
   let ls = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  let steps = 0; // characters visited, for the work meter
 
   while (ls <= n) {
     // Find the end of this line and of its code part.
@@ -76,6 +78,7 @@ export function scan(text: string): ScanResult {
       le++;
     }
     const codeEnd = hash < 0 ? le : hash;
+    steps += le - ls + 1;
     if (hash >= 0) {
       comments.push({ start: hash, end: le });
       pieces.push(text.slice(copied, hash), ' '.repeat(le - hash));
@@ -85,6 +88,7 @@ export function scan(text: string): ScanResult {
     while (a < codeEnd && isInlineSpace(text[a])) a++;
     let b = codeEnd;
     while (b > a && isInlineSpace(text[b - 1])) b--;
+    steps += codeEnd - ls - (b - a);
     if (a < b) {
       const indented = a > ls;
       if (indented && current !== null) {
@@ -102,6 +106,7 @@ export function scan(text: string): ScanResult {
     ls = next;
   }
   pieces.push(text.slice(copied));
+  countWork(steps + pieces.length);
   return { masked: pieces.join(''), statements, comments, lineStarts };
 }
 
