@@ -18,6 +18,7 @@ import { numericStage } from './numeric';
 import { evaluationFinding } from './checks';
 import { letValues } from './values';
 import { warn } from './findings';
+import { inQuickStage } from '../language/meter';
 
 export { DEFAULT_BASIS, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type AnalyseOptions, type Limits, type SettableLimit } from './options';
 export { analyseUntrusted } from './untrusted';
@@ -30,6 +31,10 @@ interface StaticStage {
 }
 
 function staticStage(text: string, options: AnalyseOptions): StaticStage {
+  return inQuickStage(text.length, () => staticStageIn(text, options));
+}
+
+function staticStageIn(text: string, options: AnalyseOptions): StaticStage {
   const limits = resolveLimits(options);
   const read = readFile(text, limits);
   if (!read.parsed) return { file: read.file, diagnostics: read.diagnostics, model: null, limits };

@@ -5,6 +5,7 @@
  * checker's exponents and level numbers, the value the checker itself folds from plain arithmetic
  * (numbers, pi, e and + - * / ^ of earlier such names; anything else is unknown there).
  */
+import { inQuickStage } from '../language/meter';
 import type { EngineDiagnostic } from '../language/catalogue';
 import type { Arg, Comparison, Expectation, ExprText, QFile, Statement, StateSpec, SystemSpec } from '../language/ast';
 import type { Scope, UnitSystem } from '../expr/types';
@@ -32,8 +33,11 @@ interface Slot {
 export function analyseUntrusted(text: string, options: AnalyseOptions = {}): { file: QFile; diagnostics: EngineDiagnostic[] } {
   try {
     const limits = resolveLimits(options);
-    const read = readFile(text, limits);
-    if (read.parsed) checkFile(read.file, limits, read.diagnostics);
+    const read = inQuickStage(text.length, () => {
+      const r = readFile(text, limits);
+      if (r.parsed) checkFile(r.file, limits, r.diagnostics);
+      return r;
+    });
     return { file: read.file, diagnostics: sortDiagnostics(read.diagnostics) };
   } catch (err) {
     return { file: { text, statements: [] }, diagnostics: [internalError(err, text)] };

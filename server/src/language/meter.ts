@@ -53,6 +53,15 @@ export function withQuickStage<T>(options: QuickStageOptions, fn: () => T): T {
   }
 }
 
+/**
+ * Runs `fn` in a quick-stage context with the suggestion allowance of a text of `textLength`
+ * characters, unless a context is already active (a caller's meter or allowance then stays in force).
+ * Every entry of the analysis runs its static stage through this, so no front end can forget it.
+ */
+export function inQuickStage<T>(textLength: number, fn: () => T): T {
+  return active !== null ? fn() : withQuickStage({ textLength }, fn);
+}
+
 /** Runs `fn` with `meter` counting the quick stage's work (no suggestion allowance). */
 export function withWorkMeter<T>(meter: WorkMeter, fn: () => T): T {
   return withQuickStage({ meter }, fn);
