@@ -11,7 +11,7 @@ import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
-import { DEFAULT_SETTINGS, spectrumOption, stateOption, timeOption, type TooltipRows, type ViewSettings } from './views';
+import { DEFAULT_SETTINGS, spectrumOption, stateOption, timeOption, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, normalisedState, partialSum } from './physics';
 
 echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, CanvasRenderer, SVGRenderer]);

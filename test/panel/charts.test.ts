@@ -2,8 +2,9 @@
  * The panel's pure parts in Node: partial sums, normalisation, axis helpers and the option builders.
  */
 import { describe, it, expect } from 'vitest';
+import { readdirSync, readFileSync } from 'node:fs';
 import { l2Distance, normalisedState, partialSum, isSymmetric, trapezoid } from '../../client/webview/physics';
-import { spectrumOption, stateOption, logFloor, niceCeil, niceBound, energyWindow, hasParity, DEFAULT_SETTINGS } from '../../client/webview/views';
+import { spectrumOption, stateOption, timeOption, logFloor, niceCeil, niceBound, energyWindow, hasParity, DEFAULT_SETTINGS } from '../../client/webview/charts';
 import { readPalette } from '../../client/webview/theme';
 import { parabolaResult } from '../client/fixtures';
 
@@ -111,5 +112,50 @@ describe('option builders', () => {
     const segments = marks.filter(Array.isArray);
     expect(segments.length).toBeGreaterThan(0);
     expect(marks.length - segments.length).toBe(3);
+  });
+});
+
+describe('the chart module', () => {
+  it('holds no browser code, so a command-line renderer can import it', () => {
+    const dir = 'client/webview/charts';
+    for (const f of readdirSync(dir)) {
+      const src = readFileSync(`${dir}/${f}`, 'utf8').replace(/\/\*[\s\S]*?\*\/|\/\/.*$/gm, '');
+      expect(src, f).not.toMatch(/\b(window|document|navigator|HTMLElement|requestAnimationFrame|getComputedStyle)\b/);
+      for (const m of src.matchAll(/from '([^']+)'/g)) expect(m[1], `${f} imports ${m[1]}`).toMatch(/^\.\.?\//);
+    }
+  });
+
+  it('labels the spectrum axes and the K mark, with the cumulative axis from 0 to 1', () => {
+    const o = spectrumOption(ctx({ terms: 4 })) as { xAxis: { name: string; data: string[] }; yAxis: { name: string; min: number; max?: number }[]; series: { id: string; markLine?: { label: { formatter: string } } }[] };
+    expect(o.xAxis.name).toBe('n');
+    expect(o.xAxis.data.slice(0, 3)).toEqual(['1', '2', '3']);
+    expect(o.yAxis[0]!.name).toBe('|c_n|²');
+    expect(o.yAxis[0]!.min).toBe(0);
+    expect([o.yAxis[1]!.min, o.yAxis[1]!.max]).toEqual([0, 1]);
+    expect(o.series.find((s) => s.id === 'cumulative')!.markLine!.label.formatter).toBe('K = 4');
+  });
+
+  it('draws the time view: |psi(x, t)|^2 over x above, the survival over the evolve times below', () => {
+    const r = parabolaResult(12, { samples: true });
+    const x = r.samples!.x as number[];
+    const times = Array.from({ length: 21 }, (_, j) => j * 0.01);
+    // Survival |sum_n w_n exp(-i E_n t)|^2 (derived in this comment from the expansion, hbar = 1).
+    const survival = times.map((t) => {
+      let re = 0;
+      let im = 0;
+      for (const l of r.levels) ((re += l.weight * Math.cos(l.energy * t)), (im -= l.weight * Math.sin(l.energy * t)));
+      return re * re + im * im;
+    });
+    const density = times.map(() => (r.samples!.re as number[]).map((v) => v * v));
+    r.evolution = { times, meanX: times.map(() => 0.5), meanP: times.map(() => 0), survival, revival: 4 / Math.PI, density };
+    const o = timeOption(ctx({ timeIndex: 5 }, r)) as { xAxis: { name: string; min: number; max: number }[]; yAxis: { name: string; min: number; max: number }[]; series: { id: string; data: [number, number][] }[] };
+    expect(o.series.map((s) => s.id)).toEqual(['density-t', 'survival']);
+    expect(o.series[0]!.data).toHaveLength(x.length);
+    expect(o.series[1]!.data[0]![1]).toBeCloseTo(r.captured! ** 2, 12);
+    expect([o.xAxis[0]!.min, o.xAxis[0]!.max]).toEqual([0, 1]);
+    expect([o.xAxis[1]!.min, o.xAxis[1]!.max]).toEqual([0, 0.2]);
+    expect(o.yAxis[1]!.name).toBe('survival');
+    // 30 x^2 (1 - x)^2 peaks at 30/16 = 1.875 at x = 1/2: the axis ends at the next tick-friendly value.
+    expect(o.yAxis[0]!.max).toBe(2);
   });
 });
