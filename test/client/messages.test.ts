@@ -13,6 +13,7 @@ describe('message checks', () => {
     expect(parseHostMessage({ type: 'theme', kind: 'high-contrast' })).toEqual({ type: 'theme', kind: 'high-contrast' });
     expect(parseHostMessage({ type: 'empty', reason: 'x' })).toEqual({ type: 'empty', reason: 'x' });
     expect(parseHostMessage({ type: 'settings', plotScale: 'log' })).toEqual({ type: 'settings', plotScale: 'log' });
+    expect(parseHostMessage({ type: 'settings', plotScale: 'auto' })).toEqual({ type: 'settings', plotScale: 'auto' });
   });
 
   it('rejects each kind of damage to a result', () => {

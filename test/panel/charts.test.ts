@@ -3,8 +3,8 @@
  */
 import { describe, it, expect } from 'vitest';
 import { readdirSync, readFileSync } from 'node:fs';
-import { l2Distance, normalisedState, partialSum, isSymmetric, trapezoid } from '../../client/webview/physics';
-import { spectrumOption, stateOption, timeOption, logFloor, niceCeil, niceBound, energyWindow, hasParity, DEFAULT_SETTINGS } from '../../client/webview/charts';
+import { l2Distance, sampledState, partialSum, trapezoid } from '../../client/webview/physics';
+import { spectrumOption, stateOption, timeOption, decadeAxis, niceCeil, niceBound, niceAxis, tickFormatter, energyWindow, levelClasses, DEFAULT_SETTINGS } from '../../client/webview/charts';
 import { readPalette } from '../../client/webview/theme';
 import { parabolaResult } from '../client/fixtures';
 
@@ -20,14 +20,14 @@ describe('partial sums', () => {
   const r = parabolaResult(15, { samples: true });
   const s = r.samples!;
 
-  it('normalises the sampled state to unit integral of |psi|^2', () => {
-    const st = normalisedState({ ...s, re: s.re.map((v) => 3 * v!) });
-    expect(trapezoid(s.x, st.density)).toBeCloseTo(1, 12);
-    expect(st.scale).toBeCloseTo(1 / 3 / Math.sqrt(trapezoid(s.x, s.re.map((v) => v! * v!))), 12);
+  it('takes the sampled state as the engine normalised it', () => {
+    const st = sampledState(s);
+    expect(Array.from(st.re)).toEqual(s.re);
+    expect(trapezoid(s.x, st.density)).toBeCloseTo(1, 3);
   });
 
   it('converges to the state, with the error squared equal to the weight left out (Parseval)', () => {
-    const st = normalisedState(s);
+    const st = sampledState(s);
     let prev = Infinity;
     for (const K of [1, 3, 5, 9, 15]) {
       const p = partialSum(s, r.levels, K);
@@ -47,12 +47,6 @@ describe('partial sums', () => {
     expect(partialSum(s, r.levels, 1000).terms).toBe(15);
     expect(partialSum(s, r.levels, -2).terms).toBe(0);
   });
-
-  it('detects a mirror-symmetric potential', () => {
-    expect(isSymmetric(s, 0.5)).toBe(true);
-    expect(isSymmetric({ ...s, potential: s.x.map((x) => x!) }, 0.5)).toBe(false);
-    expect(isSymmetric(s, null)).toBe(false);
-  });
 });
 
 describe('axis helpers', () => {
@@ -62,7 +56,14 @@ describe('axis helpers', () => {
     expect(niceCeil(7)).toBe(10);
     expect(niceBound(1234, true)).toBe(1300);
     expect(niceBound(-58.2, false)).toBe(-59);
-    expect(logFloor([0, 0.5, 3e-7, null])).toBe(1e-7);
+    // The log axis floor sits below the smallest weight shown, at a multiple of the tick step.
+    expect(decadeAxis([0.5, 3e-5])).toEqual({ floor: -5, top: 0, step: 1 });
+    expect(decadeAxis([0.9, 1e-7])).toEqual({ floor: -8, top: 0, step: 2 });
+    expect(decadeAxis([0.9, 2e-15])).toEqual({ floor: -16, top: 0, step: 4 });
+    // Round ticks and ends: 0..47.08 becomes 0..50 by 10; labels carry no binary noise.
+    expect(niceAxis(0, 47.076259296459625, 5)).toEqual({ min: 0, max: 50, interval: 10 });
+    expect(tickFormatter(0.2)(3.9999999999999996)).toBe('4');
+    expect(tickFormatter(0.2)(0.30000000000000004)).toBe('');
   });
 
   it('frames the energies that carry weight', () => {
@@ -75,43 +76,47 @@ describe('axis helpers', () => {
 });
 
 describe('option builders', () => {
-  it('splits even and odd levels of a symmetric system and ends the cumulative line at the captured weight', () => {
+  it('splits the symmetric and antisymmetric levels of a symmetric system and ends the cumulative line at the captured weight', () => {
     const o = spectrumOption(ctx()) as { series: { id: string; data: unknown[] }[] };
-    const even = o.series.find((s) => s.id === 'bars-even')!.data as (number | null)[];
-    const odd = o.series.find((s) => s.id === 'bars-odd')!.data as (number | null)[];
+    const even = o.series.find((s) => s.id === 'bars-symmetric')!.data as (number | null)[];
+    const odd = o.series.find((s) => s.id === 'bars-antisymmetric')!.data as (number | null)[];
+    // n = 1, 3, ... are drawn; the even n of this even state vanish exactly and are not drawn (Griffiths, parabola state, from memory).
     expect(even.filter((v) => v !== null)).toHaveLength(6);
-    expect(odd.filter((v) => v !== null)).toHaveLength(6);
+    expect(odd.filter((v) => v !== null)).toHaveLength(0);
     const cum = o.series.find((s) => s.id === 'cumulative')!.data as number[];
     expect(cum.at(-1)).toBeCloseTo(parabolaResult(12).captured!, 15);
   });
 
   it('puts weights against energies and drops zeros on a log axis', () => {
     const o = spectrumOption(ctx({ axis: 'energy', scale: 'log' })) as { series: { id: string; data: unknown[] }[]; yAxis: { type: string }[] };
-    expect(o.yAxis[0]!.type).toBe('log');
-    const odd = o.series.find((s) => s.id === 'bars-odd')!.data as [number, number | null][];
+    // The log view draws decades above a floor on a value axis, so the bars grow up from the floor.
+    expect(o.yAxis[0]!.type).toBe('value');
+    const odd = o.series.find((s) => s.id === 'bars-antisymmetric')!.data as [number, number | null][];
     // Even n of this even state vanish (Griffiths, parabola state, from memory): nothing to draw on a log axis.
     expect(odd.every(([, w]) => w === null)).toBe(true);
     expect(odd[1]![0]).toBeCloseTo((4 * Math.PI ** 2) / 2, 12); // E_2 = 4 pi^2 / 2 in the unit box, common practice
   });
 
-  it('tells no parity for an asymmetric numerical potential', () => {
+  it('tells no symmetry classes when the system has no symmetry centre', () => {
     const r = parabolaResult(6, { samples: true });
-    r.system = { ...r.system!, kind: 'potential' };
-    r.samples = { ...r.samples!, potential: r.samples!.x.map((x) => x! * 2) };
-    expect(hasParity(r)).toBe(false);
+    r.system = { ...r.system!, kind: 'potential', center: null };
+    expect(levelClasses(r).map((c) => c.id)).toEqual(['levels']);
     const o = spectrumOption(ctx({}, r)) as { series: { id: string }[] };
-    expect(o.series.map((s) => s.id)).toEqual(['bars-levels', 'cumulative']);
+    expect(o.series.map((s) => s.id)).toEqual(['bars-levels', 'cumulative', 'cut']);
   });
 
   it('draws the state, its K-term partial sum, the potential and one segment per weighted level', () => {
     const o = stateOption(ctx({ terms: 3, selected: 2 })) as { series: { id: string; data: unknown[]; markLine?: { data: unknown[] } }[] };
     const ids = o.series.map((s) => s.id);
-    expect(ids).toEqual(['density', 're', 'partial', 'picked', 'potential']);
-    const marks = o.series.find((s) => s.id === 'potential')!.markLine!.data;
-    // Levels 1, 3, 5, 7 (weight > 1e-5 within the window) + the mean + the two walls.
-    const segments = marks.filter(Array.isArray);
-    expect(segments.length).toBeGreaterThan(0);
-    expect(marks.length - segments.length).toBe(3);
+    expect(ids).toEqual(['density', 're', 'partial', 'picked', 'potential', 'levels', 'mean']);
+    // The level segments are a series of their own, with a legend entry that says what they are.
+    const levels = o.series.find((s) => s.id === 'levels')! as unknown as { name: string; markLine: { data: unknown[] } };
+    expect(levels.name).toContain('E_n');
+    // Only level 1 lies inside the energy window (E_3 = 9 pi^2/2 = 44.4 is above <E> + 2 dE = 5 + 2 * 0.5 * sqrt(...)), one segment.
+    expect(levels.markLine.data).toHaveLength(1);
+    expect(levels.markLine.data.every(Array.isArray)).toBe(true);
+    // The two walls are marked on the potential.
+    expect(o.series.find((s) => s.id === 'potential')!.markLine!.data).toHaveLength(2);
   });
 });
 
@@ -126,13 +131,18 @@ describe('the chart module', () => {
   });
 
   it('labels the spectrum axes and the K mark, with the cumulative axis from 0 to 1', () => {
-    const o = spectrumOption(ctx({ terms: 4 })) as { xAxis: { name: string; data: string[] }; yAxis: { name: string; min: number; max?: number }[]; series: { id: string; markLine?: { label: { formatter: string } } }[] };
+    const o = spectrumOption(ctx({ terms: 4, scale: 'linear' })) as { xAxis: { name: string; data: string[] }; yAxis: { name: string; min: number; max?: number }[]; series: { id: string; name: string; data: unknown[] }[] };
     expect(o.xAxis.name).toBe('n');
     expect(o.xAxis.data.slice(0, 3)).toEqual(['1', '2', '3']);
     expect(o.yAxis[0]!.name).toBe('|c_n|²');
     expect(o.yAxis[0]!.min).toBe(0);
     expect([o.yAxis[1]!.min, o.yAxis[1]!.max]).toEqual([0, 1]);
-    expect(o.series.find((s) => s.id === 'cumulative')!.markLine!.label.formatter).toBe('K = 4');
+    const cut = o.series.find((s) => s.id === 'cut')!;
+    expect(cut.name).toContain('K = 4');
+    expect(cut.data).toEqual([
+      ['4', 0],
+      ['4', 1],
+    ]);
   });
 
   it('draws the time view: |psi(x, t)|^2 over x above, the survival over the evolve times below', () => {
@@ -149,7 +159,7 @@ describe('the chart module', () => {
     const density = times.map(() => (r.samples!.re as number[]).map((v) => v * v));
     r.evolution = { times, meanX: times.map(() => 0.5), meanP: times.map(() => 0), survival, revival: 4 / Math.PI, density };
     const o = timeOption(ctx({ timeIndex: 5 }, r)) as { xAxis: { name: string; min: number; max: number }[]; yAxis: { name: string; min: number; max: number }[]; series: { id: string; data: [number, number][] }[] };
-    expect(o.series.map((s) => s.id)).toEqual(['density-t', 'survival']);
+    expect(o.series.map((s) => s.id)).toEqual(['density-t', 'survival', 'now', 'revival']);
     expect(o.series[0]!.data).toHaveLength(x.length);
     expect(o.series[1]!.data[0]![1]).toBeCloseTo(r.captured! ** 2, 12);
     expect([o.xAxis[0]!.min, o.xAxis[0]!.max]).toEqual([0, 1]);

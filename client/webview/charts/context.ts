@@ -4,11 +4,13 @@
  */
 import type { PanelResult } from '../../src/messages';
 import type { Palette } from '../theme';
+import { legendOption, type ChartSize } from './layout';
 
 /** What the user has chosen in the panel; kept across reloads. */
 export interface ViewSettings {
   tab: 'spectrum' | 'state' | 'time';
-  scale: 'linear' | 'log';
+  /** Vertical scale of the spectrum; 'auto' takes the natural one for the result (see `naturalScale`). */
+  scale: 'auto' | 'linear' | 'log';
   axis: 'n' | 'energy';
   /** Terms K of the partial sum (clamped to what the result has). */
   terms: number;
@@ -19,7 +21,7 @@ export interface ViewSettings {
 }
 
 /** Defaults of `ViewSettings`. */
-export const DEFAULT_SETTINGS: ViewSettings = { tab: 'spectrum', scale: 'linear', axis: 'n', terms: 10, selected: null, timeIndex: 0 };
+export const DEFAULT_SETTINGS: ViewSettings = { tab: 'spectrum', scale: 'auto', axis: 'n', terms: 10, selected: null, timeIndex: 0 };
 
 /** Rows of label/value text shown in a tooltip. */
 export type TooltipRows = [string, string][];
@@ -31,6 +33,8 @@ export interface BuildContext {
   palette: Palette;
   /** Builds a tooltip's content from rows (the panel uses text nodes; tests and the command line plain text). */
   tooltip: (rows: TooltipRows) => unknown;
+  /** The chart's size (default `DEFAULT_SIZE`), for the room the legend and labels need. */
+  size?: ChartSize;
 }
 
 /** An ECharts option object (or a part of one). */
@@ -45,7 +49,7 @@ export function baseOption(p: Palette): Option {
     animation: false,
     backgroundColor: p.background,
     textStyle: { color: p.foreground, fontFamily: p.fontFamily, fontSize: p.fontSize },
-    legend: { top: 0, textStyle: { color: p.foreground }, inactiveColor: p.muted },
+    legend: legendOption(p),
     tooltip: {
       confine: true,
       backgroundColor: p.background,
@@ -59,7 +63,7 @@ export function baseOption(p: Palette): Option {
 export function axisStyle(p: Palette): Option {
   return {
     axisLine: { onZero: false, lineStyle: { color: p.muted } },
-    axisLabel: { color: p.foreground },
+    axisLabel: { color: p.foreground, hideOverlap: true },
     nameTextStyle: { color: p.foreground },
     splitLine: { lineStyle: { color: p.grid, opacity: 0.6 } },
   };
