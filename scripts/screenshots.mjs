@@ -126,7 +126,8 @@ const analysed = new Map();
 function resultFor(analyse, path) {
   if (!analysed.has(path)) {
     const source = readFileSync(path, 'utf8');
-    const { file: _file, ...result } = analyse(source, { samples: true });
+    // A generous time limit, so the pictures do not depend on how busy the machine is.
+    const { file: _file, ...result } = analyse(source, { samples: true, limits: { maxMillis: 60000 } });
     const lines = result.diagnostics.map((d) => source.slice(0, d.start).split('\n').length - 1);
     analysed.set(path, { json: JSON.stringify(result), lines });
   }

@@ -10,6 +10,7 @@ import { GridComponent, TooltipComponent, LegendComponent, MarkLineComponent } f
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
+import { formatPercent } from '../../server/src/shared/numbers';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
 import { continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, partialSum, sampledState } from './physics';
@@ -115,10 +116,13 @@ function summaryItems(r: PanelResult): [string, string][] {
     ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
     ['norm as written', formatNumber(r.norm, 6)],
     ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
-    ['levels for 99.9 %', r.levelsFor999 == null ? 'not reached' : String(r.levelsFor999)],
+    ['levels for 99.9 %', r.levelsFor999 == null ? `not reached${r.captured == null ? '' : ` (the ${r.levels.length} levels hold ${formatPercent(r.captured)})`}` : String(r.levelsFor999)],
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
-  if (r.decay && r.decay.classification !== 'unknown') items.push(['decay', `${r.decay.classification}${r.decay.exponent !== null ? ` (|c_n| ~ n^-${formatNumber(r.decay.exponent, 3)})` : ''}`]);
+  if (r.decay && r.decay.classification !== 'unknown') {
+    const law = r.decay.exponent !== null ? `|c_n| ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
+    items.push(['decay', `${law} (${r.decay.classification})`]);
+  }
   return items;
 }
 
@@ -204,7 +208,8 @@ function syncTime(r: PanelResult | null): void {
   // Without an evolution there is nothing to play: the view says how to get one instead.
   $('time-controls').hidden = steps === 0;
   const t = ev?.times[Math.min(settings.timeIndex, steps - 1)];
-  setText('time-out', t === undefined || t === null ? '' : `t = ${formatNumber(t, 4)} ${r?.units.time ?? '(ħ/energy unit)'}`);
+  const unit = r?.units.time ?? (r?.units.energy ? `(ħ/${r.units.energy})` : '(natural units, ħ = 1)');
+  setText('time-out', t === undefined || t === null ? '' : `t = ${formatNumber(t, 4)} ${unit}`);
 }
 
 /** Draws one view's description into its chart, notes and empty-state text. */

@@ -4,7 +4,7 @@
 import { describe, it, expect } from 'vitest';
 import { readdirSync, readFileSync } from 'node:fs';
 import { l2Distance, sampledState, partialSum, trapezoid } from '../../client/webview/physics';
-import { spectrumOption, stateOption, timeOption, decadeAxis, niceCeil, niceBound, niceAxis, tickFormatter, energyWindow, levelClasses, DEFAULT_SETTINGS } from '../../client/webview/charts';
+import { spectrumOption, stateOption, timeOption, decadeAxis, niceCeil, niceBound, niceAxis, tickFormatter, energyWindow, levelClasses, naturalScale, missingEnergyText, phaseText, continuumText, evolveSampling, hbarInFileUnits, stateAxes, DEFAULT_SETTINGS } from '../../client/webview/charts';
 import { readPalette } from '../../client/webview/theme';
 import { parabolaResult } from '../client/fixtures';
 
@@ -167,5 +167,68 @@ describe('the chart module', () => {
     expect(o.yAxis[1]!.name).toBe('survival');
     // 30 x^2 (1 - x)^2 peaks at 30/16 = 1.875 at x = 1/2: the axis ends at the next tick-friendly value.
     expect(o.yAxis[0]!.max).toBe(2);
+  });
+});
+
+describe('facts read off the result', () => {
+  it('takes the log scale for an algebraic tail or a long spectrum, linear otherwise', () => {
+    const r = parabolaResult(12);
+    // |c_n| ~ n^-3 for the parabola (Griffiths, from memory): an algebraic tail.
+    expect(naturalScale({ ...r, decay: { exponent: 3, classification: 'algebraic', at: null } })).toBe('log');
+    expect(naturalScale({ ...r, decay: { exponent: null, classification: 'smooth', at: null }, levelsFor999: 3 })).toBe('linear');
+    expect(naturalScale({ ...r, decay: { exponent: null, classification: 'smooth', at: null }, levelsFor999: 40 })).toBe('log');
+  });
+
+  it('says whether a missing energy diverges or was not computed', () => {
+    const r = parabolaResult(12);
+    expect(missingEnergyText({ ...r, decay: { exponent: 1, classification: 'jump', at: 0.3 } }, 'mean')).toMatch(/^∞/);
+    expect(missingEnergyText({ ...r, decay: { exponent: 2, classification: 'kink', at: 0.3 } }, 'spread')).toMatch(/^∞/);
+    expect(missingEnergyText({ ...r, decay: { exponent: null, classification: 'smooth', at: null } }, 'mean')).toBe('n/a');
+    expect(missingEnergyText({ ...r, levels: [] }, 'mean')).toMatch(/^n\/a/);
+  });
+
+  it('rounds phases and sums to what is resolved', () => {
+    expect(phaseText(1, 0)).toBe('0');
+    expect(phaseText(1, 1e-17)).toBe('0');
+    expect(phaseText(-1, 0)).toBe('1 π');
+    expect(phaseText(0, -1)).toBe('-0.5 π');
+    expect(continuumText(1.1102230246251565e-16)).toBe('0 (below 1e-12)');
+    expect(continuumText(0.1491540399898)).toBe('14.92%');
+  });
+
+  it('finds the fastest beat and how often evolve samples it', () => {
+    const r = parabolaResult(12);
+    // Level 1 alone holds 99.86 % of the parabola state (960/pi^6): no second level, no beat.
+    expect(evolveSampling({ ...r, evolution: { times: [0, 0.1], meanX: [0, 0], meanP: [0, 0], survival: [1, 1], revival: null } })).toBeNull();
+    // Weights 0.6 and 0.4 on levels 1 and 3: the beat E_3 - E_1 = 4 pi^2 has period 2 pi / (4 pi^2) = 1/(2 pi) (hbar = 1, derived here).
+    r.levels = r.levels.map((l) => ({ ...l, weight: l.n === 1 ? 0.6 : l.n === 3 ? 0.4 : 0 }));
+    r.captured = 1;
+    const times = Array.from({ length: 11 }, (_, j) => j * 0.1);
+    r.evolution = { times, meanX: times.map(() => 0.5), meanP: times.map(() => 0), survival: times.map(() => 1), revival: null };
+    const s = evolveSampling(r)!;
+    expect(s.period).toBeCloseTo(1 / (2 * Math.PI), 12);
+    expect(s.perPeriod).toBeCloseTo(1 / (2 * Math.PI) / 0.1, 12);
+    expect(s.stepsNeeded).toBe(Math.ceil(8 / (1 / (2 * Math.PI))));
+    // With meV and ps, hbar = 0.6582119569 meV ps (CODATA 2018).
+    expect(hbarInFileUnits({ length: 'nm', energy: 'meV', time: 'ps' })).toBeCloseTo(0.6582119569, 9);
+  });
+
+  it('shares the zero of the psi and energy axes with round ends, or not when one would be squashed', () => {
+    const a = stateAxes([-0.3, 1.7], [-50, 400]);
+    expect(a.shared).toBe(true);
+    const zero = (r: { min: number; max: number }) => -r.min / (r.max - r.min);
+    expect(zero(a.psi)).toBeCloseTo(zero(a.energy), 12);
+    for (const r of [a.psi, a.energy]) {
+      expect(r.min).toBeLessThanOrEqual(r === a.psi ? -0.3 : -50);
+      expect(Math.abs(r.min / r.interval - Math.round(r.min / r.interval))).toBeLessThan(1e-9);
+    }
+    // A well whose levels all lie far below zero against a positive state: no shared zero.
+    expect(stateAxes([0, 1], [-100, -80]).shared).toBe(false);
+  });
+
+  it('names the symmetry classes about the centre, in the file unit', () => {
+    const r = parabolaResult(4);
+    r.units = { length: 'nm', energy: 'meV', time: 'ps' };
+    expect(levelClasses(r).map((c) => c.name)).toEqual(['symmetric about x = 0.5 nm', 'antisymmetric about x = 0.5 nm']);
   });
 });

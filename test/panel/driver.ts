@@ -30,7 +30,8 @@ export interface Inspect {
 
 /** The analysis of a source text as the server sends it to the panel (no syntax tree), with the findings' lines. */
 export function resultOf(source: string): { result: PanelResult; lines: number[] } {
-  const { file: _file, ...result } = analyse(source, { samples: true });
+  // A generous time limit, so the results do not depend on how busy the machine is.
+  const { file: _file, ...result } = analyse(source, { samples: true, limits: { maxMillis: 60_000 } });
   const lines = result.diagnostics.map((d) => source.slice(0, d.start).split('\n').length - 1);
   return { result: JSON.parse(JSON.stringify(result)) as PanelResult, lines };
 }

@@ -144,8 +144,11 @@ export interface Sampling {
   stepsNeeded: number;
 }
 
-/** Fewer samples than this a period of the fastest beat is undersampled (Nyquist asks for more than 2; 4 draws a smooth curve). */
-export const MIN_SAMPLES_PER_PERIOD = 4;
+/**
+ * Fewer samples than this a period of the fastest beat is undersampled: Nyquist asks for more than 2
+ * to see the beat at all, and at 3-5 a period the curve's peaks are cut (seen); 8 draws it smoothly.
+ */
+export const MIN_SAMPLES_PER_PERIOD = 8;
 
 /** The sampling of the evolution, or null without an evolution, a second relevant level or known units. */
 export function evolveSampling(result: PanelResult): Sampling | null {

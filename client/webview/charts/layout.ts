@@ -27,12 +27,20 @@ export function legendRows(names: string[], width: number, p: Palette): number {
   return rows;
 }
 
+/** About how many intervals a horizontal value axis gets: one per 120 px, 3 to 10. */
+export const xTicks = (size: ChartSize) => Math.max(3, Math.min(10, Math.floor((size.width - 100) / 120)));
+
 /** Height of one legend row in pixels. */
 export const legendRowHeight = (p: Palette) => Math.round(p.fontSize + 11);
 
 /** Top of the first plot area: below the legend rows and the room the axis names need above a grid. */
 export function plotTop(names: string[], size: ChartSize, p: Palette): number {
   return legendRows(names, size.width, p) * legendRowHeight(p) + Math.round(p.fontSize * 2.2);
+}
+
+/** The legend with the series' names in the series' order (ECharts would append series new to a redraw at the end). */
+export function legendFor(series: Record<string, unknown>[], p: Palette): Record<string, unknown> {
+  return { ...legendOption(p), data: series.map((s) => String(s.name)) };
 }
 
 /** Legend fields shared by the views (plain, wrapping, at the top). */

@@ -13,6 +13,14 @@ export function niceCeil(v: number): number {
   return 10 * p;
 }
 
+/** The smallest of 1, 1.5, 2, 2.5, 3, 4, 5, 6, 8 or 10 times a power of ten that is at least v > 0 (a finer tick step). */
+export function roundStep(v: number): number {
+  if (!(v > 0) || !Number.isFinite(v)) return 1;
+  const p = 10 ** Math.floor(Math.log10(v));
+  for (const m of [1, 1.5, 2, 2.5, 3, 4, 5, 6, 8, 10]) if (m * p >= v * (1 - 1e-12)) return clean(m * p);
+  return 10 * p;
+}
+
 /** Rounds away from zero to two significant digits, so explicit axis ends get short labels. */
 export function niceBound(v: number, up: boolean): number {
   if (!Number.isFinite(v) || v === 0) return 0;
@@ -47,9 +55,21 @@ export interface AxisRange {
  */
 export function niceAxis(lo: number, hi: number, ticks = 5): AxisRange {
   if (!Number.isFinite(lo) || !Number.isFinite(hi)) return { min: 0, max: 1, interval: 0.2 };
-  if (hi <= lo) ((hi = lo + (Math.abs(lo) || 1)), (lo -= 0));
-  const interval = clean(niceCeil((hi - lo) / Math.max(1, ticks)));
-  return { min: clean(Math.floor(lo / interval + 1e-9) * interval), max: clean(Math.ceil(hi / interval - 1e-9) * interval), interval };
+  if (hi <= lo) hi = lo + (Math.abs(lo) || 1);
+  // Of the round intervals giving between 2 and 1.5 `ticks` (at least 6) intervals: the one that widens the data
+  // least, and of those the one whose count of intervals is nearest `ticks`.
+  let best: AxisRange | null = null;
+  let score = [Infinity, Infinity];
+  let first = niceCeil((hi - lo) / Math.max(1, 2 * ticks));
+  for (let k = 0; k < 8; k++, first = niceCeil(first * 1.0001)) {
+    const interval = clean(first);
+    const r = { min: clean(Math.floor(lo / interval + 1e-9) * interval), max: clean(Math.ceil(hi / interval - 1e-9) * interval), interval };
+    const count = Math.round((r.max - r.min) / interval);
+    if (count < 2 || count > Math.max(6, Math.floor(1.5 * ticks))) continue;
+    const s = [Number(((r.max - r.min) / (hi - lo)).toPrecision(9)), Math.abs(count - ticks)];
+    if (s[0]! < score[0]! || (s[0] === score[0] && s[1]! < score[1]!)) ((best = r), (score = s));
+  }
+  return best ?? { min: lo, max: hi, interval: clean(niceCeil((hi - lo) / Math.max(1, ticks))) };
 }
 
 /** ECharts value-axis fields for a range: explicit ends, interval and the rounded labels. */

@@ -6,7 +6,7 @@ import { formatNumber } from '../../../server/src/shared/numbers';
 import { cumulativeWeights } from '../../src/format';
 import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
 import { levelClasses, naturalScale, phaseText, resolved, totalWeight, WEIGHT_FLOOR } from './facts';
-import { DEFAULT_SIZE, plotTop } from './layout';
+import { DEFAULT_SIZE, legendFor, plotTop } from './layout';
 import { decadeAxis, decadeHeight, decadeLabel, niceAxis, valueAxis, type DecadeAxis } from './scale';
 
 /** The scale the spectrum is drawn with: the user's choice, or the natural one for 'auto'. */
@@ -143,6 +143,7 @@ export function spectrumOption(ctx: BuildContext): Option {
   const top = plotTop(series.map((s) => String(s.name)), ctx.size ?? DEFAULT_SIZE, ctx.palette);
   return {
     ...baseOption(ctx.palette),
+    legend: legendFor(series, ctx.palette),
     grid: { left: 64, right: 56, top, bottom: Math.round(ctx.palette.fontSize * 3.6) },
     tooltip: spectrumTooltip(ctx, cum),
     xAxis: spectrumXAxis(ctx),

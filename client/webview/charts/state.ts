@@ -5,11 +5,11 @@
  */
 import { formatNumber } from '../../../server/src/shared/numbers';
 import type { PanelResult } from '../../src/messages';
-import { partialSum, sampledState } from '../physics';
+import { partialSum, sampledState, trapezoid } from '../physics';
 import { axisStyle, baseOption, pairs, unitSuffix, type BuildContext, type Option } from './context';
 import { resolved, totalWeight } from './facts';
-import { DEFAULT_SIZE, plotTop } from './layout';
-import { clean, niceAxis, niceBound, niceCeil, valueAxis, type AxisRange } from './scale';
+import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
+import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
 
 function anyNonZero(a: ArrayLike<number>): boolean {
   for (let j = 0; j < a.length; j++) if (Math.abs(a[j]!) > 1e-12) return true;
@@ -39,7 +39,7 @@ export function energyWindow(result: PanelResult): [number, number] {
 const MAX_SHARED_ZERO = 0.7;
 
 /** Intervals on each vertical axis of the state view. */
-const STATE_TICKS = 5;
+const STATE_TICKS = 8;
 
 /**
  * Two axes over [lo_i, hi_i] (lo_i <= 0 < hi_i) with the same number of intervals below and above zero,
@@ -51,7 +51,7 @@ function alignedAxes(a: [number, number], b: [number, number]): [AxisRange, Axis
   for (let below = 0; below < STATE_TICKS; below++) {
     const above = STATE_TICKS - below;
     const pick = ([lo, hi]: [number, number]): AxisRange => {
-      const interval = niceCeil(Math.max(hi / above, below > 0 ? -lo / below : 0));
+      const interval = roundStep(Math.max(hi / above, below > 0 ? -lo / below : 0));
       return { min: clean(-below * interval), max: clean(above * interval), interval };
     };
     const ra = pick(a);
@@ -80,13 +80,21 @@ export function stateAxes(psi: [number, number], energy: [number, number]): { ps
   return { psi: rp, energy: re, shared: true };
 }
 
+/** Where a sampled density sits: integral x rho / integral rho (trapezoid rule), or null for a zero density. */
+function centroid(x: ArrayLike<number | null>, rho: Float64Array): number | null {
+  const m = trapezoid(x, rho);
+  const xr = Float64Array.from(rho, (v, j) => v * (x[j] ?? 0));
+  return m > 0 ? trapezoid(x, xr) / m : null;
+}
+
 /** The level segments (length proportional to the weight, centred on the system) and the mean energy. */
 function levelSegments(ctx: BuildContext, ehi: number): Option[] {
   const { result, settings, palette: p } = ctx;
   const x = result.samples!.x;
   const xmin = x[0] ?? 0;
   const xmax = x[x.length - 1] ?? 1;
-  const center = result.system?.center ?? (xmin + xmax) / 2;
+  // Centred on the symmetry centre, or else where the state sits (the centroid of the sampled |psi|^2).
+  const center = result.system?.center ?? centroid(x, sampledState(result.samples!).density) ?? (xmin + xmax) / 2;
   const span = xmax - xmin;
   const total = totalWeight(result);
   return result.levels
@@ -147,7 +155,8 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
   let lo = 0;
   let hi = 0;
   for (const a of arrays) for (let j = 0; j < a.length; j++) ((lo = Math.min(lo, a[j]!)), (hi = Math.max(hi, a[j]!)));
-  return { series, range: [lo, hi] };
+  // Ringing or rounding far below the curve's size (a Gaussian's tail, a partial sum's wiggle) gets no room of its own.
+  return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
 }
 
 /** The state view's chart option and whether its two vertical axes share their zero. */
@@ -159,10 +168,11 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
   const psi = psiSeries(ctx);
   const series = [...psi.series, ...energySeries(ctx, ehi)];
   const axes = stateAxes(psi.range, [elo, ehi]);
-  const xr = niceAxis(x[0] ?? 0, x[x.length - 1] ?? 1, Math.max(3, Math.floor(((ctx.size ?? DEFAULT_SIZE).width - 130) / 90)));
+  const xr = niceAxis(x[0] ?? 0, x[x.length - 1] ?? 1, xTicks(ctx.size ?? DEFAULT_SIZE));
   const nameGap = Math.round(p.fontSize * 2.2);
   const option = {
     ...baseOption(p),
+    legend: legendFor(series, p),
     grid: { left: 64, right: 64, top: plotTop(series.map((q) => String(q.name)), ctx.size ?? DEFAULT_SIZE, p), bottom: Math.round(p.fontSize * 3.6) },
     tooltip: {
       ...(baseOption(p).tooltip as Option),

@@ -7,7 +7,7 @@ import { formatNumber, formatPercent } from '../../../server/src/shared/numbers'
 import type { PanelResult } from '../../src/messages';
 import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
 import { evolvedShare, evolveSampling, hbarInFileUnits, MIN_SAMPLES_PER_PERIOD, relevantLevels } from './facts';
-import { DEFAULT_SIZE, plotTop } from './layout';
+import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { niceAxis, niceCeil, valueAxis } from './scale';
 
 type Evolution = NonNullable<PanelResult['evolution']>;
@@ -74,7 +74,7 @@ function timeAxes(ctx: BuildContext): { xAxis: Option[]; yAxis: Option[] } {
   const dens = ev.density !== undefined && ev.density.length > 0;
   let dmax = 0;
   for (const row of ev.density ?? []) for (const v of row) if (v !== null && v > dmax) dmax = v;
-  const ticks = Math.max(3, Math.floor(((ctx.size ?? DEFAULT_SIZE).width - 100) / 90));
+  const ticks = xTicks(ctx.size ?? DEFAULT_SIZE);
   const tr = niceAxis(ev.times[0] ?? 0, ev.times[ev.times.length - 1] ?? 1, ticks);
   const nameGap = Math.round(p.fontSize * 2);
   const tAxis = (grid: number) => ({ ...axisStyle(p), ...valueAxis(tr, p.foreground), gridIndex: grid, name: `t${unitSuffix(tu)}`, nameLocation: 'middle', nameGap });
@@ -108,6 +108,7 @@ export function timeOption(ctx: BuildContext): Option {
   const upper = Math.round(room * 0.6);
   return {
     ...baseOption(p),
+    legend: legendFor(series, p),
     grid: [
       { left: 64, right: 32, top, height: upper },
       { left: 64, right: 32, top: top + upper + axisRoom + Math.round(p.fontSize * 1.6), height: room - upper },
@@ -128,7 +129,7 @@ export function timeNotes(result: PanelResult): string[] {
   const s = evolveSampling(result);
   if (s && s.perPeriod < MIN_SAMPLES_PER_PERIOD) {
     const tu = result.units.time ? ` ${result.units.time}` : '';
-    notes.push(`The evolve steps (${formatNumber(s.step, 3)}${tu}) sample the fastest beat between the weighted levels (period ${formatNumber(s.period, 3)}${tu}) ${formatNumber(s.perPeriod, 2)} times a period, fewer than ${MIN_SAMPLES_PER_PERIOD}: the animation skips or aliases it. Use steps ${s.stepsNeeded} or more.`);
+    notes.push(`The evolve steps (${formatNumber(s.step, 3)}${tu}) sample the fastest beat between the weighted levels (period ${formatNumber(s.period, 3)}${tu}) only ${formatNumber(Math.floor(s.perPeriod * 10) / 10, 3)} times a period, fewer than ${MIN_SAMPLES_PER_PERIOD}: the curves cut its peaks and the animation jumps. Use steps ${s.stepsNeeded} or more.`);
   }
   if (result.evolution && !hasFineSurvival(result.evolution) && s && s.perPeriod < MIN_SAMPLES_PER_PERIOD) notes.push('The survival is drawn at the evolve steps only, so its peaks are cut.');
   return notes;
