@@ -70,3 +70,24 @@ describe('message checks', () => {
     expect(isPanelResult(parabolaResult(2))).toBe(true);
   });
 });
+
+describe('the survival on its own time grid', () => {
+  const withEvolution = (extra: Record<string, unknown>) => {
+    const r = parabolaResult(4) as unknown as Record<string, unknown>;
+    r.evolution = { times: [0, 1, 2], meanX: [0, 0, 0], meanP: [0, 0, 0], survival: [1, 0.5, 1], revival: null, ...extra };
+    return r;
+  };
+
+  it('accepts survivalTimes with survivalFine beside the evolve arrays, or with survival itself on the fine grid', () => {
+    expect(isPanelResult(withEvolution({}))).toBe(true);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 0.5, 1, 1.5, 2], survivalFine: [1, 0.8, 0.5, 0.8, 1] }))).toBe(true);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 0.5, 1, 1.5, 2], survival: [1, 0.8, 0.5, 0.8, 1] }))).toBe(true);
+  });
+
+  it('rejects a survival that matches neither grid, or a fine survival of the wrong length', () => {
+    expect(isPanelResult(withEvolution({ survival: [1, 0.5] }))).toBe(false);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 1, 2, 3], survival: [1, 0.5, 1, 0.5, 1] }))).toBe(false);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 1, 2, 3], survivalFine: [1, 0.5] }))).toBe(false);
+    expect(isPanelResult(withEvolution({ survivalTimes: 'fine' }))).toBe(false);
+  });
+});
