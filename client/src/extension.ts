@@ -7,7 +7,7 @@ import { CloseAction, ErrorAction, LanguageClient, TransportKind, type LanguageC
 import { RESULT_NOTIFICATION } from '../../server/src/protocol';
 import { COMMANDS, copyLevels, exportCoefficients, normaliseState } from './commands';
 import type { VscodeApi } from './host';
-import { PANEL_VIEW_TYPE, SpectrumPanelController } from './panel';
+import { PANEL_VIEW_TYPE, plotScaleSetting, SpectrumPanelController } from './panel';
 import { RestartPolicy } from './restart';
 import { ResultStore } from './results';
 import { StatusController } from './status';
@@ -42,7 +42,7 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
     api,
     extensionUri: context.extensionUri,
     store,
-    plotScale: () => (config().get<string>('plotScale') === 'log' ? 'log' : 'linear'),
+    plotScale: () => plotScaleSetting(config().inspect('plotScale')),
     trusted: () => vscode.workspace.isTrusted,
   });
   const status = new StatusController(api, store, COMMANDS.showPanel);

@@ -2,6 +2,7 @@
  * Text exports of an expansion: CSV (RFC 4180), JSON and a Markdown table. Pure functions.
  */
 import type { PanelResult } from './messages';
+import { formatNumber } from '../../server/src/shared/numbers';
 
 /** Options shared by the text exports. */
 export interface FormatOptions {
@@ -79,14 +80,8 @@ export function levelsToJson(result: PanelResult, options: FormatOptions = {}): 
   return JSON.stringify(doc, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2) + '\n';
 }
 
-/** A number rounded to `digits` significant digits, without exponent clutter for ordinary sizes. */
-export function formatNumber(v: number | null | undefined, digits = 6): string {
-  if (v === null || v === undefined || !Number.isFinite(v)) return '–';
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e-4 && a < 1e6) return String(Number(v.toPrecision(digits)));
-  return v.toExponential(digits - 1);
-}
+/** The one number formatter of every front end (server/src/shared/numbers.ts), re-exported for the client. */
+export { formatNumber } from '../../server/src/shared/numbers';
 
 /**
  * The levels as a GitHub-flavoured Markdown table (pipes inside cells escaped, as the GFM spec asks),

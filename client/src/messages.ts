@@ -3,13 +3,22 @@
  * Data from the other side is untrusted: a message that does not have exactly the expected shape is
  * dropped (the checks return null) rather than half-used. Pure; shared by the extension and the panel.
  */
-import type { HostToPanel, PanelSettingsMessage, PanelToHost } from '../../server/src/protocol';
+import type { HostToPanel, PanelToHost } from '../../server/src/protocol';
 
 /** The result payload the panel draws (the analysis without its syntax tree). */
 export type PanelResult = Extract<HostToPanel, { type: 'result' }>['result'];
 
+/**
+ * Host to panel: the `eigenspan.plotScale` setting, or 'auto' when the user has not set it (the panel
+ * then takes the natural scale of each spectrum). Widens the protocol's `PanelSettingsMessage` by 'auto'.
+ */
+export interface PanelSettings {
+  type: 'settings';
+  plotScale: 'linear' | 'log' | 'auto';
+}
+
 /** Every message the host may send to the panel. */
-export type HostMessage = HostToPanel | PanelSettingsMessage;
+export type HostMessage = HostToPanel | PanelSettings;
 
 type Obj = Record<string, unknown>;
 
@@ -56,7 +65,11 @@ function isEvolution(v: unknown): boolean {
   const n = Array.isArray(v.times) ? v.times.length : -1;
   const same = (a: unknown) => isNumArr(a) && a.length === n;
   const density = v.density === undefined || (isMatrix(v.density, 100_000, 1 << 20) && (v.density as unknown[]).length === n);
-  return isNumArr(v.times) && same(v.meanX) && same(v.meanP) && same(v.survival) && isNum(v.revival) && density;
+  // The survival on its own fine grid (`survivalTimes`), either as `survivalFine` or with `survival` itself on that grid.
+  const fine = v.survivalTimes === undefined || (isNumArr(v.survivalTimes) && (v.survivalFine === undefined || (isNumArr(v.survivalFine) && v.survivalFine.length === v.survivalTimes.length)));
+  const m = Array.isArray(v.survivalTimes) ? v.survivalTimes.length : -2;
+  const survival = isNumArr(v.survival) && (v.survival.length === n || v.survival.length === m);
+  return isNumArr(v.times) && same(v.meanX) && same(v.meanP) && survival && fine && isNum(v.revival) && density;
 }
 
 /** True when `v` has the shape of an analysis result as sent to the panel. */
@@ -100,7 +113,7 @@ export function parseHostMessage(v: unknown): HostMessage | null {
     case 'empty':
       return isStr(v.reason) ? { type: 'empty', reason: v.reason } : null;
     case 'settings':
-      return v.plotScale === 'linear' || v.plotScale === 'log' ? { type: 'settings', plotScale: v.plotScale } : null;
+      return v.plotScale === 'linear' || v.plotScale === 'log' || v.plotScale === 'auto' ? { type: 'settings', plotScale: v.plotScale } : null;
     default:
       return null;
   }

@@ -20,8 +20,8 @@ export interface PanelDeps {
   /** The extension's install folder. */
   extensionUri: vscode.Uri;
   store: ResultStore;
-  /** Current `eigenspan.plotScale` setting. */
-  plotScale: () => 'linear' | 'log';
+  /** Current `eigenspan.plotScale` setting, 'auto' when the user has not set it (see `plotScaleSetting`). */
+  plotScale: () => 'linear' | 'log' | 'auto';
   /** Whether expressions may be evaluated (workspace trust). */
   trusted: () => boolean;
   /** Nonce source (default `makeNonce`). */
@@ -31,6 +31,19 @@ export interface PanelDeps {
 /** Maps VS Code's colour theme kind (1 light, 2 dark, 3 high contrast, 4 high contrast light) to the panel's. */
 export function themeKindName(kind: number): 'light' | 'dark' | 'high-contrast' | 'high-contrast-light' {
   return kind === 1 ? 'light' : kind === 3 ? 'high-contrast' : kind === 4 ? 'high-contrast-light' : 'dark';
+}
+
+/** What `inspect('plotScale')` of the `eigenspan` configuration tells (VS Code's WorkspaceConfiguration). */
+interface ScaleInspection {
+  globalValue?: unknown;
+  workspaceValue?: unknown;
+  workspaceFolderValue?: unknown;
+}
+
+/** The scale the user set for the spectrum, most specific scope first, or 'auto' when none is set. */
+export function plotScaleSetting(inspected: ScaleInspection | undefined): 'linear' | 'log' | 'auto' {
+  for (const v of [inspected?.workspaceFolderValue, inspected?.workspaceValue, inspected?.globalValue]) if (v === 'linear' || v === 'log') return v;
+  return 'auto';
 }
 
 /** Owns at most one spectrum panel. */

@@ -87,12 +87,17 @@ export function buildPanelHtml(options: PanelHtmlOptions): string {
   <ul id="problems-list"></ul>
 </section>
 <section id="empty" class="empty" hidden><p id="empty-reason">Open a .qstate file to see its spectrum.</p></section>
+<section id="findings" class="findings" hidden aria-label="Findings that leave the results valid">
+  <ul id="findings-list"></ul>
+</section>
 <main id="views" class="views">
   <section id="view-spectrum" class="view" role="tabpanel" aria-labelledby="tab-spectrum">
     <div class="controls">
-      <label>Scale <select id="scale"><option value="linear">linear</option><option value="log">log</option></select></label>
+      <label>Scale <select id="scale"><option value="auto" id="scale-auto">auto</option><option value="linear">linear</option><option value="log">log</option></select></label>
       <label>Against <select id="axis"><option value="n">level n</option><option value="energy">energy E_n</option></select></label>
     </div>
+    <div id="notes-spectrum" class="notes" hidden></div>
+    <p id="empty-spectrum" class="empty" hidden></p>
     <div id="chart-spectrum" class="chart"></div>
   </section>
   <section id="view-state" class="view" role="tabpanel" aria-labelledby="tab-state">
@@ -101,14 +106,18 @@ export function buildPanelHtml(options: PanelHtmlOptions): string {
       <input type="range" id="terms" min="1" max="1" step="1" value="1">
       <output id="terms-out" for="terms"></output>
     </div>
+    <div id="notes-state" class="notes" hidden></div>
+    <p id="empty-state" class="empty" hidden></p>
     <div id="chart-state" class="chart"></div>
   </section>
   <section id="view-time" class="view" role="tabpanel" aria-labelledby="tab-time">
-    <div class="controls">
+    <div class="controls" id="time-controls">
       <button type="button" id="play" aria-pressed="false">Play</button>
       <input type="range" id="time" min="0" max="0" step="1" value="0" aria-label="Time step">
       <output id="time-out" for="time"></output>
     </div>
+    <div id="notes-time" class="notes" hidden></div>
+    <p id="empty-time" class="empty" hidden></p>
     <div id="chart-time" class="chart"></div>
   </section>
 </main>

@@ -10,9 +10,11 @@ import { GridComponent, TooltipComponent, LegendComponent, MarkLineComponent } f
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
+import { formatPercent } from '../../server/src/shared/numbers';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
-import { DEFAULT_SETTINGS, spectrumOption, stateOption, timeOption, type TooltipRows, type ViewSettings } from './views';
-import { l2Distance, normalisedState, partialSum } from './physics';
+import { continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
+import { l2Distance, partialSum, sampledState } from './physics';
+import { axisLabels, drawnTexts, itemLayouts, yPixel } from './inspect';
 
 echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, CanvasRenderer, SVGRenderer]);
 
@@ -35,7 +37,7 @@ function restore(saved: unknown): { settings: ViewSettings; scaleChosen: boolean
   if (typeof saved === 'object' && saved !== null) {
     const o = saved as Record<string, unknown>;
     if (TABS.includes(o.tab as Tab)) s.tab = o.tab as Tab;
-    if (o.scale === 'linear' || o.scale === 'log') ((s.scale = o.scale), (scaleChosen = o.scaleChosen === true));
+    if (o.scale === 'linear' || o.scale === 'log' || o.scale === 'auto') ((s.scale = o.scale), (scaleChosen = o.scaleChosen === true));
     if (o.axis === 'n' || o.axis === 'energy') s.axis = o.axis;
     if (Number.isInteger(o.terms) && (o.terms as number) >= 1) s.terms = o.terms as number;
     if (Number.isInteger(o.timeIndex) && (o.timeIndex as number) >= 0) s.timeIndex = o.timeIndex as number;
@@ -46,7 +48,10 @@ function restore(saved: unknown): { settings: ViewSettings; scaleChosen: boolean
 const restored = restore(vscode.getState());
 const settings: ViewSettings = restored.settings;
 let scaleChosen = restored.scaleChosen;
-let current: Extract<HostMessage, { type: 'result' }> | null = null;
+type ResultMessage = Extract<HostMessage, { type: 'result' }>;
+let current: ResultMessage | null = null;
+/** The last result whose plots meant something, drawn dimmed while the file has errors that invalidate its results. */
+let lastGood: ResultMessage | null = null;
 let themeOverride: ThemeKind | null = null;
 let palette: Palette = currentPalette();
 let renders = 0;
@@ -88,28 +93,43 @@ function setText(id: string, text: string): void {
   $(id).textContent = text;
 }
 
-function show(section: 'views' | 'problems' | 'empty'): void {
-  $('views').hidden = section !== 'views';
-  $('problems').hidden = section !== 'problems';
-  $('empty').hidden = section !== 'empty';
-  for (const id of ['export-png', 'export-svg']) ($(id) as HTMLButtonElement).disabled = section !== 'views';
+/**
+ * Which sections are visible: the plots (possibly dimmed as stale), the list of findings that invalidate
+ * the results, or the empty-state text.
+ */
+function show(section: { views: boolean; stale?: boolean; problems?: boolean; empty?: boolean }): void {
+  $('views').hidden = !section.views;
+  $('views').classList.toggle('stale', section.stale === true);
+  $('views').setAttribute('aria-disabled', String(section.stale === true));
+  $('problems').hidden = section.problems !== true;
+  $('empty').hidden = section.empty !== true;
+  for (const id of ['export-png', 'export-svg']) ($(id) as HTMLButtonElement).disabled = !section.views || section.stale === true;
+}
+
+function summaryItems(r: PanelResult): [string, string][] {
+  const eu = r.units.energy ? ` ${r.units.energy}` : '';
+  const c = r.system?.center;
+  const about = c === null || c === undefined ? '' : ` about x = ${formatNumber(c)}${r.units.length ? ` ${r.units.length}` : ''}`;
+  const items: [string, string][] = [
+    ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}`],
+    ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : `${formatNumber(r.energy.spread, 4)}${eu}`],
+    ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
+    ['norm as written', formatNumber(r.norm, 6)],
+    ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
+    ['levels for 99.9 %', r.levelsFor999 == null ? `not reached${r.captured == null ? '' : ` (the ${r.levels.length} levels hold ${formatPercent(r.captured)})`}` : String(r.levelsFor999)],
+  ];
+  if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
+  if (r.decay && r.decay.classification !== 'unknown') {
+    const law = r.decay.exponent !== null ? `|c_n| ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
+    items.push(['decay', `${law} (${r.decay.classification})`]);
+  }
+  return items;
 }
 
 function summary(r: PanelResult): void {
   const el = $('summary');
   el.replaceChildren();
-  const eu = r.units.energy ? ` ${r.units.energy}` : '';
-  const items: [string, string][] = [
-    ['⟨E⟩', r.energy?.mean == null ? '∞ or n/a' : `${formatNumber(r.energy.mean, 5)}${eu}`],
-    ['ΔE', r.energy?.spread == null ? '∞ or n/a' : `${formatNumber(r.energy.spread, 4)}${eu}`],
-    ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
-    ['norm', formatNumber(r.norm, 6)],
-    ['parity', r.parity ?? '–'],
-    ['levels for 99.9 %', r.levelsFor999 == null ? 'not reached' : String(r.levelsFor999)],
-  ];
-  if (r.continuum !== undefined) items.push(['continuum', formatNumber(r.continuum, 4)]);
-  if (r.decay && r.decay.classification !== 'unknown') items.push(['decay', `${r.decay.classification}${r.decay.exponent !== null ? ` (n^-${formatNumber(r.decay.exponent, 3)})` : ''}`]);
-  for (const [k, v] of items) {
+  for (const [k, v] of summaryItems(r)) {
     const span = document.createElement('span');
     span.className = 'figure';
     const b = document.createElement('b');
@@ -119,27 +139,39 @@ function summary(r: PanelResult): void {
   }
 }
 
-function problems(msg: Extract<HostMessage, { type: 'result' }>): boolean {
-  const errors = msg.result.diagnostics.map((d, i) => ({ d, line: msg.diagnosticLines?.[i] })).filter(({ d }) => d.severity === 'error');
-  if (errors.length === 0) return false;
-  setText('problems-title', `${msg.fileName} has ${errors.length} error${errors.length > 1 ? 's' : ''}; plots resume when it is fixed.`);
-  const list = $('problems-list');
+/** Fills a list with findings, each a link to its line when the line is known. */
+function listFindings(list: HTMLElement, msg: ResultMessage, keep: (d: PanelResult['diagnostics'][number]) => boolean): number {
+  const items = msg.result.diagnostics.map((d, i) => ({ d, line: msg.diagnosticLines?.[i] })).filter(({ d }) => keep(d));
   list.replaceChildren();
-  for (const { d, line } of errors.slice(0, 50)) {
+  for (const { d, line } of items.slice(0, 50)) {
     const li = document.createElement('li');
+    li.className = d.severity;
     const code = document.createElement('code');
     code.textContent = d.code;
     li.append(line !== undefined ? `line ${line + 1}: ` : '', code, ' ', d.message);
     if (line !== undefined) {
       li.tabIndex = 0;
-      li.className = 'link';
+      li.classList.add('link');
       const go = () => vscode.postMessage({ type: 'reveal', line });
       li.addEventListener('click', go);
       li.addEventListener('keydown', (e) => e.key === 'Enter' && go());
     }
     list.append(li);
   }
-  return true;
+  return items.length;
+}
+
+/** The findings that invalidate the results, in place of fresh plots. */
+function problems(msg: ResultMessage): void {
+  const n = listFindings($('problems-list'), msg, (d) => d.severity === 'error');
+  const last = lastGood ? ' The plots below are from the last analysis without them, dimmed.' : '';
+  setText('problems-title', `${msg.fileName} has ${n} error${n === 1 ? '' : 's'} that make the results meaningless; the plots resume when ${n === 1 ? 'it is' : 'they are'} fixed.${last}`);
+}
+
+/** Failed checks and warnings that leave the expansion valid, shown beside the plots. */
+function findings(msg: ResultMessage | null): void {
+  const n = msg ? listFindings($('findings-list'), msg, (d) => d.severity !== 'info') : 0;
+  $('findings').hidden = n === 0;
 }
 
 function syncControls(r: PanelResult | null): void {
@@ -150,60 +182,84 @@ function syncControls(r: PanelResult | null): void {
     $(`view-${t}`).hidden = !on;
   }
   ($('scale') as HTMLSelectElement).value = settings.scale;
+  $('scale-auto').textContent = r ? `auto (${effectiveScale({ result: r, settings, palette, tooltip })})` : 'auto';
   ($('axis') as HTMLSelectElement).value = settings.axis;
   const maxK = r ? Math.max(1, Math.min(r.levels.length, r.samples?.phi.length ?? r.levels.length)) : 1;
   const terms = $('terms') as HTMLInputElement;
   terms.max = String(maxK);
   terms.value = String(Math.min(settings.terms, maxK));
-  const steps = r?.evolution?.times.length ?? 1;
-  const time = $('time') as HTMLInputElement;
-  time.max = String(Math.max(0, steps - 1));
-  time.value = String(Math.min(settings.timeIndex, steps - 1));
   if (r && r.samples) {
-    const st = normalisedState(r.samples);
+    const st = sampledState(r.samples);
     const part = partialSum(r.samples, r.levels, settings.terms);
     const err = l2Distance(r.samples.x, st.re, st.im, part.re, part.im);
     setText('terms-out', `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
   } else setText('terms-out', '');
+  syncTime(r);
+}
+
+function syncTime(r: PanelResult | null): void {
   const ev = r?.evolution;
-  const t = ev?.times[Math.min(settings.timeIndex, (ev?.times.length ?? 1) - 1)];
-  setText('time-out', t === undefined ? 'no time evolution' : `t = ${formatNumber(t, 4)} ${r?.units.time ?? '(ħ/energy unit)'}`);
+  const steps = ev?.times.length ?? 0;
+  const time = $('time') as HTMLInputElement;
+  time.max = String(Math.max(0, steps - 1));
+  time.value = String(Math.min(settings.timeIndex, Math.max(0, steps - 1)));
+  time.disabled = steps < 2;
+  ($('play') as HTMLButtonElement).disabled = steps < 2;
+  // Without an evolution there is nothing to play: the view says how to get one instead.
+  $('time-controls').hidden = steps === 0;
+  const t = ev?.times[Math.min(settings.timeIndex, steps - 1)];
+  const unit = r?.units.time ?? (r?.units.energy ? `(ħ/${r.units.energy})` : '(natural units, ħ = 1)');
+  setText('time-out', t === undefined || t === null ? '' : `t = ${formatNumber(t, 4)} ${unit}`);
+}
+
+/** Draws one view's description into its chart, notes and empty-state text. */
+function draw(r: PanelResult, tab: Tab): void {
+  const el = $(`chart-${tab}`);
+  const view = describeView({ result: r, settings, palette, tooltip, size: { width: el.clientWidth || 800, height: el.clientHeight || 440 } });
+  const notes = $(`notes-${tab}`);
+  notes.replaceChildren(...view.notes.map((n) => Object.assign(document.createElement('p'), { textContent: n })));
+  notes.hidden = view.notes.length === 0;
+  setText(`empty-${tab}`, view.empty ?? '');
+  $(`empty-${tab}`).hidden = view.empty === null;
+  el.hidden = view.option === null;
+  const option = view.option;
+  if (option) {
+    // Resizing is costly; do it only when the view's box changed (a tab that was hidden has none).
+    const size = `${el.clientWidth}x${el.clientHeight}`;
+    if (sized[tab] !== size) ((sized[tab] = size), charts[tab].resize());
+    // The first draw builds everything; later ones replace only what changes, which ECharts does far faster.
+    if (lastOption[tab]) charts[tab].setOption(option, { replaceMerge: ['series', 'xAxis', 'yAxis', 'grid'], lazyUpdate: false, silent: true });
+    else charts[tab].setOption(option, { notMerge: true, lazyUpdate: false, silent: true });
+    lastOption[tab] = option;
+  } else {
+    charts[tab].clear();
+    delete lastOption[tab];
+  }
 }
 
 /** Draws the visible view now; the hidden ones are drawn when their tab is opened. */
 function render(): void {
   const started = performance.now();
-  const r = current?.result ?? null;
+  if (current && !invalidates(current.result)) lastGood = current;
+  // While the file has invalidating errors, the last good result (if any, of the same file) is drawn dimmed.
+  const stale = current !== null && current !== lastGood && lastGood !== null && lastGood.uri === current.uri;
+  const shown = stale ? lastGood : current;
+  const r = shown?.result ?? null;
   syncControls(r);
   if (!current || !r) return;
   setText('file-name', current.fileName);
-  summary(r);
-  if (problems(current)) {
-    show('problems');
-  } else if (r.levels.length === 0) {
-    setText('empty-reason', `No expansion for ${current.fileName} yet (no levels were computed).`);
-    show('empty');
+  summary(current.result);
+  const bad = invalidates(current.result);
+  if (bad) problems(current);
+  findings(bad ? null : current);
+  if (bad && !stale) {
+    if (current.result.levels.length === 0 && !current.result.diagnostics.some((d) => d.severity === 'error')) {
+      setText('empty-reason', `No expansion for ${current.fileName} yet (no levels were computed).`);
+      show({ views: false, empty: true });
+    } else show({ views: false, problems: true });
   } else {
-    show('views');
-    const ctx = { result: r, settings, palette, tooltip };
-    const tab = settings.tab;
-    let option: Record<string, unknown> | null = null;
-    if (tab === 'spectrum') option = spectrumOption(ctx);
-    else if (tab === 'state') option = r.samples ? stateOption(ctx) : null;
-    else option = r.evolution && r.evolution.times.length > 0 ? timeOption(ctx) : null;
-    if (option) {
-      // Resizing is costly; do it only when the view's box changed (a tab that was hidden has none).
-      const el = $(`chart-${tab}`);
-      const size = `${el.clientWidth}x${el.clientHeight}`;
-      if (sized[tab] !== size) ((sized[tab] = size), charts[tab].resize());
-      // The first draw builds everything; later ones replace only what changes, which ECharts does far faster.
-      if (lastOption[tab]) charts[tab].setOption(option, { replaceMerge: ['series', 'xAxis', 'yAxis', 'grid'], lazyUpdate: false, silent: true });
-      else charts[tab].setOption(option, { notMerge: true, lazyUpdate: false, silent: true });
-      lastOption[tab] = option;
-    } else {
-      charts[tab].clear();
-      delete lastOption[tab];
-    }
+    show({ views: true, stale, problems: bad });
+    draw(r, settings.tab);
   }
   renders++;
   lastRenderMs = performance.now() - (messageAt ?? started);
@@ -226,17 +282,19 @@ function onMessage(data: unknown): void {
   switch (msg.type) {
     case 'result':
       if (current && current.uri === msg.uri && msg.version < current.version) return;
-      if (!current || current.uri !== msg.uri) settings.selected = null;
+      if (!current || current.uri !== msg.uri) ((settings.selected = null), (lastGood = null));
       current = msg;
       render();
       break;
     case 'empty':
       current = null;
+      lastGood = null;
       stopPlaying();
       setText('empty-reason', msg.reason);
       setText('file-name', 'no file');
       $('summary').replaceChildren();
-      show('empty');
+      show({ views: false, empty: true });
+      $('findings').hidden = true;
       break;
     case 'theme':
       themeOverride = msg.kind;
@@ -268,7 +326,8 @@ for (const t of TABS) {
   });
 }
 $('scale').addEventListener('change', (e) => {
-  settings.scale = (e.target as HTMLSelectElement).value === 'log' ? 'log' : 'linear';
+  const v = (e.target as HTMLSelectElement).value;
+  settings.scale = v === 'log' || v === 'linear' ? v : 'auto';
   scaleChosen = true;
   save();
   render();
@@ -359,8 +418,12 @@ new ResizeObserver(() => {
     const series = (opt?.series ?? []).map((s) => ({ id: String(s.id ?? ''), data: s.data ?? [] }));
     return { tab, settings: { ...settings }, renders, lastRenderMs, version: current?.version ?? null, background: opt?.backgroundColor ?? null, palette: { ...palette }, series };
   },
+  texts: () => drawnTexts(charts[settings.tab]),
+  axisLabels: () => axisLabels(charts[settings.tab]),
+  itemLayouts: (id: string) => itemLayouts(charts[settings.tab], id),
+  yPixel: (index: number, value: number) => yPixel(charts[settings.tab], index, value),
 };
 
-show('empty');
+show({ views: false, empty: true });
 syncControls(null);
 vscode.postMessage({ type: 'ready' });

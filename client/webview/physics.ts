@@ -1,6 +1,5 @@
 /**
- * The few numerical steps the panel does itself: normalising the sampled state for display and
- * building partial sums of the eigen-expansion. Pure; typed arrays.
+ * The few numerical steps the panel does itself: reading the sampled state and building partial sums of the eigen-expansion. Pure; typed arrays.
  */
 import type { PanelResult } from '../src/messages';
 
@@ -16,21 +15,17 @@ export function trapezoid(x: ArrayLike<number | null>, f: ArrayLike<number>): nu
   return s;
 }
 
-/** The sampled state scaled to unit integral of |psi|^2 (as the coefficients are), with |psi|^2. */
-export function normalisedState(samples: Samples): { re: Float64Array; im: Float64Array; density: Float64Array; scale: number } {
+/**
+ * The sampled state as typed arrays with |psi|^2. The engine sends the normalised state (its samples
+ * are scaled by 1/sqrt(norm) of the exact integral), so nothing is rescaled here.
+ */
+export function sampledState(samples: Samples): { re: Float64Array; im: Float64Array; density: Float64Array } {
   const n = samples.x.length;
   const re = Float64Array.from(samples.re, (v) => v ?? 0);
   const im = Float64Array.from(samples.im, (v) => v ?? 0);
-  const dens = new Float64Array(n);
-  for (let j = 0; j < n; j++) dens[j] = re[j]! * re[j]! + im[j]! * im[j]!;
-  const norm = trapezoid(samples.x, dens);
-  const scale = norm > 0 && Number.isFinite(norm) ? 1 / Math.sqrt(norm) : 1;
-  for (let j = 0; j < n; j++) {
-    re[j] = re[j]! * scale;
-    im[j] = im[j]! * scale;
-    dens[j] = dens[j]! * scale * scale;
-  }
-  return { re, im, density: dens, scale };
+  const density = new Float64Array(n);
+  for (let j = 0; j < n; j++) density[j] = re[j]! * re[j]! + im[j]! * im[j]!;
+  return { re, im, density };
 }
 
 /**
@@ -64,23 +59,4 @@ export function l2Distance(x: ArrayLike<number | null>, fr: ArrayLike<number>, f
     d[j] = a * a + b * b;
   }
   return Math.sqrt(Math.max(0, trapezoid(x, d)));
-}
-
-/** True when the sampled potential is mirror-symmetric about `center` (within 1e-6 of its range). */
-export function isSymmetric(samples: Samples | null, center: number | null): boolean {
-  if (!samples || center === null) return false;
-  const { x, potential } = samples;
-  const n = x.length;
-  if (n < 3) return false;
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const v of potential) if (v !== null && Number.isFinite(v)) ((lo = Math.min(lo, v)), (hi = Math.max(hi, v)));
-  const tol = 1e-6 * Math.max(1e-300, hi - lo) + 1e-12;
-  const tolX = 1e-6 * Math.abs((x[n - 1] ?? 0) - (x[0] ?? 0));
-  for (let j = 0; j < n; j++) {
-    const m = n - 1 - j;
-    if (Math.abs((x[j] ?? 0) - center + ((x[m] ?? 0) - center)) > tolX) return false;
-    if (Math.abs((potential[j] ?? 0) - (potential[m] ?? 0)) > tol) return false;
-  }
-  return true;
 }

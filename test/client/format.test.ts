@@ -79,7 +79,7 @@ describe('coefficient exports', () => {
   it('formats numbers and phases', () => {
     expect(formatNumber(0.998555014364018, 6)).toBe('0.998555');
     expect(formatNumber(1.2345e-9, 3)).toBe('1.23e-9');
-    expect(formatNumber(null)).toBe('–');
+    expect(formatNumber(null)).toBe('—'); // the shared formatter's mark for a missing value
     expect(phaseOf(-1, 0)).toBeCloseTo(Math.PI, 15);
     expect(phaseOf(0, -1)).toBeCloseTo(-Math.PI / 2, 15);
     const cum = cumulativeWeights(result.levels);

@@ -13,6 +13,7 @@ describe('message checks', () => {
     expect(parseHostMessage({ type: 'theme', kind: 'high-contrast' })).toEqual({ type: 'theme', kind: 'high-contrast' });
     expect(parseHostMessage({ type: 'empty', reason: 'x' })).toEqual({ type: 'empty', reason: 'x' });
     expect(parseHostMessage({ type: 'settings', plotScale: 'log' })).toEqual({ type: 'settings', plotScale: 'log' });
+    expect(parseHostMessage({ type: 'settings', plotScale: 'auto' })).toEqual({ type: 'settings', plotScale: 'auto' });
   });
 
   it('rejects each kind of damage to a result', () => {
@@ -67,5 +68,26 @@ describe('message checks', () => {
     expect(s.get('u')!.result.levels).toHaveLength(2);
     expect(seen).toEqual(['u']);
     expect(isPanelResult(parabolaResult(2))).toBe(true);
+  });
+});
+
+describe('the survival on its own time grid', () => {
+  const withEvolution = (extra: Record<string, unknown>) => {
+    const r = parabolaResult(4) as unknown as Record<string, unknown>;
+    r.evolution = { times: [0, 1, 2], meanX: [0, 0, 0], meanP: [0, 0, 0], survival: [1, 0.5, 1], revival: null, ...extra };
+    return r;
+  };
+
+  it('accepts survivalTimes with survivalFine beside the evolve arrays, or with survival itself on the fine grid', () => {
+    expect(isPanelResult(withEvolution({}))).toBe(true);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 0.5, 1, 1.5, 2], survivalFine: [1, 0.8, 0.5, 0.8, 1] }))).toBe(true);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 0.5, 1, 1.5, 2], survival: [1, 0.8, 0.5, 0.8, 1] }))).toBe(true);
+  });
+
+  it('rejects a survival that matches neither grid, or a fine survival of the wrong length', () => {
+    expect(isPanelResult(withEvolution({ survival: [1, 0.5] }))).toBe(false);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 1, 2, 3], survival: [1, 0.5, 1, 0.5, 1] }))).toBe(false);
+    expect(isPanelResult(withEvolution({ survivalTimes: [0, 1, 2, 3], survivalFine: [1, 0.5] }))).toBe(false);
+    expect(isPanelResult(withEvolution({ survivalTimes: 'fine' }))).toBe(false);
   });
 });

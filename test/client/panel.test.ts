@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { SpectrumPanelController, PANEL_VIEW_TYPE, themeKindName } from '../../client/src/panel';
+import { SpectrumPanelController, PANEL_VIEW_TYPE, plotScaleSetting, themeKindName } from '../../client/src/panel';
 import { ResultStore } from '../../client/src/results';
 import { makeVscode, makeDocument, FakeUri, type FakePanel } from './vscode-stub';
 import { parabolaResult } from './fixtures';
@@ -172,5 +172,15 @@ describe('spectrum panel lifecycle', () => {
 
   it('maps theme kinds', () => {
     expect([1, 2, 3, 4].map(themeKindName)).toEqual(['light', 'dark', 'high-contrast', 'high-contrast-light']);
+  });
+});
+
+describe('the plot scale setting', () => {
+  it("sends the user's own scale, most specific scope first, and 'auto' when none is set", () => {
+    expect(plotScaleSetting(undefined)).toBe('auto');
+    expect(plotScaleSetting({})).toBe('auto');
+    expect(plotScaleSetting({ globalValue: 'log' })).toBe('log');
+    expect(plotScaleSetting({ globalValue: 'log', workspaceValue: 'linear' })).toBe('linear');
+    expect(plotScaleSetting({ globalValue: 'cubic' })).toBe('auto');
   });
 });

@@ -198,7 +198,7 @@ export function makeVscode() {
       return state.isTrusted;
     },
     onDidGrantWorkspaceTrust: trustGranted.event,
-    getConfiguration: () => ({ get: (k: string) => config[k] }),
+    getConfiguration: () => ({ get: (k: string) => config[k], inspect: (k: string) => (k in config ? { key: k, globalValue: config[k] } : undefined) }),
     onDidChangeConfiguration: configChanged.event,
     fs: {
       stat: async (u: FakeUri) => {

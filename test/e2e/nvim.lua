@@ -1,6 +1,6 @@
--- Drives the Eigenspan language server from headless Neovim with the built-in LSP client only.
+-- Drives the Eigenspan language server from headless Neovim with the built-in LSP client only, set up
+-- by the README's recipe (loaded before this file): this script only opens files and watches.
 -- Inputs come from the environment; results go to a JSON file that nvim.mjs reads and prints.
-local server = os.getenv('EIGENSPAN_SERVER')
 local out_path = os.getenv('EIGENSPAN_OUT')
 local example = os.getenv('EIGENSPAN_EXAMPLE')
 local broken = os.getenv('EIGENSPAN_BROKEN')
@@ -20,9 +20,9 @@ end
 
 local function finish()
   -- Stop the servers politely (shutdown, exit) and wait for them before leaving.
-  local clients = vim.lsp.get_active_clients()
-  for _, c in ipairs(clients) do c.stop() end
-  report.servers_stopped = vim.wait(5000, function() return #vim.lsp.get_active_clients() == 0 end, 20)
+  local all = vim.lsp.get_clients or vim.lsp.get_active_clients
+  for _, c in ipairs(all()) do c.stop() end
+  report.servers_stopped = vim.wait(5000, function() return #all() == 0 end, 20)
   report.finished = true
   save()
   vim.cmd('qa!')
@@ -34,19 +34,26 @@ local function code_of(d)
   return '?'
 end
 
+-- The clients attached to a buffer, on 0.7 (buf_get_clients) and later (get_clients).
+local function clients_of(buf)
+  local list = {}
+  local found = vim.lsp.get_clients and vim.lsp.get_clients({ bufnr = buf }) or vim.lsp.buf_get_clients(buf)
+  for _, c in pairs(found) do table.insert(list, c) end
+  return list
+end
+
+-- Opens a file as a user does; the recipe's autocommand must set the file type and attach the server.
 local function open(path)
   vim.cmd('edit ' .. vim.fn.fnameescape(path))
   local buf = vim.api.nvim_get_current_buf()
-  vim.bo[buf].filetype = 'qstate'
-  local config = { name = 'eigenspan', cmd = { 'node', server, '--stdio' }, root_dir = vim.fn.fnamemodify(path, ':h') }
-  local id
-  if vim.lsp.start then
-    id = vim.lsp.start(config)
-  else
-    -- Neovim before 0.8 has no vim.lsp.start: start the client and attach it to the buffer.
-    id = vim.lsp.start_client(config)
-    vim.lsp.buf_attach_client(buf, id)
-  end
+  step('recipe sets the qstate file type on ' .. vim.fn.fnamemodify(path, ':t'), vim.bo[buf].filetype == 'qstate', vim.bo[buf].filetype)
+  local id = nil
+  local attached = vim.wait(15000, function()
+    local cs = clients_of(buf)
+    if #cs > 0 and cs[1].name == 'eigenspan' then id = cs[1].id return true end
+    return false
+  end, 20)
+  step('recipe attaches the eigenspan server', attached, 'client ' .. tostring(id))
   return buf, id
 end
 

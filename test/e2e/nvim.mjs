@@ -1,11 +1,13 @@
 // End-to-end check in headless Neovim (Debian `neovim`, `nvim --headless --clean`, built-in LSP client,
-// no plugins): open a broken file and an example, wait for diagnostics and a hover, print the results.
+// no plugins): load the README's Neovim recipe as a user would, open a broken file and an example, wait
+// for the recipe to set the file type and attach the server, then for diagnostics and a hover.
 // Exits 0 when every step passed, 1 otherwise (including when nvim is missing).
 import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync, copyFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { readmeRecipe } from './recipe.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const root = resolve(here, '..', '..');
@@ -29,10 +31,12 @@ try {
   const broken = join(work, 'broken.qstate');
   writeFileSync(broken, 'system box(0, 1\nstate psi(x) = x\n');
   const out = join(work, 'report.json');
+  const recipe = join(work, 'recipe.lua');
+  writeFileSync(recipe, readmeRecipe(join(root, 'README.md'), server));
 
-  const child = spawn('nvim', ['--headless', '--clean', '-c', `luafile ${join(here, 'nvim.lua')}`], {
+  const child = spawn('nvim', ['--headless', '--clean', '-c', `luafile ${recipe}`, '-c', `luafile ${join(here, 'nvim.lua')}`], {
     cwd: work,
-    env: { ...process.env, EIGENSPAN_SERVER: server, EIGENSPAN_OUT: out, EIGENSPAN_EXAMPLE: example, EIGENSPAN_BROKEN: broken },
+    env: { ...process.env, EIGENSPAN_OUT: out, EIGENSPAN_EXAMPLE: example, EIGENSPAN_BROKEN: broken },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let stderr = '';

@@ -1,0 +1,201 @@
+/**
+ * State view: Re, Im and |psi|^2 of the state as the engine sampled it (already normalised), the K-term
+ * partial sum, and on a second axis the potential with the weighted levels and the mean energy. The two
+ * axes share their zero when that leaves the plot readable. Pure (no DOM).
+ */
+import { formatNumber } from '../../../server/src/shared/numbers';
+import type { PanelResult } from '../../src/messages';
+import { partialSum, sampledState, trapezoid } from '../physics';
+import { axisStyle, baseOption, pairs, unitSuffix, type BuildContext, type Option } from './context';
+import { resolved, totalWeight } from './facts';
+import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
+import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
+
+function anyNonZero(a: ArrayLike<number>): boolean {
+  for (let j = 0; j < a.length; j++) if (Math.abs(a[j]!) > 1e-12) return true;
+  return false;
+}
+
+/** Energy window for the state view: the levels that matter, the mean and the well's floor. */
+export function energyWindow(result: PanelResult): [number, number] {
+  // Levels holding at least 1 % of the largest weight set the top, so a slowly decaying tail does not squash the view.
+  const es: number[] = [];
+  let wmax = 0;
+  for (const l of result.levels) wmax = Math.max(wmax, l.weight ?? 0);
+  for (const l of result.levels) if ((l.weight ?? 0) >= 0.01 * wmax && wmax > 0 && l.energy !== null) es.push(l.energy);
+  if (es.length === 0 && result.levels[0]?.energy != null) es.push(result.levels[0].energy);
+  const m = result.energy?.mean;
+  const s = result.energy?.spread;
+  if (m !== null && m !== undefined) es.push(m + 2 * (s ?? 0));
+  let lo = Math.min(0, ...es);
+  for (const v of result.samples?.potential ?? []) if (v !== null && Number.isFinite(v)) lo = Math.min(lo, v);
+  const hi = es.length ? Math.max(...es) : 1;
+  const pad = 0.12 * (hi - lo || 1);
+  // Zero stays the bottom when nothing lies below it (a box, an oscillator): no empty band under the floor.
+  return [lo < 0 ? niceBound(lo - pad * 0.3, false) : 0, niceBound(hi + pad, true)];
+}
+
+/** Share of the height below zero beyond which a shared zero would squash the other axis. */
+const MAX_SHARED_ZERO = 0.7;
+
+/** Intervals on each vertical axis of the state view. */
+const STATE_TICKS = 8;
+
+/**
+ * Two axes over [lo_i, hi_i] (lo_i <= 0 < hi_i) with the same number of intervals below and above zero,
+ * so both zeros sit at one height and the grid lines of both axes coincide; each interval round.
+ */
+function alignedAxes(a: [number, number], b: [number, number]): [AxisRange, AxisRange] {
+  let best: [AxisRange, AxisRange] | null = null;
+  let waste = Infinity;
+  for (let below = 0; below < STATE_TICKS; below++) {
+    const above = STATE_TICKS - below;
+    const pick = ([lo, hi]: [number, number]): AxisRange => {
+      const interval = roundStep(Math.max(hi / above, below > 0 ? -lo / below : 0));
+      return { min: clean(-below * interval), max: clean(above * interval), interval };
+    };
+    const ra = pick(a);
+    const rb = pick(b);
+    if (a[0] < ra.min - 1e-12 * ra.interval || b[0] < rb.min - 1e-12 * rb.interval) continue;
+    // The room left unused on both axes: the less, the larger the curves.
+    const w = (ra.max - ra.min) / (a[1] - a[0]) + (rb.max - rb.min) / (b[1] - b[0]);
+    if (w < waste) ((waste = w), (best = [ra, rb]));
+  }
+  return best ?? [niceAxis(a[0], a[1], STATE_TICKS), niceAxis(b[0], b[1], STATE_TICKS)];
+}
+
+/**
+ * The psi axis and the energy axis over their data, sharing the zero height when neither would then be
+ * squashed into less than 30 % of the plot; `shared` says which happened.
+ */
+export function stateAxes(psi: [number, number], energy: [number, number]): { psi: AxisRange; energy: AxisRange; shared: boolean } {
+  const p: [number, number] = [Math.min(0, psi[0]), Math.max(psi[1], 1e-300)];
+  const e: [number, number] = [Math.min(0, energy[0]), Math.max(energy[1], 1e-300)];
+  const fPsi = -p[0] / (p[1] - p[0]);
+  const fE = -e[0] / (e[1] - e[0]);
+  if (Math.max(fPsi, fE) > MAX_SHARED_ZERO && Math.min(fPsi, fE) < 1 - MAX_SHARED_ZERO) {
+    return { psi: niceAxis(psi[0], psi[1], STATE_TICKS), energy: niceAxis(energy[0], energy[1], STATE_TICKS), shared: false };
+  }
+  const [rp, re] = alignedAxes(p, e);
+  return { psi: rp, energy: re, shared: true };
+}
+
+/** Where a sampled density sits: integral x rho / integral rho (trapezoid rule), or null for a zero density. */
+function centroid(x: ArrayLike<number | null>, rho: Float64Array): number | null {
+  const m = trapezoid(x, rho);
+  const xr = Float64Array.from(rho, (v, j) => v * (x[j] ?? 0));
+  return m > 0 ? trapezoid(x, xr) / m : null;
+}
+
+/** The level segments (length proportional to the weight, centred on the system) and the mean energy. */
+function levelSegments(ctx: BuildContext, ehi: number): Option[] {
+  const { result, settings, palette: p } = ctx;
+  const x = result.samples!.x;
+  const xmin = x[0] ?? 0;
+  const xmax = x[x.length - 1] ?? 1;
+  // Centred on the symmetry centre, or else where the state sits (the centroid of the sampled |psi|^2).
+  const center = result.system?.center ?? centroid(x, sampledState(result.samples!).density) ?? (xmin + xmax) / 2;
+  const span = xmax - xmin;
+  const total = totalWeight(result);
+  return result.levels
+    .map((l, k) => ({ l, k }))
+    .filter(({ l }) => resolved(l, total) && (l.weight ?? 0) > 1e-5 && l.energy !== null && l.energy <= ehi)
+    .slice(0, 60)
+    .map(({ l, k }) => {
+      const half = (Math.max(0.015, Math.min(1, l.weight ?? 0)) * span) / 2;
+      const picked = settings.selected === k;
+      return [
+        { coord: [Math.max(xmin, center - half), l.energy], lineStyle: { color: picked ? p.accent : p.odd, width: picked ? 3 : 2, type: 'solid' } },
+        { coord: [Math.min(xmax, center + half), l.energy] },
+      ] as unknown as Option;
+    });
+}
+
+const line = (ctx: BuildContext, id: string, name: string, color: string, data: unknown[], extra: Option = {}): Option => ({
+  id,
+  name,
+  type: 'line',
+  showSymbol: false,
+  lineStyle: { color, width: ctx.palette.lineWidth },
+  itemStyle: { color },
+  data,
+  ...extra,
+});
+
+function energySeries(ctx: BuildContext, ehi: number): Option[] {
+  const { result, palette: p } = ctx;
+  const s = result.samples!;
+  const walls = s.walls ? s.walls.map((w) => ({ xAxis: w, lineStyle: { color: p.foreground, width: 3, type: 'solid' }, label: { show: false } })) : [];
+  const mark = (data: Option[]) => ({ markLine: { silent: true, symbol: 'none', animation: false, label: { show: false }, data } });
+  const out = [
+    line(ctx, 'potential', 'V(x)', p.potential, pairs(s.x, Float64Array.from(s.potential, (v) => v ?? NaN)), { yAxisIndex: 1, ...mark(walls) }),
+    line(ctx, 'levels', 'levels E_n (length ∝ |c_n|²)', p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi)) }),
+  ];
+  const mean = result.energy?.mean;
+  if (mean !== null && mean !== undefined) {
+    out.push(line(ctx, 'mean', '⟨E⟩', p.cumulative, [], { yAxisIndex: 1, lineStyle: { color: p.cumulative, type: 'dashed', width: p.lineWidth }, ...mark([{ yAxis: mean, lineStyle: { color: p.cumulative, type: 'dashed', width: p.lineWidth } }]) }));
+  }
+  return out;
+}
+
+function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, number] } {
+  const { result, settings, palette: p } = ctx;
+  const s = result.samples!;
+  const st = sampledState(s);
+  const part = partialSum(s, result.levels, settings.terms);
+  const series: Option[] = [line(ctx, 'density', '|ψ|²', p.density, pairs(s.x, st.density), { areaStyle: { color: p.density, opacity: 0.15 } }), line(ctx, 're', 'Re ψ', p.real, pairs(s.x, st.re))];
+  const arrays: ArrayLike<number>[] = [st.density, st.re, part.re];
+  if (anyNonZero(st.im) || anyNonZero(part.im)) (series.push(line(ctx, 'im', 'Im ψ', p.imag, pairs(s.x, st.im))), arrays.push(st.im));
+  series.push(line(ctx, 'partial', `Re ψ_K (K = ${part.terms})`, p.partial, pairs(s.x, part.re), { lineStyle: { color: p.partial, width: p.lineWidth, type: 'dashed' } }));
+  if (settings.selected !== null && s.phi[settings.selected]) {
+    const phi = Float64Array.from(s.phi[settings.selected]!, (v) => v ?? 0);
+    arrays.push(phi);
+    series.push(line(ctx, 'picked', `φ_${result.levels[settings.selected]?.n ?? settings.selected}`, p.accent, pairs(s.x, phi), { lineStyle: { color: p.accent, width: 1, type: 'dotted' } }));
+  }
+  let lo = 0;
+  let hi = 0;
+  for (const a of arrays) for (let j = 0; j < a.length; j++) ((lo = Math.min(lo, a[j]!)), (hi = Math.max(hi, a[j]!)));
+  // Ringing or rounding far below the curve's size (a Gaussian's tail, a partial sum's wiggle) gets no room of its own.
+  return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
+}
+
+/** The state view's chart option and whether its two vertical axes share their zero. */
+export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean } {
+  const { result, palette: p } = ctx;
+  const x = result.samples!.x;
+  const lu = result.units.length;
+  const [elo, ehi] = energyWindow(result);
+  const psi = psiSeries(ctx);
+  const series = [...psi.series, ...energySeries(ctx, ehi)];
+  const axes = stateAxes(psi.range, [elo, ehi]);
+  const xr = niceAxis(x[0] ?? 0, x[x.length - 1] ?? 1, xTicks(ctx.size ?? DEFAULT_SIZE));
+  const nameGap = Math.round(p.fontSize * 2.2);
+  const option = {
+    ...baseOption(p),
+    legend: legendFor(series, p),
+    grid: { left: 64, right: 64, top: plotTop(series.map((q) => String(q.name)), ctx.size ?? DEFAULT_SIZE, p), bottom: Math.round(p.fontSize * 3.6) },
+    tooltip: {
+      ...(baseOption(p).tooltip as Option),
+      trigger: 'axis',
+      formatter: (params: { seriesName: string; value: [number, number] }[]) =>
+        ctx.tooltip([[`x`, `${formatNumber(params[0]?.value[0] ?? NaN, 4)}${lu ? ` ${lu}` : ''}`], ...params.map((q) => [q.seriesName, formatNumber(q.value[1], 4)] as [string, string])]),
+    },
+    xAxis: { ...axisStyle(p), ...valueAxis(xr, p.foreground), name: `x${unitSuffix(lu)}`, nameLocation: 'middle', nameGap },
+    yAxis: [
+      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
+      { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `E, V${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
+    ],
+    series,
+  };
+  return { option, sharedZero: axes.shared };
+}
+
+/** The state view's chart option. */
+export function stateOption(ctx: BuildContext): Option {
+  return stateChart(ctx).option;
+}
+
+/** Notes beside the state view. */
+export function stateNotes(sharedZero: boolean): string[] {
+  return sharedZero ? [] : ['ψ and V have separate zeros here: on a shared zero one of them would fill less than 30 % of the height.'];
+}
