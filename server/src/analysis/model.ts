@@ -3,7 +3,7 @@
  * its dimension checked, and constants evaluated to numbers in internal units (hbar = 1).
  * This is the static stage: cheap, run on every keystroke.
  */
-import type { Arg, ExprText, QFile, Span, Statement, StateSpec, SystemSpec } from '../language/ast';
+import { rejectedNames, type Arg, type ExprText, type QFile, type Span, type Statement, type StateSpec, type SystemSpec } from '../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { Complex, CompiledFunction, Dimension, Expr, Scope, UnitSystem } from '../expr/types';
 import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../expr/sandbox';
@@ -11,7 +11,6 @@ import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
-import { isReservedName } from '../language/reserved';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { capital, fmt } from './findings';
 
@@ -100,8 +99,8 @@ class ModelBuilder {
   private scope!: Scope;
   private errors = 0;
   private readonly lets: Model['lets'] = new Map();
-  /** Reserved names a `let` tried to define: refused once there, so their later uses add no finding. */
-  private readonly refused = new Set<string>();
+  /** Names rejected `let` lines tried to define (reported there once by the parser): their later uses add no finding. */
+  private readonly refused: Set<string>;
   /** The parts of the model the statements fill in. */
   private readonly model: Pick<Model, 'mass' | 'system' | 'state' | 'basis' | 'expects' | 'evolve'>;
 
@@ -111,6 +110,7 @@ class ModelBuilder {
     private readonly out: EngineDiagnostic[],
   ) {
     this.model = { mass: 1, system: null, state: null, basis: { value: options.defaultBasis, stmt: null }, expects: [], evolve: null };
+    this.refused = rejectedNames(file);
   }
 
   private push(d: EngineDiagnostic[]): void {
@@ -121,7 +121,7 @@ class ModelBuilder {
     }
   }
 
-  /** A finding on a later use of a refused reserved name (already reported where it was defined). */
+  /** A finding on a later use of a name whose `let` was rejected (already reported where it was defined). */
   private refusedUse(d: EngineDiagnostic): boolean {
     return this.refused.size > 0 && (d.code === 'forbidden' || d.code === 'name') && this.refused.has(this.file.text.slice(d.start, d.end));
   }
@@ -197,14 +197,8 @@ class ModelBuilder {
     }
   }
 
-  /** A `let`: a reserved name is refused where it is defined; any other name gets its value. */
+  /** A `let`: the name gets its value (the parser has already refused reserved names). */
   private let(stmt: Extract<Statement, { kind: 'let' }>): void {
-    if (isReservedName(stmt.name)) {
-      this.refused.add(stmt.name);
-      this.out.push(reservedFinding(stmt));
-      this.errors++;
-      return;
-    }
     const e = this.expr(stmt.expr);
     if (!e) return;
     // evaluateConstant checks names and dimensions itself (no dimension is expected of a `let`).
@@ -443,11 +437,6 @@ class ModelBuilder {
       }
     }
   }
-}
-
-/** The one finding for a `let` of a reserved name (language/reserved.ts), on the name. */
-export function reservedFinding(stmt: Extract<Statement, { kind: 'let' }>): EngineDiagnostic {
-  return diagnostic('name', stmt.nameSpan.start, stmt.nameSpan.end, `'${stmt.name}' is a reserved name and cannot be defined; choose another name.`, { severity: 'error' });
 }
 
 /** True when the expression mentions `name` as a symbol or a call. */

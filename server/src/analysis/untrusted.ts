@@ -7,16 +7,14 @@
  */
 import { inQuickStage } from '../language/meter';
 import type { EngineDiagnostic } from '../language/catalogue';
-import type { Arg, Comparison, Expectation, ExprText, QFile, Statement, StateSpec, SystemSpec } from '../language/ast';
+import { rejectedNames, type Arg, type Comparison, type Expectation, type ExprText, type QFile, type Statement, type StateSpec, type SystemSpec } from '../language/ast';
 import type { Scope, UnitSystem } from '../expr/types';
 import { parseExpression } from '../expr/sandbox';
 import { checkExpression, foldReal } from '../expr/check';
 import { createScope, makeUnitSystem } from '../expr/units';
-import { isReservedName } from '../language/reserved';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { readFile, sortDiagnostics, internalError } from './front';
 import { resolveLimits, type AnalyseOptions, type Limits } from './options';
-import { reservedFinding } from './model';
 
 /** One expression of a statement and what it must be. */
 interface Slot {
@@ -54,8 +52,8 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
     if (u.result) units = u.result;
   }
   const scope = createScope(units);
-  const refused = new Set<string>();
-  // Later uses of a refused reserved name add nothing: it was reported where it was defined.
+  // Later uses of a name whose `let` the parser rejected add nothing: it was reported where it was defined.
+  const refused = rejectedNames(file);
   const push = (ds: EngineDiagnostic[]): void => {
     for (const d of ds) if (!((d.code === 'forbidden' || d.code === 'name') && refused.has(file.text.slice(d.start, d.end)))) out.push(d);
   };
@@ -72,11 +70,6 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
     if (stmt.kind === 'state') continue;
     if (stmt.kind !== 'let') {
       slotsOf(stmt).forEach(check);
-      continue;
-    }
-    if (isReservedName(stmt.name)) {
-      refused.add(stmt.name);
-      out.push(reservedFinding(stmt));
       continue;
     }
     const p = parseExpression(stmt.expr, parseOptions);

@@ -66,6 +66,19 @@ export interface RejectedStatement {
   keyword: Statement['kind'];
   span: Span;
   keywordSpan: Span;
+  /**
+   * The name a rejected `let` tried to define (a reserved name, a keyword, a second definition, a
+   * missing value), when one could be read: the mistake is reported once, where it is made, so later
+   * uses of the name add no finding of their own.
+   */
+  name?: string;
+}
+
+/** The names rejected `let` statements tried to define (their later uses add no finding of their own). */
+export function rejectedNames(file: QFile): Set<string> {
+  const names = new Set<string>();
+  for (const r of file.rejected ?? []) if (r.name !== undefined) names.add(r.name);
+  return names;
 }
 
 /** A parsed file: the statements that parsed (in order) and the text they came from. */

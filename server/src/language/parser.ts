@@ -134,7 +134,13 @@ export function parse(text: string): ParseResult {
     }
     if (result.statement !== null) statements.push(result.statement);
     else if (result.keyword !== null) {
-      rejected.push({ keyword: result.keyword.word, span: { start: st.start, end: st.end }, keywordSpan: result.keyword.span });
+      const entry: RejectedStatement = { keyword: result.keyword.word, span: { start: st.start, end: st.end }, keywordSpan: result.keyword.span };
+      if (entry.keyword === 'let') {
+        const p = skipSpace(ctx.m, entry.keywordSpan.end, st.end);
+        const e = identEnd(ctx.m, p, st.end);
+        if (e > p) entry.name = ctx.m.slice(p, e);
+      }
+      rejected.push(entry);
     }
   }
   countWork(takeSteps());
