@@ -97,3 +97,8 @@ export function fitExponent(sizes: readonly number[], times: readonly number[]):
   }
   return sxx > 0 ? sxy / sxx : NaN;
 }
+
+/** baseline median / our median (> 1: ours is faster), or null when either is missing. */
+export function ratioOf(baseline: Timing | null, ours: Timing | null): number | null {
+  return baseline && ours && ours.median > 0 ? baseline.median / ours.median : null;
+}
