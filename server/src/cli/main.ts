@@ -3,17 +3,17 @@
  *
  *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
  *                    [--time-limit MS] [--limit NAME=N]...
- *   eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
+ *   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force] [--time-limit MS] [--limit NAME=N]...
  *   eigenspan demo [FOLDER]
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
-import { existsSync, statSync, writeFileSync } from 'node:fs';
 import { relative } from 'node:path';
 import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
 import { escapeJson, escapeLines, escapeText } from './escape';
 import { readBounded } from './files';
+import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
 import { renderCsv, renderJson, renderTable } from './render';
 
@@ -31,11 +31,16 @@ const USAGE = `Usage:
                  and partial results (default 10000)
       --limit NAME=N   raise or lower one cap (repeatable); NAME and its range:
 ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padEnd(20)}${String(DEFAULT_LIMITS[k as keyof Limits]).padStart(8)} (${lo} to ${hi})`).join('\n')}
-  eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
+  eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force]
+                  [--time-limit MS] [--limit NAME=N]...
       Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE, one a line, and a
       summary line (files, errors, warnings) on standard error. Folders are searched for
       .qstate files; links are followed only inside the folder, and anything that is not a
       regular file is skipped with a warning. Exit 1 when an error or a failed expect is found.
+      --sarif PATH  also write the findings as a SARIF 2.1.0 log to PATH
+      --junit PATH  also write JUnit XML to PATH: each expect line a test case, each other
+                    error a failing one; both options may be given, and neither replaces an
+                    existing file unless --force is given
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan --help
@@ -98,11 +103,8 @@ function expand(args: string[], io: Io): number {
   const limits: Partial<Limits> = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--out') {
-      const p = args[++i];
-      if (p === undefined || p.startsWith('-')) throw new UsageError('--out needs a file path');
-      outPath = p;
-    } else if (a === '--force') force = true;
+    if (a === '--out') outPath = outPathOption('--out', args[++i]);
+    else if (a === '--force') force = true;
     else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
     else if (a === '--json') format = 'json';
@@ -118,22 +120,13 @@ function expand(args: string[], io: Io): number {
   }
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
-  if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${escapeText(outPath)}' exists; add --force to overwrite it`);
-  // Even with --force only a regular file is replaced: writing to a FIFO would block, to a device stream.
-  if (outPath !== null && existsSync(outPath) && !statSync(outPath).isFile()) throw new UsageError(`'${escapeText(outPath)}' is not a regular file`);
+  if (outPath !== null) assertWritable(outPath, force);
   const text = readText(file, limits.maxFileBytes);
   const result = analyseBounded(text, { defaultBasis: basis, limits });
   const shown = escapeText(file);
   const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, shown);
-  if (outPath !== null) {
-    try {
-      writeFileSync(outPath, escapeLines(rendered), { flag: force ? 'w' : 'wx' });
-    } catch (e) {
-      const code = (e as NodeJS.ErrnoException).code;
-      const where = escapeText(outPath);
-      throw new UsageError(code === 'EEXIST' ? `'${where}' exists; add --force to overwrite it` : `cannot write '${where}': ${code ?? 'error'}`);
-    }
-  } else io.out(rendered);
+  if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
+  else io.out(rendered);
   return result.diagnostics.some((d) => d.severity === 'error') ? 1 : 0;
 }
 
