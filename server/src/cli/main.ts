@@ -4,6 +4,8 @@
  *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
  *                    [--time-limit MS] [--limit NAME=N]...
  *   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force] [--time-limit MS] [--limit NAME=N]...
+ *   eigenspan diff OLD NEW | FILE --rev REV [--tolerance T]
+ *   eigenspan summary FILE
  *   eigenspan demo [FOLDER]
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
@@ -12,10 +14,12 @@ import { relative } from 'node:path';
 import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
 import { escapeJson, escapeLines, escapeText } from './escape';
-import { readBounded } from './files';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { readText } from './readtext';
 import { renderCsv, renderJson, renderTable } from './render';
+import { DEFAULT_TOLERANCE } from './diff';
+import { diff, summary } from './vcs';
 
 const USAGE = `Usage:
   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
@@ -41,6 +45,14 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
       --junit PATH  also write JUnit XML to PATH: each expect line a test case, each other
                     error a failing one; both options may be given, and neither replaces an
                     existing file unless --force is given
+  eigenspan diff OLD NEW [--tolerance T] | eigenspan diff FILE --rev REV [--tolerance T]
+      Print what changed in the physics from OLD to NEW (or from FILE at git revision REV to
+      FILE now): level populations and energies, captured weight, energy mean and spread,
+      parity, and findings that appeared (+) or disappeared (-). Exit 1 when anything changed.
+      --tolerance T  weights count as changed beyond T (absolute), energies beyond T
+                 relative (default ${DEFAULT_TOLERANCE})
+  eigenspan summary FILE
+      Print the physics of FILE as stable, rounded lines, for git's textconv (README.md).
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan --help
@@ -81,17 +93,13 @@ function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
       return check(rest, io, raw);
     case 'demo':
       return demo(rest, io);
+    case 'summary':
+      return summary(rest, io);
+    case 'diff':
+      return diff(rest, io);
     default:
       throw new UsageError(`unknown command '${cmd}'; try 'eigenspan --help'`);
   }
-}
-
-/** Reads one file named on the command line under the file rules (files.ts); refusals are usage errors. */
-function readText(path: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): string {
-  // Bytes, not characters: a UTF-8 file of maxFileBytes characters has at most four bytes a character.
-  const read = readBounded(path, { maxBytes: maxFileBytes * 4 });
-  if (!read.ok) throw new UsageError(`cannot read '${escapeText(path)}': ${read.refusal.message}`);
-  return read.data.toString('utf8');
 }
 
 function expand(args: string[], io: Io): number {
