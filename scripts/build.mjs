@@ -20,6 +20,7 @@ const common = {
 
 const entries = [
   { in: 'server/src/cli/main.ts', out: 'dist/cli.js', banner: '#!/usr/bin/env node' },
+  { in: 'server/src/api/engine.ts', out: 'dist/engine.js' },
   { in: 'server/src/lsp/main.ts', out: 'dist/server.js' },
   { in: 'server/src/lsp/worker.ts', out: 'dist/worker.js' },
   { in: 'client/src/extension.ts', out: 'dist/extension.js', external: ['vscode'] },

@@ -12,7 +12,11 @@ import { lineTable } from '../analysis/positions';
 import { escapeText } from './escape';
 import { readBounded, walkTree, type Refusal } from './files';
 import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { assertWritable, outPathOption, writeOutput } from './outfile';
+import { analysedRecord, refusedRecord, type FileRecord } from './records';
 import { renderDiagnostic } from './render';
+import { renderJunit } from './junit';
+import { renderSarif } from './sarif';
 
 /** The `.qstate` files under `targets` and the entries refused on the way. */
 export function findQstateFiles(targets: readonly string[]): { files: string[]; refused: Refusal[] } {
@@ -31,11 +35,14 @@ interface Tally {
   files: number;
   errors: number;
   warnings: number;
+  /** One record a file, for the report files. */
+  records: FileRecord[];
 }
 
 /** One finding line; `name` is escaped here, the message by the output channel. */
-function line(io: Io, tally: Tally, name: string, severity: 'error' | 'warning', code: string, message: string): void {
+function line(io: Io, tally: Tally, name: string, severity: 'error' | 'warning', code: FileRecord['findings'][number]['code'], message: string): void {
   io.out(`${escapeText(name)}:1:1: ${severity}[${code}]: ${message}\n`);
+  tally.records.push(refusedRecord(name, severity, code, message));
   if (severity === 'error') tally.errors++;
   else tally.warnings++;
 }
@@ -66,6 +73,7 @@ function checkFile(io: Io, tally: Tally, f: string, limits: Partial<Limits>): vo
   const text = read.data.toString('utf8');
   const result = analyseBounded(text, { limits });
   const lines = lineTable(text);
+  tally.records.push(analysedRecord(f, text, result, lines));
   for (const d of result.diagnostics) {
     io.out(renderDiagnostic(escapeText(f), d, lines) + '\n');
     if (d.severity === 'error') tally.errors++;
@@ -78,7 +86,7 @@ function plural(n: number, word: string): string {
 }
 
 /** The summary line of `check` (standard error). */
-export function summaryLine(t: Tally): string {
+export function summaryLine(t: Omit<Tally, 'records'>): string {
   if (t.files === 0) return `eigenspan check: no .qstate files found${t.warnings + t.errors > 0 ? ` (${plural(t.errors, 'error')}, ${plural(t.warnings, 'warning')})` : ''}.`;
   if (t.errors === 0 && t.warnings === 0) return `eigenspan check: ${plural(t.files, 'file')}, no errors or warnings: all clean.`;
   return `eigenspan check: ${plural(t.files, 'file')}, ${plural(t.errors, 'error')}, ${plural(t.warnings, 'warning')}.`;
@@ -91,16 +99,22 @@ export function summaryLine(t: Tally): string {
 export function check(args: string[], io: Io, progress: (s: string) => void): number {
   const targets: string[] = [];
   const limits: Partial<Limits> = {};
+  const reports: { sarif?: string; junit?: string } = {};
+  let force = false;
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
+    if (a === '--sarif' || a === '--junit') reports[a === '--sarif' ? 'sarif' : 'junit'] = outPathOption(a, args[++i]);
+    else if (a === '--force') force = true;
+    else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
     else if (a.startsWith('-')) throw new UsageError(`unknown option '${a}' for check`);
     else targets.push(a);
   }
   if (targets.length === 0) throw new UsageError('check needs at least one file or folder');
+  if (reports.sarif !== undefined && reports.sarif === reports.junit) throw new UsageError('--sarif and --junit need different files');
+  for (const p of [reports.sarif, reports.junit]) if (p !== undefined) assertWritable(p, force);
   const { files, refused } = findQstateFiles(targets);
-  const tally: Tally = { files: files.length, errors: 0, warnings: 0 };
+  const tally: Tally = { files: files.length, errors: 0, warnings: 0, records: [] };
   for (const r of refused) reportRefusal(io, tally, r);
   const showProgress = io.isTTY && files.length > 3;
   files.forEach((f, i) => {
@@ -108,6 +122,8 @@ export function check(args: string[], io: Io, progress: (s: string) => void): nu
     checkFile(io, tally, f, limits);
   });
   if (showProgress) progress('\r\x1b[K');
+  if (reports.sarif !== undefined) writeOutput(reports.sarif, renderSarif(tally.records), force);
+  if (reports.junit !== undefined) writeOutput(reports.junit, renderJunit(tally.records), force);
   io.err(summaryLine(tally) + '\n');
   return tally.errors > 0 ? 1 : 0;
 }

@@ -3,19 +3,23 @@
  *
  *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
  *                    [--time-limit MS] [--limit NAME=N]...
- *   eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
+ *   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force] [--time-limit MS] [--limit NAME=N]...
+ *   eigenspan diff OLD NEW | FILE --rev REV [--tolerance T]
+ *   eigenspan summary FILE
  *   eigenspan demo [FOLDER]
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
-import { existsSync, statSync, writeFileSync } from 'node:fs';
 import { relative } from 'node:path';
 import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
 import { escapeJson, escapeLines, escapeText } from './escape';
-import { readBounded } from './files';
+import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { readText } from './readtext';
 import { renderCsv, renderJson, renderTable } from './render';
+import { DEFAULT_TOLERANCE } from './diff';
+import { diff, summary } from './vcs';
 
 const USAGE = `Usage:
   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
@@ -31,11 +35,24 @@ const USAGE = `Usage:
                  and partial results (default 10000)
       --limit NAME=N   raise or lower one cap (repeatable); NAME and its range:
 ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padEnd(20)}${String(DEFAULT_LIMITS[k as keyof Limits]).padStart(8)} (${lo} to ${hi})`).join('\n')}
-  eigenspan check FILE|FOLDER... [--time-limit MS] [--limit NAME=N]...
+  eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force]
+                  [--time-limit MS] [--limit NAME=N]...
       Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE, one a line, and a
       summary line (files, errors, warnings) on standard error. Folders are searched for
       .qstate files; links are followed only inside the folder, and anything that is not a
       regular file is skipped with a warning. Exit 1 when an error or a failed expect is found.
+      --sarif PATH  also write the findings as a SARIF 2.1.0 log to PATH
+      --junit PATH  also write JUnit XML to PATH: each expect line a test case, each other
+                    error a failing one; both options may be given, and neither replaces an
+                    existing file unless --force is given
+  eigenspan diff OLD NEW [--tolerance T] | eigenspan diff FILE --rev REV [--tolerance T]
+      Print what changed in the physics from OLD to NEW (or from FILE at git revision REV to
+      FILE now): level populations and energies, captured weight, energy mean and spread,
+      parity, and findings that appeared (+) or disappeared (-). Exit 1 when anything changed.
+      --tolerance T  weights count as changed beyond T (absolute), energies beyond T
+                 relative (default ${DEFAULT_TOLERANCE})
+  eigenspan summary FILE
+      Print the physics of FILE as stable, rounded lines, for git's textconv (README.md).
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan --help
@@ -76,17 +93,13 @@ function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
       return check(rest, io, raw);
     case 'demo':
       return demo(rest, io);
+    case 'summary':
+      return summary(rest, io);
+    case 'diff':
+      return diff(rest, io);
     default:
       throw new UsageError(`unknown command '${cmd}'; try 'eigenspan --help'`);
   }
-}
-
-/** Reads one file named on the command line under the file rules (files.ts); refusals are usage errors. */
-function readText(path: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): string {
-  // Bytes, not characters: a UTF-8 file of maxFileBytes characters has at most four bytes a character.
-  const read = readBounded(path, { maxBytes: maxFileBytes * 4 });
-  if (!read.ok) throw new UsageError(`cannot read '${escapeText(path)}': ${read.refusal.message}`);
-  return read.data.toString('utf8');
 }
 
 function expand(args: string[], io: Io): number {
@@ -98,11 +111,8 @@ function expand(args: string[], io: Io): number {
   const limits: Partial<Limits> = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--out') {
-      const p = args[++i];
-      if (p === undefined || p.startsWith('-')) throw new UsageError('--out needs a file path');
-      outPath = p;
-    } else if (a === '--force') force = true;
+    if (a === '--out') outPath = outPathOption('--out', args[++i]);
+    else if (a === '--force') force = true;
     else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
     else if (a === '--json') format = 'json';
@@ -118,22 +128,13 @@ function expand(args: string[], io: Io): number {
   }
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
-  if (outPath !== null && !force && existsSync(outPath)) throw new UsageError(`'${escapeText(outPath)}' exists; add --force to overwrite it`);
-  // Even with --force only a regular file is replaced: writing to a FIFO would block, to a device stream.
-  if (outPath !== null && existsSync(outPath) && !statSync(outPath).isFile()) throw new UsageError(`'${escapeText(outPath)}' is not a regular file`);
+  if (outPath !== null) assertWritable(outPath, force);
   const text = readText(file, limits.maxFileBytes);
   const result = analyseBounded(text, { defaultBasis: basis, limits });
   const shown = escapeText(file);
   const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, shown);
-  if (outPath !== null) {
-    try {
-      writeFileSync(outPath, escapeLines(rendered), { flag: force ? 'w' : 'wx' });
-    } catch (e) {
-      const code = (e as NodeJS.ErrnoException).code;
-      const where = escapeText(outPath);
-      throw new UsageError(code === 'EEXIST' ? `'${where}' exists; add --force to overwrite it` : `cannot write '${where}': ${code ?? 'error'}`);
-    }
-  } else io.out(rendered);
+  if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
+  else io.out(rendered);
   return result.diagnostics.some((d) => d.severity === 'error') ? 1 : 0;
 }
 
