@@ -1,8 +1,9 @@
 /**
  * Grid refinement of the potential solver (potential.ts): solves at growing sizes until two agree on
  * every level, with a Richardson step when convergence is algebraic. Every size follows from V, the
- * levels and the options alone (flop counts against the work cap, never a measured time); the budget
- * is polled before each solve, and only an expired budget stops the climb early (`stopped`).
+ * levels and the options alone (flop counts against the work cap, never a measured time). Before each
+ * solve the budget is asked whether it has run out or would run out during that solve (its work at the
+ * last solve's measured rate); only then does the climb stop early, and `stopped` says 'time'.
  */
 import type { Budget, StopReason } from './budget';
 import type { PotentialFn } from './potential';
@@ -26,6 +27,8 @@ export interface RefineSetup {
   /** Largest grid allowed (grid cap and work cap), and the words for it. */
   cap: number;
   capWhy: string;
+  /** The last solve's cost on the budget's clock and in counted work (set by `solveAt`; see `wouldOverrun`). */
+  lastSolve?: { ms: number; work: number };
 }
 
 /** The outcome of `refine`. */
@@ -69,6 +72,34 @@ function clampedV(s: RefineSetup, xs: Float64Array, wall: number): Float64Array 
  * Null when V fails on the grid.
  */
 function solveAt(s: RefineSetup, N: number): SineDvrSolution | null {
+  const t0 = s.budget.clock.now();
+  const w0 = s.budget.work.ops;
+  const sol = solveOnce(s, N);
+  s.lastSolve = { ms: s.budget.clock.now() - t0, work: s.budget.work.ops - w0 };
+  return sol;
+}
+
+/**
+ * True when the budget has run out, or when the solve of N intervals would end past the deadline: its
+ * counted work scaled by the last solve's measured rate. The clock decides only whether to stop at the
+ * time limit (and the result then says `stopped: 'time'`), never what size a finished solve has, so a
+ * result that is not stopped is the same on any machine.
+ */
+function wouldOverrun(s: RefineSetup, N: number): boolean {
+  if (s.budget.expired()) return true;
+  const last = s.lastSolve;
+  const left = s.budget.remaining();
+  if (!last || !Number.isFinite(left) || last.work <= 0) return false;
+  const work = sineDvrWork(N, s.scan.symmetric);
+  return (last.ms * work) / last.work > left;
+}
+
+/** Why `wouldOverrun` stopped the climb: the budget's own reason, or the time limit it would have hit. */
+function overrunReason(s: RefineSetup): StopReason {
+  return s.budget.reason ?? 'time';
+}
+
+function solveOnce(s: RefineSetup, N: number): SineDvrSolution | null {
   const { a, b, mass, scan } = s;
   const L = b - a;
   const wall = Math.max(scan.vmaxFinite, scan.vmin + (4 * (Math.PI * N) ** 2) / (2 * mass * L * L));
@@ -147,11 +178,11 @@ export function refine(s: RefineSetup, N0: number): Refined {
   let prevOrder: number | null = null;
   let prevN = N0;
   while (c.N < s.cap) {
-    if (s.budget.expired()) {
-      c.expired = s.budget.reason;
+    const N1 = Math.min(s.cap, Math.ceil(c.N * s.growth));
+    if (wouldOverrun(s, N1)) {
+      c.expired = overrunReason(s);
       break;
     }
-    const N1 = Math.min(s.cap, Math.ceil(c.N * s.growth));
     const next = solveAt(s, N1);
     if (!next) return { ...c, sol: null };
     c.sizes.push(N1);
@@ -191,8 +222,8 @@ function richardsonStep(s: RefineSetup, c: Climb, p: number, need: number, outOf
     c.capNote = `Energies converge as about N^-${p.toFixed(1)}; the tolerance would need about ${Math.ceil(need)} grid points, over ${s.capWhy}; stopped at ${Math.max(c.N, Nf)}.`;
   }
   if (!(Nf > c.N)) return;
-  if (s.budget.expired()) {
-    c.expired = s.budget.reason;
+  if (wouldOverrun(s, Nf)) {
+    c.expired = overrunReason(s);
     return;
   }
   const fin = solveAt(s, Nf);
@@ -234,8 +265,8 @@ function jumpClimb(s: RefineSetup, N0: number): Refined {
   const envelope = Math.pow(s.growth, JUMP_ORDER + 1);
   let best: Refined = { sol: coarse, ...none, capped: N0 >= s.cap };
   while (N < s.cap) {
-    if (s.budget.expired()) return { ...best, expired: s.budget.reason };
     const N1 = Math.min(s.cap, Math.ceil(N * s.growth));
+    if (wouldOverrun(s, N1)) return { ...best, expired: overrunReason(s) };
     const fine = solveAt(s, N1);
     if (!fine) return { ...best, sol: null };
     sizes.push(N1);
