@@ -10,7 +10,6 @@ import { signatureAt } from '../../server/src/lsp/signature';
 import { namesIn, occurrences } from '../../server/src/lsp/syntax';
 import { readSettings, DEFAULT_SETTINGS } from '../../server/src/lsp/settings';
 import { fmt, fmtPhase } from '../../server/src/lsp/format';
-import { letValues } from '../../server/src/lsp/letValues';
 import { quickFixes } from '../../server/src/lsp/actions';
 import { toLspDiagnostics } from '../../server/src/lsp/diagnostics';
 
@@ -115,8 +114,7 @@ describe('quick fixes', () => {
 
 describe('let values and formatting', () => {
   it('shows lengths in the file unit, energies in the energy unit, inverse lengths as powers of the length unit', () => {
-    const s = analyseStatic('units nm, meV\nlet w = 2 nm\nlet d = 0.3 eV\nlet k = 2 / nm\nlet r = 3\n');
-    const vals = letValues(s.file, 40);
+    const vals = analyse('units nm, meV\nlet w = 2 nm\nlet d = 0.3 eV\nlet k = 2 / nm\nlet r = 3\n').values!;
     // 0.3 eV = 300 meV (SI prefixes, common practice).
     expect(vals.map((v) => [v.name, Number(v.re.toPrecision(12)), v.unit])).toEqual([['w', 2, 'nm'], ['d', 300, 'meV'], ['k', 2, 'nm^-1'], ['r', 3, null]]);
   });

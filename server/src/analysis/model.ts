@@ -77,11 +77,6 @@ export interface ModelOptions {
   /** Longest expression and deepest bracket nesting the sandbox parses (its own defaults when absent). */
   maxExpressionLength?: number;
   maxNesting?: number;
-  /**
-   * Ignored: the model always evaluates (untrusted files go through `analyseUntrusted`, which builds
-   * no model). Accepted until the language server stops passing it.
-   */
-  evaluate?: boolean;
 }
 
 

@@ -7,7 +7,6 @@ import { parentPort } from 'node:worker_threads';
 import { analyse } from '../analysis/index';
 import type { AnalyseJob, WorkerReply } from './workerMessages';
 import { runTestHook } from './testHooks';
-import { letValues } from './letValues';
 
 function reply(message: WorkerReply): void {
   parentPort?.postMessage(message);
@@ -21,8 +20,6 @@ function run(job: AnalyseJob): void {
       if (runTestHook(job.text, job.id, cancelled)) return reply({ type: 'cancelled', id: job.id });
     }
     const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled, limits: { ...job.limits, maxMillis: job.maxMillis } });
-    // Until the engine fills `values` itself (AnalysisResult.values), the model stage runs again here.
-    if (result.values === undefined && result.file) result.values = letValues(result.file, job.defaultBasis, job.limits);
     if (cancelled()) reply({ type: 'cancelled', id: job.id });
     else reply({ type: 'done', id: job.id, result });
   } catch (e) {
