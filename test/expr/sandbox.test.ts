@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import * as mathjs from 'mathjs';
-import { ALLOWED_FUNCTIONS, DEFAULT_PARSE_OPTIONS, parseExpression, sandboxConfig } from '../../server/src/expr/sandbox';
+import { BUILTINS } from '../../server/src/expr/builtins/table';
+import { DEFAULT_PARSE_OPTIONS, parseExpression, sandboxConfig } from '../../server/src/expr/sandbox';
 import type { Expr } from '../../server/src/expr/types';
 
 /** The configuration of mathjs's default instance (its declared types omit the function). */
@@ -247,7 +248,7 @@ describe('ranges of the tree are exact', () => {
       return seed / 4294967296;
     };
     const atoms = ['x', 'pi', '3', '0.25', '1.5e-3', 'k_1', 'nm', '\u00B5m'];
-    const fns = ALLOWED_FUNCTIONS.filter((f) => f.minArgs === 1 && f.name !== 'phi').map((f) => f.name);
+    const fns = BUILTINS.filter((f) => f.minArgs === 1 && f.name !== 'phi').map((f) => f.name);
     // Builds text and the expected pre-order (type, text) list together; compound children are bracketed.
     const gen = (depth: number): { text: string; list: [string, string][] } => {
       if (depth === 0 || rnd() < 0.25) {
