@@ -36,6 +36,7 @@ function invariants(text: string) {
     expect(d.end).toBeLessThanOrEqual(text.length);
     expect(d.code in CATALOGUE).toBe(true);
     expect(['syntax', 'name']).toContain(d.code);
+    // Wording on purpose: an internal parser error has no code of its own, only its sentence.
     expect(d.message).not.toMatch(/Internal parser error/);
   }
   let last = 0;
