@@ -1,13 +1,16 @@
 /**
- * Helpers for data-driven analysis tests.
- * A fixture marks expected diagnostics inline with comment lines under the text they point at:
+ * Helpers for data-driven analysis tests, and the one marker dialect of every fixture in test/ (the
+ * engine's fixtures under test/fixtures/diagnostics, the LSP fixture test and the parser's inline
+ * fixtures in test/language/check.ts). A fixture marks expected diagnostics with comment lines under
+ * the text they point at:
  *
  *   state psi(x) = 2 sin(pi x)
  *   #              ^^^^^^^^^^^ norm
  *
- * The carets give the exact columns on the line above (the `#` is column 0; a run written right after
- * the `#`, as in `#^^^^ code`, starts at column 0 and counts the `#` as its first caret); the word
- * after them is the diagnostic code. A marker `#! code` asserts a diagnostic with that code anywhere in the file.
+ * The carets give the exact columns on the nearest line above that is not a marker (the `#` is column
+ * 0; a run written right after the `#`, as in `#^^^^ code`, starts at column 0 and counts the `#` as
+ * its first caret); the word after them is the diagnostic code. A marker `#! code` asserts a
+ * diagnostic with that code anywhere in the file.
  */
 import { analyse, type AnalyseOptions } from '../../server/src/analysis/index';
 import type { AnalysisResult } from '../../server/src/analysis/types';
@@ -19,32 +22,51 @@ export interface Expected {
   end?: number;
 }
 
-/** Reads the inline markers of a fixture. */
-export function markers(text: string): Expected[] {
-  const lines = text.split('\n');
-  const starts: number[] = [];
-  let off = 0;
-  for (const l of lines) {
-    starts.push(off);
-    off += l.length + 1;
-  }
-  const out: Expected[] = [];
-  let target = -1;
-  lines.forEach((line, i) => {
-    const m = /^#(\s*)(\^+)\s+([a-z]+)\s*$/.exec(line);
-    const anywhere = /^#!\s*([a-z]+)\s*$/.exec(line);
-    if (m && target >= 0) {
+const MARKER = /^#([ \t]*)(\^+)[ \t]+([a-z]+)[ \t]*$/;
+const ANYWHERE = /^#!\s*([a-z]+)\s*$/;
+
+/** True for a marker line (a caret marker or `#! code`). */
+export function isMarker(line: string): boolean {
+  return MARKER.test(line) || ANYWHERE.test(line);
+}
+
+/**
+ * Reads the markers of `source`. With `strip`, the marker lines are removed and the other lines joined
+ * by `eol`, so the text under test is exactly the marked text; the offsets are then offsets into that
+ * text. Without it the text is `source` itself (markers are comments of the format).
+ */
+export function readMarkers(source: string, options: { strip?: boolean; eol?: string } = {}): { text: string; expected: Expected[] } {
+  const strip = options.strip === true;
+  const eol = strip ? (options.eol ?? '\n') : '\n';
+  const lines = source.split('\n');
+  const targets: { start: number; length: number }[] = [];
+  const expected: Expected[] = [];
+  let offset = 0;
+  for (const line of lines) {
+    const m = MARKER.exec(line);
+    const anywhere = ANYWHERE.exec(line);
+    if (m) {
+      const target = targets.at(-1);
+      if (target === undefined) throw new Error(`marker with no line above: ${line}`);
       // A caret run right after the '#' starts at column 0: the '#' itself counts as its first caret.
       const col = m[1]!.length === 0 ? 0 : 1 + m[1]!.length;
       const len = m[1]!.length === 0 ? m[2]!.length + 1 : m[2]!.length;
-      out.push({ code: m[3]!, start: starts[target]! + col, end: starts[target]! + col + len });
+      if (col + len > target.length) throw new Error(`marker past the end of its line: ${line}`);
+      expected.push({ code: m[3]!, start: target.start + col, end: target.start + col + len });
     } else if (anywhere) {
-      out.push({ code: anywhere[1]! });
-    } else if (!line.startsWith('#')) {
-      target = i;
+      expected.push({ code: anywhere[1]! });
+    } else {
+      targets.push({ start: offset, length: line.length });
     }
-  });
-  return out;
+    // Stripped markers take no room in the text; kept ones are comments that do.
+    if (!(strip && (m || anywhere))) offset += line.length + eol.length;
+  }
+  return { text: strip ? lines.filter((l) => !isMarker(l)).join(eol) : source, expected };
+}
+
+/** Reads the inline markers of a fixture (the markers stay in the text, as comments). */
+export function markers(text: string): Expected[] {
+  return readMarkers(text).expected;
 }
 
 /**

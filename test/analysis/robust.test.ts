@@ -19,6 +19,8 @@ function sound(text: string): void {
     expect(d.start).toBeGreaterThanOrEqual(0);
     expect(d.end).toBeLessThanOrEqual(text.length);
     expect(d.start).toBeLessThanOrEqual(d.end);
+    // Wording on purpose: an internal error has no code of its own (it is an 'evaluation' finding on the
+    // first character), so its sentence is the only mark of it.
     expect(d.message).not.toMatch(/internal error/);
     expect(d.message.length).toBeGreaterThan(10);
   }

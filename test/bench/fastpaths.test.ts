@@ -5,7 +5,8 @@ import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
 import { analyse } from '../../server/src/analysis/index';
 import { potentialBasis } from '../../server/src/physics/potential';
 import { matrixElements } from '../../server/src/physics/evolution';
-import { basisMemoSize, clearBasisMemo } from '../../server/src/analysis/systems';
+import { clearBasisMemo } from '../../server/src/analysis/systems';
+import { manualClock } from '../../server/src/physics/budget';
 
 describe('fast paths give the same numbers as the plain paths', () => {
   it('box: fused weighted sums equal the table projection', () => {
@@ -61,33 +62,47 @@ describe('closed-form matrix elements of numerical bases', () => {
 });
 
 describe('memo of numerical bases', () => {
+  // Observed through the work an analysis counts on its budget (AnalysisResult.work): a remembered basis
+  // is not solved again, so only the projection's work is counted. The clock stands still, so the time
+  // limit never cuts a solve short and the counts depend on the memo alone.
+  const frozen = () => ({ clock: manualClock(0) });
+  const ops = (text: string) => analyse(text, frozen()).work!.ops;
   const file = (state: string, depth = 16) => `system V(x) = (x^2 - 4)^2 / ${depth} over [-6, 6]\nstate ${state}\nbasis 12\n`;
 
   it('reuses the basis when only the state changes, with the same results as a cold analysis', () => {
     clearBasisMemo();
-    analyse(file('gaussian(center = -2, width = 0.5)'));
-    expect(basisMemoSize()).toBe(1);
-    const warm = analyse(file('gaussian(center = -1.5, width = 0.6)'));
-    expect(basisMemoSize()).toBe(1);
+    const cold = ops(file('gaussian(center = -2, width = 0.5)'));
+    const warmText = file('gaussian(center = -1.5, width = 0.6)');
+    const warmRun = analyse(warmText, frozen());
+    const warm = warmRun.work!.ops;
+    // The projection's work depends on the grid, not on the state: every reuse counts the same.
+    expect(ops(file('gaussian(center = -2, width = 0.5)'))).toBe(warm);
+    // The solve's work is gone (measured: 111,112 ops cold against 12,480 warm).
+    expect(warm).toBeLessThan(cold);
     clearBasisMemo();
-    const cold = analyse(file('gaussian(center = -1.5, width = 0.6)'));
-    expect(warm.levels.length).toBe(12);
-    expect(warm.levels.map((l) => [l.energy, l.re, l.im])).toEqual(cold.levels.map((l) => [l.energy, l.re, l.im]));
+    const coldRun = analyse(warmText, frozen());
+    // Cold again, the second state counts exactly the first one's cold work: the same solve and projection.
+    expect(coldRun.work!.ops).toBe(cold);
+    expect(warmRun.levels.length).toBe(12);
+    expect(warmRun.levels.map((l) => [l.energy, l.re, l.im])).toEqual(coldRun.levels.map((l) => [l.energy, l.re, l.im]));
   });
 
   it('tells potentials apart by the values of the names they use, and stays bounded', () => {
     clearBasisMemo();
     const withLet = (d: number) => `let D = ${d}\nsystem V(x) = (x^2 - 4)^2 / D over [-6, 6]\nstate gaussian(center = -2, width = 0.5)\nbasis 6\n`;
-    const a = analyse(withLet(16));
-    const first = basisMemoSize();
-    // The same file again adds nothing; another value of D is a new potential (the basis check may
-    // also solve larger bases, each remembered under its own level count).
-    analyse(withLet(16));
-    expect(basisMemoSize()).toBe(first);
-    const b = analyse(withLet(8));
-    expect(basisMemoSize()).toBeGreaterThan(first);
+    const a = analyse(withLet(16), frozen());
+    const cold = a.work!.ops;
+    // The same file again is a reuse; another value of D is a new potential, solved anew (measured: about
+    // 2e8 ops cold against 3e5 warm; this basis check solves larger bases too).
+    const warm = ops(withLet(16));
+    expect(warm).toBeLessThan(cold / 100);
+    const b = analyse(withLet(8), frozen());
+    expect(b.work!.ops).toBeGreaterThan(100 * warm);
     expect(a.levels[0]!.energy).not.toBe(b.levels[0]!.energy);
-    for (let d = 1; d <= 10; d++) analyse(withLet(d + 20));
-    expect(basisMemoSize()).toBe(8);
+    // Ten more potentials: the memo (8 entries) forgets the oldest, so D = 16 is solved again and counts
+    // its cold work exactly, while the most recent one is still remembered.
+    for (let d = 1; d <= 10; d++) analyse(withLet(d + 20), frozen());
+    expect(ops(withLet(30))).toBe(warm);
+    expect(ops(withLet(16))).toBe(cold);
   });
 });

@@ -95,14 +95,13 @@ describe('eigenspan expand --out', () => {
 describe('eigenspan --time-limit', () => {
   it('stops a slow analysis at the limit with a limits finding and partial results', () => {
     const p = file('slow.qstate', 'system V(x) = x^4 over [-6, 6]\nstate gaussian(center = 0.5, width = 0.5)\nbasis 800\n');
-    const t0 = performance.now();
     const r = run(['expand', p, '--json', '--time-limit', '300']);
-    const ms = performance.now() - t0;
     const j = JSON.parse(r.out);
-    expect(j.diagnostics.some((d: { code: string }) => d.code === 'limits')).toBe(true);
+    // The limit fired (its finding on the first line) and the results are partial: fewer levels than the
+    // 800 asked for. The full analysis takes tens of seconds; nothing here is timed.
+    expect(j.diagnostics.some((d: { code: string; line: number }) => d.code === 'limits' && d.line === 1)).toBe(true);
+    expect(j.levels.length).toBeLessThan(800);
     expect(r.code).toBe(1);
-    // Generous: node's start-up and the first solve count too; the full analysis takes tens of seconds.
-    expect(ms).toBeLessThan(15_000);
     expect(run(['check', p, '--time-limit', 'soon']).code).toBe(2);
   });
 });

@@ -75,7 +75,6 @@ describe('walkTree', () => {
       [join(d, 'pipe.qstate'), 'not-regular'],
       [join(d, 'zero.qstate'), 'outside'],
     ]);
-    expect(r.refused[0]!.message).toMatch(/FIFO/);
   });
 
   it('reports a missing root and a dangling link, and takes a single file root as given', () => {

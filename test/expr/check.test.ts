@@ -50,12 +50,14 @@ describe('dimension analysis (physical mode, units nm, meV)', () => {
   it('names both dimensions on the range of the expression', () => {
     const r = check('2 nm', phys(), DIM.energy, 'the potential');
     expect(r.found).toEqual([['units', '2 nm']]);
+    // Wording on purpose: naming both dimensions in words is the feature under test.
     expect(r.messages[0]).toContain('expected an energy, found a length');
   });
 
   it('says a bare number needs a unit', () => {
     const r = check('5', phys(), DIM.length, "the box's left end");
     expect(r.found).toEqual([['units', '5']]);
+    // Wording on purpose: the sentence names the quantity that needs the unit.
     expect(r.messages[0]).toContain('needs a unit');
     expect(r.messages[0]).toContain("The box's left end");
   });

@@ -16,10 +16,11 @@ const examples = readdirSync(examplesDir)
 const fixturesDir = join(root, 'test', 'fixtures', 'fuzz');
 const fixtures = existsSync(fixturesDir) ? readdirSync(fixturesDir).filter((f) => f.endsWith('.json')).sort() : [];
 
-// This file guards against regressions (exceptions, ranges, messages, numbers, hangs) in a loaded CI run,
-// so its per-case budget only catches hangs; `npm run fuzz` holds every case to 2 s on its own machine
-// share (the analyses run under a 1.5 s time limit there) and reports the slowest.
-const CI_BUDGET_MS = 30_000;
+// This file guards against regressions (exceptions, ranges, messages, numbers, hangs) in a loaded CI run.
+// Nothing in it is timed: a hang fails by the runner's time-out of the test, and the per-case time budget
+// is off here (Infinity). `npm run fuzz` (scripts/fuzz.mjs) is the measuring run: it holds every case to
+// 2 s on its own machine share (the analyses run under a 1.5 s time limit there) and reports the slowest.
+const CI_BUDGET_MS = Infinity;
 
 function describeFailure(c: FuzzCase, problems: string[]): string {
   return `${c.kind} (${c.origin}):\n  ${problems.join('\n  ')}\n--- text ---\n${c.text}`;

@@ -9,6 +9,8 @@ import { spawnSync } from 'node:child_process';
 import { chmodSync, existsSync, mkdirSync, mkdtempSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { numbersIn } from './helpers';
+import { DEFAULT_LIMITS } from '../../server/src/analysis/index';
 
 const cli = join(__dirname, '..', '..', 'dist', 'cli.js');
 
@@ -34,21 +36,26 @@ describe('check over a folder with bad entries', () => {
       writeFileSync(join(dir, 'notes.txt'), 'not a qstate file');
 
       const r = check(dir);
-      // The summary on standard error: five .qstate files (the dangling link is refused, not counted).
+      // The summary on standard error: five .qstate files (the dangling link is refused, not counted). Its
+      // wording is the documented format (docs/format.md), so it is matched as words.
+      // Finding lines are matched by FILE:LINE:COL: SEVERITY[CODE] and the values they name, not wording.
       expect(r.err).toMatch(/^eigenspan check: 5 files, \d+ errors?, \d+ warnings?\.\n$/);
       expect(r.code).toBe(1);
       const line = (name: string) => r.lines.filter((l) => l.includes(name));
       // Each bad entry on its own FILE:1:1 line, with a code.
-      expect(line('b-binary.qstate')).toEqual([`${join(dir, 'b-binary.qstate')}:1:1: error[syntax]: The file is binary, not a .qstate text file.`]);
-      expect(line('c-huge.qstate')[0]).toMatch(/:1:1: error\[limits\]: The file is 1100000 bytes, above the limit of \d+\.$/);
+      expect(line('b-binary.qstate')).toHaveLength(1);
+      expect(line('b-binary.qstate')[0]!.startsWith(`${join(dir, 'b-binary.qstate')}:1:1: error[syntax]: `)).toBe(true);
+      expect(line('c-huge.qstate')[0]).toMatch(/:1:1: error\[limits\]: /);
+      // The measured size and the cap (DEFAULT_LIMITS.maxFileBytes).
+      expect(numbersIn(line('c-huge.qstate')[0]!.split('error[limits]: ')[1]!)).toEqual(expect.arrayContaining([1_100_000, DEFAULT_LIMITS.maxFileBytes]));
       // A dangling link is refused by the file rules: a warning, so it alone would not fail the run.
-      expect(line('d-dangling.qstate')[0]).toMatch(/:1:1: warning\[limits\]: Not checked: a broken link\.$/);
+      expect(line('d-dangling.qstate')[0]).toMatch(/:1:1: warning\[limits\]: /);
       // The readable files are still checked: the good one has no error, the bad one a name error on line 2.
       expect(line('a-good.qstate').some((l) => /error/.test(l))).toBe(false);
       expect(line('g-bad.qstate').some((l) => /:2:\d+: error\[name\]/.test(l))).toBe(true);
       // The locked file is either read (root) or reported; either way it has a line or no error of its own.
       const lockedLines = line('e-locked.qstate');
-      if (lockedLines.some((l) => /error\[limits\]/.test(l))) expect(lockedLines[0]).toMatch(/Cannot read the file/);
+      if (lockedLines.some((l) => /error\[limits\]/.test(l))) expect(lockedLines[0]).toMatch(/e-locked\.qstate:1:1: error\[limits\]: /);
       // Nothing but .qstate files is looked at.
       expect(line('notes.txt')).toEqual([]);
       for (const l of r.lines) expect(l).toMatch(/^.+:\d+:\d+: (error|warning|info)\[[a-z]+\]: [A-Z'`|0-9].*[.?]$/);
@@ -65,7 +72,7 @@ describe('check over a folder with bad entries', () => {
       writeFileSync(good, 'system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\n');
       const r = check(join(dir, 'nope'), good);
       expect(r.code).toBe(1);
-      expect(r.lines[0]).toMatch(/nope:1:1: error\[limits\]: Cannot check it: no such file or folder\.$/);
+      expect(r.lines[0]).toMatch(/nope:1:1: error\[limits\]: /);
       expect(r.lines.some((l) => l.startsWith(good))).toBe(true);
     } finally {
       rmSync(dir, { recursive: true, force: true });

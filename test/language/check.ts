@@ -1,21 +1,18 @@
 /**
- * Data-driven checks for the parser.
- *
- * A fixture is `.qstate` text with annotation lines under the lines they describe:
+ * Data-driven checks for the parser, in the one marker dialect of the fixtures (test/analysis/helpers.ts):
  *
  * ```text
  * sytem box(0, 1)
- * ^^^^^ name
+ * #^^^^ name
  * ```
  *
- * An annotation line holds only white space, a run of `^` and a diagnostic code; the carets mark the
- * exact columns of the expected range on the nearest line above that is not an annotation.
- * Annotation lines (and one leading line break) are removed before parsing. Ranges that span lines are given separately as the
- * exact text they cover.
+ * Marker lines (and one leading line break) are removed before parsing, so the parsed text is exactly
+ * the marked one. Ranges that span lines are given separately as the exact text they cover.
  */
 import { expect } from 'vitest';
 import type { Code } from '../../server/src/language/catalogue';
 import { parse, type ParseResult } from '../../server/src/language/parser';
+import { isMarker, readMarkers } from '../analysis/helpers';
 
 /** An expected diagnostic: its code and exact document range. */
 export interface Expected {
@@ -24,33 +21,18 @@ export interface Expected {
   end: number;
 }
 
-const ANNOTATION = /^([ \t]*)(\^+)[ \t]+([a-z]+)[ \t]*$/;
-
-/** Strips annotation lines from `source` (lines joined by `eol`) and returns the text and expected ranges. */
-export function annotated(source: string, eol = '\n'): { text: string; expected: Expected[] } {
-  const out: string[] = [];
-  const offsets: number[] = [];
-  const expected: Expected[] = [];
-  let offset = 0;
+/** Strips the marker lines from `source` (lines joined by `eol`) and returns the text and expected ranges. */
+function annotated(source: string, eol = '\n'): { text: string; expected: Expected[] } {
   // A fixture written as a template literal starts with a line break; it is not part of the text.
   const body = source.startsWith('\n') ? source.slice(1) : source;
-  for (const line of body.split('\n')) {
-    const a = ANNOTATION.exec(line);
-    if (a !== null) {
-      const target = out.length - 1;
-      if (target < 0) throw new Error(`annotation with no line above: ${line}`);
-      const col = a[1]!.length;
-      const start = offsets[target]! + col;
-      const end = start + a[2]!.length;
-      if (col + a[2]!.length > out[target]!.length) throw new Error(`annotation past the end of its line: ${line}`);
-      expected.push({ code: a[3] as Code, start, end });
-      continue;
-    }
-    offsets.push(offset);
-    out.push(line);
-    offset += line.length + eol.length;
-  }
-  return { text: out.join(eol), expected };
+  const { text, expected } = readMarkers(body, { strip: true, eol });
+  return {
+    text,
+    expected: expected.map((e) => {
+      if (e.start === undefined || e.end === undefined) throw new Error(`a parser fixture needs a range for ${e.code}`);
+      return { code: e.code as Code, start: e.start, end: e.end };
+    }),
+  };
 }
 
 /** Extra expected ranges given as the exact text they cover (its first occurrence). */
@@ -86,7 +68,7 @@ export function checkEach(source: string, options: { eol?: string } = {}): void 
   const body = source.startsWith('\n') ? source.slice(1) : source;
   const cases: string[][] = [];
   for (const line of body.split('\n')) {
-    const starts = line.length > 0 && !ANNOTATION.test(line) && !/^[ \t]/.test(line);
+    const starts = line.length > 0 && !isMarker(line) && !/^[ \t]/.test(line);
     if (starts || cases.length === 0) cases.push([]);
     cases[cases.length - 1]!.push(line);
   }

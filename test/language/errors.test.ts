@@ -1,198 +1,199 @@
 import { describe, it, expect } from 'vitest';
 import { parse } from '../../server/src/language/parser';
 import { check, checkEach } from './check';
+import { numbersIn } from '../hardening/helpers';
 
 describe('syntax errors: exact ranges', () => {
   it('statements that do not start with a keyword', () => {
     checkEach(`
 42 nm
-^^ syntax
-= 3
-^ syntax
+#^ syntax
 `);
+    // A one-character range at column 0 cannot be drawn under a '#', so it is given as its text.
+    check('= 3', { extra: [{ code: 'syntax', text: '=' }] });
   });
 
   it('units', () => {
     checkEach(`
 units
-^^^^^ syntax
+#^^^^ syntax
 `);
     checkEach(`
 units nm meV
-         ^^^ syntax
+#        ^^^ syntax
 `);
     checkEach(`
 units nm, , ps
-          ^ syntax
+#         ^ syntax
 `);
     checkEach(`
 units nm, 3 eV
-          ^^^^ syntax
+#         ^^^^ syntax
 `);
   });
 
   it('mass, basis and let without a value', () => {
     checkEach(`
 mass
-^^^^ syntax
+#^^^ syntax
 basis   # nothing
-^^^^^ syntax
+#^^^^ syntax
 let
-^^^ syntax
+#^^ syntax
 let a
-    ^ syntax
+#   ^ syntax
 let a 3
-      ^ syntax
+#     ^ syntax
 let a == 3
-      ^ syntax
+#     ^ syntax
 let b =
-      ^ syntax
+#     ^ syntax
 let 3 = 4
-    ^ syntax
+#   ^ syntax
 `);
   });
 
   it('system: missing parts of the constructors', () => {
     checkEach(`
 system
-^^^^^^ syntax
+#^^^^^ syntax
 system box
-       ^^^ syntax
+#      ^^^ syntax
 system box 0, 1
-           ^ syntax
+#          ^ syntax
 system box(0, 1
-          ^ syntax
+#         ^ syntax
 system box(0, 1) extra
-                 ^^^^^ syntax
+#                ^^^^^ syntax
 system box(0, , 1)
-              ^ syntax
+#             ^ syntax
 system box(0,)
-            ^ syntax
+#           ^ syntax
 system box(0, 1, 2)
-                 ^ syntax
+#                ^ syntax
 system box(0)
-       ^^^^^^ syntax
+#      ^^^^^^ syntax
 system box()
-       ^^^^^ syntax
+#      ^^^^^ syntax
 `);
   });
 
   it('system: named-argument mistakes', () => {
     checkEach(`
 system well(2, 3)
-            ^ syntax
+#           ^ syntax
 system well(depth = 2)
-       ^^^^^^^^^^^^^^^ syntax
+#      ^^^^^^^^^^^^^^^ syntax
 system well( = 2, width = 1)
-             ^ syntax
+#            ^ syntax
 system well(depth =, width = 1)
-                  ^ syntax
+#                 ^ syntax
 system well(2 d = 2, width = 1)
-            ^^^ syntax
+#           ^^^ syntax
 system box(left = 0, 1)
-                     ^ syntax
+#                    ^ syntax
 system oscillator(center = 1)
-       ^^^^^^^^^^^^^^^^^^^^^^ syntax
+#      ^^^^^^^^^^^^^^^^^^^^^^ syntax
 system oscillator(omega = 1, quantum = 2)
-                             ^^^^^^^ syntax
+#                            ^^^^^^^ syntax
 `);
   });
 
   it('system V(x): malformed heads, missing over, bad ends', () => {
     checkEach(`
 system V(y) = y over [0, 1]
-         ^ syntax
+#        ^ syntax
 system V(x = x over [0, 1]
-           ^ syntax
+#          ^ syntax
 system V(x) x over [0, 1]
-            ^ syntax
+#           ^ syntax
 system V(x) == x over [0, 1]
-            ^ syntax
+#           ^ syntax
 system V(x) = over [0, 1]
-            ^ syntax
+#           ^ syntax
 system V(x) = x^2
-              ^^^ syntax
+#             ^^^ syntax
 system V(x) = x^2 over [0, 1
-                       ^ syntax
+#                      ^ syntax
 system V(x) = x^2 over [0, 1] more
-                              ^^^^ syntax
+#                             ^^^^ syntax
 system V(x) = x^2 over [0, 1, 2]
-                       ^^^^^^^^^ syntax
+#                      ^^^^^^^^^ syntax
 system V(x) = x^2 over [0,]
-                       ^^^^ syntax
+#                      ^^^^ syntax
 `);
   });
 
   it('state: malformed psi, eigen and gaussian', () => {
     checkEach(`
 state
-^^^^^ syntax
+#^^^^ syntax
 state psi = x
-          ^ syntax
+#         ^ syntax
 state psi(x) =
-             ^ syntax
+#            ^ syntax
 state eigen 1 of box(0, 1)
-            ^ syntax
+#           ^ syntax
 state eigen() of box(0, 1)
-           ^^ syntax
+#          ^^ syntax
 state eigen(1) box(0, 1)
-               ^^^ syntax
+#              ^^^ syntax
 state eigen(1) of
-               ^^ syntax
+#              ^^ syntax
 state eigen(1 of box(0, 1)
-           ^ syntax
+#          ^ syntax
 state gaussian(center = 0)
-      ^^^^^^^^^^^^^^^^^^^^ syntax
+#     ^^^^^^^^^^^^^^^^^^^^ syntax
 state gaussian(0, 1)
-               ^ syntax
+#              ^ syntax
 `);
   });
 
   it('expect: missing or malformed comparisons', () => {
     checkEach(`
 expect
-^^^^^^ syntax
+#^^^^^ syntax
 expect norm
-       ^^^^ syntax
+#      ^^^^ syntax
 expect norm 1
-            ^ syntax
+#           ^ syntax
 expect norm 1 +-
-              ^^ syntax
+#             ^^ syntax
 expect norm +- 1
-            ^^ syntax
+#           ^^ syntax
 expect norm > 1
-            ^ syntax
+#           ^ syntax
 expect energy >=
-              ^^ syntax
+#             ^^ syntax
 expect parity
-       ^^^^^^ syntax
+#      ^^^^^^ syntax
 expect parity even odd
-                   ^^^ syntax
+#                  ^^^ syntax
 expect parity evn
-              ^^^ syntax
+#             ^^^ syntax
 expect weight
-       ^^^^^^ syntax
+#      ^^^^^^ syntax
 expect weight 1..
-               ^^ syntax
+#              ^^ syntax
 expect weight 1..20
-                 ^^ syntax
+#                ^^ syntax
 expect weight >= 2
-              ^ syntax
+#             ^ syntax
 `);
   });
 
   it('evolve: missing parts', () => {
     checkEach(`
 evolve
-^^^^^^ syntax
+#^^^^^ syntax
 evolve 10 ps
-       ^^ syntax
+#      ^^ syntax
 evolve to
-       ^^ syntax
+#      ^^ syntax
 evolve to 10 ps steps
-                ^^^^^ syntax
+#               ^^^^^ syntax
 evolve to steps 3
-       ^^ syntax
+#      ^^ syntax
 `);
   });
 });
@@ -201,45 +202,44 @@ describe('name errors', () => {
   it('unknown keywords, kinds and parameters, with a suggestion', () => {
     const r = check(`
 sytem box(0, 1)
-^^^^^ name
+#^^^^ name
 System box(0, 1)
-^^^^^^ name
+#^^^^^ name
 frobnicate 3
-^^^^^^^^^^ name
+#^^^^^^^^^ name
 system bx(0, 1)
-       ^^ name
+#      ^^ name
 state gausian(center = 0, width = 1)
-      ^^^^^^^ name
+#     ^^^^^^^ name
 expect nrom 1 +- 1
-       ^^^^ name
+#      ^^^^ name
 `);
     const w = check(`
 system well(dpeth = 1, width = 2)
-            ^^^^^ name
+#           ^^^^^ name
 `);
-    expect(w.diagnostics[0]!.message).toContain("'depth'");
     expect(w.diagnostics[0]!.fixes).toEqual([{ kind: 'replace', title: "Change to 'depth'", start: 12, end: 17, text: 'depth' }]);
     const byText = (word: string) => r.diagnostics.find((d) => r.text.slice(d.start, d.end) === word)!;
-    expect(byText('sytem').message).toContain("'system'");
     expect(byText('sytem').fixes).toEqual([{ kind: 'replace', title: "Change to 'system'", start: 0, end: 5, text: 'system' }]);
-    expect(byText('System').message).toContain("'system'");
+    // Each suggestion is its quick fix's replacement text on the misspelt word.
+    for (const [word, want] of [['System', 'system'], ['bx', 'box'], ['gausian', 'gaussian'], ['nrom', 'norm']] as const) {
+      const d = byText(word);
+      expect(d.fixes).toEqual([expect.objectContaining({ kind: 'replace', start: d.start, end: d.end, text: want })]);
+    }
     expect(byText('frobnicate').fixes).toBeUndefined();
-    expect(byText('bx').message).toContain("'box'");
-    expect(byText('gausian').message).toContain("'gaussian'");
-    expect(byText('nrom').message).toContain("'norm'");
   });
 
   it("the word 'system' repeated after 'of'", () => {
     check(`
 state eigen(1) of system box(0, 1)
-                  ^^^^^^ name
+#                 ^^^^^^ name
 `);
   });
 
   it('a repeated named argument', () => {
     check(`
 state gaussian(center = 0, width = 1, center = 2)
-                                      ^^^^^^ name
+#                                     ^^^^^^ name
 `);
   });
 
@@ -252,17 +252,17 @@ state psi(x) = x
 basis 10
 evolve to 1 ps
 units nm, eV
-^^^^^ name
+#^^^^ name
 mass 2 m_e
-^^^^ name
+#^^^ name
 system box(0 nm, 2 nm)
-^^^^^^ name
+#^^^^^ name
 state psi(x) = 1
-^^^^^ name
+#^^^^ name
 basis 20
-^^^^^ name
+#^^^^ name
 evolve to 2 ps
-^^^^^^ name
+#^^^^^ name
 expect norm 1 +- 1
 expect norm 1 +- 2
 `);
@@ -278,42 +278,43 @@ expect norm 1 +- 2
 let a = 1
 let b = 2
 let a = 3
-    ^ name
+#   ^ name
 let pi = 3
-    ^^ name
+#   ^^ name
 let x = 1
-    ^ name
+#   ^ name
 let i = 1
-    ^ name
+#   ^ name
 let e = 1
-    ^ name
+#   ^ name
 let phi = 1
-    ^^^ name
+#   ^^^ name
 let psi = 1
-    ^^^ name
+#   ^^^ name
 let system = 1
-    ^^^^^^ name
+#   ^^^^^^ name
 let over = 1
-    ^^^^ name
+#   ^^^^ name
 let steps = 1
-    ^^^^^ name
+#   ^^^^^ name
 `);
-    expect(r.diagnostics[0]!.message).toContain('line 1');
+    // The message names the line of the first definition (a value, not wording).
+    expect(numbersIn(r.diagnostics[0]!.message)).toContain(1);
     expect(r.file.statements.map((s) => (s.kind === 'let' ? s.expr.text : null))).toEqual(['1', '2']);
   });
 
   it('a let name that belongs to the expression machinery (issue 14): one finding where it is defined', () => {
     const r = check(`
 let __proto__ = 1
-    ^^^^^^^^^ name
+#   ^^^^^^^^^ name
 let constructor = 2
-    ^^^^^^^^^^^ name
+#   ^^^^^^^^^^^ name
 let valueOf = 3
-    ^^^^^^^ name
+#   ^^^^^^^ name
 let hasOwnProperty = 4
-    ^^^^^^^^^^^^^^ name
+#   ^^^^^^^^^^^^^^ name
 let evaluate = 5
-    ^^^^^^^^ name
+#   ^^^^^^^^ name
 let fine = 6
 `);
     // Each refused definition is left out, so nothing later can use it as if it were defined.
@@ -324,16 +325,16 @@ let fine = 6
     const r = check(`
 let a = 1
 units nm, meV
-^^^^^ name
+#^^^^ name
 `);
     // The misplaced statement is still used, so later unit checks do not cascade.
     expect(r.file.statements.map((s) => s.kind)).toEqual(['let', 'units']);
-    expect(r.diagnostics[0]!.message).toContain('line 1');
+    expect(numbersIn(r.diagnostics[0]!.message)).toContain(1);
     for (const first of ['mass 1 m_e', 'system box(0, 1)', 'state psi(x) = 1', 'basis 3', 'expect norm 1 +- 1', 'evolve to 1']) {
-      check(`${first}\nunits nm, meV\n^^^^^ name`);
+      check(`${first}\nunits nm, meV\n#^^^^ name`);
     }
     for (const first of ['system box(0, 1)', 'state psi(x) = 1', 'basis 3', 'expect norm 1 +- 1', 'evolve to 1']) {
-      check(`${first}\nmass 2\n^^^^ name`);
+      check(`${first}\nmass 2\n#^^^ name`);
     }
     check('units nm, meV\nlet a = 1 nm\nmass 2 m_e\nsystem box(0 nm, a)');
   });
@@ -346,7 +347,7 @@ units nm, meV, ps
 mass 0.067 m_e
 let w = 10 nm
 system well(depth = 100 meV, widht = w)
-                             ^^^^^ name
+#                            ^^^^^ name
 state gaussian(center = 0 nm, width = 1 nm)
 basis 20
 expect norm 1 +- 1e-6
@@ -361,7 +362,7 @@ expect norm 1 +- 1e-6
     const r = check(`
 state psi(x) = sin(x
 system box(0, (1)
-          ^ syntax
+#         ^ syntax
 basis 4
 `);
     // The expression layer reports the unbalanced 'sin(' in the state; the parser keeps it verbatim.
@@ -382,7 +383,7 @@ state psi(x) = 1
   it('an unknown keyword line is skipped whole, continuation included', () => {
     const r = check(`
 sytem box(0,
-^^^^^ name
+#^^^^ name
    1)
 basis 5
 `);
@@ -395,12 +396,12 @@ basis 5
       `
 units nm
 mass
-^^^^ syntax
+#^^^ syntax
 let a = 3
 let a = 4
-    ^ name
+#   ^ name
 system box(0 nm, a nm) x
-                       ^ syntax
+#                      ^ syntax
 `,
       { eol: '\r\n' },
     );

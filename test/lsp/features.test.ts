@@ -110,6 +110,7 @@ describe('hover', () => {
   it('compares measured and expected on an expect line', async () => {
     const u = await openAnalysed(NORM2 + 'expect norm 1 +- 1e-6\n');
     const t = hoverText(await c.connection.sendRequest<Hover | null>('textDocument/hover', { textDocument: { uri: u }, position: { line: 2, character: 8 } }));
+    // Wording on purpose: the hover's text is the feature under test.
     expect(t).toMatch(/expected 1 ± 1e-6/);
     expect(t).toMatch(/measured 2\b/);
     expect(t).toMatch(/does not hold/);

@@ -5,6 +5,8 @@ import type { Eigenbasis } from '../../server/src/physics/types';
 import { createBudget, manualClock } from '../../server/src/physics/budget';
 import { sineDvrSolve, sineDvrWork } from '../../server/src/physics/dvr';
 import { cosineMoments, interfaceGrid } from '../../server/src/physics/interfaces';
+import { basisOrthonormalityError } from './helpers';
+import { numbersIn } from '../hardening/helpers';
 
 const pot = (f: (x: number) => number): PotentialFn => (xs) => xs.map(f);
 
@@ -64,19 +66,7 @@ function slope(lx: number[], ly: number[]): number {
 /** Largest deviation of <phi_j|phi_k> from delta_jk on a fine Gauss–Legendre grid over [a, b]. */
 function orthonormalityError(basis: Eigenbasis, levels: number): number {
   const [a, b] = basis.walls!;
-  const q = compositeGaussLegendre(a, b, { panels: 200, order: 20, breakpoints: basis.breakpoints });
-  const n = q.x.length;
-  const t = new Float64Array(levels * n);
-  basis.table(q.x, levels, t);
-  let worst = 0;
-  for (let j = 0; j < levels; j++) {
-    for (let k = 0; k <= j; k++) {
-      let s = 0;
-      for (let i = 0; i < n; i++) s += q.w[i] * t[j * n + i] * t[k * n + i];
-      worst = Math.max(worst, Math.abs(s - (j === k ? 1 : 0)));
-    }
-  }
-  return worst;
+  return basisOrthonormalityError(basis, compositeGaussLegendre(a, b, { panels: 200, order: 20, breakpoints: basis.breakpoints }), levels);
 }
 
 describe('potentialBasis: exactly solvable potentials', () => {
@@ -321,7 +311,8 @@ describe('potentialBasis: wall-only levels (docs/format.md, README: above the po
     const above = Array.from(E).flatMap((e, k) => (e > 20 ? [k] : []));
     expect(above.length).toBeGreaterThan(0);
     expect(r.wallOnly).toEqual(above);
-    expect(r.notes.find((n) => n.kind === 'walls')?.message).toContain(`n = ${above[0] + 1}`);
+    // The note names the first level that feels only the walls (1-based).
+    expect(numbersIn(r.notes.find((n) => n.kind === 'walls')!.message)).toContain(above[0] + 1);
     expect(r.wallTrend).toEqual({ left: 'levels', right: 'levels' });
   });
 

@@ -2,6 +2,7 @@ import { describe, it, expect } from 'vitest';
 import { wellBasis, wellBoundCount, wellStrength } from '../../server/src/physics/well';
 import { boxBasis } from '../../server/src/physics/box';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { basisOrthonormalityError } from './helpers';
 
 /** A well of half-width 1 and mass 1 with strength z0: depth = z0^2 / 2. */
 const wellOf = (z0: number, center = 0) => wellBasis((z0 * z0) / 2, 2, center, 1);
@@ -103,17 +104,7 @@ describe('wellBasis eigenfunctions', () => {
   const check = (z0: number, center: number) => {
     const w = wellOf(z0, center);
     const q = compositeGaussLegendre(w.support[0], w.support[1], { breakpoints: w.breakpoints, panels: 120, order: 30 });
-    const nx = q.x.length;
-    const t = new Float64Array(w.count * nx);
-    w.table(q.x, w.count, t);
-    let worst = 0;
-    for (let i = 0; i < w.count; i++) {
-      for (let k = 0; k <= i; k++) {
-        let s = 0;
-        for (let j = 0; j < nx; j++) s += q.w[j] * t[i * nx + j] * t[k * nx + j];
-        worst = Math.max(worst, Math.abs(s - (i === k ? 1 : 0)));
-      }
-    }
+    const worst = basisOrthonormalityError(w, q, w.count);
     return { w, worst };
   };
 

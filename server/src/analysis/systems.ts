@@ -49,11 +49,6 @@ export function clearBasisMemo(): void {
   basisMemo.clear();
 }
 
-/** Number of remembered numerical bases (at most 8). */
-export function basisMemoSize(): number {
-  return basisMemo.size;
-}
-
 /**
  * Builds the eigenbasis of `system` with `count` levels (the finite well holds all its bound states).
  * Returns null (with a diagnostic) when the system cannot be solved.

@@ -9,24 +9,12 @@
 import type { ExprText } from '../language/ast';
 import { diagnostic } from '../language/catalogue';
 import type { Expr, Prepared } from './types';
-import { BUILTINS } from './builtins/table';
 import { mathParse, type MathNode } from './parse/instance';
 import { tokenize } from './parse/tokens';
 import { Spanner, treeShape } from './parse/spans';
 import { Converter, tokenLevelRefusals } from './parse/convert';
 
 export { DISABLED_FUNCTIONS, sandboxConfig } from './parse/instance';
-
-/** A function an expression may call: arity range and a one-line description (for completion and hover). */
-export interface AllowedFunction {
-  name: string;
-  minArgs: number;
-  maxArgs: number;
-  doc: string;
-}
-
-/** The whitelist of callable functions: the built-in table's records (`phi` is limited to `psi(x)` of a file with a system). */
-export const ALLOWED_FUNCTIONS: readonly AllowedFunction[] = BUILTINS;
 
 /** Options of `parseExpression`, with defaults. */
 export interface ParseOptions {
