@@ -70,7 +70,7 @@ function runChild(j) {
   const current = join(work, `current-${j}.json`);
   return new Promise((resolve) => {
     // Loaded with -e, not as the main module: the bundled command line runs itself when it is main.
-    const env = { ...process.env, EIGENSPAN_FUZZ: JSON.stringify({ cases: share, seed: seed + j * 7919, budget, current, root, frames }) };
+    const env = { ...process.env, EIGENSPAN_ROOT: root, EIGENSPAN_FUZZ: JSON.stringify({ cases: share, seed: seed + j * 7919, budget, current, root, frames }) };
     const child = spawn(process.execPath, ['-e', `require(${JSON.stringify(bundle)})`], { stdio: ['ignore', 'pipe', 'inherit'], env });
     let out = '';
     let last = '';

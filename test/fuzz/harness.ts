@@ -358,7 +358,8 @@ export function resultProblems(r: AnalysisResult): string[] {
 }
 
 const CHECK_LINE = /^(.+):(\d+):(\d+): (error|warning|info)\[([a-z]+)\]: (.*)$/;
-const SERVER = join(__dirname, '..', '..', 'dist', 'server.js');
+/** The built language server; EIGENSPAN_ROOT names the checkout when the harness runs bundled elsewhere (scripts/fuzz.mjs). */
+const serverPath = (): string => join(process.env.EIGENSPAN_ROOT ?? join(__dirname, '..', '..'), 'dist', 'server.js');
 
 function runCli(argv: string[]): { code: number; out: string; err: string } {
   let out = '';
@@ -426,7 +427,7 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
         break;
       }
       case 'lsp-frames': {
-        problems.push(...checkFramesCase(c.frames ?? [], SERVER));
+        problems.push(...checkFramesCase(c.frames ?? [], serverPath()));
         break;
       }
       case 'cli-json': {
