@@ -88,6 +88,9 @@ describe('hover', () => {
     expect(t).toMatch(/norm/);
     expect(t).toMatch(/captured/);
     expect(t).toMatch(/⟨E⟩ = 4\.9348/);
+    // The spread has its own line and never reads as an error bar on the mean (issue 13).
+    expect(t).toMatch(/energy spread ΔE = /);
+    expect(t).not.toMatch(/⟨E⟩ = [^\n]*±/);
     expect(t).toMatch(/\| n \| E_n/);
     expect(t).toMatch(/\| 1 \| 4\.9348\d* \| 1 \| 0 \|/);
   });

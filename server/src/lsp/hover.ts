@@ -40,8 +40,9 @@ function stateHover(view: DocView): string[] {
   lines.push(`norm ∫|ψ|² dx = ${fmt(r.norm)}  `);
   lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
   if (r.energy) {
-    const spread = r.energy.spread === null ? '' : ` ± ${fmt(r.energy.spread, 4)}`;
-    lines.push(`⟨E⟩ = ${r.energy.mean === null ? 'diverges' : fmt(r.energy.mean) + spread}${r.energy.mean === null ? '' : e}  `);
+    // The spread is a property of the state (ΔE = sqrt(<H^2> - <H>^2)), not an error bar: its own line.
+    lines.push(`energy mean ⟨E⟩ = ${r.energy.mean === null ? 'diverges' : fmt(r.energy.mean) + e}  `);
+    lines.push(`energy spread ΔE = ${r.energy.spread === null ? (r.energy.mean === null ? 'diverges' : 'infinite or not defined') : fmt(r.energy.spread, 4) + e}  `);
   }
   if (r.parity) lines.push(`parity ${r.parity}  `);
   if (r.continuum !== undefined) lines.push(`continuum weight ${fmt(r.continuum)}  `);
