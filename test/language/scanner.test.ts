@@ -1,5 +1,6 @@
 import { describe, it, expect } from 'vitest';
-import { lineOf, scan } from '../../server/src/language/scanner';
+import { scan } from '../../server/src/language/scanner';
+import { lineTable, positionAt } from '../../server/src/language/positions';
 
 /** The code of each logical statement, with comments masked. */
 function pieces(text: string): string[] {
@@ -27,8 +28,12 @@ describe('scan', () => {
   });
 
   it('handles CRLF and a lone CR as line ends', () => {
-    const r = scan('mass 1\r\n  + 1\r\nbasis 2\rlet a = 1');
-    expect(r.lineStarts).toEqual([0, 8, 15, 23]);
+    const text = 'mass 1\r\n  + 1\r\nbasis 2\rlet a = 1';
+    const r = scan(text);
+    // The scanner's statement lines agree with the one offset-to-line table (language/positions.ts).
+    const table = lineTable(text);
+    expect(Array.from(table.starts)).toEqual([0, 8, 15, 23]);
+    expect(r.statements.map((s) => positionAt(table, s.start).line)).toEqual(r.statements.map((s) => s.line));
     expect(r.statements.map((s) => r.masked.slice(s.start, s.end))).toEqual(['mass 1\r\n  + 1', 'basis 2', 'let a = 1']);
     expect(r.statements.map((s) => s.line)).toEqual([0, 2, 3]);
   });
@@ -60,14 +65,5 @@ describe('scan', () => {
     expect(scan('').statements).toEqual([]);
     expect(scan('\ufeff').statements).toEqual([]);
     expect(scan(' \t \n\r\n').statements).toEqual([]);
-    expect(scan('\ufeff').lineStarts).toEqual([0]);
-  });
-});
-
-describe('lineOf', () => {
-  it('finds the line of an offset by binary search', () => {
-    const starts = scan('a\nbb\n\nccc').lineStarts;
-    expect(starts).toEqual([0, 2, 5, 6]);
-    expect([0, 1, 2, 4, 5, 6, 8, 99].map((o) => lineOf(starts, o))).toEqual([0, 0, 1, 1, 2, 3, 3, 3]);
   });
 });

@@ -8,7 +8,7 @@
  * unreadable is an error, as it is a file the user meant to be checked.
  */
 import { DEFAULT_LIMITS, type Limits } from '../analysis/index';
-import { lineTable } from '../analysis/positions';
+import { lineTable } from '../language/positions';
 import { escapeText } from './escape';
 import { readBounded, walkTree, type Refusal } from './files';
 import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';

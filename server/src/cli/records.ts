@@ -3,7 +3,7 @@
  * findings and the `expect` lines. One record a checked or refused file.
  */
 import type { AnalysisResult } from '../analysis/types';
-import type { LineTable } from '../analysis/positions';
+import type { LineTable } from '../language/positions';
 import { locate, type LocatedDiagnostic } from './render';
 
 /** One `expect` line of a file: where it is, its text, and the finding that failed it (if any). */

@@ -1,11 +1,11 @@
 /**
  * Renderings of an analysis result for the command line: JSON (the fixed contract), CSV and a table.
- * Lines and columns come from the one offset-to-line table (analysis/positions.ts), numbers in the
+ * Lines and columns come from the one offset-to-line table (language/positions.ts), numbers in the
  * table from the one formatter (shared/numbers.ts).
  */
 import type { AnalysisResult } from '../analysis/types';
 import type { EngineDiagnostic } from '../language/catalogue';
-import { lineTable, positionAt, type LineTable } from '../analysis/positions';
+import { lineTable, positionAt, type LineTable } from '../language/positions';
 import { formatNumber } from '../shared/numbers';
 
 /** A diagnostic with 1-based lines and columns, as the JSON and `check` print them. */

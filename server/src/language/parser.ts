@@ -71,7 +71,8 @@ import {
   SYSTEM_KINDS,
   type Keyword,
 } from './keywords';
-import { lineOf, scan, isSpace, type ScannedStatement } from './scanner';
+import { scan, isSpace, type ScannedStatement } from './scanner';
+import { lineTable, positionAt, type LineTable } from './positions';
 import { bindArguments, SIGNATURES, type Signature } from './signatures';
 import { suggest } from './suggest';
 import { isReservedName } from './reserved';
@@ -104,7 +105,8 @@ export interface ParseResult {
 interface Ctx {
   /** The text with comments masked (same offsets as the document). */
   m: string;
-  lineStarts: number[];
+  /** The text's line table (language/positions.ts), built when a message first names a line. */
+  lines: () => LineTable;
   diags: EngineDiagnostic[];
 }
 
@@ -117,7 +119,8 @@ export function parse(text: string): ParseResult {
   const input = typeof text === 'string' ? text : '';
   takeSteps();
   const sc = scan(input);
-  const ctx: Ctx = { m: sc.masked, lineStarts: sc.lineStarts, diags: [] };
+  let table: LineTable | null = null;
+  const ctx: Ctx = { m: sc.masked, lines: () => (table ??= lineTable(input)), diags: [] };
   const statements: Statement[] = [];
   const rejected: RejectedStatement[] = [];
   const order: OrderState = { first: new Map(), firstValueUse: null, firstModelUse: null, lets: new Map() };
@@ -583,5 +586,5 @@ function unknownName(ctx: Ctx, span: Span, word: string, candidates: readonly st
 
 /** 1-based line of an offset, for messages. */
 function lineNo(ctx: Ctx, offset: number): number {
-  return lineOf(ctx.lineStarts, offset) + 1;
+  return positionAt(ctx.lines(), offset).line + 1;
 }

@@ -37,8 +37,6 @@ export interface ScanResult {
   statements: ScannedStatement[];
   /** Every comment, `#` included, without its line break. */
   comments: Span[];
-  /** Offset of the first character of each line (line 0 starts at 0). */
-  lineStarts: number[];
 }
 
 /** White space inside a line: space, tab, form feed, vertical tab, no-break space, BOM. */
@@ -59,7 +57,6 @@ export function scan(text: string): ScanResult {
   const n = text.length;
   const statements: ScannedStatement[] = [];
   const comments: Span[] = [];
-  const lineStarts: number[] = [0];
   const pieces: string[] = [];
   let copied = 0; // text[0, copied) is already in `pieces`
   let current: ScannedStatement | null = null;
@@ -101,26 +98,10 @@ export function scan(text: string): ScanResult {
     if (le >= n) break;
     // Step over the line break.
     const next = text[le] === '\r' && text[le + 1] === '\n' ? le + 2 : le + 1;
-    lineStarts.push(next);
     line++;
     ls = next;
   }
   pieces.push(text.slice(copied));
   countWork(steps + pieces.length);
-  return { masked: pieces.join(''), statements, comments, lineStarts };
-}
-
-/**
- * The 0-based line containing `offset`, by binary search over `lineStarts` (from `scan`).
- * Offsets past the end map to the last line.
- */
-export function lineOf(lineStarts: readonly number[], offset: number): number {
-  let lo = 0;
-  let hi = lineStarts.length - 1;
-  while (lo < hi) {
-    const mid = (lo + hi + 1) >> 1;
-    if (lineStarts[mid]! <= offset) lo = mid;
-    else hi = mid - 1;
-  }
-  return lo;
+  return { masked: pieces.join(''), statements, comments };
 }

@@ -1,10 +1,10 @@
 /**
  * Engine offsets as LSP ranges. LSP 3.17 positions default to UTF-16 columns, which is what the
- * engine's offsets count, so the conversion is the engine's own line table (analysis/positions.ts);
+ * engine's offsets count, so the conversion is the engine's own line table (language/positions.ts);
  * nothing else in the server computes lines or columns.
  */
 import type { Range } from 'vscode-languageserver';
-import { lineTable, offsetAt, positionAt, type LineTable } from '../analysis/positions';
+import { lineTable, offsetAt, positionAt, type LineTable } from '../language/positions';
 
 export { lineTable, offsetAt, positionAt, type LineTable };
 
