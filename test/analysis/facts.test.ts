@@ -5,6 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyse, analyseUntrusted } from '../../server/src/analysis/index';
+import { manualClock } from '../../server/src/physics/budget';
 
 const range = (text: string, piece: string, from = 0): [number, number] => {
   const at = text.indexOf(piece, from);
@@ -93,5 +94,27 @@ describe('reserved names', () => {
       const errors = r.diagnostics.filter((d) => d.severity === 'error');
       expect(errors.map((d) => [d.code, d.start, d.end])).toEqual([['name', ...at]]);
     }
+  });
+});
+
+describe('limits findings name how to raise the cap', () => {
+  // The words are the feature here (issue 13): each limits finding names the editor setting and the
+  // command-line option that set its cap, as package.json and docs/format.md spell them.
+  it.each([
+    ['system box(0, 1)\nstate psi(x) = x * (1 - x)\nbasis 999999\n', 'eigenspan.limits.maxBasis', '--limit maxBasis=N'],
+    ['system box(0, 1)\nstate psi(x) = x * (1 - x)\nevolve to 1 steps 999999\n', 'eigenspan.limits.maxEvolveSteps', '--limit maxEvolveSteps=N'],
+    [`let a = ${'1 + '.repeat(3000)}1\n`, 'eigenspan.limits.maxExpressionLength', '--limit maxExpressionLength=N'],
+  ])('%#: names %s and %s', (text, setting, option) => {
+    const limits = analyse(text).diagnostics.filter((d) => d.code === 'limits');
+    expect(limits).toHaveLength(1);
+    expect(limits[0]!.message).toContain(setting);
+    expect(limits[0]!.message).toContain(option);
+  });
+  it('the time limit names the editor setting and the command-line option', () => {
+    const text = 'system box(0, 1)\nstate psi(x) = x * (1 - x)\nbasis 3000\n';
+    const r = analyse(text, { clock: manualClock(1000), limits: { maxMillis: 500 } });
+    const limits = r.diagnostics.filter((d) => d.code === 'limits');
+    expect(limits.length).toBeGreaterThan(0);
+    for (const d of limits) expect(d.message).toContain('--time-limit MS');
   });
 });

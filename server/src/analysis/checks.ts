@@ -12,6 +12,7 @@ import { MissingLevel, type BuiltBasis } from './systems';
 import { BadValue } from './expand';
 import { TOL, type StateMeasurements, type Stop } from './measure';
 import { captureText, fmt, formatFactor, growthText, notSquareIntegrable, pct, plural, replaceFix, warn } from './findings';
+import { raiseHint } from '../shared/limits';
 
 /** What the checks need besides the measurements. */
 export interface CheckContext {
@@ -37,7 +38,7 @@ export function stopFinding(s: Stop, ctx: CheckContext): EngineDiagnostic {
     case 'missingLevel':
       return warn('evaluation', span, `'phi(${s.level}, x)' is not a level of this system: levels run from ${basis.firstLabel} to ${basis.firstLabel + basis.count - 1}${basis.kind === 'well' ? '' : ' (raise `basis`)'}.`);
     case 'noTime':
-      return warn('limits', span, `The time limit of ${ctx.limits.maxMillis} ms ran out before the state was projected on a first grid; lower \`basis\` or raise the limit.`);
+      return warn('limits', span, `The time limit of ${ctx.limits.maxMillis} ms ran out before the state was projected on a first grid; lower \`basis\` or raise the limit.${raiseHint('time')}`);
     case 'notSquareIntegrable':
       return warn('norm', span, notSquareIntegrable(s.singular), undefined, 'error');
     case 'overflow':
@@ -67,7 +68,7 @@ export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckCont
   if (built.unresolved !== undefined && built.unresolved !== null && built.stopped !== 'cancelled') {
     out.push(
       warn('limits', sysSpan, built.stopped === 'time'
-        ? `The time limit stopped the solver's refinement: level ${built.unresolved} and above are not resolved to 1e-9; lower \`basis\` or raise the limit.`
+        ? `The time limit stopped the solver's refinement: level ${built.unresolved} and above are not resolved to 1e-9; lower \`basis\` or raise the limit.${raiseHint('time')}`
         : `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
     );
   }
@@ -80,8 +81,8 @@ export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckCont
 
 /** Limits the expansion ran into: the time limit or the grid cap stopped the refinement. */
 export const checkExpansion: StateCheck = (m, ctx) => {
-  if (m.stopped === 'time') return [warn('limits', ctx.stateSpan, `The time limit of ${ctx.limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.`)];
-  if (m.stopped === 'cap') return [warn('limits', ctx.stateSpan, `The grid cap of ${ctx.limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.`)];
+  if (m.stopped === 'time') return [warn('limits', ctx.stateSpan, `The time limit of ${ctx.limits.maxMillis} ms stopped the grid refinement; the coefficients may be inaccurate.${raiseHint('time')}`)];
+  if (m.stopped === 'cap') return [warn('limits', ctx.stateSpan, `The grid cap of ${ctx.limits.maxGridPoints} points stopped refinement; the coefficients may be inaccurate.${raiseHint('maxGridPoints')}`)];
   return [];
 };
 

@@ -6,6 +6,7 @@ import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { QFile } from '../language/ast';
 import { parse } from '../language/parser';
 import type { Limits } from './options';
+import { raiseHint } from '../shared/limits';
 
 /**
  * Bytes of the UTF-8 encoding of `text`: 1 to 3 per UTF-16 code unit, 4 per surrogate pair (a lone
@@ -38,7 +39,7 @@ export function readFile(text: string, limits: Limits): ReadFile {
   const diagnostics: EngineDiagnostic[] = [];
   const bytes = utf8Length(text);
   if (bytes > limits.maxFileBytes) {
-    diagnostics.push(diagnostic('limits', 0, Math.min(text.length, 1), `The file is ${bytes} bytes long, above the limit of ${limits.maxFileBytes} bytes; it is not analysed.`));
+    diagnostics.push(diagnostic('limits', 0, Math.min(text.length, 1), `The file is ${bytes} bytes long, above the limit of ${limits.maxFileBytes} bytes; it is not analysed.${raiseHint('maxFileBytes')}`));
     return { file: { text, statements: [] }, diagnostics, parsed: false };
   }
   const parsed = parse(text);
@@ -46,7 +47,7 @@ export function readFile(text: string, limits: Limits): ReadFile {
   let file = parsed.file;
   if (file.statements.length > limits.maxStatements) {
     const s = file.statements[limits.maxStatements]!;
-    diagnostics.push(diagnostic('limits', s.span.start, s.span.end, `The file has ${file.statements.length} statements, above the limit of ${limits.maxStatements}; the rest are ignored.`));
+    diagnostics.push(diagnostic('limits', s.span.start, s.span.end, `The file has ${file.statements.length} statements, above the limit of ${limits.maxStatements}; the rest are ignored.${raiseHint('maxStatements')}`));
     file = { ...file, statements: file.statements.slice(0, limits.maxStatements) };
   }
   return { file, diagnostics, parsed: true };

@@ -18,6 +18,7 @@ import { numericStage } from './numeric';
 import { evaluationFinding } from './checks';
 import { letValues } from './values';
 import { warn } from './findings';
+import { raiseHint } from '../shared/limits';
 import { inQuickStage } from '../language/meter';
 
 export { DEFAULT_BASIS, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type AnalyseOptions, type Limits, type SettableLimit } from './options';
@@ -114,7 +115,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
   }
   if (budget.reason === 'time') {
     const at = stage.model?.system?.stmt.keywordSpan ?? { start: 0, end: Math.min(1, text.length) };
-    result.diagnostics.push(warn('limits', at, `The analysis took longer than the time limit of ${stage.limits.maxMillis} ms and was stopped; the results are incomplete.`));
+    result.diagnostics.push(warn('limits', at, `The analysis took longer than the time limit of ${stage.limits.maxMillis} ms and was stopped; the results are incomplete.${raiseHint('time')}`));
   }
   result.diagnostics = sortDiagnostics(result.diagnostics);
   result.work = { ops: budget.work.ops, points: budget.work.points };

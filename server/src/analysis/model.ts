@@ -13,6 +13,7 @@ import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { capital, fmt } from './findings';
+import { raiseHint, type CapName } from '../shared/limits';
 
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
@@ -181,7 +182,7 @@ class ModelBuilder {
         const t = this.constant(stmt.to, 'time', 'the evolution time');
         let steps = 200;
         if (stmt.steps) {
-          const k = this.integer(stmt.steps, 'the number of steps', 1, this.options.maxEvolveSteps);
+          const k = this.integer(stmt.steps, 'the number of steps', 1, this.options.maxEvolveSteps, 'maxEvolveSteps');
           if (k !== null) steps = k;
         }
         if (t === null) return;
@@ -235,7 +236,7 @@ class ModelBuilder {
     return kind === 'frequency' ? re * 2 * Math.PI : re;
   }
 
-  private integer(src: ExprText, what: string, min: number, max: number): number | null {
+  private integer(src: ExprText, what: string, min: number, max: number, cap: CapName = 'maxBasis'): number | null {
     const v = this.constant(src, 'dimensionless', what);
     if (v === null) return null;
     if (!Number.isInteger(v)) {
@@ -247,7 +248,7 @@ class ModelBuilder {
       return null;
     }
     if (v > max) {
-      this.error('limits', src, `${capital(what)} ${v} is above the limit of ${max}.`);
+      this.error('limits', src, `${capital(what)} ${v} is above the limit of ${max}.${raiseHint(cap)}`);
       return null;
     }
     return v;

@@ -13,6 +13,7 @@ import { mathParse, type MathNode } from './parse/instance';
 import { tokenize } from './parse/tokens';
 import { Spanner, treeShape } from './parse/spans';
 import { Converter, tokenLevelRefusals } from './parse/convert';
+import { raiseHint } from '../shared/limits';
 
 export { DISABLED_FUNCTIONS, sandboxConfig } from './parse/instance';
 
@@ -44,7 +45,7 @@ export function parseExpression(src: ExprText, options: ParseOptions = {}): Prep
     if (text.length > maxLength) {
       return {
         result: null,
-        diagnostics: [diagnostic('limits', whole.start, whole.end, `The expression is ${text.length} characters long; the limit is ${maxLength}.`)],
+        diagnostics: [diagnostic('limits', whole.start, whole.end, `The expression is ${text.length} characters long; the limit is ${maxLength}.${raiseHint('maxExpressionLength')}`)],
       };
     }
     const { tokens, mathText } = tokenize(text);
@@ -60,7 +61,7 @@ export function parseExpression(src: ExprText, options: ParseOptions = {}): Prep
         if (depth > maxDepth)
           return {
             result: null,
-            diagnostics: [diagnostic('limits', base + t.start, base + t.end, `Brackets are nested more than ${maxDepth} deep.`)],
+            diagnostics: [diagnostic('limits', base + t.start, base + t.end, `Brackets are nested more than ${maxDepth} deep.${raiseHint('maxNesting')}`)],
           };
       } else if (t.text === ')' || t.text === ']' || t.text === '}') depth = Math.max(0, depth - 1);
     }
@@ -81,7 +82,7 @@ export function parseExpression(src: ExprText, options: ParseOptions = {}): Prep
     }
     const shape = treeShape(tree);
     if (shape.depth > maxDepth)
-      return { result: null, diagnostics: [diagnostic('limits', whole.start, whole.end, `The expression is nested more than ${maxDepth} deep.`)] };
+      return { result: null, diagnostics: [diagnostic('limits', whole.start, whole.end, `The expression is nested more than ${maxDepth} deep.${raiseHint('maxNesting')}`)] };
     if (shape.chain > maxChain)
       return {
         result: null,
