@@ -67,8 +67,11 @@ describe('eigenspan expand --json', () => {
   it('prints CSV rows and a table', () => {
     const p = file('osc.qstate', 'system oscillator(omega = 1)\nstate eigen(0) of oscillator(omega = 1, center = 1)\nbasis 5\n');
     const csv = run(['expand', p, '--csv']).out.trim().split('\n');
-    expect(csv[0]).toBe('n,energy,re,im,weight');
-    expect(csv).toHaveLength(6);
+    // The first line names the energy unit (docs/format.md), the header keeps its documented columns.
+    expect(csv[0]).toMatch(/^# energy in /);
+    expect(csv[1]).toBe('n,energy,re,im,weight');
+    expect(csv).toHaveLength(7);
+    expect(run(['expand', p, '--csv-bare']).out.trim().split('\n')[0]).toBe('n,energy,re,im,weight');
     const table = run(['expand', p, '--table']);
     expect(table.code).toBe(0);
     expect(table.out).toContain('energy mean');
@@ -81,7 +84,7 @@ describe('eigenspan expand --out', () => {
     const target = join(dir, 'coefficients.csv');
     expect(run(['expand', src, '--csv', '--out', target]).code).toBe(0);
     const first = readFileSync(target, 'utf8');
-    expect(first.split('\n')[0]).toBe('n,energy,re,im,weight');
+    expect(first.split('\n')[1]).toBe('n,energy,re,im,weight');
     writeFileSync(target, 'keep me');
     const refused = run(['expand', src, '--csv', '--out', target]);
     expect(refused.code).toBe(2);

@@ -27,7 +27,8 @@ const USAGE = `Usage:
       Expand the state of FILE in its system's energy eigenbasis.
       --json   one JSON object (levels, norm, captured, energy, parity, continuum, diagnostics)
       --table  a readable table (the default)
-      --csv    one row a level: n, energy, re, im, weight
+      --csv    one row a level: n, energy, re, im, weight, after a comment line naming the energy unit
+      --csv-bare  the same without the comment line
       --basis N  levels to use when the file has no basis line (default 40)
       --out PATH write the output to PATH instead of the terminal; an existing PATH is
                  never replaced unless --force is given
@@ -104,6 +105,7 @@ function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
 
 function expand(args: string[], io: Io): number {
   let format: 'json' | 'table' | 'csv' = 'table';
+  let bare = false;
   let file: string | null = null;
   let basis: number | undefined;
   let outPath: string | null = null;
@@ -118,6 +120,10 @@ function expand(args: string[], io: Io): number {
     else if (a === '--json') format = 'json';
     else if (a === '--table') format = 'table';
     else if (a === '--csv') format = 'csv';
+    else if (a === '--csv-bare') {
+      format = 'csv';
+      bare = true;
+    }
     else if (a === '--basis') {
       const v = Number(args[++i]);
       if (!Number.isInteger(v) || v < 1) throw new UsageError('--basis needs a whole number of levels');
@@ -132,7 +138,7 @@ function expand(args: string[], io: Io): number {
   const text = readText(file, limits.maxFileBytes);
   const result = analyseBounded(text, { defaultBasis: basis, limits });
   const shown = escapeText(file);
-  const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result) : renderTable(result, text, shown);
+  const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result, bare) : renderTable(result, text, shown);
   if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
   else io.out(rendered);
   return result.diagnostics.some((d) => d.severity === 'error') ? 1 : 0;

@@ -72,9 +72,13 @@ export function renderJson(result: AnalysisResult, text: string): string {
   return JSON.stringify(toJson(result, text), (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2);
 }
 
-/** `expand --csv`: a header and one row a level. */
-export function renderCsv(result: AnalysisResult): string {
-  const rows = ['n,energy,re,im,weight'];
+/**
+ * `expand --csv`: a comment line naming the energy unit (`# energy in meV`; dropped with `bare`), the
+ * header `n,energy,re,im,weight` and one row a level.
+ */
+export function renderCsv(result: AnalysisResult, bare = false): string {
+  const unit = result.units.energy === null ? 'natural units (hbar = 1, mass = 1)' : result.units.energy;
+  const rows = bare ? ['n,energy,re,im,weight'] : [`# energy in ${unit}`, 'n,energy,re,im,weight'];
   for (const l of result.levels) rows.push([l.n, l.energy, l.re, l.im, l.weight].map((v) => String(v)).join(','));
   return rows.join('\n') + '\n';
 }
@@ -108,7 +112,7 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   if (result.parity) lines.push(`parity: ${result.parity}`);
   if (result.decay && result.decay.exponent !== null) lines.push(`decay: |c_n| ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
   if (result.evolution) {
-    lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${result.units.time ? ' ' + result.units.time : ''}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8)}`);
+    lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${result.units.time ? ' ' + result.units.time : ''}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8) + (result.units.time ? ' ' + result.units.time : ' (internal time unit: hbar per energy unit)')}`);
   }
   const idx = lineTable(text);
   if (result.diagnostics.length === 0) lines.push('diagnostics: none');
