@@ -112,7 +112,9 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   if (result.parity) lines.push(`parity: ${result.parity}`);
   if (result.decay && result.decay.exponent !== null) lines.push(`decay: |c_n| ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
   if (result.evolution) {
-    lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${result.units.time ? ' ' + result.units.time : ''}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8) + (result.units.time ? ' ' + result.units.time : ' (internal time unit: hbar per energy unit)')}`);
+    // Times carry the file's time unit; a file with units but no time unit counts time in hbar per its energy unit.
+    const timeUnit = result.units.time ? ` ${result.units.time}` : result.units.energy ? ` hbar/${result.units.energy}` : '';
+    lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${timeUnit}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8) + timeUnit}`);
   }
   const idx = lineTable(text);
   if (result.diagnostics.length === 0) lines.push('diagnostics: none');
