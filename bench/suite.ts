@@ -22,6 +22,7 @@ import { clearBasisMemo } from '../server/src/analysis/systems';
 import { fitExponent, measure, ratioOf, type Timing } from './stats';
 import { benchColdStart, benchLsp, bundleRows } from './processes';
 import { benchExpression } from './expressions';
+import { boxPacketReference } from './anchor';
 
 export { formatReport } from './report';
 
@@ -115,30 +116,6 @@ function boxSamples(N: number): { re: Float64Array; im: Float64Array } {
   return { re, im };
 }
 
-/**
- * Closed-form box coefficients of the packet on [0, 1]: with q = n pi,
- * c_n = sqrt(2) A sqrt(4 pi) s / (2i) [e^{i(k+q)x0 - (k+q)^2 s^2} - e^{i(k-q)x0 - (k-q)^2 s^2}],
- * from integral e^{i kappa x} e^{-(x-x0)^2/(4 s^2)} dx = sqrt(4 pi) s e^{i kappa x0 - kappa^2 s^2} over the
- * line (derived from the Gaussian Fourier integral; the tails beyond the walls are below 1e-100).
- */
-function boxReference(count: number): { re: Float64Array; im: Float64Array } {
-  const re = new Float64Array(count);
-  const im = new Float64Array(count);
-  const { x0, s, k } = BOX;
-  const pref = Math.SQRT2 * Math.pow(2 * Math.PI * s * s, -0.25) * Math.sqrt(4 * Math.PI) * s * 0.5;
-  for (let n = 1; n <= count; n++) {
-    const q = n * Math.PI;
-    const gp = Math.exp(-((k + q) ** 2) * s * s);
-    const gm = Math.exp(-((k - q) ** 2) * s * s);
-    // (1/(2i)) (A - B) = -(i/2)(A - B): re = Im(A - B)/2, im = -Re(A - B)/2 (times pref * 2).
-    const ar = gp * Math.cos((k + q) * x0) - gm * Math.cos((k - q) * x0);
-    const ai = gp * Math.sin((k + q) * x0) - gm * Math.sin((k - q) * x0);
-    re[n - 1] = pref * ai;
-    im[n - 1] = -pref * ar;
-  }
-  return { re, im };
-}
-
 /** The baseline: each c_n = sqrt(2/L) (L/N) sum_j sin(pi j n / N) psi_j summed directly, one sine per term. */
 function boxDirect(re: Float64Array, im: Float64Array, count: number): { re: Float64Array; im: Float64Array } {
   const N = re.length - 1;
@@ -163,7 +140,7 @@ function boxDirect(re: Float64Array, im: Float64Array, count: number): { re: Flo
 function benchBox(count: number, log2N: number, reps: number, target: string | null, limitMs: number | null): Row {
   const N = 1 << log2N;
   const s = boxSamples(N);
-  const ref = boxReference(count);
+  const ref = boxPacketReference(count);
   const fast = measure(() => boxCoefficientsFromSamples(s.re, s.im, 0, 1, count), { reps });
   const slow = measure(() => boxDirect(s.re, s.im, count), { reps: Math.max(1, Math.min(reps, 5)) });
   const accFast = maxDiff(fast.result.re, fast.result.im, ref.re, ref.im, count);
