@@ -160,7 +160,7 @@ describe('statement forms', () => {
     ].join('\n');
     const s = clean(text);
     const got = s.map((x) => {
-      if (x.kind !== 'expect' || x.expectation.kind === 'parity' || x.expectation.kind === 'weight') throw new Error(x.kind);
+      if (x.kind !== 'expect' || x.expectation.kind === 'parity' || x.expectation.kind === 'weight' || x.expectation.kind === 'window') throw new Error(x.kind);
       return [x.expectation.kind, ...cmp(text, x.expectation.comparison)];
     });
     expect(got).toEqual([

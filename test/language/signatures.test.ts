@@ -79,7 +79,7 @@ describe('KEYWORDS', () => {
   }
 
   it('covers every statement keyword once, with docs', () => {
-    expect([...KEYWORD_NAMES].sort()).toEqual(['basis', 'evolve', 'expect', 'let', 'mass', 'state', 'system', 'units']);
+    expect([...KEYWORD_NAMES].sort()).toEqual(['basis', 'evolve', 'expect', 'let', 'mass', 'state', 'sweep', 'system', 'units']);
     for (const k of KEYWORDS) {
       expect(k.doc).toMatch(/\.$/);
       expect(k.forms.length).toBeGreaterThan(0);

@@ -411,6 +411,9 @@ class ModelBuilder {
     switch (x.kind) {
       case 'parity':
         return { kind: 'parity', stmt, value: x.value };
+      case 'window':
+        // Judged over the whole sweep (analysis/sweep/), not at the let's own value.
+        return null;
       case 'norm': {
         const c = this.comparison(x.comparison, 'dimensionless', 'the expected norm');
         return c ? { kind: 'norm', stmt, comparison: c } : null;

@@ -5,6 +5,7 @@
  */
 import type { EngineDiagnostic } from '../language/catalogue';
 import type { QFile } from '../language/ast';
+import type { SweepResult } from './sweep/types';
 
 /** One level of the expansion. */
 export interface LevelResult {
@@ -100,4 +101,9 @@ export interface AnalysisResult {
    * shown in (null for natural units or a dimensionless value).
    */
   values?: { name: string; re: number; im: number; unit: string | null }[];
+  /**
+   * The sweep of a file with `sweep` lines (analysis/sweep/types.ts, docs/format.md "Sweeps"), when the
+   * front end ran it (`analyseWithSweep`, the command line); every other field keeps the lets' own values.
+   */
+  sweep?: SweepResult;
 }

@@ -105,6 +105,7 @@ function slotsOf(stmt: Statement): Slot[] {
 function expectSlots(x: Expectation): Slot[] {
   switch (x.kind) {
     case 'parity':
+    case 'window':
       return [];
     case 'norm':
       return comparisonSlots(x.comparison, 'dimensionless', 'the expected norm');

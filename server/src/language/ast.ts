@@ -48,7 +48,23 @@ export type Expectation =
   | { kind: 'parity'; value: 'even' | 'odd' | 'mixed'; valueSpan: Span }
   | { kind: 'weight'; from: ExprText; to: ExprText | null; comparison: Comparison }
   | { kind: 'energy'; comparison: Comparison }
-  | { kind: 'spread'; comparison: Comparison };
+  | { kind: 'spread'; comparison: Comparison }
+  | { kind: 'window'; from: ExprText; to: ExprText; rangeSpan: Span };
+
+/**
+ * What a `sweep` line varies: the `let` named `name`, from `from` to `to` in `steps` equal steps
+ * (steps + 1 points), spaced evenly (`linear`) or evenly in the logarithm (`log`). See parseSweep.ts.
+ */
+export interface SweepSpec {
+  name: string;
+  nameSpan: Span;
+  from: ExprText;
+  to: ExprText;
+  steps: ExprText;
+  spacing: 'linear' | 'log';
+  /** The trailing `log` word, when written. */
+  spacingSpan: Span | null;
+}
 
 /** One statement; `span` covers the whole statement including continuation lines, `keywordSpan` its keyword. */
 export type Statement =
@@ -59,7 +75,8 @@ export type Statement =
   | { kind: 'state'; span: Span; keywordSpan: Span; state: StateSpec }
   | { kind: 'basis'; span: Span; keywordSpan: Span; expr: ExprText }
   | { kind: 'expect'; span: Span; keywordSpan: Span; expectation: Expectation }
-  | { kind: 'evolve'; span: Span; keywordSpan: Span; to: ExprText; steps: ExprText | null };
+  | { kind: 'evolve'; span: Span; keywordSpan: Span; to: ExprText; steps: ExprText | null }
+  | { kind: 'sweep'; span: Span; keywordSpan: Span; sweep: SweepSpec };
 
 /** A statement whose keyword was recognised but which was left out of `statements` because of an error. */
 export interface RejectedStatement {

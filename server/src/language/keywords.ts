@@ -4,7 +4,7 @@
  */
 
 /** A statement keyword. */
-export type Keyword = 'units' | 'mass' | 'let' | 'system' | 'state' | 'basis' | 'expect' | 'evolve';
+export type Keyword = 'units' | 'mass' | 'let' | 'system' | 'state' | 'basis' | 'expect' | 'evolve' | 'sweep';
 
 /** One way of writing a statement, ready to be offered as a completion. */
 export interface StatementForm {
@@ -105,6 +105,7 @@ export const KEYWORDS: readonly KeywordInfo[] = [
       },
       { label: 'expect energy E +- T', snippet: 'expect energy ${1:E} +- ${2:T}', doc: 'The energy mean <H> of the normalised state.' },
       { label: 'expect spread E +- T', snippet: 'expect spread ${1:E} +- ${2:T}', doc: 'The energy spread Delta H of the normalised state.' },
+      { label: 'expect window covers A..B', snippet: 'expect window covers ${1:A}..${2:B}', doc: 'In a file with a sweep: every other expect holds for every swept value from A to B.' },
     ],
   },
   {
@@ -113,13 +114,22 @@ export const KEYWORDS: readonly KeywordInfo[] = [
     once: true,
     forms: [{ label: 'evolve to T steps K', snippet: 'evolve to ${1:T} steps ${2:200}', doc: 'Time evolution up to T; steps defaults to the analysis default.' }],
   },
+  {
+    keyword: 'sweep',
+    doc: 'Varies a `let` value over a range and reports the expansion and every `expect` at each point (at most two sweeps: a map).',
+    once: false,
+    forms: [
+      { label: 'sweep name from A to B steps K', snippet: 'sweep ${1:name} from ${2:A} to ${3:B} steps ${4:20}', doc: 'K equal steps (K + 1 points) from A to B.' },
+      { label: 'sweep name from A to B steps K log', snippet: 'sweep ${1:name} from ${2:A} to ${3:B} steps ${4:20} log', doc: 'K steps evenly spaced in the logarithm (A and B of one sign).' },
+    ],
+  },
 ];
 
 /** Just the keyword names. */
 export const KEYWORD_NAMES: readonly Keyword[] = KEYWORDS.map((k) => k.keyword);
 
 /** What may follow `expect`. */
-export const EXPECT_KINDS = ['norm', 'parity', 'weight', 'energy', 'spread'] as const;
+export const EXPECT_KINDS = ['norm', 'parity', 'weight', 'energy', 'spread', 'window'] as const;
 
 /** The parity values of `expect parity`. */
 export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;

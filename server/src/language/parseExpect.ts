@@ -5,6 +5,7 @@ import type { ExprText, Span, Statement } from './ast';
 import { EXPECT_KINDS, PARITY_VALUES } from './keywords';
 import { isSpace } from './scanner';
 import { fail, parseComparison, unexpected, unknownName, type Ctx } from './parserParts';
+import { parseWindowExpect } from './parseSweep';
 import {
   exprText,
   identEnd,
@@ -66,6 +67,8 @@ export function parseExpect(ctx: Ctx, span: Span, kwSpan: Span): Statement | nul
       const comparison = parseComparison(ctx, r, hi, to ?? from);
       return comparison === null ? null : done({ kind: 'weight', from, to, comparison });
     }
+    case 'window':
+      return parseWindowExpect(ctx, span, kwSpan, kindSpan);
   }
   unknownName(ctx, kindSpan, kind, EXPECT_KINDS, `Unknown check '${kind}'; expected ${EXPECT_KINDS.join(', ')}.`);
   return null;

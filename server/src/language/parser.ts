@@ -10,7 +10,8 @@
  * "Top level" means outside `()`, `[]`, `{}` and `"..."`.
  *
  * ```text
- * statement   = units | mass | let | system | state | basis | expect | evolve
+ * statement   = units | mass | let | system | state | basis | expect | evolve | sweep
+ *                                                    (sweep and expect window: see parseSweep.ts)
  * units       = "units" UNIT { "," UNIT }            UNIT: a letter followed by letters, digits or _
  * mass        = "mass" EXPR
  * let         = "let" NAME "=" EXPR                  NAME: an identifier, not a keyword, not one of
@@ -66,6 +67,7 @@ import { countWork } from './meter';
 import { fail, lineNo, unexpected, unknownName, type Ctx } from './parserParts';
 import { parseState, parseSystem } from './parseSpecs';
 import { parseEvolve, parseExpect } from './parseExpect';
+import { parseSweep } from './parseSweep';
 import {
   commaNear,
   exprText,
@@ -139,7 +141,7 @@ interface StatementOutcome {
   keyword: { word: Keyword; span: Span } | null;
 }
 
-const VALUE_USERS: ReadonlySet<Keyword> = new Set(['let', 'mass', 'system', 'state', 'basis', 'expect', 'evolve']);
+const VALUE_USERS: ReadonlySet<Keyword> = new Set(['let', 'mass', 'system', 'state', 'basis', 'expect', 'evolve', 'sweep']);
 const MODEL_USERS: ReadonlySet<Keyword> = new Set(['system', 'state', 'basis', 'expect', 'evolve']);
 
 function parseStatement(ctx: Ctx, st: ScannedStatement, order: OrderState): StatementOutcome {
@@ -207,6 +209,9 @@ function parseStatement(ctx: Ctx, st: ScannedStatement, order: OrderState): Stat
       break;
     case 'evolve':
       statement = parseEvolve(ctx, span, kwSpan);
+      break;
+    case 'sweep':
+      statement = parseSweep(ctx, span, kwSpan);
       break;
   }
   return { statement, keyword: statement === null ? { word, span: kwSpan } : null };

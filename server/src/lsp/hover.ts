@@ -85,7 +85,7 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
   const x = s.expectation;
   const r = view.result;
   const lines = [`**expect** ${x.kind}`, ''];
-  const expected = x.kind === 'parity' ? x.value : comparisonText(x.comparison);
+  const expected = x.kind === 'parity' ? x.value : x.kind === 'window' ? `${x.from.text.trim()}..${x.to.text.trim()}` : comparisonText(x.comparison);
   let measured = '—';
   if (r) {
     const e = withUnit(r.units.energy);

@@ -27,6 +27,8 @@ function describe(s: Statement): { name: string; detail: string; kind: SymbolKin
       return { name: `expect ${s.expectation.kind}`, detail: '', kind: SymbolKind.Event };
     case 'evolve':
       return { name: 'evolve', detail: s.to.text.trim(), kind: SymbolKind.Event };
+    case 'sweep':
+      return { name: `sweep ${s.sweep.name}`, detail: `${s.sweep.from.text.trim()} to ${s.sweep.to.text.trim()}`, kind: SymbolKind.Event };
   }
 }
 

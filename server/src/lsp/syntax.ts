@@ -59,9 +59,13 @@ export function statementExprTexts(s: Statement): ExprText[] {
         out.push(e.from);
         if (e.to) out.push(e.to);
       }
-      if (e.kind !== 'parity') comparisonTexts(e.comparison, out);
+      if (e.kind === 'window') out.push(e.from, e.to);
+      else if (e.kind !== 'parity') comparisonTexts(e.comparison, out);
       break;
     }
+    case 'sweep':
+      out.push({ ...s.sweep.nameSpan, text: s.sweep.name }, s.sweep.from, s.sweep.to, s.sweep.steps);
+      break;
     case 'evolve':
       out.push(s.to);
       if (s.steps) out.push(s.steps);

@@ -1,0 +1,131 @@
+/**
+ * Between the finished points of each row of the first axis: the located bound-count steps and
+ * `expect` flips (refine.ts), and the design window, the sub-ranges where every ordinary `expect` holds,
+ * with ends at the located flips (on the side where they still hold).
+ */
+import type { Budget } from '../../physics/budget';
+import { evaluatePoint, type PointOutcome } from './point';
+import { boundSteps, expectFlip, type Closed, type Probe, type Prober } from './refine';
+import type { SweepLocated, SweepWindow } from './types';
+import type { SweepJob } from './index';
+import { displayOf } from './display';
+
+/** Refinement probes per sweep at most (each is one point analysis). */
+export const MAX_PROBES = 20_000;
+
+/** What the refinement found. */
+export interface Located {
+  located: SweepLocated[];
+  windows: SweepWindow[];
+  probes: number;
+  /** True when the budget or the probe allowance ran out before every bracket closed. */
+  cut: boolean;
+}
+
+interface Flip {
+  e: number;
+  closed: Closed;
+  /** The expect holds after the flip (in the sweep's direction). */
+  up: boolean;
+}
+
+/** Refines every row and finds its windows. */
+export function locateAll(job: SweepJob, outcomes: (PointOutcome | null)[], budget: Budget): Located {
+  const axes = job.setting.axes;
+  const n0 = axes[0]!.steps + 1;
+  const rows = axes.length > 1 ? axes[1]!.steps + 1 : 1;
+  const found: Located = { located: [], windows: [], probes: 0, cut: false };
+  for (let j = 0; j < rows; j++) {
+    const t1 = axes.length > 1 ? j / axes[1]!.steps : null;
+    const row = t1 === null ? null : displayOf(job, 1)(axisValue(job, 1, t1));
+    const probe = (t: number, systemOnly = false): PointOutcome | null => {
+      if (found.probes >= MAX_PROBES || budget.expired()) {
+        found.cut = true;
+        return null;
+      }
+      found.probes++;
+      const out = evaluatePoint(job.setting, t1 === null ? [t] : [t, t1], [], budget, systemOnly);
+      return out.complete ? out : null;
+    };
+    const line = Array.from({ length: n0 }, (_, i) => outcomes[i + n0 * j] ?? null);
+    locateRow(job, line, row, probe, budget, found);
+  }
+  if (budget.reason !== null) found.cut = true;
+  return found;
+}
+
+function axisValue(job: SweepJob, k: number, t: number): number {
+  const a = job.setting.axes[k]!;
+  return a.spacing === 'log' ? a.from * Math.pow(a.to / a.from, t) : a.from + (a.to - a.from) * t;
+}
+
+function usable(p: PointOutcome | null): p is PointOutcome {
+  return p !== null && p.point.valid;
+}
+
+function holds(p: PointOutcome | null): boolean {
+  return usable(p) && p.point.expects.every(Boolean);
+}
+
+function span(c: Closed): [number, number] {
+  const a = c.lo.out.point.at[0]!;
+  const b = c.hi.out.point.at[0]!;
+  return a <= b ? [a, b] : [b, a];
+}
+
+/** One row: the located changes of each interval, then the windows. */
+function locateRow(job: SweepJob, line: (PointOutcome | null)[], row: number | null, probe: Prober, budget: Budget, found: Located): void {
+  const steps = job.setting.axes[0]!.steps;
+  const flips: Flip[][] = [];
+  for (let i = 0; i + 1 < line.length; i++) {
+    const a = line[i]!;
+    const b = line[i + 1]!;
+    flips.push([]);
+    if (!usable(a) || !usable(b)) continue;
+    const lo: Probe = { t: i / steps, out: a };
+    const hi: Probe = { t: (i + 1) / steps, out: b };
+    for (const c of boundSteps(lo, hi, probe, budget)) {
+      const [x, y] = span(c);
+      found.located.push({ kind: 'bound', at: 0.5 * (x + y), bracket: [x, y], before: c.lo.out.point.bound!, after: c.hi.out.point.bound!, row });
+    }
+    a.point.expects.forEach((va, e) => {
+      if (va === b.point.expects[e]) return;
+      const c = expectFlip(e, lo, hi, probe, budget);
+      const [x, y] = span(c);
+      found.located.push({ kind: 'expect', expect: e, at: 0.5 * (x + y), bracket: [x, y], before: va ? 1 : 0, after: va ? 0 : 1, row });
+      flips[i]!.push({ e, closed: c, up: !va });
+    });
+  }
+  found.windows.push(...windowsOf(line, flips, row));
+}
+
+/** The runs of points where every expect holds, with ends moved to the located flips. */
+function windowsOf(line: (PointOutcome | null)[], flips: Flip[][], row: number | null): SweepWindow[] {
+  const out: SweepWindow[] = [];
+  let start: { v: number; edge: boolean } | null = null;
+  for (let i = 0; i < line.length; i++) {
+    const p = line[i]!;
+    const ok = holds(p);
+    if (ok && start === null) {
+      // Entering: the last of the flips up in the interval before (all must hold), on its holding side.
+      const ups = i > 0 ? flips[i - 1]!.filter((f) => f.up) : [];
+      const last = ups.sort((x, y) => y.closed.hi.t - x.closed.hi.t)[0];
+      start = { v: last && holds(line[i - 1] ?? null) === false && ups.length === failing(line[i - 1] ?? null) ? last.closed.hi.out.point.at[0]! : p!.point.at[0]!, edge: i === 0 };
+    }
+    if (ok && (i + 1 === line.length || !holds(line[i + 1] ?? null))) {
+      const downs = i + 1 < line.length ? flips[i]!.filter((f) => !f.up) : [];
+      const first = downs.sort((x, y) => x.closed.lo.t - y.closed.lo.t)[0];
+      const end = first ? first.closed.lo.out.point.at[0]! : p!.point.at[0]!;
+      const edge = i + 1 === line.length;
+      const lowFirst = start!.v <= end;
+      out.push({ from: lowFirst ? start!.v : end, to: lowFirst ? end : start!.v, fromEdge: lowFirst ? start!.edge : edge, toEdge: lowFirst ? edge : start!.edge, row });
+      start = null;
+    }
+  }
+  return out;
+}
+
+/** How many expects fail at a valid point (Infinity at an invalid one, so no flip can explain it). */
+function failing(p: PointOutcome | null): number {
+  return usable(p) ? p.point.expects.filter((x) => !x).length : Infinity;
+}
