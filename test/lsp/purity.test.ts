@@ -57,6 +57,8 @@ describe('engine purity', () => {
     for (const { folder, path } of scanned) {
       for (const spec of importsOf(readFileSync(path, 'utf8'))) {
         const why = violation(folder, spec);
+        // The command line's sweep front end is the one place outside lsp/ that starts threads (the engine stays free of them).
+        if (why === 'threads' && path === join(root, 'cli', 'sweepThreads.ts')) continue;
         if (why) bad.push(`${path}: ${spec} (${why})`);
       }
     }

@@ -20,6 +20,7 @@ import { letValues } from './values';
 import { warn } from './findings';
 import { raiseHint } from '../shared/limits';
 import { inQuickStage } from '../language/meter';
+import { checkSweeps } from './sweep/plan';
 
 export { DEFAULT_BASIS, DEFAULT_LIMITS, LIMIT_RANGES, readLimits, type AnalyseOptions, type Limits, type SettableLimit } from './options';
 export { analyseUntrusted } from './untrusted';
@@ -50,6 +51,8 @@ function staticStageIn(text: string, options: AnalyseOptions): StaticStage {
     },
     read.diagnostics,
   );
+  // The sweep lines' names, dimensions and steps (the sweep itself runs in analysis/sweep/ when a front end asks).
+  checkSweeps(read.file, model, read.diagnostics, { maxExpressionLength: limits.maxExpressionLength, maxNesting: limits.maxNesting });
   return { file: read.file, diagnostics: read.diagnostics, model, limits };
 }
 

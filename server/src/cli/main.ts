@@ -7,6 +7,7 @@
  *   eigenspan diff OLD NEW | FILE --rev REV [--tolerance T]
  *   eigenspan summary FILE
  *   eigenspan demo [FOLDER]
+ *   eigenspan sweep FILE [--table | --csv | --json] [--sweep-time-limit MS] [--threads N] (sweep.ts)
  *
  * Exit codes: 0 fine, 1 an error or failed `expect` was found, 2 usage error (bad flag, missing file).
  */
@@ -20,6 +21,8 @@ import { readText } from './readtext';
 import { renderCsv, renderJson, renderTable } from './render';
 import { DEFAULT_TOLERANCE } from './diff';
 import { diff, summary } from './vcs';
+import { sweepCommand } from './sweep';
+import { serveSweepWorker, sweepCommandThreaded } from './sweepThreads';
 
 const USAGE = `Usage:
   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
@@ -56,6 +59,16 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
       Print the physics of FILE as stable, rounded lines, for git's textconv (README.md).
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
+  eigenspan sweep FILE [--table | --csv | --csv-bare | --json] [--basis N] [--out PATH [--force]]
+                  [--time-limit MS] [--sweep-time-limit MS] [--limit NAME=N]... [--threads N]
+      Run the sweep of FILE (its sweep lines) and print one line a point: bound levels,
+      captured weight, energy mean and spread, the lowest populations and each expect's
+      verdict, then the bound-level steps and expect flips located between points and the
+      design window. --csv prints one row a point, --json the object of expand --json with
+      its sweep field. Exit 1 when an error or a failed expect (the window's too) is found.
+      --sweep-time-limit MS  time for the whole sweep (default 60000); a sweep cut short
+                 keeps the points finished and offers a coarser step
+      --threads N  worker threads for points whose system changes (default 2)
   eigenspan --help
       Show this text.
 `;
@@ -67,8 +80,9 @@ export function run(argv: string[], io: Io): number {
   return runSafe(argv, safe, io.err);
 }
 
-function runSafe(argv: string[], io: Io, raw: (s: string) => void): number {
+function runSafe(argv: string[], io: Io, raw: (s: string) => void, thrown?: unknown): number {
   try {
+    if (thrown !== undefined) throw thrown;
     return dispatch(argv, io, raw);
   } catch (e) {
     if (e instanceof UsageError) {
@@ -98,6 +112,8 @@ function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
       return summary(rest, io);
     case 'diff':
       return diff(rest, io);
+    case 'sweep':
+      return sweepCommand(rest, io);
     default:
       throw new UsageError(`unknown command '${cmd}'; try 'eigenspan --help'`);
   }
@@ -161,11 +177,19 @@ function demo(args: string[], io: Io): number {
   return failed ? 1 : 0;
 }
 
-if (require.main === module) {
-  const code = run(process.argv.slice(2), {
+if (require.main === module && !serveSweepWorker()) {
+  const io: Io = {
     out: (s) => process.stdout.write(s),
     err: (s) => process.stderr.write(s),
     isTTY: Boolean(process.stderr.isTTY),
-  });
-  process.exitCode = code;
+  };
+  const argv = process.argv.slice(2);
+  // A sweep spreads its points over worker threads started from this same script.
+  if (argv[0] === 'sweep') {
+    const safe: Io = { out: (t) => io.out(escapeLines(t)), err: (t) => io.err(escapeLines(t)), isTTY: io.isTTY };
+    sweepCommandThreaded(argv.slice(1), safe, __filename).then(
+      (code) => (process.exitCode = code),
+      (e: unknown) => (process.exitCode = runSafe(['sweep', ...argv.slice(1)], safe, io.err, e)),
+    );
+  } else process.exitCode = run(argv, io);
 }

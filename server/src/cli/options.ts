@@ -4,8 +4,8 @@
  */
 import { readLimits, type AnalyseOptions, type Limits } from '../analysis/index';
 import type { AnalysisResult } from '../analysis/types';
-import { analyse } from '../analysis/index';
 import { withQuickStage } from '../language/meter';
+import { analyseWithSweep, SWEEP_MILLIS_RANGE, type SweepOptions } from '../analysis/sweep/index';
 
 /** Where a command prints: standard output, standard error, and whether standard error is a terminal. */
 export interface Io {
@@ -33,7 +33,18 @@ export function limitOption(value: string | undefined, into: Partial<Limits>): v
   Object.assign(into, limits);
 }
 
-/** `analyse` with the quick stage's suggestion allowance sized by the text (see language/meter.ts). */
-export function analyseBounded(text: string, options: AnalyseOptions = {}): AnalysisResult {
-  return withQuickStage({ textLength: text.length }, () => analyse(text, options));
+/**
+ * `analyse` with the quick stage's suggestion allowance sized by the text (see language/meter.ts), and
+ * the file's sweep, if it has one, under the sweep's own budget (`sweep.maxMillis`).
+ */
+export function analyseBounded(text: string, options: AnalyseOptions = {}, sweep: SweepOptions = {}): AnalysisResult {
+  return withQuickStage({ textLength: text.length }, () => analyseWithSweep(text, options, sweep));
+}
+
+/** Reads the value of `--sweep-time-limit MS` (a whole number of milliseconds for a whole sweep). */
+export function sweepTimeLimit(value: string | undefined): number {
+  const v = Number(value);
+  const [lo, hi] = SWEEP_MILLIS_RANGE;
+  if (value === undefined || !Number.isInteger(v) || v < lo || v > hi) throw new UsageError(`--sweep-time-limit needs a whole number of milliseconds from ${lo} to ${hi}`);
+  return v;
 }

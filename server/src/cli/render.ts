@@ -64,6 +64,8 @@ export function toJson(result: AnalysisResult, text: string): Record<string, unk
     const { density: _density, ...rest } = result.evolution;
     out.evolution = rest;
   }
+  // A file with `sweep` lines: the sweep's points, located changes and design window (docs/format.md, "Sweeps").
+  if (result.sweep) out.sweep = result.sweep;
   return out;
 }
 

@@ -171,7 +171,7 @@ export function runSweep(text: string, options: AnalyseOptions = {}, sweep: Swee
  */
 export function analyseWithSweep(text: string, options: AnalyseOptions = {}, sweep: SweepOptions = {}): AnalysisResult {
   const result = analyse(text, options);
-  if (options.evaluate === false) return result;
+  if (options.evaluate === false || !(result.file?.statements.some((s) => s.kind === 'sweep') ?? false)) return result;
   const s = runSweep(text, options, sweep);
   if (!s) return result;
   return mergeSweep(result, s);

@@ -66,6 +66,8 @@ function pointFindings(input: FindingInput): EngineDiagnostic[] {
   const at = job.setting.axes[0]!.stmt.span;
   const out: EngineDiagnostic[] = [];
   for (const [code, e] of byCode) {
+    // A warning at every point is the analysis's own finding at the let's value too.
+    if (!e.error && e.ks.length === result.finished) continue;
     const share = e.ks.length === result.finished ? `at all ${result.finished} points` : `at ${e.ks.length} of ${result.finished} points`;
     const head = e.error ? `The setup is invalid ${share} of the sweep` : `The analysis warns (${code}) ${share} of the sweep`;
     const text = `${head}: ${pointsText(result, e.ks)}. At ${pointLabel(result, result.points[e.ks[0]!]!.at)}: ${e.message}`;
@@ -102,7 +104,7 @@ function stopFindings(input: FindingInput): EngineDiagnostic[] {
   ];
 }
 
-const SWEEP_HINT = ' The sweep time limit is the editor setting `eigenspan.sweepTimeLimitMs` and `--sweep-time-limit MS` on the command line.';
+const SWEEP_HINT = ' The sweep time limit is `--sweep-time-limit MS` on the command line.';
 
 /** Each `expect window covers A..B`: every row's window must hold the range. */
 function windowFindings(input: FindingInput): EngineDiagnostic[] {
