@@ -11,7 +11,8 @@ import { DEFAULT_LIMITS, type Limits } from '../analysis/index';
 import { lineTable } from '../language/positions';
 import { escapeText } from './escape';
 import { readBounded, walkTree, type Refusal } from './files';
-import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { analyseBounded, limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
+import type { SweepOptions } from '../analysis/sweep/index';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analysedRecord, refusedRecord, type FileRecord } from './records';
 import { renderDiagnostic } from './render';
@@ -54,7 +55,7 @@ function reportRefusal(io: Io, tally: Tally, r: Refusal): void {
 }
 
 /** Reads and checks one file, printing its findings. */
-function checkFile(io: Io, tally: Tally, f: string, limits: Partial<Limits>): void {
+function checkFile(io: Io, tally: Tally, f: string, limits: Partial<Limits>, sweep: SweepOptions = {}): void {
   const maxBytes = limits.maxFileBytes ?? DEFAULT_LIMITS.maxFileBytes;
   const read = readBounded(f, { maxBytes });
   if (!read.ok) {
@@ -71,7 +72,7 @@ function checkFile(io: Io, tally: Tally, f: string, limits: Partial<Limits>): vo
     return;
   }
   const text = read.data.toString('utf8');
-  const result = analyseBounded(text, { limits });
+  const result = analyseBounded(text, { limits }, sweep);
   const lines = lineTable(text);
   tally.records.push(analysedRecord(f, text, result, lines));
   for (const d of result.diagnostics) {
@@ -101,9 +102,11 @@ export function check(args: string[], io: Io, progress: (s: string) => void): nu
   const limits: Partial<Limits> = {};
   const reports: { sarif?: string; junit?: string } = {};
   let force = false;
+  const sweep: SweepOptions = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--sarif' || a === '--junit') reports[a === '--sarif' ? 'sarif' : 'junit'] = outPathOption(a, args[++i]);
+    if (a === '--sweep-time-limit') sweep.maxMillis = sweepTimeLimit(args[++i]);
+    else if (a === '--sarif' || a === '--junit') reports[a === '--sarif' ? 'sarif' : 'junit'] = outPathOption(a, args[++i]);
     else if (a === '--force') force = true;
     else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
@@ -119,7 +122,7 @@ export function check(args: string[], io: Io, progress: (s: string) => void): nu
   const showProgress = io.isTTY && files.length > 3;
   files.forEach((f, i) => {
     if (showProgress) progress(`\r[${i + 1}/${files.length}] ${escapeText(f)}\x1b[K`);
-    checkFile(io, tally, f, limits);
+    checkFile(io, tally, f, limits, sweep);
   });
   if (showProgress) progress('\r\x1b[K');
   if (reports.sarif !== undefined) writeOutput(reports.sarif, renderSarif(tally.records), force);

@@ -16,7 +16,7 @@ import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
 import { escapeJson, escapeLines, escapeText } from './escape';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
-import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { analyseBounded, limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
 import { readText } from './readtext';
 import { renderCsv, renderJson, renderTable } from './render';
 import { DEFAULT_TOLERANCE } from './diff';
@@ -26,7 +26,7 @@ import { serveSweepWorker, sweepCommandThreaded } from './sweepThreads';
 
 const USAGE = `Usage:
   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
-                   [--time-limit MS] [--limit NAME=N]...
+                   [--time-limit MS] [--sweep-time-limit MS] [--limit NAME=N]...
       Expand the state of FILE in its system's energy eigenbasis.
       --json   one JSON object (levels, norm, captured, energy, parity, continuum, diagnostics)
       --table  a readable table (the default)
@@ -40,7 +40,7 @@ const USAGE = `Usage:
       --limit NAME=N   raise or lower one cap (repeatable); NAME and its range:
 ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padEnd(20)}${String(DEFAULT_LIMITS[k as keyof Limits]).padStart(8)} (${lo} to ${hi})`).join('\n')}
   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force]
-                  [--time-limit MS] [--limit NAME=N]...
+                  [--time-limit MS] [--sweep-time-limit MS] [--limit NAME=N]...
       Print every finding as FILE:LINE:COL: SEVERITY[CODE]: MESSAGE, one a line, and a
       summary line (files, errors, warnings) on standard error. Folders are searched for
       .qstate files; links are followed only inside the folder, and anything that is not a
@@ -127,9 +127,11 @@ function expand(args: string[], io: Io): number {
   let outPath: string | null = null;
   let force = false;
   const limits: Partial<Limits> = {};
+  let sweepMillis: number | undefined;
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
-    if (a === '--out') outPath = outPathOption('--out', args[++i]);
+    if (a === '--sweep-time-limit') sweepMillis = sweepTimeLimit(args[++i]);
+    else if (a === '--out') outPath = outPathOption('--out', args[++i]);
     else if (a === '--force') force = true;
     else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
@@ -152,7 +154,7 @@ function expand(args: string[], io: Io): number {
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null) assertWritable(outPath, force);
   const text = readText(file, limits.maxFileBytes);
-  const result = analyseBounded(text, { defaultBasis: basis, limits });
+  const result = analyseBounded(text, { defaultBasis: basis, limits }, { maxMillis: sweepMillis });
   const shown = escapeText(file);
   const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result, bare) : renderTable(result, text, shown);
   if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
