@@ -23,6 +23,7 @@ import { fitExponent, measure, ratioOf, type Timing } from './stats';
 import { benchColdStart, benchLsp, bundleRows } from './processes';
 import { benchExpression } from './expressions';
 import { boxPacketReference } from './anchor';
+import { benchSweep } from './sweep';
 
 export { formatReport } from './report';
 
@@ -530,6 +531,7 @@ export function runSuite(options: SuiteOptions = {}): SuiteResult {
     rows.push(benchColdStart(root, 'plucked-box.qstate', tiny ? 1 : 7));
     rows.push(bundleRows(root));
   });
+  step('9 sweep', () => rows.push(benchSweep(root, tiny, Math.min(reps, 3))));
   return {
     meta: { date: new Date().toISOString(), node: process.version, cpus: cpus().length, cpuModel: cpus()[0]?.model ?? 'unknown', tiny, reps },
     rows,
