@@ -23,12 +23,14 @@ const entries = [
   { in: 'server/src/api/engine.ts', out: 'dist/engine.js' },
   { in: 'server/src/lsp/main.ts', out: 'dist/server.js' },
   { in: 'server/src/lsp/worker.ts', out: 'dist/worker.js' },
+  { in: 'server/src/lsp/sweepWorker.ts', out: 'dist/sweepWorker.js' },
   { in: 'client/src/extension.ts', out: 'dist/extension.js', external: ['vscode'] },
   ...(production
     ? []
     : [
         { in: 'server/src/lsp/main.ts', out: 'dist/test/server.js', test: true },
         { in: 'server/src/lsp/worker.ts', out: 'dist/test/worker.js', test: true },
+        { in: 'server/src/lsp/sweepWorker.ts', out: 'dist/test/sweepWorker.js', test: true },
       ]),
 ];
 

@@ -11,7 +11,7 @@ const out = process.argv.find((a) => a.startsWith('--out='))?.slice(6) ?? `out/$
 // The production build overwrites the bundles in place (others may be using dist/ right now);
 // stale source maps stay out of the package through .vscodeignore's allow-list.
 execFileSync(process.execPath, ['scripts/build.mjs', '--production'], { stdio: 'inherit' });
-for (const f of ['dist/extension.js', 'dist/server.js', 'dist/worker.js', 'dist/webview/panel.js', 'dist/webview/panel.css']) {
+for (const f of ['dist/extension.js', 'dist/server.js', 'dist/worker.js', 'dist/sweepWorker.js', 'dist/webview/panel.js', 'dist/webview/panel.css']) {
   if (!existsSync(f)) {
     console.error(`package: ${f} is missing after the production build`);
     process.exit(1);

@@ -87,6 +87,7 @@ describe('the .vsix package', () => {
       'extension/dist/extension.js',
       'extension/dist/server.js',
       'extension/dist/worker.js',
+      'extension/dist/sweepWorker.js',
       'extension/dist/webview/panel.js',
       'extension/dist/webview/panel.css',
       'extension/syntaxes/qstate.tmLanguage.json',

@@ -18,4 +18,4 @@ log = (m) => connection.console.error(m);
 if (transport?.stdio) guardStdio(connection, transport);
 // Over node IPC the stream-end hook of the library does not apply: a closed channel means the client is gone.
 if (typeof process.send === 'function') process.on('disconnect', () => process.exit(1));
-startServer(connection, { workerPath: join(__dirname, 'worker.js') });
+startServer(connection, { workerPath: join(__dirname, 'worker.js'), sweepWorkerPath: join(__dirname, 'sweepWorker.js') });

@@ -9,11 +9,14 @@ import { AnalysisScheduler } from './scheduler';
 import { Session } from './session';
 import { DocumentStore } from './documents';
 import { registerHandlers } from './handlers';
+import { registerSweep } from './sweep';
 
 /** Options of `startServer`. */
 export interface ServerOptions {
   /** The bundled worker script. */
   workerPath: string;
+  /** The bundled sweep worker script (`eigenspan/sweep`, lsp/sweep.ts). */
+  sweepWorkerPath?: string;
 }
 
 /** Serves one client over `connection` until it goes away. */
@@ -59,6 +62,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   connection.onShutdown(() => scheduler.dispose());
 
   registerHandlers(connection, store, session, logError);
+  if (options.sweepWorkerPath) registerSweep(connection, store, session, options.sweepWorkerPath);
   const documents = new TextDocuments(TextDocument);
   store.listen(documents);
   documents.listen(connection);

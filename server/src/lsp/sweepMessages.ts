@@ -1,0 +1,37 @@
+/**
+ * The `eigenspan/sweep` request of the language server and the messages of its sweep worker.
+ *
+ * Request `eigenspan/sweep`, params `{ textDocument: { uri }, timeLimitMs? }`: runs the document's sweep
+ * (its current text) under its own time limit (default 60000 ms, separate from the per-keystroke one),
+ * reporting LSP work-done progress (`window/workDoneProgress/create`, then `$/progress` begin, a report
+ * a finished point with its percentage, and end) when the client supports it. Cancellable with
+ * `$/cancelRequest` or `window/workDoneProgress/cancel`: the answer then holds the points finished and
+ * `sweep.stopped` is `cancelled`. Answer: `{ uri, version, sweep, diagnostics }` (the sweep's own
+ * findings as LSP diagnostics), or `{ uri, version, sweep: null, diagnostics: [] }` when the document has
+ * no valid sweep; an untrusted workspace gets an error (nothing is evaluated there).
+ */
+import type { Limits } from '../analysis/index';
+import type { EngineDiagnostic } from '../language/catalogue';
+import type { SweepResult } from '../analysis/sweep/index';
+
+export const SWEEP_REQUEST = 'eigenspan/sweep';
+
+export interface SweepParams {
+  textDocument: { uri: string };
+  timeLimitMs?: number;
+}
+
+/** What the worker is started with. */
+export interface SweepJobData {
+  text: string;
+  defaultBasis: number;
+  limits: Partial<Limits>;
+  maxMillis: number;
+  /** An Int32Array view of a SharedArrayBuffer; element 0 becomes 1 to cancel. */
+  cancel: Int32Array;
+}
+
+export type SweepWorkerMessage =
+  | { type: 'point'; finished: number; total: number }
+  | { type: 'done'; outcome: { result: SweepResult; diagnostics: EngineDiagnostic[] } | null }
+  | { type: 'failed'; message: string };
