@@ -5,7 +5,7 @@
  * Events are waited for; nothing sleeps.
  */
 import { afterEach, describe, expect, it } from 'vitest';
-import { CancellationTokenSource } from 'vscode-languageserver-protocol/node';
+import { CancellationTokenSource, WorkDoneProgress } from 'vscode-languageserver-protocol/node';
 import { CAPABILITIES, startClient, type TestClient } from './client';
 
 interface Progress {
@@ -28,13 +28,15 @@ async function progressClient(): Promise<{ c: TestClient; created: (string | num
   const created: (string | number)[] = [];
   const seen: Progress[] = [];
   const waiters: { accept: (p: Progress) => boolean; resolve: (p: Progress) => void }[] = [];
+  // The server creates its token first and only then sends $/progress on it, so the handler is in place in time.
   c.connection.onRequest('window/workDoneProgress/create', (p: { token: string | number }) => {
     created.push(p.token);
+    c.connection.onProgress(WorkDoneProgress.type, p.token, (value) => {
+      const got = { token: p.token, value } as Progress;
+      seen.push(got);
+      for (const w of [...waiters]) if (w.accept(got)) waiters.splice(waiters.indexOf(w), 1) && w.resolve(got);
+    });
     return null;
-  });
-  c.connection.onUnhandledProgress((p: Progress) => {
-    seen.push(p);
-    for (const w of [...waiters]) if (w.accept(p)) waiters.splice(waiters.indexOf(w), 1) && w.resolve(p);
   });
   const next = (accept: (p: Progress) => boolean): Promise<Progress> => {
     const done = seen.find(accept);
