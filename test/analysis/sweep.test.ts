@@ -159,6 +159,7 @@ describe('the sweep line', () => {
     const bad = diagnostics.filter((d) => d.code === 'evaluation');
     expect(bad).toHaveLength(1);
     expect(bad[0]!.start).toBe(text.indexOf('sweep'));
+    expect(bad[0]!.severity).toBe('warning');
     expect(bad[0]!.message).toContain('a = -0.5 to 0');
     // Where the box is narrower than the state (a < 1) the state is cut by the wall: a warning with its values.
     const walls = diagnostics.filter((d) => d.code === 'boundary');

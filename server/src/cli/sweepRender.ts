@@ -91,14 +91,16 @@ function windowLines(s: SweepResult): string[] {
 
 /**
  * `eigenspan sweep --csv`: a comment line naming the units (dropped with `bare`), a header, and one row
- * a point: the swept values, `valid`, `bound`, `captured`, `continuum`, `mean`, `spread`, then `P<n>` and
+ * a point: the swept values (a name equal to another column's as `let:NAME`), `valid`, `bound`, `captured`, `continuum`, `mean`, `spread`, then `P<n>` and
  * `E<n>` for each level the points report, then `expect<line>` as 1 (holds) or 0; empty cells for
  * numbers a point has not. Points the budget did not reach are left out.
  */
 export function renderSweepCsv(result: AnalysisResult, bare = false): string {
   const s = result.sweep!;
   const ns = labels(s, 10);
-  const header = [...s.axes.map((a) => a.name), 'valid', 'bound', 'captured', 'continuum', 'mean', 'spread', ...ns.map((n) => `P${n}`), ...ns.map((n) => `E${n}`), ...s.expects.map((x) => `expect${x.line}`)];
+  const fixed = ['valid', 'bound', 'captured', 'continuum', 'mean', 'spread', ...ns.map((n) => `P${n}`), ...ns.map((n) => `E${n}`), ...s.expects.map((x) => `expect${x.line}`)];
+  // A swept name that equals another column's name is written let:NAME, so every header is unique.
+  const header = [...s.axes.map((a) => (fixed.includes(a.name) ? `let:${a.name}` : a.name)), ...fixed];
   const units = [...s.axes.map((a) => `${a.name} in ${a.unit ?? 'natural units'}`), `energy in ${result.units.energy ?? 'natural units (hbar = 1, mass = 1)'}`].join('; ');
   const rows = bare ? [header.join(',')] : [`# ${units}`, header.join(',')];
   const cell = (v: number | null | undefined): string => (v === null || v === undefined || !Number.isFinite(v) ? '' : String(v));

@@ -21,7 +21,7 @@ import { parseExpression } from '../../expr/sandbox';
 import { forEachNode } from '../../expr/walk';
 import { buildModel, type Model, type ModelOptions } from '../model';
 import { DEFAULT_BASIS, resolveLimits, type AnalyseOptions } from '../options';
-import { readFile, sortDiagnostics } from '../front';
+import { internalError, readFile, sortDiagnostics } from '../front';
 import { analyse } from '../index';
 import type { AnalysisResult } from '../types';
 import { checkSweeps, type PlannedWindow } from './plan';
@@ -172,9 +172,14 @@ export function runSweep(text: string, options: AnalyseOptions = {}, sweep: Swee
 export function analyseWithSweep(text: string, options: AnalyseOptions = {}, sweep: SweepOptions = {}): AnalysisResult {
   const result = analyse(text, options);
   if (options.evaluate === false || !(result.file?.statements.some((s) => s.kind === 'sweep') ?? false)) return result;
-  const s = runSweep(text, options, sweep);
-  if (!s) return result;
-  return mergeSweep(result, s);
+  try {
+    const s = runSweep(text, options, sweep);
+    return s ? mergeSweep(result, s) : result;
+  } catch (err) {
+    // A bug in the sweep must not lose the analysis: it becomes one finding.
+    result.diagnostics = sortDiagnostics([...result.diagnostics, internalError(err, text)]);
+    return result;
+  }
 }
 
 /** Adds a sweep's result and findings to an analysis result. */

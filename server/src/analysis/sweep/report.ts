@@ -71,7 +71,8 @@ function pointFindings(input: FindingInput): EngineDiagnostic[] {
     const share = e.ks.length === result.finished ? `at all ${result.finished} points` : `at ${e.ks.length} of ${result.finished} points`;
     const head = e.error ? `The setup is invalid ${share} of the sweep` : `The analysis warns (${code}) ${share} of the sweep`;
     const text = `${head}: ${pointsText(result, e.ks)}. At ${pointLabel(result, result.points[e.ks[0]!]!.at)}: ${e.message}`;
-    out.push(diagnostic(code as Code, at.start, at.end, text, { severity: e.error ? 'error' : 'warning' }));
+    // A warning even for invalid points: a sweep may explore past the valid range; the other points stand.
+    out.push(diagnostic(code as Code, at.start, at.end, text, { severity: 'warning' }));
   }
   return out;
 }
