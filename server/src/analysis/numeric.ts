@@ -7,6 +7,8 @@ import type { AnalysisResult, EvolutionResult, LevelResult, SampleResult } from 
 import type { QFile } from '../language/ast';
 import type { Eigenbasis } from '../physics/types';
 import { evolve, revivalTime } from '../physics/evolution';
+import { fineSurvival } from '../physics/survival';
+import { addFineSurvival } from './fineSurvival';
 import { timeToDisplay } from '../expr/units';
 import type { Model } from './model';
 import { buildBasis, buildState, type BuiltBasis, type StateFunction } from './systems';
@@ -158,6 +160,7 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
     revival: rev === null ? null : t(rev),
   };
   if (r.density) res.density = r.density.map((d: Float64Array) => Array.from(d));
+  if (r.stopped === null) addFineSurvival(res, fineSurvival(basis.energies, cRe, cIm, ev.to, ev.steps, { budget: ctx.budget }), t);
   return res;
 }
 
