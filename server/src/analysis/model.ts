@@ -141,7 +141,9 @@ class ModelBuilder {
     for (const stmt of statements) this.statement(stmt);
     const stateStmt = statements.find((s) => s.kind === 'state');
     if (stateStmt && stateStmt.kind === 'state') {
-      const m = this.state(stateStmt.state, this.model.system !== null);
+      // A written system whose line failed was reported there: phi in the state is not a second finding.
+      const written = statements.some((s) => s.kind === 'system') || (this.file.rejected ?? []).some((r) => r.keyword === 'system');
+      const m = this.state(stateStmt.state, written);
       if (m) this.model.state = { model: m, stmt: stateStmt };
     }
     return { ...this.model, units: this.units, lets: this.lets, ok: this.errors === 0 };
@@ -359,6 +361,8 @@ class ModelBuilder {
         const checked = checkExpression(e, scope, null, 'the state');
         this.push(checked.diagnostics);
         if (checked.dimension === null) return null;
+        // phi(n, x) needs the system's levels, which a failed system line does not give.
+        if (this.model.system === null && usesName(e, 'phi')) return null;
         const c = compileFunction(e, scope);
         this.push(c.diagnostics);
         if (!c.result) return null;

@@ -57,7 +57,8 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
   const push = (ds: EngineDiagnostic[]): void => {
     for (const d of ds) if (!((d.code === 'forbidden' || d.code === 'name') && refused.has(file.text.slice(d.start, d.end)))) out.push(d);
   };
-  const hasSystem = file.statements.some((s) => s.kind === 'system');
+  // A system line that failed was reported there: phi in the state is not a second finding.
+  const hasSystem = file.statements.some((s) => s.kind === 'system') || (file.rejected ?? []).some((r) => r.keyword === 'system');
   const parseOptions = { maxLength: limits.maxExpressionLength, maxDepth: limits.maxNesting };
   const check = (slot: Slot): void => {
     const p = parseExpression(slot.src, parseOptions);
