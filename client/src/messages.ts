@@ -79,7 +79,7 @@ export function isPanelResult(v: unknown): v is PanelResult {
   const e = v.energy;
   if (e !== null && !(isObj(e) && isNum(e.mean) && isNum(e.spread))) return false;
   if (v.parity !== null && !(isStr(v.parity) && PARITIES.has(v.parity))) return false;
-  if (!isOptNum(v.continuum)) return false;
+  if (!isOptNum(v.continuum) || !isOptNum(v.meanQuantumNumber)) return false;
   const d = v.decay;
   if (d !== null && !(isObj(d) && isNum(d.exponent) && isStr(d.classification) && DECAY.has(d.classification) && isNum(d.at))) return false;
   return isEvolution(v.evolution) && isSamples(v.samples);

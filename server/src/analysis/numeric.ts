@@ -9,6 +9,7 @@ import type { Eigenbasis } from '../physics/types';
 import { evolve, revivalTime } from '../physics/evolution';
 import { fineSurvival } from '../physics/survival';
 import { addFineSurvival } from './fineSurvival';
+import { meanQuantumNumber } from '../shared/quanta';
 import { timeToDisplay } from '../expr/units';
 import type { Model } from './model';
 import { buildBasis, buildState, type BuiltBasis, type StateFunction } from './systems';
@@ -86,6 +87,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   }
   for (const check of STATE_CHECKS) out.push(...check(m, checks));
   fillResult(m, result);
+  if (m.basis.kind === 'oscillator') result.meanQuantumNumber = meanQuantumNumber(result.system, result.energy?.mean);
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out);
   const plotX = plotGrid(m.basis, m.window);

@@ -84,6 +84,11 @@ export interface AnalysisResult {
   parity: 'even' | 'odd' | 'mixed' | null;
   /** Finite well only: 1 - sum of bound-state weights. */
   continuum?: number;
+  /**
+   * Oscillator only: the mean quantum number <n> = (<E> - E_0) / (hbar omega) = sum_n n |c_n|^2, or
+   * null when the energy mean is not finite.
+   */
+  meanQuantumNumber?: number | null;
   decay: DecayResult | null;
   /** The smallest number of levels whose weights add up to 0.999 of the state, if reached. */
   levelsFor999: number | null;
