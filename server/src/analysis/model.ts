@@ -12,6 +12,7 @@ import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
 
@@ -225,7 +226,8 @@ class ModelBuilder {
     this.push(v.diagnostics);
     if (!v.result) return null;
     const expected = dimensionOf(kind, this.units);
-    if (this.units.mode === 'physical' && !sameDimension(v.result.dimension, expected)) {
+    const asEnergy = frequencyAsEnergy(kind, v.result.dimension, this.units);
+    if (this.units.mode === 'physical' && !asEnergy && !sameDimension(v.result.dimension, expected)) {
       const worded = checkExpression(e, this.scope, expected, what).diagnostics;
       this.push(worded);
       if (worded.some((d) => d.severity === 'error')) return null;
@@ -235,6 +237,7 @@ class ModelBuilder {
       this.error('evaluation', src, `${capital(what)} must be real, but it is complex (${fmt(re)} + ${fmt(im)} i).`);
       return null;
     }
+    if (asEnergy) return energyOfFrequency(re);
     return kind === 'frequency' ? re * 2 * Math.PI : re;
   }
 

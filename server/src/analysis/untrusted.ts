@@ -13,6 +13,7 @@ import { parseExpression } from '../expr/sandbox';
 import { checkExpression, foldReal } from '../expr/check';
 import { createScope, makeUnitSystem } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { frequencyAsEnergy } from './frequencyEnergy';
 import { readFile, sortDiagnostics, internalError } from './front';
 import { resolveLimits, type AnalyseOptions, type Limits } from './options';
 
@@ -65,7 +66,13 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
     push(p.diagnostics);
     if (!p.result) return;
     const s: Scope = { ...scope, hasX: slot.hasX ?? false, hasPhi: slot.hasPhi ?? false };
-    push(checkExpression(p.result, s, slot.kind === null ? null : dimensionOf(slot.kind, units), slot.what).diagnostics);
+    const checked = checkExpression(p.result, s, slot.kind === null ? null : dimensionOf(slot.kind, units), slot.what);
+    // A frequency where a constant energy is expected stands for E = h f (frequencyEnergy.ts), as in the model.
+    if (!slot.hasX && checked.diagnostics.some((d) => d.code === 'units')) {
+      const free = checkExpression(p.result, s, null, slot.what);
+      if (free.dimension !== null && frequencyAsEnergy(slot.kind, free.dimension, units)) return push(free.diagnostics);
+    }
+    push(checked.diagnostics);
   };
   for (const stmt of file.statements) {
     if (stmt.kind === 'state') continue;
