@@ -36,3 +36,13 @@ describe('a system line the parser rejects', () => {
     expect(analyse(text).diagnostics.map((x) => [x.code, x.start])).toEqual([['name', 15], ['name', 27]]);
   });
 });
+
+describe('a let whose value fails', () => {
+  it('gives its one finding; later uses of its name add none', () => {
+    const text = 'units nm, meV\nlet E = 3 mev\nsystem oscillator(quantum = E)\nstate eigen(0) of oscillator(quantum = E)\n';
+    // 'mev' (a misspelt meV) starts at offset 24 (counted in this string).
+    for (const d of [analyse(text).diagnostics, analyseUntrusted(text).diagnostics]) {
+      expect(d.filter((x) => x.severity === 'error').map((x) => [x.code, x.start, x.end])).toEqual([['name', 24, 27]]);
+    }
+  });
+});

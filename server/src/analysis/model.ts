@@ -199,11 +199,14 @@ class ModelBuilder {
   /** A `let`: the name gets its value (the parser has already refused reserved names). */
   private let(stmt: Extract<Statement, { kind: 'let' }>): void {
     const e = this.expr(stmt.expr);
-    if (!e) return;
     // evaluateConstant checks names and dimensions itself (no dimension is expected of a `let`).
-    const v = evaluateConstant(e, this.scope);
-    this.push(v.diagnostics);
-    if (!v.result) return;
+    const v = e ? evaluateConstant(e, this.scope) : null;
+    if (v) this.push(v.diagnostics);
+    if (!v?.result) {
+      // Its value failed and was reported here: later uses of the name add nothing.
+      this.refused.add(stmt.name);
+      return;
+    }
     this.scope.values.set(stmt.name, { value: v.result.value, dimension: v.result.dimension, definedAt: stmt.nameSpan });
     this.lets.set(stmt.name, { value: v.result.value, dimension: v.result.dimension, span: stmt.nameSpan, valueSpan: stmt.expr });
   }

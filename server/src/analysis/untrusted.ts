@@ -82,10 +82,17 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
     }
     const p = parseExpression(stmt.expr, parseOptions);
     push(p.diagnostics);
-    if (!p.result) continue;
+    // A `let` whose value failed was reported there: later uses of its name add nothing.
+    if (!p.result) {
+      refused.add(stmt.name);
+      continue;
+    }
     const checked = checkExpression(p.result, scope, null, `'${stmt.name}'`);
     push(checked.diagnostics);
-    if (checked.dimension === null) continue;
+    if (checked.dimension === null) {
+      refused.add(stmt.name);
+      continue;
+    }
     scope.values.set(stmt.name, { value: { re: foldReal(p.result, scope) ?? NaN, im: 0 }, dimension: checked.dimension, definedAt: stmt.nameSpan });
   }
   const state = file.statements.find((s) => s.kind === 'state');
