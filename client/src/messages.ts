@@ -3,19 +3,13 @@
  * Data from the other side is untrusted: a message that does not have exactly the expected shape is
  * dropped (the checks return null) rather than half-used. Pure; shared by the extension and the panel.
  */
-import type { HostToPanel, PanelToHost } from '../../server/src/protocol';
+import type { HostToPanel, PanelSettingsMessage, PanelToHost } from '../../server/src/protocol';
 
 /** The result payload the panel draws (the analysis without its syntax tree). */
 export type PanelResult = Extract<HostToPanel, { type: 'result' }>['result'];
 
-/**
- * Host to panel: the `eigenspan.plotScale` setting, or 'auto' when the user has not set it (the panel
- * then takes the natural scale of each spectrum). Widens the protocol's `PanelSettingsMessage` by 'auto'.
- */
-export interface PanelSettings {
-  type: 'settings';
-  plotScale: 'linear' | 'log' | 'auto';
-}
+/** Host to panel: the `eigenspan.plotScale` setting, or 'auto' when the user has not set it (the protocol's message). */
+export type PanelSettings = PanelSettingsMessage;
 
 /** Every message the host may send to the panel. */
 export type HostMessage = HostToPanel | PanelSettings;
@@ -85,7 +79,7 @@ export function isPanelResult(v: unknown): v is PanelResult {
   const e = v.energy;
   if (e !== null && !(isObj(e) && isNum(e.mean) && isNum(e.spread))) return false;
   if (v.parity !== null && !(isStr(v.parity) && PARITIES.has(v.parity))) return false;
-  if (!isOptNum(v.continuum)) return false;
+  if (!isOptNum(v.continuum) || !isOptNum(v.meanQuantumNumber)) return false;
   const d = v.decay;
   if (d !== null && !(isObj(d) && isNum(d.exponent) && isStr(d.classification) && DECAY.has(d.classification) && isNum(d.at))) return false;
   return isEvolution(v.evolution) && isSamples(v.samples);

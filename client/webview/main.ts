@@ -11,6 +11,7 @@ import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
 import { formatPercent } from '../../server/src/shared/numbers';
+import { oscillatorQuantum, quantaText } from '../../server/src/shared/quanta';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
 import { continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, partialSum, sampledState } from './physics';
@@ -106,19 +107,26 @@ function show(section: { views: boolean; stale?: boolean; problems?: boolean; em
   for (const id of ['export-png', 'export-svg']) ($(id) as HTMLButtonElement).disabled = !section.views || section.stale === true;
 }
 
+/** An oscillator's energy also in its quantum ħω, ` (2.5 ħω)`; nothing for other systems (display only). */
+function inQuanta(r: PanelResult, e: number): string {
+  const q = oscillatorQuantum(r.system);
+  return q === null ? '' : ` (${quantaText(e, q)})`;
+}
+
 function summaryItems(r: PanelResult): [string, string][] {
   const eu = r.units.energy ? ` ${r.units.energy}` : '';
   const c = r.system?.center;
   const about = c === null || c === undefined ? '' : ` about x = ${formatNumber(c)}${r.units.length ? ` ${r.units.length}` : ''}`;
   const items: [string, string][] = [
-    ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}`],
-    ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : `${formatNumber(r.energy.spread, 4)}${eu}`],
+    ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}${inQuanta(r, r.energy.mean)}`],
+    ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : `${formatNumber(r.energy.spread, 4)}${eu}${inQuanta(r, r.energy.spread)}`],
     ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
     ['norm as written', formatNumber(r.norm, 6)],
     ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
     ['levels for 99.9 %', r.levelsFor999 == null ? `not reached${r.captured == null ? '' : ` (the ${r.levels.length} levels hold ${formatPercent(r.captured)})`}` : String(r.levelsFor999)],
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
+  if (typeof r.meanQuantumNumber === 'number') items.push(['⟨n⟩', formatNumber(r.meanQuantumNumber, 5)]);
   if (r.decay && r.decay.classification !== 'unknown') {
     const law = r.decay.exponent !== null ? `|c_n| ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
     items.push(['decay', `${law} (${r.decay.classification})`]);

@@ -46,8 +46,11 @@ export interface SetTrustParams {
 /** Host to panel: display preferences taken from the `eigenspan.*` settings. */
 export interface PanelSettingsMessage {
   type: 'settings';
-  /** Initial scale of the spectrum view when the panel has no saved choice of its own. */
-  plotScale: 'linear' | 'log';
+  /**
+   * Initial scale of the spectrum view when the panel has no saved choice of its own; 'auto' (the user
+   * has not set `eigenspan.plotScale`) lets the panel take each spectrum's natural scale.
+   */
+  plotScale: 'linear' | 'log' | 'auto';
 }
 
 /** `initializationOptions` the language server understands (all optional). */

@@ -2,9 +2,9 @@
  * Checking `expect` lines against the measured results.
  */
 import type { AnalysisResult } from './types';
-import type { EngineDiagnostic } from '../language/catalogue';
+import type { EngineDiagnostic, FixData } from '../language/catalogue';
 import type { ComparisonModel, Model } from './model';
-import { capital, fmt, replaceFix, warn } from './findings';
+import { capital, fmt, formatFactor, replaceFix, warn } from './findings';
 
 /** Appends an `expect` error for every expect line the result does not satisfy. */
 export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[]): void {
@@ -19,7 +19,7 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
         break;
       }
       case 'norm':
-        compare(x.comparison, result.norm, 'the norm', '', span, out);
+        compare(x.comparison, result.norm, 'the norm', '', span, out, normaliseFix(model, x.comparison, result.norm));
         break;
       case 'energy':
         compare(x.comparison, result.energy?.mean ?? null, 'the energy mean', eu, span, out);
@@ -51,7 +51,20 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
   }
 }
 
-function compare(c: ComparisonModel, measured: number | null, what: string, unit: string, span: { start: number; end: number }, out: EngineDiagnostic[]): void {
+/**
+ * On a failed `expect norm V +- T` of a formula: scale the state so the integral of |psi|^2 becomes V
+ * (factor sqrt(V / measured)): the file's state is what is wrong, not the check.
+ */
+function normaliseFix(model: Model, c: ComparisonModel, norm: number | null): FixData | null {
+  const state = model.state?.model;
+  if (state?.kind !== 'psi' || c.kind !== 'tolerance' || norm === null || !(norm > 0) || !(c.value > 0)) return null;
+  const factor = Math.sqrt(c.value / norm);
+  if (!Number.isFinite(factor)) return null;
+  const title = c.value === 1 ? 'Normalise the state' : `Scale the state to the norm ${fmt(c.value)}`;
+  return { ...replaceFix(title, state.expr, `${formatFactor(factor)} * (${state.expr.text})`), preferred: true };
+}
+
+function compare(c: ComparisonModel, measured: number | null, what: string, unit: string, span: { start: number; end: number }, out: EngineDiagnostic[], repair: FixData | null = null): void {
   if (measured === null) {
     out.push(warn('expect', span, `${capital(what)} could not be measured (it diverges or the analysis stopped), so the expectation fails.`));
     return;
@@ -74,9 +87,10 @@ function compare(c: ComparisonModel, measured: number | null, what: string, unit
   }
   if (!ok) {
     const text = `${measuredText(measured)}${unit}`;
-    out.push(
-      warn('expect', span, `Expected ${what} ${wanted}, measured ${measuredText(measured)}${unit}.`, c.kind === 'tolerance' ? [replaceFix(`Set the expected value to ${text}`, c.valueText, text)] : undefined),
-    );
+    const fixes: FixData[] = repair ? [repair] : [];
+    // Making the check agree with the measurement is offered, but not preferred when the file itself can be repaired.
+    if (c.kind === 'tolerance') fixes.push({ ...replaceFix(`Set the expected value to ${text}`, c.valueText, text), preferred: repair ? false : undefined });
+    out.push(warn('expect', span, `Expected ${what} ${wanted}, measured ${measuredText(measured)}${unit}.`, fixes.length > 0 ? fixes : undefined));
   }
 }
 

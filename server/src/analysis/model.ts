@@ -12,6 +12,7 @@ import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
 
@@ -141,7 +142,9 @@ class ModelBuilder {
     for (const stmt of statements) this.statement(stmt);
     const stateStmt = statements.find((s) => s.kind === 'state');
     if (stateStmt && stateStmt.kind === 'state') {
-      const m = this.state(stateStmt.state, this.model.system !== null);
+      // A written system whose line failed was reported there: phi in the state is not a second finding.
+      const written = statements.some((s) => s.kind === 'system') || (this.file.rejected ?? []).some((r) => r.keyword === 'system');
+      const m = this.state(stateStmt.state, written);
       if (m) this.model.state = { model: m, stmt: stateStmt };
     }
     return { ...this.model, units: this.units, lets: this.lets, ok: this.errors === 0 };
@@ -196,11 +199,14 @@ class ModelBuilder {
   /** A `let`: the name gets its value (the parser has already refused reserved names). */
   private let(stmt: Extract<Statement, { kind: 'let' }>): void {
     const e = this.expr(stmt.expr);
-    if (!e) return;
     // evaluateConstant checks names and dimensions itself (no dimension is expected of a `let`).
-    const v = evaluateConstant(e, this.scope);
-    this.push(v.diagnostics);
-    if (!v.result) return;
+    const v = e ? evaluateConstant(e, this.scope) : null;
+    if (v) this.push(v.diagnostics);
+    if (!v?.result) {
+      // Its value failed and was reported here: later uses of the name add nothing.
+      this.refused.add(stmt.name);
+      return;
+    }
     this.scope.values.set(stmt.name, { value: v.result.value, dimension: v.result.dimension, definedAt: stmt.nameSpan });
     this.lets.set(stmt.name, { value: v.result.value, dimension: v.result.dimension, span: stmt.nameSpan, valueSpan: stmt.expr });
   }
@@ -223,7 +229,8 @@ class ModelBuilder {
     this.push(v.diagnostics);
     if (!v.result) return null;
     const expected = dimensionOf(kind, this.units);
-    if (this.units.mode === 'physical' && !sameDimension(v.result.dimension, expected)) {
+    const asEnergy = frequencyAsEnergy(kind, v.result.dimension, this.units);
+    if (this.units.mode === 'physical' && !asEnergy && !sameDimension(v.result.dimension, expected)) {
       const worded = checkExpression(e, this.scope, expected, what).diagnostics;
       this.push(worded);
       if (worded.some((d) => d.severity === 'error')) return null;
@@ -233,6 +240,7 @@ class ModelBuilder {
       this.error('evaluation', src, `${capital(what)} must be real, but it is complex (${fmt(re)} + ${fmt(im)} i).`);
       return null;
     }
+    if (asEnergy) return energyOfFrequency(re);
     return kind === 'frequency' ? re * 2 * Math.PI : re;
   }
 
@@ -359,6 +367,8 @@ class ModelBuilder {
         const checked = checkExpression(e, scope, null, 'the state');
         this.push(checked.diagnostics);
         if (checked.dimension === null) return null;
+        // phi(n, x) needs the system's levels, which a failed system line does not give.
+        if (this.model.system === null && usesName(e, 'phi')) return null;
         const c = compileFunction(e, scope);
         this.push(c.diagnostics);
         if (!c.result) return null;

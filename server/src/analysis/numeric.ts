@@ -7,6 +7,9 @@ import type { AnalysisResult, EvolutionResult, LevelResult, SampleResult } from 
 import type { QFile } from '../language/ast';
 import type { Eigenbasis } from '../physics/types';
 import { evolve, revivalTime } from '../physics/evolution';
+import { fineSurvival } from '../physics/survival';
+import { addFineSurvival } from './fineSurvival';
+import { meanQuantumNumber } from '../shared/quanta';
 import { timeToDisplay } from '../expr/units';
 import type { Model } from './model';
 import { buildBasis, buildState, type BuiltBasis, type StateFunction } from './systems';
@@ -84,6 +87,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   }
   for (const check of STATE_CHECKS) out.push(...check(m, checks));
   fillResult(m, result);
+  if (m.basis.kind === 'oscillator') result.meanQuantumNumber = meanQuantumNumber(result.system, result.energy?.mean);
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out);
   const plotX = plotGrid(m.basis, m.window);
@@ -158,6 +162,7 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
     revival: rev === null ? null : t(rev),
   };
   if (r.density) res.density = r.density.map((d: Float64Array) => Array.from(d));
+  if (r.stopped === null) addFineSurvival(res, fineSurvival(basis.energies, cRe, cIm, ev.to, ev.steps, { budget: ctx.budget }), t);
   return res;
 }
 

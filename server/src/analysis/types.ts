@@ -39,6 +39,15 @@ export interface EvolutionResult {
   revival: number | null;
   /** |psi(x, t)|^2 on `samples.x` for each time (panel only; omitted from the command line's JSON). */
   density?: number[][];
+  /**
+   * The survival's own fine time grid (same unit as `times`), 0 to the `evolve` end in a whole number of
+   * intervals per evolve step (so every evolve time is on it), at least 16 a period of the fastest beat
+   * between the levels holding 99.9 % of the weight, at most 4097 points. Absent when the time limit
+   * stopped the evolution.
+   */
+  survivalTimes?: number[];
+  /** The survival probability on `survivalTimes` (`survival` stays parallel to `times`). */
+  survivalFine?: number[];
 }
 
 /** Samples for plots (panel only). */
@@ -76,6 +85,11 @@ export interface AnalysisResult {
   parity: 'even' | 'odd' | 'mixed' | null;
   /** Finite well only: 1 - sum of bound-state weights. */
   continuum?: number;
+  /**
+   * Oscillator only: the mean quantum number <n> = (<E> - E_0) / (hbar omega) = sum_n n |c_n|^2, or
+   * null when the energy mean is not finite.
+   */
+  meanQuantumNumber?: number | null;
   decay: DecayResult | null;
   /** The smallest number of levels whose weights add up to 0.999 of the state, if reached. */
   levelsFor999: number | null;

@@ -13,6 +13,7 @@ import { parseExpression } from '../expr/sandbox';
 import { checkExpression, foldReal } from '../expr/check';
 import { createScope, makeUnitSystem } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { frequencyAsEnergy } from './frequencyEnergy';
 import { readFile, sortDiagnostics, internalError } from './front';
 import { resolveLimits, type AnalyseOptions, type Limits } from './options';
 
@@ -57,14 +58,21 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
   const push = (ds: EngineDiagnostic[]): void => {
     for (const d of ds) if (!((d.code === 'forbidden' || d.code === 'name') && refused.has(file.text.slice(d.start, d.end)))) out.push(d);
   };
-  const hasSystem = file.statements.some((s) => s.kind === 'system');
+  // A system line that failed was reported there: phi in the state is not a second finding.
+  const hasSystem = file.statements.some((s) => s.kind === 'system') || (file.rejected ?? []).some((r) => r.keyword === 'system');
   const parseOptions = { maxLength: limits.maxExpressionLength, maxDepth: limits.maxNesting };
   const check = (slot: Slot): void => {
     const p = parseExpression(slot.src, parseOptions);
     push(p.diagnostics);
     if (!p.result) return;
     const s: Scope = { ...scope, hasX: slot.hasX ?? false, hasPhi: slot.hasPhi ?? false };
-    push(checkExpression(p.result, s, slot.kind === null ? null : dimensionOf(slot.kind, units), slot.what).diagnostics);
+    const checked = checkExpression(p.result, s, slot.kind === null ? null : dimensionOf(slot.kind, units), slot.what);
+    // A frequency where a constant energy is expected stands for E = h f (frequencyEnergy.ts), as in the model.
+    if (!slot.hasX && checked.diagnostics.some((d) => d.code === 'units')) {
+      const free = checkExpression(p.result, s, null, slot.what);
+      if (free.dimension !== null && frequencyAsEnergy(slot.kind, free.dimension, units)) return push(free.diagnostics);
+    }
+    push(checked.diagnostics);
   };
   for (const stmt of file.statements) {
     if (stmt.kind === 'state') continue;
@@ -74,10 +82,17 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
     }
     const p = parseExpression(stmt.expr, parseOptions);
     push(p.diagnostics);
-    if (!p.result) continue;
+    // A `let` whose value failed was reported there: later uses of its name add nothing.
+    if (!p.result) {
+      refused.add(stmt.name);
+      continue;
+    }
     const checked = checkExpression(p.result, scope, null, `'${stmt.name}'`);
     push(checked.diagnostics);
-    if (checked.dimension === null) continue;
+    if (checked.dimension === null) {
+      refused.add(stmt.name);
+      continue;
+    }
     scope.values.set(stmt.name, { value: { re: foldReal(p.result, scope) ?? NaN, im: 0 }, dimension: checked.dimension, definedAt: stmt.nameSpan });
   }
   const state = file.statements.find((s) => s.kind === 'state');

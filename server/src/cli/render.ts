@@ -7,6 +7,7 @@ import type { AnalysisResult } from '../analysis/types';
 import type { EngineDiagnostic } from '../language/catalogue';
 import { lineTable, positionAt, type LineTable } from '../language/positions';
 import { formatNumber } from '../shared/numbers';
+import { oscillatorQuantum, quantaText } from '../shared/quanta';
 
 /** A diagnostic with 1-based lines and columns, as the JSON and `check` print them. */
 export interface LocatedDiagnostic {
@@ -55,6 +56,7 @@ export function toJson(result: AnalysisResult, text: string): Record<string, unk
     parity: result.parity,
   };
   if (result.continuum !== undefined) out.continuum = result.continuum;
+  if (result.meanQuantumNumber !== undefined) out.meanQuantumNumber = result.meanQuantumNumber;
   out.diagnostics = result.diagnostics.map((d) => locate(d, lines));
   out.units = result.units;
   out.system = result.system;
@@ -91,6 +93,7 @@ const num = formatNumber;
 /** `expand --table` and `demo`: a readable summary with the levels table. */
 export function renderTable(result: AnalysisResult, text: string, file: string): string {
   const eu = result.units.energy ?? '';
+  const quantum = oscillatorQuantum(result.system);
   const lines: string[] = [];
   lines.push(`== ${file}`);
   if (result.system) {
@@ -99,9 +102,11 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   if (result.levels.length > 0) {
     const top = result.levels.filter((l) => l.weight > 1e-12);
     const shown = top.slice(0, 12);
-    lines.push(`  ${'n'.padStart(4)}  ${('E_n' + (eu ? ` [${eu}]` : '')).padStart(16)}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${'|c_n|^2'.padStart(13)}`);
+    // An oscillator's energies also in its quantum hbar omega, where they read n + 1/2.
+    const inQ = (e: number): string => (quantum === null ? '' : `  ${num(e / quantum, 8).padStart(16)}`);
+    lines.push(`  ${'n'.padStart(4)}  ${('E_n' + (eu ? ` [${eu}]` : '')).padStart(16)}${quantum === null ? '' : `  ${'E_n [hbar omega]'.padStart(16)}`}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${'|c_n|^2'.padStart(13)}`);
     for (const l of shown) {
-      lines.push(`  ${String(l.n).padStart(4)}  ${num(l.energy, 8).padStart(16)}  ${num(l.re).padStart(13)}  ${num(l.im).padStart(13)}  ${num(l.weight).padStart(13)}`);
+      lines.push(`  ${String(l.n).padStart(4)}  ${num(l.energy, 8).padStart(16)}${inQ(l.energy)}  ${num(l.re).padStart(13)}  ${num(l.im).padStart(13)}  ${num(l.weight).padStart(13)}`);
     }
     if (top.length > shown.length) lines.push(`  ... ${top.length - shown.length} more levels with weight above 1e-12 (of ${result.levels.length} computed)`);
   }
@@ -109,8 +114,10 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   if (result.captured !== null) lines.push(`captured weight: ${num(result.captured, 10)}${result.levelsFor999 !== null ? `   (99.9% within ${result.levelsFor999} levels)` : ''}`);
   if (result.continuum !== undefined) lines.push(`continuum weight: ${num(result.continuum, 6)}`);
   if (result.energy) {
-    lines.push(`energy mean: ${result.energy.mean === null ? 'diverges' : num(result.energy.mean, 10) + (eu ? ' ' + eu : '')}   spread: ${result.energy.spread === null ? 'diverges' : num(result.energy.spread, 10) + (eu ? ' ' + eu : '')}`);
+    const q = (e: number): string => (quantum === null ? '' : ` (${quantaText(e, quantum, true)})`);
+    lines.push(`energy mean: ${result.energy.mean === null ? 'diverges' : num(result.energy.mean, 10) + (eu ? ' ' + eu : '') + q(result.energy.mean)}   spread: ${result.energy.spread === null ? 'diverges' : num(result.energy.spread, 10) + (eu ? ' ' + eu : '') + q(result.energy.spread)}`);
   }
+  if (typeof result.meanQuantumNumber === 'number') lines.push(`mean quantum number <n>: ${num(result.meanQuantumNumber, 8)}`);
   if (result.parity) lines.push(`parity: ${result.parity}`);
   if (result.decay && result.decay.exponent !== null) lines.push(`decay: |c_n| ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
   if (result.evolution) {

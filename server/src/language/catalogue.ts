@@ -30,9 +30,17 @@ export type Code = keyof typeof CATALOGUE;
  * Data a front end needs to offer a quick fix for a diagnostic.
  * Edits are described by document offsets; front ends turn them into their own edits.
  */
-export type FixData =
+export type FixData = (
   | { kind: 'replace'; title: string; start: number; end: number; text: string }
-  | { kind: 'insert'; title: string; at: number; text: string };
+  | { kind: 'insert'; title: string; at: number; text: string }
+) & {
+  /**
+   * Whether editors should prefer this fix (apply it on "fix all" or a single key). Default: the only
+   * fix of its finding is preferred. A fix that makes the check agree with what was measured is never
+   * preferred over one that repairs the file.
+   */
+  preferred?: boolean;
+};
 
 /** A finding, located by document offsets (UTF-16 code units, half-open [start, end)). */
 export interface EngineDiagnostic {

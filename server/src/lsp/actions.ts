@@ -54,7 +54,8 @@ export function quickFixes(view: DocView, diagnostics: Diagnostic[]): CodeAction
         title: f.title,
         kind: CodeActionKind.QuickFix,
         diagnostics: [d],
-        isPreferred: fixes.length === 1,
+        // The engine marks which fix repairs the file; otherwise only a lone fix is preferred.
+        isPreferred: f.preferred ?? fixes.length === 1,
         edit: { changes: { [view.uri]: [edit] } },
       });
     });

@@ -42,3 +42,25 @@ export function toLspDiagnostics(lines: LineTable, version: number, list: Engine
   }
   return out;
 }
+
+/** What a carried finding holds in `Diagnostic.data`: it comes from the previous full analysis (see carry.ts). */
+export interface CarriedData {
+  stale: true;
+}
+
+/** Carried findings (already mapped into the current text) as LSP diagnostics, marked stale and without fixes. */
+export function toCarriedLspDiagnostics(lines: LineTable, list: EngineDiagnostic[]): Diagnostic[] {
+  return list.map((d) => ({ ...toLspDiagnostic(lines, 0, { ...d, fixes: undefined }), data: { stale: true } satisfies CarriedData }));
+}
+
+/** The quick stage's findings and the carried ones, in document order. */
+export function withCarried(fresh: Diagnostic[], carried: Diagnostic[]): Diagnostic[] {
+  const at = (d: Diagnostic): number[] => [d.range.start.line, d.range.start.character, d.range.end.line, d.range.end.character];
+  const before = (a: Diagnostic, b: Diagnostic): number => {
+    const x = at(a);
+    const y = at(b);
+    for (let i = 0; i < 4; i++) if (x[i] !== y[i]) return x[i]! - y[i]!;
+    return 0;
+  };
+  return [...fresh, ...carried].sort(before);
+}

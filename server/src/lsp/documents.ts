@@ -16,7 +16,8 @@ import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { QFile } from '../language/ast';
 import { RESULT_NOTIFICATION, type ResultParams } from '../protocol';
 import { lineTable, type LineTable } from './positions';
-import { toLspDiagnostics } from './diagnostics';
+import { toCarriedLspDiagnostics, toLspDiagnostics, withCarried } from './diagnostics';
+import { carryOver } from './carry';
 import type { AnalysisScheduler, Outcome } from './scheduler';
 import type { Session } from './session';
 import type { DocView } from './view';
@@ -43,6 +44,8 @@ export interface DocState {
   full: { result: AnalysisResult | null; diagnostics: EngineDiagnostic[] } | null;
   byText: Map<string, AnalysisResult>;
   waiters: Set<() => void>;
+  /** While `full` is null: the last full analysis's numerical findings, mapped into this text (carry.ts). */
+  carried?: EngineDiagnostic[];
 }
 
 /** What the store works with. */
@@ -110,7 +113,8 @@ export class DocumentStore {
 
   /** The best diagnostics of the current text, as LSP diagnostics. */
   lspDiagnostics(st: DocState): ReturnType<typeof toLspDiagnostics> {
-    return toLspDiagnostics(st.lines, st.version, st.full?.diagnostics ?? st.staticDiagnostics);
+    const best = toLspDiagnostics(st.lines, st.version, st.full?.diagnostics ?? st.staticDiagnostics);
+    return st.full || !st.carried?.length ? best : withCarried(best, toCarriedLspDiagnostics(st.lines, st.carried));
   }
 
   private runStatic(text: string): { file: QFile; diagnostics: EngineDiagnostic[] } {
@@ -134,7 +138,8 @@ export class DocumentStore {
       this.docs.set(doc.uri, st);
     } else {
       if (doc.version < st.version) this.o.log(`${doc.uri}: version went back from ${st.version} to ${doc.version}; taking the new text and restarting the version sequence there`);
-      Object.assign(st, fresh);
+      const carried = !this.o.session.evaluate ? [] : st.full?.result ? carryOver(st.full.diagnostics, st.staticDiagnostics, s.diagnostics, st.text, text) : st.full ? [] : carryOver(st.carried ?? [], [], s.diagnostics, st.text, text);
+      Object.assign(st, fresh, { carried });
     }
     this.wake(st);
     const session = this.o.session;
@@ -180,6 +185,7 @@ export class DocumentStore {
     for (const st of this.docs.values()) {
       this.o.scheduler().forget(st.uri);
       st.full = null;
+      st.carried = undefined;
       st.revision = ++this.revisions;
       this.wake(st);
       this.publish(st);

@@ -70,7 +70,7 @@ export function registerHandlers(connection: Connection, store: DocumentStore, s
   connection.onCompletion(
     handle('completion', [], (st, p) => {
       const snippets = !!session.caps.textDocument?.completion?.completionItem?.snippetSupport;
-      return completeAt(store.view(st), offsetAt(st.lines, p.position), { snippets, retrigger: session.retrigger });
+      return completeAt(store.view(st), offsetAt(st.lines, p.position), { snippets, trigger: p.context?.triggerCharacter });
     }),
   );
   connection.onSignatureHelp(handle('signatureHelp', null, (st, p) => signatureAt(st.text, offsetAt(st.lines, p.position))));

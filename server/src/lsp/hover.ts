@@ -9,6 +9,7 @@ import { letNameAt, statementAt, letDefinitions } from './syntax';
 import { rangeOf } from './positions';
 import { fmt, fmtComplex, fmtPhase, withUnit } from './format';
 import { FUNCTIONS, KEYWORDS } from './vocabulary';
+import { oscillatorQuantum, quantaText } from '../shared/quanta';
 
 /** How many levels the state hover lists, and how many energies the system hover lists. */
 const TOP_LEVELS = 6;
@@ -41,9 +42,13 @@ function stateHover(view: DocView): string[] {
   lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
   if (r.energy) {
     // The spread is a property of the state (ΔE = sqrt(<H^2> - <H>^2)), not an error bar: its own line.
-    lines.push(`energy mean ⟨E⟩ = ${r.energy.mean === null ? 'diverges' : fmt(r.energy.mean) + e}  `);
-    lines.push(`energy spread ΔE = ${r.energy.spread === null ? (r.energy.mean === null ? 'diverges' : 'infinite or not defined') : fmt(r.energy.spread, 4) + e}  `);
+    // An oscillator's energies also in its quantum ħω (display only).
+    const q = oscillatorQuantum(r.system);
+    const inQ = (v: number): string => (q === null ? '' : ` = ${quantaText(v, q)}`);
+    lines.push(`energy mean ⟨E⟩ = ${r.energy.mean === null ? 'diverges' : fmt(r.energy.mean) + e + inQ(r.energy.mean)}  `);
+    lines.push(`energy spread ΔE = ${r.energy.spread === null ? (r.energy.mean === null ? 'diverges' : 'infinite or not defined') : fmt(r.energy.spread, 4) + e + inQ(r.energy.spread)}  `);
   }
+  if (typeof r.meanQuantumNumber === 'number') lines.push(`mean quantum number ⟨n⟩ = ${fmt(r.meanQuantumNumber)}  `);
   if (r.parity) lines.push(`parity ${r.parity}  `);
   if (r.continuum !== undefined) lines.push(`continuum weight ${fmt(r.continuum)}  `);
   if (r.levelsFor999 !== null) lines.push(`99.9% reached with ${r.levelsFor999} level${r.levelsFor999 === 1 ? "" : "s"}  `);
@@ -60,11 +65,13 @@ function systemHover(view: DocView): string[] {
   if (s.boundCount !== undefined) lines.push(`${s.boundCount} bound state${s.boundCount === 1 ? '' : 's'}  `);
   if (s.center !== null) lines.push(`centre ${fmt(s.center)}${withUnit(r.units.length)}  `);
   const shown = s.energies.slice(0, SYSTEM_LEVELS);
+  const q = oscillatorQuantum(s);
+  if (q !== null) lines.push(`quantum ħω = ${fmt(q)}${e}  `);
   if (shown.length > 0) {
-    lines.push('', `| n | E_n${e ? ` (${e.trim()})` : ''} |${s.uncertainties ? ' ± |' : ''}`, `|---:|---:|${s.uncertainties ? '---:|' : ''}`);
+    lines.push('', `| n | E_n${e ? ` (${e.trim()})` : ''} |${q !== null ? ' E_n (ħω) |' : ''}${s.uncertainties ? ' ± |' : ''}`, `|---:|---:|${q !== null ? '---:|' : ''}${s.uncertainties ? '---:|' : ''}`);
     shown.forEach((en, k) => {
       const u = s.uncertainties ? ` ${fmt(s.uncertainties[k], 2)} |` : '';
-      lines.push(`| ${first + k} | ${fmt(en)} |${u}`);
+      lines.push(`| ${first + k} | ${fmt(en)} |${q !== null ? ` ${fmt(en / q)} |` : ''}${u}`);
     });
   }
   return lines;
@@ -91,8 +98,11 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
     const e = withUnit(r.units.energy);
     if (x.kind === 'norm') measured = fmt(r.norm, 12);
     else if (x.kind === 'parity') measured = r.parity ?? 'undefined (no centre of symmetry)';
-    else if (x.kind === 'energy') measured = r.energy?.mean === null || !r.energy ? 'diverges' : fmt(r.energy.mean, 12) + e;
-    else if (x.kind === 'spread') measured = r.energy?.spread === null || !r.energy ? 'diverges' : fmt(r.energy.spread, 12) + e;
+    else if (x.kind === 'energy' || x.kind === 'spread') {
+      const v = r.energy ? (x.kind === 'energy' ? r.energy.mean : r.energy.spread) : null;
+      const q = oscillatorQuantum(r.system);
+      measured = v === null ? 'diverges' : fmt(v, 12) + e + (q === null ? '' : ` = ${quantaText(v, q)}`);
+    }
     else {
       const from = levelNumber(x.from.text);
       const to = x.to ? levelNumber(x.to.text) : from;
