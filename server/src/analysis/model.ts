@@ -32,6 +32,8 @@ export type SystemModel =
        * equal potentials, so a solved basis can be reused (systems.ts keeps a small memo).
        */
       key?: string;
+      /** Which ends the file declares hard (`walls hard open`); absent: both open, truncating the line. */
+      hard?: [boolean, boolean];
     };
 
 /** A state with its parameters evaluated or compiled. */
@@ -347,7 +349,9 @@ class ModelBuilder {
     const c = compileFunction(e, scope);
     this.push(c.diagnostics);
     if (!c.result) return null;
-    return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    const model: SystemModel = { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    if (spec.walls) model.hard = [spec.walls.left === 'hard', spec.walls.right === 'hard'];
+    return model;
   }
 
   private state(spec: StateSpec, hasSystem: boolean): StateModel | null {

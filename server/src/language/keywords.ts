@@ -121,6 +121,9 @@ export const KEYWORD_NAMES: readonly Keyword[] = KEYWORDS.map((k) => k.keyword);
 /** What may follow `expect`. */
 export const EXPECT_KINDS = ['norm', 'parity', 'weight', 'energy', 'spread'] as const;
 
+/** The kinds of wall of a `V(x) ... over [A, B] walls ...` interval. */
+export const WALL_KINDS = ['hard', 'open'] as const;
+
 /** The parity values of `expect parity`. */
 export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;
 
