@@ -14,6 +14,7 @@ import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEn
 import { findSingularity, gradedTowards, weightWithin, type Singularity } from './singular';
 import type { ComputeContext, StopReason } from './context';
 import { wallLine, type WallLine } from './wallValues';
+import { gridVariance } from './spread';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -299,7 +300,8 @@ function energyOf(m: {
   for (let k = 0; k < count; k++) meanFromLevels += weights[k]! * basis.energies[k]!;
   const g = gridEnergy(basis, ex.q, ex.values, ex.norm);
   let mean: number | null = g.mean;
-  let spread: number | null = Math.sqrt(Math.max(0, g.meanSquare - g.mean * g.mean));
+  // ||(H - <H>) psi|| keeps the digits sqrt(<H^2> - <H>^2) cancels: an eigenstate's spread is ~1e-14, not 1e-7.
+  let spread: number | null = Math.sqrt(Math.max(0, gridVariance(basis, ex.q, ex.values, ex.norm, g.mean)));
   // Levels the solver could not resolve say nothing about the state's smoothness.
   const unresolved = m.built.unresolved;
   const resolved = unresolved ? Math.max(0, Math.min(count, unresolved - basis.firstLabel)) : count;
