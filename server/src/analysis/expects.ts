@@ -1,15 +1,29 @@
 /**
  * Checking `expect` lines against the measured results.
  */
-import type { AnalysisResult } from './types';
+import type { AnalysisResult, LevelResult } from './types';
+import type { Eigenbasis } from '../physics/types';
+import type { Budget } from './context';
+import { checkMore } from './expectsMore';
 import type { EngineDiagnostic } from '../language/catalogue';
 import type { ComparisonModel, Model } from './model';
 import { capital, fmt, replaceFix, warn } from './findings';
 
+/** What the forms about dynamics need besides the result: the basis, the levels and the budget. */
+export interface ExpectDynamics {
+  basis: Eigenbasis;
+  levels: LevelResult[];
+  budget: Budget;
+}
+
 /** Appends an `expect` error for every expect line the result does not satisfy. */
-export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[]): void {
+export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[], dyn?: ExpectDynamics): void {
   const eu = model.units.mode === 'physical' ? ` ${model.units.energy.name}` : '';
   for (const x of model.expects) {
+    if (x.kind === 'level' || x.kind === 'continuum' || x.kind === 'revival' || x.kind === 'mean') {
+      checkMore(x, model, result, dyn ?? null, out);
+      continue;
+    }
     const span = x.stmt.span;
     switch (x.kind) {
       case 'parity': {
@@ -19,7 +33,7 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
         break;
       }
       case 'norm':
-        compare(x.comparison, result.norm, 'the norm', '', span, out);
+        compare(x.comparison, result.norm, 'the norm', x.unit ? ` ${x.unit}` : '', span, out);
         break;
       case 'energy':
         compare(x.comparison, result.energy?.mean ?? null, 'the energy mean', eu, span, out);
@@ -51,7 +65,15 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
   }
 }
 
-function compare(c: ComparisonModel, measured: number | null, what: string, unit: string, span: { start: number; end: number }, out: EngineDiagnostic[]): void {
+export function compare(
+  c: ComparisonModel,
+  measured: number | null,
+  what: string,
+  unit: string,
+  span: { start: number; end: number },
+  out: EngineDiagnostic[],
+  show: (v: number) => number = (v) => v,
+): void {
   if (measured === null) {
     out.push(warn('expect', span, `${capital(what)} could not be measured (it diverges or the analysis stopped), so the expectation fails.`));
     return;
@@ -61,21 +83,21 @@ function compare(c: ComparisonModel, measured: number | null, what: string, unit
   switch (c.kind) {
     case 'tolerance':
       ok = Math.abs(measured - c.value) <= c.tolerance;
-      wanted = `${fmt(c.value)}${unit} ± ${fmt(c.tolerance)}${unit}`;
+      wanted = `${fmt(show(c.value))}${unit} ± ${fmt(show(c.tolerance))}${unit}`;
       break;
     case 'atLeast':
       ok = measured >= c.value;
-      wanted = `at least ${fmt(c.value)}${unit}`;
+      wanted = `at least ${fmt(show(c.value))}${unit}`;
       break;
     case 'atMost':
       ok = measured <= c.value;
-      wanted = `at most ${fmt(c.value)}${unit}`;
+      wanted = `at most ${fmt(show(c.value))}${unit}`;
       break;
   }
   if (!ok) {
-    const text = `${measuredText(measured)}${unit}`;
+    const text = `${measuredText(show(measured))}${unit}`;
     out.push(
-      warn('expect', span, `Expected ${what} ${wanted}, measured ${measuredText(measured)}${unit}.`, c.kind === 'tolerance' ? [replaceFix(`Set the expected value to ${text}`, c.valueText, text)] : undefined),
+      warn('expect', span, `Expected ${what} ${wanted}, measured ${text}.`, c.kind === 'tolerance' ? [replaceFix(`Set the expected value to ${text}`, c.valueText, text)] : undefined),
     );
   }
 }

@@ -58,7 +58,11 @@ export type Expectation =
   | { kind: 'parity'; value: 'even' | 'odd' | 'mixed'; valueSpan: Span }
   | { kind: 'weight'; from: ExprText; to: ExprText | null; comparison: Comparison }
   | { kind: 'energy'; comparison: Comparison }
-  | { kind: 'spread'; comparison: Comparison };
+  | { kind: 'spread'; comparison: Comparison }
+  | { kind: 'level'; level: ExprText; comparison: Comparison }
+  | { kind: 'continuum'; comparison: Comparison }
+  | { kind: 'revival'; comparison: Comparison }
+  | { kind: 'mean'; observable: 'x' | 'p'; time: ExprText; comparison: Comparison };
 
 /** One statement; `span` covers the whole statement including continuation lines, `keywordSpan` its keyword. */
 export type Statement =

@@ -5,6 +5,7 @@ import type { ExprText, Span, Statement } from './ast';
 import { EXPECT_KINDS, PARITY_VALUES } from './keywords';
 import { isSpace } from './scanner';
 import { fail, parseComparison, unexpected, unknownName, type Ctx } from './parserParts';
+import { parseMoreExpect } from './parseExpectMore';
 import {
   exprText,
   identEnd,
@@ -65,6 +66,13 @@ export function parseExpect(ctx: Ctx, span: Span, kwSpan: Span): Statement | nul
       }
       const comparison = parseComparison(ctx, r, hi, to ?? from);
       return comparison === null ? null : done({ kind: 'weight', from, to, comparison });
+    }
+    case 'level':
+    case 'continuum':
+    case 'revival':
+    case 'mean': {
+      const expectation = parseMoreExpect(ctx, kind, kindSpan, e, hi);
+      return expectation === null ? null : done(expectation);
     }
   }
   unknownName(ctx, kindSpan, kind, EXPECT_KINDS, `Unknown check '${kind}'; expected ${EXPECT_KINDS.join(', ')}.`);

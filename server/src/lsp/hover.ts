@@ -93,7 +93,15 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
     else if (x.kind === 'parity') measured = r.parity ?? 'undefined (no centre of symmetry)';
     else if (x.kind === 'energy') measured = r.energy?.mean === null || !r.energy ? 'diverges' : fmt(r.energy.mean, 12) + e;
     else if (x.kind === 'spread') measured = r.energy?.spread === null || !r.energy ? 'diverges' : fmt(r.energy.spread, 12) + e;
-    else {
+    else if (x.kind === 'level') {
+      const n = levelNumber(x.level.text);
+      const l = r.levels.find((lv) => lv.n === n) ?? null;
+      if (l) measured = fmt(l.energy, 12) + e;
+    } else if (x.kind === 'continuum') {
+      if (r.continuum !== undefined) measured = fmt(r.continuum, 12);
+    } else if (x.kind === 'revival' || x.kind === 'mean') {
+      // Measured where the line is checked: its finding names the value when it fails.
+    } else {
       const from = levelNumber(x.from.text);
       const to = x.to ? levelNumber(x.to.text) : from;
       if (from !== null && to !== null) {
