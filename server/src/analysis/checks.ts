@@ -48,7 +48,10 @@ export function stopFinding(s: Stop, ctx: CheckContext): EngineDiagnostic {
     case 'tooNarrow':
       return warn('norm', span, `The state is far narrower than the system's extent (${fmt(s.window[0])} to ${fmt(s.window[1])}), so the grid misses it; check the mass and the system's size.`, undefined, 'error');
     case 'zero':
-      return warn('norm', span, 'The state is zero everywhere in the system; there is nothing to expand.', undefined, 'error');
+      // Sampling cannot prove a state zero between its points: say what was seen, not more.
+      return warn('norm', span, `The state is zero at every point sampled${s.points ? ` (${s.points} points over the system)` : ''}, so there is nothing to expand; a feature narrower than their spacing would be missed.`, undefined, 'error');
+    case 'narrowPeak':
+      return warn('norm', span, `The state is a peak at x = ${fmt(s.center)} of width ${fmt(s.width)}, narrower than double precision can place grid points on there; widen it or move the system's origin closer to it.`, undefined, 'error');
     case 'notFinite':
       // Overflowing or underflowing parameters (a mass of 1e-300) make coefficients NaN or energies infinite.
       return warn('evaluation', span, "The coefficients or level energies are not finite numbers: the system's, the mass's or the state's values are beyond what double precision can compute; rescale them.", undefined, 'error');
@@ -108,7 +111,9 @@ export const checkWalls: StateCheck = (m, ctx) => {
   const [a, b] = w.walls;
   const [va, vb] = w.values;
   const at = (x: number, v: number): string =>
-    Number.isFinite(v) ? `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)} normalised, ${fmt(v / (w.peak || v))} times its largest value` : `psi is infinite at ${fmt(x)}`;
+    !Number.isFinite(v)
+      ? `psi is infinite at ${fmt(x)}`
+      : `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)} normalised${w.peak > 0 ? `, ${fmt(v / w.peak)} times its largest value` : ''}`;
   const offA = va > w.tolerance;
   const offB = vb > w.tolerance;
   const problems: string[] = [];

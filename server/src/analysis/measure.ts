@@ -15,6 +15,7 @@ import { findSingularity, gradedTowards, weightWithin, type Singularity } from '
 import type { ComputeContext, StopReason } from './context';
 import { wallLine, type WallLine } from './wallValues';
 import { gridVariance } from './spread';
+import { withPeaks, type NarrowPeak } from './narrow';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -28,7 +29,8 @@ export type Stop =
   | { stop: 'overflow' }
   | { stop: 'underflow' }
   | { stop: 'tooNarrow'; window: [number, number] }
-  | { stop: 'zero' }
+  | { stop: 'zero'; points?: number }
+  | { stop: 'narrowPeak'; center: number; width: number }
   | { stop: 'notFinite'; norm: number };
 
 /** The state at the hard walls: its values there and weight outside them. */
@@ -39,7 +41,7 @@ export interface WallMeasurements {
   tolerance: number;
   /** sqrt of the norm, to quote normalised values. */
   rootNorm: number;
-  /** The largest |psi| seen on the grid (not normalised), to quote a wall value against the peak. */
+  /** The largest |psi| seen on the grid (not normalised), to quote a wall value against the peak; NaN next to a spike. */
   peak: number;
   /** Fraction of |psi|^2 outside the walls (dropped); 0 when the state has no extent beyond them. */
   outside: number;
@@ -113,11 +115,14 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   const basis = built.basis;
   const window: [number, number] | null = basis.walls ? [basis.walls[0], basis.walls[1]] : findWindow(state, basis);
   if (!window) return { stop: 'noFalloff' };
-  const expanded = expandWithSpike(state, basis, input.count, window, ctx);
+  // Narrow Gaussian factors the formula announces get panels of their own (narrow.ts).
+  const sm = input.model.state?.model;
+  const peaks = withPeaks(state, sm?.kind === 'psi' ? (sm.peaks ?? []) : [], window);
+  const expanded = expandWithSpike(peaks.state, basis, input.count, window, ctx);
   if ('stop' in expanded) return expanded;
   const { ex, singular, closest, unresolvedNearSpike, projected } = expanded;
   const norm = ex.norm;
-  const bad = badNorm(ex, state, window);
+  const bad = badNorm(ex, state, window, peaks.narrow);
   if (bad) return bad;
   const count = ex.re.length;
   const { levels, weights, captured } = levelsOf(ex, basis, count);
@@ -126,7 +131,7 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   const rms = Math.sqrt(norm / (window[1] - window[0]));
   const scalePsi = singular ? rms : maxAbs(ex.values.re, ex.values.im) || 1;
   const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
-  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: maxAbs(ex.values.re, ex.values.im) }, hardWalls(input.model, input.built)) : null;
+  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: singular ? NaN : maxAbs(ex.values.re, ex.values.im) }, hardWalls(input.model, input.built)) : null;
   const found = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
   // A breakpoint at the singularity (the corner of abs(x - x0)) is the singularity, not a jump or kink.
   const apart = (x: number): boolean => !singular || Math.abs(x - singular.x) > 1e-6 * (window[1] - window[0]);
@@ -190,15 +195,18 @@ function expandWithSpike(
 }
 
 /** A norm the expansion cannot be normalised by: overflowing, underflowing, missed by the grid, or zero. */
-function badNorm(ex: Expanded, state: StateFunction, window: [number, number]): Stop | null {
+function badNorm(ex: Expanded, state: StateFunction, window: [number, number], narrow: NarrowPeak[]): Stop | null {
   const norm = ex.norm;
   if (norm === Infinity) return { stop: 'overflow' };
   if (norm > 0) return null;
   if (maxAbs(ex.values.re, ex.values.im) > 0) return { stop: 'underflow' };
+  // A peak the formula announces, too narrow for double precision to place nodes on: never "zero".
+  const peak = narrow[0];
+  if (peak) return { stop: 'narrowPeak', center: peak.center, width: peak.width };
   // The grid over the system's extent may step over a state far narrower than the system.
   const mid = state.window ? state.evaluate(new Float64Array([(state.window[0] + state.window[1]) / 2]), 0) : null;
   if (mid && maxAbs(mid.re, mid.im) > 0) return { stop: 'tooNarrow', window };
-  return { stop: 'zero' };
+  return { stop: 'zero', points: ex.q.x.length };
 }
 
 /** The levels of the normalised state, their weights and the weight captured. */
@@ -248,7 +256,9 @@ function measureWalls(state: StateFunction, ex: Expanded, basis: Eigenbasis, sca
   const tolerance = 1e-6 * scale.psi;
   const outside = weightOutside(state, a, b, ex.norm);
   const valueBreak = values[0] > tolerance || values[1] > tolerance;
-  const line = valueBreak ? wallLine(basis, ex, [v.re[0]!, v.im[0]!], [v.re[1]!, v.im[1]!]) : null;
+  // Next to a spike (no peak to quote) the rest's energy is as infinite as the state's.
+  const found = valueBreak ? wallLine(basis, ex, [v.re[0]!, v.im[0]!], [v.re[1]!, v.im[1]!]) : null;
+  const line = found && !Number.isFinite(scale.peak) ? { ...found, mean: null, spread: null } : found;
   return { walls: [a, b], values, tolerance, rootNorm: Math.sqrt(ex.norm), peak: scale.peak, outside, hard, line, broken: valueBreak || outside > 1e-9 };
 }
 

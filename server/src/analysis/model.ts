@@ -14,6 +14,7 @@ import { makeUnitSystem, createScope, formatDimension, sameDimension } from '../
 import { dimensionOf, type ValueKind } from './dimensions';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
+import { gaussianFactors, type NarrowPeak } from './narrow';
 
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
@@ -38,7 +39,7 @@ export type SystemModel =
 
 /** A state with its parameters evaluated or compiled. */
 export type StateModel =
-  | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean; dimension?: Dimension }
+  | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean; dimension?: Dimension; peaks?: NarrowPeak[] }
   | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
   | { kind: 'gaussian'; center: number; width: number; momentum: number };
 
@@ -372,7 +373,7 @@ class ModelBuilder {
         const c = compileFunction(e, scope);
         this.push(c.diagnostics);
         if (!c.result) return null;
-        return { kind: 'psi', fn: c.result, expr: spec.expr, usesPhi: usesName(e, 'phi'), dimension: checked.dimension };
+        return { kind: 'psi', fn: c.result, expr: spec.expr, usesPhi: usesName(e, 'phi'), dimension: checked.dimension, peaks: gaussianFactors(e, scope) };
       }
       case 'eigen': {
         const level = this.integer(spec.level, 'the level', 0, this.options.maxBasis);
