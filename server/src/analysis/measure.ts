@@ -16,6 +16,7 @@ import type { ComputeContext, StopReason } from './context';
 import { wallLine, type WallLine } from './wallValues';
 import { gridVariance } from './spread';
 import { withPeaks, type NarrowPeak } from './narrow';
+import { coefficientUncertainties } from './coefficientErrors';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -126,6 +127,10 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (bad) return bad;
   const count = ex.re.length;
   const { levels, weights, captured } = levelsOf(ex, basis, count);
+  if (built.coarse && !ctx.budget.expired()) {
+    const du = coefficientUncertainties(ex, built.coarse, projected, window, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
+    if (du) levels.forEach((l, k) => (l.coefficientUncertainty = du[k]!));
+  }
   if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) return { stop: 'notFinite', norm };
   // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
   const rms = Math.sqrt(norm / (window[1] - window[0]));
@@ -380,7 +385,7 @@ function levelsNeeded(input: { state: StateFunction; basis: Eigenbasis; window: 
   let n = Math.min(limits.maxBasis, Math.max(2 * basis.count, 100));
   for (let attempt = 0; attempt < 3; attempt++) {
     if (ctx.budget.expired()) return null;
-    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, [], { maxGridPoints: limits.maxGridPoints, budget: ctx.budget });
+    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, [], { maxGridPoints: limits.maxGridPoints, budget: ctx.budget, coarse: false });
     if (!b) return null;
     const m = Math.min(n, b.basis.count);
     const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, budget: ctx.budget });

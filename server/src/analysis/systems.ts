@@ -13,6 +13,7 @@ import type { StateModel, SystemModel } from './model';
 import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
 import { continuumLevels, solverCaps, type WallEnd } from './walls';
+import { coarserBasis } from './coefficientErrors';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -31,6 +32,12 @@ export interface BuiltBasis {
   points?: number;
   /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
   stopped?: StopReason | null;
+  /**
+   * Numerical systems: the basis on the solver's next-to-last grid, to give each coefficient an
+   * uncertainty by the same two-grid comparison as the levels (coefficientErrors.ts); absent when the
+   * solver stopped on its first grid or the budget ran out.
+   */
+  coarse?: Eigenbasis;
 }
 
 /** Options of `buildBasis` and `buildState`. */
@@ -39,6 +46,8 @@ export interface BuildOptions {
   maxGridPoints: number;
   /** The budget of the analysis. */
   budget: Budget;
+  /** Numerical systems: also solve the next-to-last grid for coefficient uncertainties (default true). */
+  coarse?: boolean;
 }
 
 /** How many solved numerical bases are kept (least recently used dropped first). */
@@ -138,6 +147,8 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     points: solved.points,
     stopped,
   };
+  const coarse = options.coarse === false ? null : coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...solverCaps(options.maxGridPoints), maxPoints }));
+  if (coarse) built.coarse = coarse;
   const entry = { built, above: solved.wallLevels, ends: solved.wallEnds };
   // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
   if (memoKey !== null && (stopped === null || stopped === 'cap')) {
@@ -272,7 +283,7 @@ export function buildState(
       return gaussianState(state.center, state.width, state.momentum);
     case 'eigen': {
       // Labels start at the basis's first label (0 or 1), so level + 1 levels always include it.
-      const built = buildBasis(state.system, mass, state.level + 1, out, options);
+      const built = buildBasis(state.system, mass, state.level + 1, out, { ...options, coarse: false });
       if (!built) return null;
       const k0 = state.level - built.basis.firstLabel;
       if (k0 < 0) {
