@@ -85,3 +85,17 @@ describe('declaring the walls', () => {
     expect(both?.[0]).toMatchObject({ kind: 'replace', text: '(0) - 1.5, (3) + 1.5' });
   });
 });
+
+describe('the continuum note is worded for what the potential does at the open walls', () => {
+  // Wording is the feature here: a potential still rising at the walls is cut off, not levelled into a continuum.
+  const note = (text: string): string => analyse(text).diagnostics.find((d) => d.code === 'continuum')!.message;
+
+  it('a quartic cut at |x| = 2 (V = 16 there, still rising): the walls set the levels above it', () => {
+    // Box-like levels near (n pi / 4)^2 / 2 pass V(2) = 16 by n = 8 (common practice), so 20 levels include some.
+    expect(note('system V(x) = x^4 over [-2, 2]\nstate gaussian(center = 0, width = 0.3)\nbasis 20\n')).toContain('still rising');
+  });
+
+  it('a Gaussian dip levelling off at both walls: the box-quantised continuum', () => {
+    expect(note('system V(x) = -5 exp(-x^2) over [-6, 6]\nstate gaussian(center = 0, width = 0.5)\nbasis 30\n')).toContain('continuum');
+  });
+});

@@ -79,7 +79,13 @@ export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckCont
     const first = built.wallLevels[0]! + basis.firstLabel;
     const [hardLeft, hardRight] = built.hardWalls ?? [false, false];
     const where = hardLeft ? 'at the open right wall' : hardRight ? 'at the open left wall' : 'at both walls';
-    out.push(warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential ${where}: they are the walls' box-quantised continuum, not bound states of the potential.`, undefined, 'info'));
+    // Worded for what V does at the open walls: still rising (a quartic cut off), or levelling off or falling.
+    const t = built.wallTrend;
+    const rising = t !== undefined && (hardLeft || t.left === 'rises') && (hardRight || t.right === 'rises');
+    const what = rising
+      ? 'the potential is still rising there, so the walls, not the potential, set these levels; widen the interval to resolve them'
+      : "they are the walls' box-quantised continuum, not bound states of the potential";
+    out.push(warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential ${where}: ${what}.`, undefined, 'info'));
   }
   return out;
 }

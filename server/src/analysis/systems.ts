@@ -24,6 +24,8 @@ export interface BuiltBasis {
    * is a box-quantised stand-in for the continuum.
    */
   wallLevels?: number[];
+  /** Numerical systems: what V does towards each wall (the solver's `wallTrend`), for wording. */
+  wallTrend?: { left: 'rises' | 'levels' | 'falls'; right: 'rises' | 'levels' | 'falls' };
   /** Numerical systems: the ends the file declares hard (`walls hard open`), or absent (both open). */
   hardWalls?: [boolean, boolean];
   /** Numerical systems: the label of the first level not resolved to tolerance, or null. */
@@ -146,6 +148,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     unresolved: solved.unresolved,
     points: solved.points,
     stopped,
+    wallTrend: solved.wallTrend,
   };
   const coarse = options.coarse === false ? null : coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...solverCaps(options.maxGridPoints), maxPoints }));
   if (coarse) built.coarse = coarse;
