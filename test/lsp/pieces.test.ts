@@ -50,7 +50,7 @@ describe('completion', () => {
     expect(labels('|')).toContain('system');
     expect(labels('state |')).toEqual(expect.arrayContaining(['psi', 'eigen', 'gaussian']));
     expect(labels('state eigen(1) of |')).toEqual(expect.arrayContaining(['box', 'well', 'oscillator']));
-    expect(labels('expect |')).toEqual(['norm', 'parity', 'weight', 'energy', 'spread']);
+    expect(labels('expect |')).toEqual(['norm', 'parity', 'weight', 'energy', 'spread', 'level', 'continuum', 'revival', 'mean']);
     expect(labels('expect parity |')).toEqual(['even', 'odd', 'mixed']);
     expect(labels('units nm, |')).toEqual(expect.arrayContaining(['nm', 'meV', 'ps']));
     expect(labels('units nm, |')).not.toContain('MHz');

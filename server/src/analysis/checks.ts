@@ -48,7 +48,10 @@ export function stopFinding(s: Stop, ctx: CheckContext): EngineDiagnostic {
     case 'tooNarrow':
       return warn('norm', span, `The state is far narrower than the system's extent (${fmt(s.window[0])} to ${fmt(s.window[1])}), so the grid misses it; check the mass and the system's size.`, undefined, 'error');
     case 'zero':
-      return warn('norm', span, 'The state is zero everywhere in the system; there is nothing to expand.', undefined, 'error');
+      // Sampling cannot prove a state zero between its points: say what was seen, not more.
+      return warn('norm', span, `The state is zero at every point sampled${s.points ? ` (${s.points} points over the system)` : ''}, so there is nothing to expand; a feature narrower than their spacing would be missed.`, undefined, 'error');
+    case 'narrowPeak':
+      return warn('norm', span, `The state is a peak at x = ${fmt(s.center)} of width ${fmt(s.width)}, narrower than double precision can place grid points on there; widen it or move the system's origin closer to it.`, undefined, 'error');
     case 'notFinite':
       // Overflowing or underflowing parameters (a mass of 1e-300) make coefficients NaN or energies infinite.
       return warn('evaluation', span, "The coefficients or level energies are not finite numbers: the system's, the mass's or the state's values are beyond what double precision can compute; rescale them.", undefined, 'error');
@@ -74,7 +77,15 @@ export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckCont
   }
   if (built.wallLevels && built.wallLevels.length > 0) {
     const first = built.wallLevels[0]! + basis.firstLabel;
-    out.push(warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential at both walls: they are the walls' box-quantised continuum, not bound states of the potential.`, undefined, 'info'));
+    const [hardLeft, hardRight] = built.hardWalls ?? [false, false];
+    const where = hardLeft ? 'at the open right wall' : hardRight ? 'at the open left wall' : 'at both walls';
+    // Worded for what V does at the open walls: still rising (a quartic cut off), or levelling off or falling.
+    const t = built.wallTrend;
+    const rising = t !== undefined && (hardLeft || t.left === 'rises') && (hardRight || t.right === 'rises');
+    const what = rising
+      ? 'the potential is still rising there, so the walls, not the potential, set these levels; widen the interval to resolve them'
+      : "they are the walls' box-quantised continuum, not bound states of the potential";
+    out.push(warn('continuum', sysSpan, `Levels from n = ${first} lie above the potential ${where}: ${what}.`, undefined, 'info'));
   }
   return out;
 }
@@ -99,31 +110,57 @@ export const checkNorm: StateCheck = (m, ctx) => {
   ];
 };
 
-/** The walls' boundary condition: the state's values at hard walls, weight outside them, weight piled against them. */
+/** The walls' boundary condition: the state's values at the walls and its weight outside them. */
 export const checkWalls: StateCheck = (m, ctx) => {
   const w = m.walls;
   if (!w || !w.broken) return [];
   const [a, b] = w.walls;
   const [va, vb] = w.values;
-  const at = (x: number, v: number): string => (Number.isFinite(v) ? `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)}` : `psi is infinite at ${fmt(x)}`);
+  const at = (x: number, v: number): string =>
+    !Number.isFinite(v)
+      ? `psi is infinite at ${fmt(x)}`
+      : `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)} normalised${w.peak > 0 ? `, ${fmt(v / w.peak)} times its largest value` : ''}`;
+  const offA = va > w.tolerance;
+  const offB = vb > w.tolerance;
   const problems: string[] = [];
-  if (va > w.tolerance && vb > w.tolerance) problems.push(`it is not zero at the hard walls (${at(a, va)}, ${at(b, vb)}, normalised)`);
-  else if (va > w.tolerance) problems.push(`it is not zero at the left wall (${at(a, va)}, normalised)`);
-  else if (vb > w.tolerance) problems.push(`it is not zero at the right wall (${at(b, vb)}, normalised)`);
+  if (offA && offB) problems.push(`it is not zero at the walls (${at(a, va)}; ${at(b, vb)})`);
+  else if (offA) problems.push(`it is not zero at the left wall (${at(a, va)})`);
+  else if (offB) problems.push(`it is not zero at the right wall (${at(b, vb)})`);
   if (w.outside > 1e-9) problems.push(`${pct(w.outside)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)} and is dropped`);
-  if (w.nearWalls !== null && w.nearWalls > 1e-8) problems.push(`${pct(w.nearWalls)} of |psi|^2 lies within 2% of the walls`);
   let message = `The state breaks the walls' boundary condition: ${problems.join('; ')}.`;
   let fixes: FixData[] | undefined;
   const spec = ctx.systemStmt.kind === 'system' && ctx.systemStmt.system.kind === 'potential' ? ctx.systemStmt.system : null;
-  if (spec) {
+  // Only an open wall may move: it truncates the line, while a hard wall is the physics.
+  const widenLeft = spec !== null && !w.hard[0] && (offA || (w.outside > 1e-9 && !offB));
+  const widenRight = spec !== null && !w.hard[1] && (offB || (w.outside > 1e-9 && !offA));
+  if (spec && (widenLeft || widenRight)) {
     const half = fmt((b - a) / 2);
-    message += ' The walls cut the state: widen the interval.';
-    fixes = [replaceFix('Widen the interval', { start: spec.from.start, end: spec.to.end }, `(${spec.from.text}) - ${half}, (${spec.to.text}) + ${half}`)];
-  } else if (va > w.tolerance || vb > w.tolerance) {
-    message += ' Its coefficients fall off only as 1/n and its energy mean is infinite.';
+    const from = widenLeft ? `(${spec.from.text}) - ${half}` : spec.from.text;
+    const to = widenRight ? `(${spec.to.text}) + ${half}` : spec.to.text;
+    message += ` The ${widenLeft && widenRight ? 'open walls cut' : 'open wall cuts'} the state: widen the interval${widenLeft && widenRight ? '' : widenLeft ? ' to the left' : ' to the right'}.`;
+    fixes = [replaceFix('Widen the interval', { start: spec.from.start, end: spec.to.end }, `${from}, ${to}`)];
   }
+  if ((offA && w.hard[0]) || (offB && w.hard[1])) message += ` ${hardWallText(m)}`;
   return [warn('boundary', ctx.stateSpan, message, fixes)];
 };
+
+/** A nonzero value at a hard wall: the decay it forces (as measured), and what the line through the wall values accounts for. */
+function hardWallText(m: StateMeasurements): string {
+  const d = m.decay;
+  const measured =
+    d?.exponent != null
+      ? ` (over the levels computed |c_n| falls off as n^-${fmt(d.exponent)})`
+      : d?.classification === 'smooth'
+        ? ' (over the levels computed they still fall off faster than any power: the 1/n tail lies beyond them)'
+        : '';
+  let text = `Its coefficients fall off only as 1/n for large n${measured} and its energy mean is infinite.`;
+  const line = m.walls?.line;
+  if (line && Number.isFinite(line.weight)) {
+    text += ` The straight line through its two wall values carries ${fmt(line.weight)} of |psi|^2`;
+    text += line.mean !== null ? `; the state minus that line (zero at both walls) has energy mean ${fmt(line.mean)}${line.spread !== null ? ` and spread ${fmt(line.spread)}` : ''}.` : '.';
+  }
+  return text;
+}
 
 /** An integrable spike: the infinite energy it brings, and the share of |psi|^2 too close to it for double precision. */
 export const checkSpike: StateCheck = (m, ctx) => {
@@ -146,9 +183,10 @@ export const checkConvergence: StateCheck = (m, ctx) => {
   const decay = m.decay;
   const p = decay?.exponent != null ? ` |c_n| falls off as n^-${fmt(decay.exponent)}.` : '';
   if (m.jumps.length > 0) return [warn('convergence', span, `The state jumps at x = ${fmt(m.jumps[0]!)}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`)];
-  if (m.walls?.broken) return []; // Already explained by the boundary finding.
   if (m.kinks.length > 0) return [warn('convergence', span, `The state has a kink at x = ${fmt(m.kinks[0]!)}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info')];
-  if (decay && (decay.classification === 'jump' || decay.classification === 'kink')) {
+  // A nonzero value at a hard wall is the jump this decay shows: the boundary finding words it, with the measured law.
+  const atHardWall = m.walls !== null && m.walls.values.some((v, i) => v > m.walls!.tolerance && m.walls!.hard[i]);
+  if (decay && (decay.classification === 'kink' || (decay.classification === 'jump' && !atHardWall))) {
     return [warn('convergence', span, `The coefficients decay slowly, as for a ${decay.classification}, so ${decay.classification === 'jump' ? 'the energy mean is infinite' : 'the energy spread is infinite'}.${p}`)];
   }
   const basis = m.basis;
@@ -183,7 +221,7 @@ export const checkCapture: StateCheck = (m, ctx) => {
       warn('continuum', ctx.stateSpan, `${pct(m.continuum)} of the state lies outside the ${plural(m.basis.count, 'bound state')} (in the continuum of unbound states); the bound levels capture ${pct(m.captured)}.`),
     ];
   }
-  if (!(m.captured < 1 - TOL) || m.walls?.broken) return [];
+  if (!(m.captured < 1 - TOL)) return [];
   const need = m.needed;
   const basisStmt = ctx.model.basis.stmt;
   const fixes: FixData[] | undefined =

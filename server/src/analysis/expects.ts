@@ -1,15 +1,29 @@
 /**
  * Checking `expect` lines against the measured results.
  */
-import type { AnalysisResult } from './types';
+import type { AnalysisResult, LevelResult } from './types';
+import type { Eigenbasis } from '../physics/types';
+import type { Budget } from './context';
+import { checkMore } from './expectsMore';
 import type { EngineDiagnostic, FixData } from '../language/catalogue';
 import type { ComparisonModel, Model } from './model';
 import { capital, fmt, formatFactor, replaceFix, warn } from './findings';
 
+/** What the forms about dynamics need besides the result: the basis, the levels and the budget. */
+export interface ExpectDynamics {
+  basis: Eigenbasis;
+  levels: LevelResult[];
+  budget: Budget;
+}
+
 /** Appends an `expect` error for every expect line the result does not satisfy. */
-export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[]): void {
+export function checkExpects(model: Model, result: AnalysisResult, out: EngineDiagnostic[], dyn?: ExpectDynamics): void {
   const eu = model.units.mode === 'physical' ? ` ${model.units.energy.name}` : '';
   for (const x of model.expects) {
+    if (x.kind === 'level' || x.kind === 'continuum' || x.kind === 'revival' || x.kind === 'mean') {
+      checkMore(x, model, result, dyn ?? null, out);
+      continue;
+    }
     const span = x.stmt.span;
     switch (x.kind) {
       case 'parity': {
@@ -19,7 +33,7 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
         break;
       }
       case 'norm':
-        compare(x.comparison, result.norm, 'the norm', '', span, out, normaliseFix(model, x.comparison, result.norm));
+        compare(x.comparison, result.norm, 'the norm', x.unit ? ` ${x.unit}` : '', span, out, undefined, normaliseFix(model, x.comparison, result.norm));
         break;
       case 'energy':
         compare(x.comparison, result.energy?.mean ?? null, 'the energy mean', eu, span, out);
@@ -64,7 +78,16 @@ function normaliseFix(model: Model, c: ComparisonModel, norm: number | null): Fi
   return { ...replaceFix(title, state.expr, `${formatFactor(factor)} * (${state.expr.text})`), preferred: true };
 }
 
-function compare(c: ComparisonModel, measured: number | null, what: string, unit: string, span: { start: number; end: number }, out: EngineDiagnostic[], repair: FixData | null = null): void {
+export function compare(
+  c: ComparisonModel,
+  measured: number | null,
+  what: string,
+  unit: string,
+  span: { start: number; end: number },
+  out: EngineDiagnostic[],
+  show: (v: number) => number = (v) => v,
+  repair: FixData | null = null,
+): void {
   if (measured === null) {
     out.push(warn('expect', span, `${capital(what)} could not be measured (it diverges or the analysis stopped), so the expectation fails.`));
     return;
@@ -74,23 +97,23 @@ function compare(c: ComparisonModel, measured: number | null, what: string, unit
   switch (c.kind) {
     case 'tolerance':
       ok = Math.abs(measured - c.value) <= c.tolerance;
-      wanted = `${fmt(c.value)}${unit} ± ${fmt(c.tolerance)}${unit}`;
+      wanted = `${fmt(show(c.value))}${unit} ± ${fmt(show(c.tolerance))}${unit}`;
       break;
     case 'atLeast':
       ok = measured >= c.value;
-      wanted = `at least ${fmt(c.value)}${unit}`;
+      wanted = `at least ${fmt(show(c.value))}${unit}`;
       break;
     case 'atMost':
       ok = measured <= c.value;
-      wanted = `at most ${fmt(c.value)}${unit}`;
+      wanted = `at most ${fmt(show(c.value))}${unit}`;
       break;
   }
   if (!ok) {
-    const text = `${measuredText(measured)}${unit}`;
+    const text = `${measuredText(show(measured))}${unit}`;
     const fixes: FixData[] = repair ? [repair] : [];
     // Making the check agree with the measurement is offered, but not preferred when the file itself can be repaired.
     if (c.kind === 'tolerance') fixes.push({ ...replaceFix(`Set the expected value to ${text}`, c.valueText, text), preferred: repair ? false : undefined });
-    out.push(warn('expect', span, `Expected ${what} ${wanted}, measured ${measuredText(measured)}${unit}.`, fixes.length > 0 ? fixes : undefined));
+    out.push(warn('expect', span, `Expected ${what} ${wanted}, measured ${text}.`, fixes.length > 0 ? fixes : undefined));
   }
 }
 

@@ -13,6 +13,10 @@ import { buildBasis, MissingLevel, type BuiltBasis, type StateFunction } from '.
 import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEnergy, parityParts, type Expanded } from './expand';
 import { findSingularity, gradedTowards, weightWithin, type Singularity } from './singular';
 import type { ComputeContext, StopReason } from './context';
+import { wallLine, type WallLine } from './wallValues';
+import { gridVariance } from './spread';
+import { withPeaks, type NarrowPeak } from './narrow';
+import { coefficientUncertainties } from './coefficientErrors';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -26,10 +30,11 @@ export type Stop =
   | { stop: 'overflow' }
   | { stop: 'underflow' }
   | { stop: 'tooNarrow'; window: [number, number] }
-  | { stop: 'zero' }
+  | { stop: 'zero'; points?: number }
+  | { stop: 'narrowPeak'; center: number; width: number }
   | { stop: 'notFinite'; norm: number };
 
-/** The state at the hard walls: its values there, weight outside them and weight piled against them. */
+/** The state at the hard walls: its values there and weight outside them. */
 export interface WallMeasurements {
   walls: [number, number];
   /** |psi| at each wall (not normalised), and the level above which a value counts as nonzero. */
@@ -37,11 +42,18 @@ export interface WallMeasurements {
   tolerance: number;
   /** sqrt of the norm, to quote normalised values. */
   rootNorm: number;
+  /** The largest |psi| seen on the grid (not normalised), to quote a wall value against the peak; NaN next to a spike. */
+  peak: number;
   /** Fraction of |psi|^2 outside the walls (dropped); 0 when the state has no extent beyond them. */
   outside: number;
-  /** Numerical systems: fraction of |psi|^2 within 2% of the interval's length from a wall (null otherwise or when already broken). */
-  nearWalls: number | null;
-  /** True when any of the above breaks the walls' boundary condition. */
+  /**
+   * Which walls are physics (a box's, or a `V(x)` wall declared `hard`): there a nonzero value means an
+   * infinite energy, while at an open wall it means the interval cuts the state.
+   */
+  hard: [boolean, boolean];
+  /** Nonzero wall values only: what the straight line through them accounts for (walls.ts). */
+  line: WallLine | null;
+  /** True when a value or the weight outside breaks the walls' boundary condition. */
   broken: boolean;
 }
 
@@ -104,20 +116,27 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   const basis = built.basis;
   const window: [number, number] | null = basis.walls ? [basis.walls[0], basis.walls[1]] : findWindow(state, basis);
   if (!window) return { stop: 'noFalloff' };
-  const expanded = expandWithSpike(state, basis, input.count, window, ctx);
+  // Narrow Gaussian factors the formula announces get panels of their own (narrow.ts).
+  const sm = input.model.state?.model;
+  const peaks = withPeaks(state, sm?.kind === 'psi' ? (sm.peaks ?? []) : [], window);
+  const expanded = expandWithSpike(peaks.state, basis, input.count, window, ctx);
   if ('stop' in expanded) return expanded;
   const { ex, singular, closest, unresolvedNearSpike, projected } = expanded;
   const norm = ex.norm;
-  const bad = badNorm(ex, state, window);
+  const bad = badNorm(ex, state, window, peaks.narrow);
   if (bad) return bad;
   const count = ex.re.length;
   const { levels, weights, captured } = levelsOf(ex, basis, count);
+  if (built.coarse && !ctx.budget.expired()) {
+    const du = coefficientUncertainties(ex, built.coarse, projected, window, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
+    if (du) levels.forEach((l, k) => (l.coefficientUncertainty = du[k]!));
+  }
   if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) return { stop: 'notFinite', norm };
   // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
   const rms = Math.sqrt(norm / (window[1] - window[0]));
   const scalePsi = singular ? rms : maxAbs(ex.values.re, ex.values.im) || 1;
   const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
-  const walls = basis.walls ? measureWalls(state, basis, norm, scalePsi, input.model.system?.model.kind === 'potential') : null;
+  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: singular ? NaN : maxAbs(ex.values.re, ex.values.im) }, hardWalls(input.model, input.built)) : null;
   const found = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
   // A breakpoint at the singularity (the corner of abs(x - x0)) is the singularity, not a jump or kink.
   const apart = (x: number): boolean => !singular || Math.abs(x - singular.x) > 1e-6 * (window[1] - window[0]);
@@ -133,7 +152,7 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (basis.kind === 'well') m.continuum = Math.max(0, 1 - m.captured);
   // A spike's coefficients fall off algebraically and its grids never settle: no basis within the cap
   // captures all but TOL, and the search would only spend the budget on grids that cannot agree.
-  else if (m.captured < 1 - TOL && !(walls?.broken ?? false) && !singular && !beyondCap(levels.length, 1 - m.captured, energy.decay, ctx.limits.maxBasis)) {
+  else if (m.captured < 1 - TOL && !singular && !beyondCap(levels.length, 1 - m.captured, energy.decay, ctx.limits.maxBasis)) {
     m.needed = levelsNeeded({ state: projected, basis, window, model: input.model, ctx });
   }
   return m;
@@ -181,15 +200,18 @@ function expandWithSpike(
 }
 
 /** A norm the expansion cannot be normalised by: overflowing, underflowing, missed by the grid, or zero. */
-function badNorm(ex: Expanded, state: StateFunction, window: [number, number]): Stop | null {
+function badNorm(ex: Expanded, state: StateFunction, window: [number, number], narrow: NarrowPeak[]): Stop | null {
   const norm = ex.norm;
   if (norm === Infinity) return { stop: 'overflow' };
   if (norm > 0) return null;
   if (maxAbs(ex.values.re, ex.values.im) > 0) return { stop: 'underflow' };
+  // A peak the formula announces, too narrow for double precision to place nodes on: never "zero".
+  const peak = narrow[0];
+  if (peak) return { stop: 'narrowPeak', center: peak.center, width: peak.width };
   // The grid over the system's extent may step over a state far narrower than the system.
   const mid = state.window ? state.evaluate(new Float64Array([(state.window[0] + state.window[1]) / 2]), 0) : null;
   if (mid && maxAbs(mid.re, mid.im) > 0) return { stop: 'tooNarrow', window };
-  return { stop: 'zero' };
+  return { stop: 'zero', points: ex.q.x.length };
 }
 
 /** The levels of the normalised state, their weights and the weight captured. */
@@ -211,6 +233,12 @@ function levelsOf(ex: Expanded, basis: Eigenbasis, count: number): { levels: Lev
   return { levels, weights, captured };
 }
 
+/** The walls that are physics: both of a box, the declared ones of a `V(x)` interval. */
+function hardWalls(model: Model, built: BuiltBasis): [boolean, boolean] {
+  if (model.system?.model.kind !== 'potential') return [true, true];
+  return built.hardWalls ?? [false, false];
+}
+
 /** The smallest number of levels whose weights add up to `share`, or null. */
 function levelsFor(weights: Float64Array, share: number): number | null {
   let acc = 0;
@@ -221,17 +249,22 @@ function levelsFor(weights: Float64Array, share: number): number | null {
   return null;
 }
 
-/** The state's values at the walls, its weight outside them, and (numerical systems) its weight against them. */
-function measureWalls(state: StateFunction, basis: Eigenbasis, norm: number, scalePsi: number, numerical: boolean): WallMeasurements {
+/**
+ * The state's values at the walls and its weight outside them: the boundary condition is about the
+ * state's value at and beyond the walls, never about weight near them (a state that vanishes at a
+ * wall satisfies it wherever the wall is).
+ */
+function measureWalls(state: StateFunction, ex: Expanded, basis: Eigenbasis, scale: { psi: number; peak: number }, hard: [boolean, boolean]): WallMeasurements {
   const [a, b] = basis.walls!;
   const v = state.evaluate(new Float64Array([a, b]), 0);
   const values: [number, number] = [Math.hypot(v.re[0]!, v.im[0]!), Math.hypot(v.re[1]!, v.im[1]!)];
-  const tolerance = 1e-6 * scalePsi;
-  const outside = weightOutside(state, a, b, norm);
+  const tolerance = 1e-6 * scale.psi;
+  const outside = weightOutside(state, a, b, ex.norm);
   const valueBreak = values[0] > tolerance || values[1] > tolerance;
-  const nearWalls = numerical && !valueBreak && !(outside > 1e-9) ? weightNearWalls(state, a, b) : null;
-  const broken = valueBreak || outside > 1e-9 || (nearWalls !== null && nearWalls > 1e-8);
-  return { walls: [a, b], values, tolerance, rootNorm: Math.sqrt(norm), outside, nearWalls, broken };
+  // Next to a spike (no peak to quote) the rest's energy is as infinite as the state's.
+  const found = valueBreak ? wallLine(basis, ex, [v.re[0]!, v.im[0]!], [v.re[1]!, v.im[1]!]) : null;
+  const line = found && !Number.isFinite(scale.peak) ? { ...found, mean: null, spread: null } : found;
+  return { walls: [a, b], values, tolerance, rootNorm: Math.sqrt(ex.norm), peak: scale.peak, outside, hard, line, broken: valueBreak || outside > 1e-9 };
 }
 
 /**
@@ -261,24 +294,6 @@ function weightOutside(state: StateFunction, a: number, b: number, norm: number)
   return outside / (outside + norm);
 }
 
-/** Numerical systems: the share of |psi|^2 within 2% of the interval's length from either wall (the walls cut the state). */
-function weightNearWalls(state: StateFunction, a: number, b: number): number {
-  const L = b - a;
-  const edge = 0.02 * L;
-  let near = 0;
-  let total = 0;
-  const n = 4000;
-  const xs = new Float64Array(n);
-  for (let j = 0; j < n; j++) xs[j] = a + (L * (j + 0.5)) / n;
-  const w = state.evaluate(xs, 0);
-  for (let j = 0; j < n; j++) {
-    const p = w.re[j]! ** 2 + w.im[j]! ** 2;
-    total += p;
-    if (xs[j]! < a + edge || xs[j]! > b - edge) near += p;
-  }
-  return total > 0 ? near / total : 0;
-}
-
 /**
  * The energy from the grid, with divergence decided by jumps, kinks, wall values and a spike: a jump
  * (or a broken wall, or a spike) makes the mean infinite, a kink the spread; and the decay of the
@@ -300,7 +315,8 @@ function energyOf(m: {
   for (let k = 0; k < count; k++) meanFromLevels += weights[k]! * basis.energies[k]!;
   const g = gridEnergy(basis, ex.q, ex.values, ex.norm);
   let mean: number | null = g.mean;
-  let spread: number | null = Math.sqrt(Math.max(0, g.meanSquare - g.mean * g.mean));
+  // ||(H - <H>) psi|| keeps the digits sqrt(<H^2> - <H>^2) cancels: an eigenstate's spread is ~1e-14, not 1e-7.
+  let spread: number | null = Math.sqrt(Math.max(0, gridVariance(basis, ex.q, ex.values, ex.norm, g.mean)));
   // Levels the solver could not resolve say nothing about the state's smoothness.
   const unresolved = m.built.unresolved;
   const resolved = unresolved ? Math.max(0, Math.min(count, unresolved - basis.firstLabel)) : count;
@@ -369,7 +385,7 @@ function levelsNeeded(input: { state: StateFunction; basis: Eigenbasis; window: 
   let n = Math.min(limits.maxBasis, Math.max(2 * basis.count, 100));
   for (let attempt = 0; attempt < 3; attempt++) {
     if (ctx.budget.expired()) return null;
-    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, [], { maxGridPoints: limits.maxGridPoints, budget: ctx.budget });
+    const b = n <= basis.count ? { basis } : buildBasis(sys, model.mass, n, [], { maxGridPoints: limits.maxGridPoints, budget: ctx.budget, coarse: false });
     if (!b) return null;
     const m = Math.min(n, b.basis.count);
     const ex = expandState(state, b.basis, m, window, { maxGridPoints: limits.maxGridPoints, budget: ctx.budget });

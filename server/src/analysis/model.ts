@@ -10,11 +10,12 @@ import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../expr/sandbox';
 import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
-import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
+import { makeUnitSystem, createScope, formatDimension, sameDimension } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
+import { gaussianFactors, type NarrowPeak } from './narrow';
 
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
@@ -33,19 +34,24 @@ export type SystemModel =
        * equal potentials, so a solved basis can be reused (systems.ts keeps a small memo).
        */
       key?: string;
+      /** Which ends the file declares hard (`walls hard open`); absent: both open, truncating the line. */
+      hard?: [boolean, boolean];
     };
 
 /** A state with its parameters evaluated or compiled. */
 export type StateModel =
-  | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean }
+  | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean; dimension?: Dimension; peaks?: NarrowPeak[] }
   | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
   | { kind: 'gaussian'; center: number; width: number; momentum: number };
 
 /** A checked `expect` line. */
 export type ExpectModel =
-  | { kind: 'norm' | 'energy' | 'spread'; stmt: Statement; comparison: ComparisonModel }
+  | { kind: 'norm' | 'energy' | 'spread'; stmt: Statement; comparison: ComparisonModel; unit?: string }
   | { kind: 'parity'; stmt: Statement; value: 'even' | 'odd' | 'mixed' }
-  | { kind: 'weight'; stmt: Statement; from: number; to: number; comparison: ComparisonModel };
+  | { kind: 'weight'; stmt: Statement; from: number; to: number; comparison: ComparisonModel }
+  | { kind: 'level'; stmt: Statement; level: number; comparison: ComparisonModel }
+  | { kind: 'continuum' | 'revival'; stmt: Statement; comparison: ComparisonModel }
+  | { kind: 'mean'; stmt: Statement; observable: 'x' | 'p'; time: number; comparison: ComparisonModel };
 
 /** A comparison with its numbers in internal units. */
 export interface ComparisonModel {
@@ -100,6 +106,8 @@ class ModelBuilder {
   private readonly refused: Set<string>;
   /** The parts of the model the statements fill in. */
   private readonly model: Pick<Model, 'mass' | 'system' | 'state' | 'basis' | 'expects' | 'evolve'>;
+  /** `expect norm` lines whose value has a dimension: it must be that of the integral of |psi|^2. */
+  private readonly dimensionalNorms: { stmt: Statement; dimension: Dimension; span: Span }[] = [];
 
   constructor(
     private readonly file: QFile,
@@ -147,6 +155,7 @@ class ModelBuilder {
       const m = this.state(stateStmt.state, written);
       if (m) this.model.state = { model: m, stmt: stateStmt };
     }
+    this.normDimensions();
     return { ...this.model, units: this.units, lets: this.lets, ok: this.errors === 0 };
   }
 
@@ -355,7 +364,9 @@ class ModelBuilder {
     const c = compileFunction(e, scope);
     this.push(c.diagnostics);
     if (!c.result) return null;
-    return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    const model: SystemModel = { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    if (spec.walls) model.hard = [spec.walls.left === 'hard', spec.walls.right === 'hard'];
+    return model;
   }
 
   private state(spec: StateSpec, hasSystem: boolean): StateModel | null {
@@ -372,7 +383,7 @@ class ModelBuilder {
         const c = compileFunction(e, scope);
         this.push(c.diagnostics);
         if (!c.result) return null;
-        return { kind: 'psi', fn: c.result, expr: spec.expr, usesPhi: usesName(e, 'phi') };
+        return { kind: 'psi', fn: c.result, expr: spec.expr, usesPhi: usesName(e, 'phi'), dimension: checked.dimension, peaks: gaussianFactors(e, scope) };
       }
       case 'eigen': {
         const level = this.integer(spec.level, 'the level', 0, this.options.maxBasis);
@@ -400,7 +411,8 @@ class ModelBuilder {
     }
   }
 
-  private comparison(c: import('../language/ast').Comparison, kind: ValueKind, what: string): ComparisonModel | null {
+  private comparison(c: import('../language/ast').Comparison, kind: ValueKind | null, what: string): ComparisonModel | null {
+    if (kind === null) return this.anyComparison(c);
     const value = this.constant(c.value, kind, what);
     if (value === null) return null;
     if (c.kind === 'tolerance') {
@@ -415,6 +427,61 @@ class ModelBuilder {
     return { kind: c.kind, value, tolerance: 0, valueText: c.value };
   }
 
+  /** The dimension of a constant value (null when it cannot be evaluated; reported by the caller's own pass). */
+  private dimensionOfValue(src: ExprText): Dimension | null {
+    const e = parseExpression(src, DEFAULT_PARSE_OPTIONS);
+    if (!e.result) return null;
+    const v = evaluateConstant(e.result, this.scope);
+    return v.result ? v.result.dimension : null;
+  }
+
+  /** A comparison whose value may have any dimension; the tolerance must have the value's. */
+  private anyComparison(c: import('../language/ast').Comparison): ComparisonModel | null {
+    const e = this.expr(c.value);
+    if (!e) return null;
+    const v = evaluateConstant(e, this.scope);
+    this.push(v.diagnostics);
+    if (!v.result) return null;
+    const value = v.result.value.re;
+    if (c.kind !== 'tolerance') return { kind: c.kind, value, tolerance: 0, valueText: c.value };
+    const t = this.expr(c.tolerance);
+    if (!t) return null;
+    const checked = checkExpression(t, this.scope, v.result.dimension, 'the tolerance');
+    this.push(checked.diagnostics);
+    const tv = evaluateConstant(t, this.scope);
+    if (checked.dimension === null || !tv.result) return null;
+    if (!(tv.result.value.re >= 0)) {
+      this.error('evaluation', c.tolerance, 'The tolerance must not be negative.');
+      return null;
+    }
+    return { kind: 'tolerance', value, tolerance: tv.result.value.re, valueText: c.value };
+  }
+
+  /**
+   * `expect norm 6.25 nm`: the integral of |psi|^2 has the dimension of |psi|^2 times a length, so a
+   * dimensionless formula in a file with units has a length for its norm; any other dimension is refused.
+   * States given normalised (gaussian, eigen) have a dimensionless norm.
+   */
+  private normDimensions(): void {
+    if (this.dimensionalNorms.length === 0) return;
+    const state = this.model.state?.model;
+    const length = dimensionOf('length', this.units);
+    const psi = state?.kind === 'psi' ? state.dimension ?? null : null;
+    // Without a checked state there is nothing to compare with (its own findings say why).
+    if (state === undefined) return;
+    const want: Dimension = psi ? [2 * psi[0] + length[0], 2 * psi[1], 2 * psi[2], 2 * psi[3]] : dimensionOf('dimensionless', this.units);
+    for (const n of this.dimensionalNorms) {
+      if (sameDimension(n.dimension, want)) {
+        const x = this.model.expects.find((e) => e.stmt === n.stmt);
+        if (x?.kind === 'norm' && this.units.mode === 'physical') x.unit = normUnit(want, this.units.length.name);
+        continue;
+      }
+      this.model.expects = this.model.expects.filter((x) => x.stmt !== n.stmt);
+      const what = `the integral of |psi|^2 has the dimension ${formatDimension(want)}`;
+      this.push([diagnostic('units', n.span.start, n.span.end, `The expected norm has the dimension ${formatDimension(n.dimension)}, but ${what}; give a plain number or a value of that dimension.`, { severity: 'error' })]);
+    }
+  }
+
   private expect(stmt: Statement): ExpectModel | null {
     if (stmt.kind !== 'expect') return null;
     const x = stmt.expectation;
@@ -425,8 +492,38 @@ class ModelBuilder {
         // Judged over the whole sweep (analysis/sweep/), not at the let's own value.
         return null;
       case 'norm': {
+        // A value with a dimension is checked against the state's once the state is known (`normDimensions`).
+        const dim = this.units.mode === 'physical' ? this.dimensionOfValue(x.comparison.value) : null;
+        if (dim !== null && !sameDimension(dim, dimensionOf('dimensionless', this.units))) {
+          const c = this.comparison(x.comparison, null, 'the expected norm');
+          if (c) this.dimensionalNorms.push({ stmt, dimension: dim, span: x.comparison.value });
+          return c ? { kind: 'norm', stmt, comparison: c } : null;
+        }
         const c = this.comparison(x.comparison, 'dimensionless', 'the expected norm');
         return c ? { kind: 'norm', stmt, comparison: c } : null;
+      }
+      case 'level': {
+        const level = this.integer(x.level, 'the level', 0, this.options.maxBasis);
+        const c = this.comparison(x.comparison, 'energy', "the expected level's energy");
+        return level !== null && c ? { kind: 'level', stmt, level, comparison: c } : null;
+      }
+      case 'continuum': {
+        const c = this.comparison(x.comparison, 'dimensionless', 'the expected continuum weight');
+        return c ? { kind: 'continuum', stmt, comparison: c } : null;
+      }
+      case 'revival': {
+        const c = this.comparison(x.comparison, 'time', 'the expected revival time');
+        return c ? { kind: 'revival', stmt, comparison: c } : null;
+      }
+      case 'mean': {
+        const time = this.constant(x.time, 'time', 'the time');
+        const c = this.comparison(x.comparison, x.observable === 'x' ? 'length' : 'wavenumber', `the expected mean ${x.observable}`);
+        if (time === null || c === null) return null;
+        if (!(time >= 0) || !Number.isFinite(time)) {
+          this.error('evaluation', x.time, 'The time must be zero or positive and finite.');
+          return null;
+        }
+        return { kind: 'mean', stmt, observable: x.observable, time, comparison: c };
       }
       case 'energy':
       case 'spread': {
@@ -446,6 +543,12 @@ class ModelBuilder {
       }
     }
   }
+}
+
+/** The unit a dimensional norm is measured in: a power of the file's length unit, or the dimension in words. */
+function normUnit(dim: Dimension, length: string): string {
+  if (Math.abs(dim[1]) + Math.abs(dim[2]) + Math.abs(dim[3]) > 1e-9) return formatDimension(dim);
+  return Math.abs(dim[0] - 1) < 1e-9 ? length : `${length}^${fmt(dim[0])}`;
 }
 
 /** True when the expression mentions `name` as a symbol or a call. */

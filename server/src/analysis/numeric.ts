@@ -89,7 +89,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   fillResult(m, result);
   if (m.basis.kind === 'oscillator') result.meanQuantumNumber = meanQuantumNumber(result.system, result.energy?.mean);
   if (ctx.budget.expired()) return;
-  checkExpects(model, result, out);
+  checkExpects(model, result, out, { basis: m.basis, levels: m.levels, budget: ctx.budget });
   const plotX = plotGrid(m.basis, m.window);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
   if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels);

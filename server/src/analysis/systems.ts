@@ -12,6 +12,8 @@ import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
 import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
+import { continuumLevels, solverCaps, type WallEnd } from './walls';
+import { coarserBasis } from './coefficientErrors';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -22,12 +24,22 @@ export interface BuiltBasis {
    * is a box-quantised stand-in for the continuum.
    */
   wallLevels?: number[];
+  /** Numerical systems: what V does towards each wall (the solver's `wallTrend`), for wording. */
+  wallTrend?: { left: 'rises' | 'levels' | 'falls'; right: 'rises' | 'levels' | 'falls' };
+  /** Numerical systems: the ends the file declares hard (`walls hard open`), or absent (both open). */
+  hardWalls?: [boolean, boolean];
   /** Numerical systems: the label of the first level not resolved to tolerance, or null. */
   unresolved?: number | null;
   /** Numerical systems: grid points used. */
   points?: number;
   /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
   stopped?: StopReason | null;
+  /**
+   * Numerical systems: the basis on the solver's next-to-last grid, to give each coefficient an
+   * uncertainty by the same two-grid comparison as the levels (coefficientErrors.ts); absent when the
+   * solver stopped on its first grid or the budget ran out.
+   */
+  coarse?: Eigenbasis;
 }
 
 /** Options of `buildBasis` and `buildState`. */
@@ -36,11 +48,13 @@ export interface BuildOptions {
   maxGridPoints: number;
   /** The budget of the analysis. */
   budget: Budget;
+  /** Numerical systems: also solve the next-to-last grid for coefficient uncertainties (default true). */
+  coarse?: boolean;
 }
 
 /** How many solved numerical bases are kept (least recently used dropped first). */
 const BASIS_MEMO_SIZE = 8;
-const basisMemo = new Map<string, BuiltBasis>();
+const basisMemo = new Map<string, { built: BuiltBasis; above: number[]; ends: WallEnd[] }>();
 
 /**
  * Forgets every remembered numerical basis (benchmarks time cold analyses with it; tests may reset).
@@ -78,13 +92,13 @@ export function buildBasis(
 
 /** A numerical system's basis: V probed for bad values, solved, and remembered in the memo. */
 function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mass: number, count: number, out: EngineDiagnostic[], options: BuildOptions): BuiltBasis | null {
-  const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}`;
+  const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}|${options.maxGridPoints}`;
   const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
   if (hit && memoKey !== null) {
     // Most recently used last.
     basisMemo.delete(memoKey);
     basisMemo.set(memoKey, hit);
-    return hit;
+    return declared(hit, system.hard);
   }
   const V = system.V;
   let bad: { x: number; value: string } | null = null;
@@ -115,7 +129,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     );
     return null;
   }
-  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget });
+  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...solverCaps(options.maxGridPoints) });
   if (bad !== null) {
     const b = bad as { x: number; value: string };
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
@@ -131,16 +145,26 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
   const stopped = solved.stopped;
   const built: BuiltBasis = {
     basis: solved.basis,
-    wallLevels: solved.wallOnly,
     unresolved: solved.unresolved,
     points: solved.points,
     stopped,
+    wallTrend: solved.wallTrend,
   };
+  const coarse = options.coarse === false ? null : coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...solverCaps(options.maxGridPoints), maxPoints }));
+  if (coarse) built.coarse = coarse;
+  const entry = { built, above: solved.wallLevels, ends: solved.wallEnds };
   // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
   if (memoKey !== null && (stopped === null || stopped === 'cap')) {
-    basisMemo.set(memoKey, built);
+    basisMemo.set(memoKey, entry);
     while (basisMemo.size > BASIS_MEMO_SIZE) basisMemo.delete(basisMemo.keys().next().value as string);
   }
+  return declared(entry, system.hard);
+}
+
+/** A solved basis with its continuum levels chosen by the file's wall declaration (walls.ts). */
+function declared(entry: { built: BuiltBasis; above: number[]; ends: WallEnd[] }, hard: [boolean, boolean] | undefined): BuiltBasis {
+  const built: BuiltBasis = { ...entry.built, wallLevels: continuumLevels(entry.above, entry.ends, hard) };
+  if (hard) built.hardWalls = hard;
   return built;
 }
 
@@ -262,7 +286,7 @@ export function buildState(
       return gaussianState(state.center, state.width, state.momentum);
     case 'eigen': {
       // Labels start at the basis's first label (0 or 1), so level + 1 levels always include it.
-      const built = buildBasis(state.system, mass, state.level + 1, out, options);
+      const built = buildBasis(state.system, mass, state.level + 1, out, { ...options, coarse: false });
       if (!built) return null;
       const k0 = state.level - built.basis.firstLabel;
       if (k0 < 0) {

@@ -18,6 +18,8 @@ export interface LevelResult {
   im: number;
   /** |c_n|^2. */
   weight: number;
+  /** Estimated absolute error of c_n (numerical systems: twice its change between the solver's last two grids). */
+  coefficientUncertainty?: number;
 }
 
 /** How the coefficients decay with n, fitted over the tail. */

@@ -123,7 +123,8 @@ function expectSlots(x: Expectation): Slot[] {
     case 'window':
       return [];
     case 'norm':
-      return comparisonSlots(x.comparison, 'dimensionless', 'the expected norm');
+      // A dimensionless number, or the dimension of the integral of |psi|^2, which the checked model knows.
+      return comparisonSlots(x.comparison, null, 'the expected norm');
     case 'energy':
     case 'spread':
       return comparisonSlots(x.comparison, 'energy', `the expected ${x.kind}`);
@@ -133,10 +134,21 @@ function expectSlots(x: Expectation): Slot[] {
         ...(x.to ? [{ src: x.to, kind: 'dimensionless' as const, what: 'the last level' }] : []),
         ...comparisonSlots(x.comparison, 'dimensionless', 'the expected weight'),
       ];
+    case 'level':
+      return [{ src: x.level, kind: 'dimensionless', what: 'the level' }, ...comparisonSlots(x.comparison, 'energy', "the expected level's energy")];
+    case 'continuum':
+      return comparisonSlots(x.comparison, 'dimensionless', 'the expected continuum weight');
+    case 'revival':
+      return comparisonSlots(x.comparison, 'time', 'the expected revival time');
+    case 'mean':
+      return [
+        { src: x.time, kind: 'time', what: 'the time' },
+        ...comparisonSlots(x.comparison, x.observable === 'x' ? 'length' : 'wavenumber', `the expected mean ${x.observable}`),
+      ];
   }
 }
 
-function comparisonSlots(c: Comparison, kind: ValueKind, what: string): Slot[] {
+function comparisonSlots(c: Comparison, kind: ValueKind | null, what: string): Slot[] {
   const value: Slot = { src: c.value, kind, what };
   return c.kind === 'tolerance' ? [value, { src: c.tolerance, kind, what: 'the tolerance' }] : [value];
 }

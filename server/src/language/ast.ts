@@ -28,7 +28,17 @@ export type SystemSpec =
   | { kind: 'box'; span: Span; keywordSpan: Span; args: Arg[] }
   | { kind: 'well'; span: Span; keywordSpan: Span; args: Arg[] }
   | { kind: 'oscillator'; span: Span; keywordSpan: Span; args: Arg[] }
-  | { kind: 'potential'; span: Span; keywordSpan: Span; expr: ExprText; from: ExprText; to: ExprText };
+  | { kind: 'potential'; span: Span; keywordSpan: Span; expr: ExprText; from: ExprText; to: ExprText; walls?: WallDeclaration };
+
+/** What each end of a `V(x)` interval is: `hard` (a physical wall) or `open` (it only truncates the line). */
+export type WallKind = 'hard' | 'open';
+
+/** The `walls LEFT RIGHT` clause after `over [A, B]` (absent: both ends are `open`). */
+export interface WallDeclaration {
+  left: WallKind;
+  right: WallKind;
+  span: Span;
+}
 
 /** The state part of a `state` statement. */
 export type StateSpec =
@@ -49,6 +59,10 @@ export type Expectation =
   | { kind: 'weight'; from: ExprText; to: ExprText | null; comparison: Comparison }
   | { kind: 'energy'; comparison: Comparison }
   | { kind: 'spread'; comparison: Comparison }
+  | { kind: 'level'; level: ExprText; comparison: Comparison }
+  | { kind: 'continuum'; comparison: Comparison }
+  | { kind: 'revival'; comparison: Comparison }
+  | { kind: 'mean'; observable: 'x' | 'p'; time: ExprText; comparison: Comparison }
   | { kind: 'window'; from: ExprText; to: ExprText; rangeSpan: Span };
 
 /**

@@ -106,6 +106,10 @@ export const KEYWORDS: readonly KeywordInfo[] = [
       { label: 'expect energy E +- T', snippet: 'expect energy ${1:E} +- ${2:T}', doc: 'The energy mean <H> of the normalised state.' },
       { label: 'expect spread E +- T', snippet: 'expect spread ${1:E} +- ${2:T}', doc: 'The energy spread Delta H of the normalised state.' },
       { label: 'expect window covers A..B', snippet: 'expect window covers ${1:A}..${2:B}', doc: 'In a file with a sweep: every other expect holds for every swept value from A to B.' },
+      { label: 'expect level N energy E +- T', snippet: 'expect level ${1:1} energy ${2:E} +- ${3:T}', doc: "One level's energy E_N." },
+      { label: 'expect continuum <= W', snippet: 'expect continuum <= ${1:1e-3}', doc: "A finite well's weight outside its bound states." },
+      { label: 'expect revival T +- D', snippet: 'expect revival ${1:T} +- ${2:D}', doc: 'The revival time of the state.' },
+      { label: 'expect mean x(T) X +- D', snippet: 'expect mean ${1|x,p|}(${2:T}) ${3:X} +- ${4:D}', doc: 'The mean position <x>(t) or wave number <p>(t)/hbar at time T.' },
     ],
   },
   {
@@ -129,7 +133,10 @@ export const KEYWORDS: readonly KeywordInfo[] = [
 export const KEYWORD_NAMES: readonly Keyword[] = KEYWORDS.map((k) => k.keyword);
 
 /** What may follow `expect`. */
-export const EXPECT_KINDS = ['norm', 'parity', 'weight', 'energy', 'spread', 'window'] as const;
+export const EXPECT_KINDS = ['norm', 'parity', 'weight', 'energy', 'spread', 'level', 'continuum', 'revival', 'mean', 'window'] as const;
+
+/** The kinds of wall of a `V(x) ... over [A, B] walls ...` interval. */
+export const WALL_KINDS = ['hard', 'open'] as const;
 
 /** The parity values of `expect parity`. */
 export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;

@@ -6,6 +6,7 @@ import { EXPECT_KINDS, PARITY_VALUES } from './keywords';
 import { isSpace } from './scanner';
 import { fail, parseComparison, unexpected, unknownName, type Ctx } from './parserParts';
 import { parseWindowExpect } from './parseSweep';
+import { parseMoreExpect } from './parseExpectMore';
 import {
   exprText,
   identEnd,
@@ -69,6 +70,13 @@ export function parseExpect(ctx: Ctx, span: Span, kwSpan: Span): Statement | nul
     }
     case 'window':
       return parseWindowExpect(ctx, span, kwSpan, kindSpan);
+    case 'level':
+    case 'continuum':
+    case 'revival':
+    case 'mean': {
+      const expectation = parseMoreExpect(ctx, kind, kindSpan, e, hi);
+      return expectation === null ? null : done(expectation);
+    }
   }
   unknownName(ctx, kindSpan, kind, EXPECT_KINDS, `Unknown check '${kind}'; expected ${EXPECT_KINDS.join(', ')}.`);
   return null;

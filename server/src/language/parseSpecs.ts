@@ -2,8 +2,8 @@
  * Readers of the parser's `state` and `system` clauses (grammar in `parser.ts`): `psi(x) = ...`,
  * `gaussian(...)`, `eigen(N) of SYSTEM`, `box/well/oscillator(...)` and `V(x) = ... over [A, B]`.
  */
-import type { Span, StateSpec, SystemSpec } from './ast';
-import { STATE_KINDS, SYSTEM_KINDS } from './keywords';
+import type { Span, StateSpec, SystemSpec, WallDeclaration, WallKind } from './ast';
+import { STATE_KINDS, SYSTEM_KINDS, WALL_KINDS } from './keywords';
 import { isSpace } from './scanner';
 import { SIGNATURES } from './signatures';
 import { expectXCall, fail, parseCall, unexpected, unknownName, type Ctx } from './parserParts';
@@ -96,12 +96,41 @@ export function parsePotential(ctx: Ctx, vSpan: Span, hi: number): SystemSpec | 
   const close = matchClose(m, open, hi);
   if (close < 0 || m[close] !== ']') return fail(ctx, 'syntax', { start: open, end: open + 1 }, "This '[' is not closed.");
   const rest = skipSpace(m, close + 1, hi);
-  if (rest < hi) return fail(ctx, 'syntax', { start: rest, end: hi }, "Unexpected text after 'over [A, B]'.");
+  let walls: WallDeclaration | undefined;
+  if (rest < hi) {
+    const declared = parseWalls(ctx, rest, hi);
+    if (declared === null) return null;
+    walls = declared;
+  }
   const ends = splitTop(m, open + 1, close, ',');
   const bracket: Span = { start: open, end: close + 1 };
   if (ends.length !== 2) return fail(ctx, 'syntax', bracket, `Expected two ends, as in 'over [-5, 5]'.`);
   const a = exprText(m, ends[0]![0], ends[0]![1]);
   const b = exprText(m, ends[1]![0], ends[1]![1]);
   if (a === null || b === null) return fail(ctx, 'syntax', bracket, `Expected two ends, as in 'over [-5, 5]'.`);
-  return { kind: 'potential', span: { start: vSpan.start, end: hi }, keywordSpan: head, expr, from: a, to: b };
+  const spec: SystemSpec = { kind: 'potential', span: { start: vSpan.start, end: hi }, keywordSpan: head, expr, from: a, to: b };
+  if (walls) spec.walls = walls;
+  return spec;
+}
+
+/** `walls KIND [KIND]` after `over [A, B]`: one kind for both ends, or the left's and the right's. */
+function parseWalls(ctx: Ctx, from: number, hi: number): WallDeclaration | null {
+  const { m } = ctx;
+  const e = identEnd(m, from, hi);
+  if (m.slice(from, e) !== 'walls') return fail(ctx, 'syntax', { start: from, end: hi }, "Unexpected text after 'over [A, B]'; only 'walls hard', 'walls open' or 'walls hard open' (left, right) may follow.");
+  const kinds: WallKind[] = [];
+  let p = skipSpace(m, e, hi);
+  while (p < hi) {
+    const q = identEnd(m, p, hi);
+    const word = m.slice(p, q);
+    if (word !== 'hard' && word !== 'open') {
+      if (q === p) return fail(ctx, 'syntax', { start: p, end: hi }, "Expected 'hard' or 'open' for each wall.");
+      return unknownName(ctx, { start: p, end: q }, word, WALL_KINDS, `Expected 'hard' or 'open' for each wall, not '${word}'.`, 'syntax');
+    }
+    if (kinds.length === 2) return fail(ctx, 'syntax', { start: p, end: hi }, 'An interval has two walls: at most two kinds (left, right).');
+    kinds.push(word);
+    p = skipSpace(m, q, hi);
+  }
+  if (kinds.length === 0) return fail(ctx, 'syntax', { start: from, end: e }, "Expected 'hard' or 'open' after 'walls', as in 'walls hard open' (left, right).");
+  return { left: kinds[0]!, right: kinds[kinds.length - 1]!, span: { start: from, end: hi } };
 }

@@ -20,14 +20,16 @@
  * SYSTEM      = "box" "(" ARGS ")"
  *             | "well" "(" ARGS ")"
  *             | "oscillator" "(" ARGS ")"
- *             | "V" "(" "x" ")" "=" EXPR "over" "[" EXPR "," EXPR "]"
- *                                                    split at the last top-level "over" followed by "["
+ *             | "V" "(" "x" ")" "=" EXPR "over" "[" EXPR "," EXPR "]" [ "walls" WALL [ WALL ] ]
+ *                                                    split at the last top-level "over" followed by "[";
+ *                                                    WALL: "hard" | "open" (one for both ends, or left, right)
  * state       = "state" ( "psi" "(" "x" ")" "=" EXPR
  *                       | "eigen" "(" EXPR ")" "of" SYSTEM
  *                       | "gaussian" "(" ARGS ")" )
  * basis       = "basis" EXPR
  * expect      = "expect" ( "norm" CMP | "parity" ("even" | "odd" | "mixed") | "weight" LEVELS CMP
- *                        | "energy" CMP | "spread" CMP )
+ *                        | "energy" CMP | "spread" CMP | "level" LEVEL "energy" CMP
+ *                        | "continuum" CMP | "revival" CMP | "mean" ("x" | "p") "(" EXPR ")" CMP )
  * LEVELS      = LEVEL [ ".." LEVEL ]                 LEVEL: text up to top-level white space, "..",
  *                                                    or a comparison sign
  * CMP         = (">=" | "≥") EXPR | ("<=" | "≤") EXPR | EXPR ("+-" | "±") EXPR

@@ -103,7 +103,15 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
       const q = oscillatorQuantum(r.system);
       measured = v === null ? 'diverges' : fmt(v, 12) + e + (q === null ? '' : ` = ${quantaText(v, q)}`);
     }
-    else {
+    else if (x.kind === 'level') {
+      const n = levelNumber(x.level.text);
+      const l = r.levels.find((lv) => lv.n === n) ?? null;
+      if (l) measured = fmt(l.energy, 12) + e;
+    } else if (x.kind === 'continuum') {
+      if (r.continuum !== undefined) measured = fmt(r.continuum, 12);
+    } else if (x.kind === 'revival' || x.kind === 'mean') {
+      // Measured where the line is checked: its finding names the value when it fails.
+    } else {
       const from = levelNumber(x.from.text);
       const to = x.to ? levelNumber(x.to.text) : from;
       if (from !== null && to !== null) {
