@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import * as oniguruma from 'vscode-oniguruma';
 import * as vsctm from 'vscode-textmate';
+import { BUILTINS, builtin } from '../../server/src/expr/builtins/table';
 
 const require = createRequire(import.meta.url);
 let grammar: vsctm.IGrammar;
@@ -208,6 +209,32 @@ describe('qstate grammar on the example files', () => {
         .forEach((line, i) => {
           if (/^[a-z]/.test(line)) expect(toks.find((t) => t.line === i)!.scopes.at(-1)).toMatch(/^keyword\.control\.statement\./);
         });
+    }
+  });
+});
+
+describe('function names', () => {
+  /** The names of the grammar rule that gives `scope` to a name before `(`. */
+  function namesOf(scope: string): string[] {
+    const raw = JSON.parse(readFileSync('syntaxes/qstate.tmLanguage.json', 'utf8'));
+    const rule = raw.repository['function-call'].patterns.find((p: { captures?: Record<string, { name: string }> }) => p.captures?.['1']?.name === scope);
+    const m = /^\\b\(([^)]*)\)\\s\*\(\?=\\\(\)$/.exec(rule.match);
+    if (!m) throw new Error(`unexpected pattern ${rule.match}`);
+    return m[1]!.split('|').sort();
+  }
+
+  it('highlights exactly the built-in functions of the one table', () => {
+    expect(namesOf('support.function.math.qstate')).toEqual(BUILTINS.filter((b) => b.form !== 'phi').map((b) => b.name).sort());
+    expect(namesOf('support.function.eigen.qstate')).toEqual(BUILTINS.filter((b) => b.form === 'phi').map((b) => b.name));
+  });
+
+  it('gives every built-in its scope and a name the sandbox refuses the scope of a user function', () => {
+    const line = `state psi(x) = ${BUILTINS.filter((b) => b.form !== 'phi').map((b) => `${b.name}(x)`).join(' + ')}`;
+    check(line, BUILTINS.filter((b) => b.form !== 'phi').map((b) => [b.name, 'support.function.math.qstate']));
+    // Names of common math libraries that are not built-ins here (the sandbox refuses them).
+    for (const name of ['gamma', 'factorial', 'erf', 'pow', 'mod', 'ln', 'arg', 'cot']) {
+      expect(builtin(name)).toBeUndefined();
+      check(`state psi(x) = ${name}(x)`, [[name, 'entity.name.function.qstate']]);
     }
   });
 });
