@@ -72,7 +72,10 @@ function check(value: unknown, shape: Shape, path: string, seen: Set<string>): s
     case 'literal':
       return value === shape.value ? [] : [`${path} is ${JSON.stringify(value)}, declared ${JSON.stringify(shape.value)}`];
     case 'union': {
-      const tries = shape.of.map((s) => ({ seen: new Set<string>(), problems: [] as string[] })).map((t, i) => ({ ...t, problems: check(value, shape.of[i]!, path, t.seen) }));
+      const tries = shape.of.map((member) => {
+        const own = new Set<string>();
+        return { seen: own, problems: check(value, member, path, own) };
+      });
       const fit = tries.find((t) => t.problems.length === 0);
       if (!fit) return [`${path} fits none of the declared types: ${tries.map((t) => t.problems[0]).join('; ')}`];
       for (const p of fit.seen) seen.add(p);
