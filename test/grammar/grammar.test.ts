@@ -8,6 +8,7 @@ import { createRequire } from 'node:module';
 import * as oniguruma from 'vscode-oniguruma';
 import * as vsctm from 'vscode-textmate';
 import { BUILTINS, builtin } from '../../server/src/expr/builtins/table';
+import { BUILTIN_NUMBERS, CONSTANTS, UNITS } from '../../server/src/expr/constants';
 
 const require = createRequire(import.meta.url);
 let grammar: vsctm.IGrammar;
@@ -236,6 +237,21 @@ describe('function names', () => {
       expect(builtin(name)).toBeUndefined();
       check(`state psi(x) = ${name}(x)`, [[name, 'entity.name.function.qstate']]);
     }
+  });
+});
+
+describe('constant names', () => {
+  it('highlights every named number and constant of the engine, and besides them only its particle-mass units', () => {
+    const raw = JSON.parse(readFileSync('syntaxes/qstate.tmLanguage.json', 'utf8'));
+    const m = /^\\b\(([^)]*)\)/.exec(raw.repository.constant.match);
+    const names = m![1]!.split('|');
+    const engine = [...BUILTIN_NUMBERS.keys(), ...CONSTANTS.keys()];
+    expect(names.filter((n) => engine.includes(n)).sort()).toEqual([...engine].sort());
+    const rest = names.filter((n) => !engine.includes(n));
+    expect(rest.map((n) => UNITS.get(n)?.kind)).toEqual(rest.map(() => 'mass'));
+    // Constants of nature only, not the SI's own kilogram and gram.
+    expect(rest.filter((n) => n === 'kg' || n === 'g')).toEqual([]);
+    check('let action = 2 h + hbar', [['h', 'constant.language.physical.qstate'], ['hbar', 'constant.language.physical.qstate']]);
   });
 });
 
