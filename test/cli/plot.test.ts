@@ -132,7 +132,9 @@ describe('eigenspan plot --view state and time', () => {
 
   it('draws the evolution with the time axis in the file\'s time unit', () => {
     const all = svgOf(PARABOLA_NM, ['--view', 'time']);
-    expect(texts(all)).toEqual(expect.arrayContaining(['t (fs)', 'x (nm)', '|ψ(x,t)|²']));
+    expect(texts(all)).toEqual(expect.arrayContaining(['t (fs)', 'x (nm)', '|ψ(x,t)|²', 't = 0 fs']));
+    // Step 10 of 40 steps to 100 fs is t = 25 fs.
+    expect(texts(svgOf(PARABOLA_NM, ['--view', 'time', '--step', '10']))).toContain('t = 25 fs');
   });
 });
 
@@ -204,6 +206,19 @@ process.on('exit', () => require('fs').writeFileSync(${JSON.stringify(log)}, JSO
     // The command line's own bundle carries no chart library.
     expect(readFileSync(CLI, 'utf8')).not.toMatch(/echarts|zrender/i);
     expect(readFileSync(join(ROOT, 'dist', 'plot.js'), 'utf8')).toMatch(/renderToSVGString/);
+  });
+});
+
+describe('one chart library set-up', () => {
+  it('registers the chart and component types the panel registers', () => {
+    // The panel (client/webview/main.ts) and the picture renderer import the same ECharts parts.
+    const parts = (path: string, from: string) => {
+      const m = new RegExp(`import \\{([^}]*)\\} from '${from}'`).exec(readFileSync(join(ROOT, path), 'utf8'));
+      return m![1]!.split(',').map((x) => x.trim()).filter(Boolean).sort();
+    };
+    for (const from of ['echarts/charts', 'echarts/components']) {
+      expect(parts('server/src/cli/plotRender.ts', from)).toEqual(parts('client/webview/main.ts', from));
+    }
   });
 });
 

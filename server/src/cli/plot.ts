@@ -41,6 +41,8 @@ export interface PlotOptions {
   scale: 'auto' | 'linear' | 'log';
   axis: 'n' | 'energy';
   terms: number | undefined;
+  /** The evolve step the time view shows |psi(x, t)|^2 at (0: t = 0; past the last, the last). */
+  step: number;
   basis: number | undefined;
   limits: Partial<Limits>;
 }
@@ -60,7 +62,7 @@ function wholeNumber(option: string, value: string | undefined, [lo, hi]: readon
 export function plotOptions(args: string[]): PlotOptions {
   const o: Omit<PlotOptions, 'file'> & { file: string | null } = {
     file: null, view: 'spectrum', svg: null, png: null, force: false, ...PLOT_DEFAULT_SIZE,
-    theme: 'light', scale: 'auto', axis: 'n', terms: undefined, basis: undefined, limits: {},
+    theme: 'light', scale: 'auto', axis: 'n', terms: undefined, step: 0, basis: undefined, limits: {},
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
@@ -74,6 +76,7 @@ export function plotOptions(args: string[]): PlotOptions {
     else if (a === '--scale') o.scale = oneOf(a, args[++i], ['auto', 'linear', 'log'] as const);
     else if (a === '--axis') o.axis = oneOf(a, args[++i], ['n', 'energy'] as const);
     else if (a === '--terms') o.terms = wholeNumber(a, args[++i], [1, 100_000]);
+    else if (a === '--step') o.step = wholeNumber(a, args[++i], [0, 1_000_000]);
     else if (a === '--basis') o.basis = wholeNumber(a, args[++i], [1, 100_000]);
     else if (a === '--time-limit') o.limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], o.limits);
@@ -125,7 +128,7 @@ export function plot(args: string[], io: Io): number {
     return 1;
   }
   const r = renderer();
-  const picture = r.drawView(panel, { view: o.view, width: o.width, height: o.height, theme: o.theme, scale: o.scale, axis: o.axis, terms: o.terms });
+  const picture = r.drawView(panel, { view: o.view, width: o.width, height: o.height, theme: o.theme, scale: o.scale, axis: o.axis, terms: o.terms, step: o.step });
   if (picture.svg === null) throw new UsageError(`no ${o.view} view for '${shown}': ${picture.empty ?? 'nothing to plot'}`);
   for (const n of picture.notes) io.err(`note: ${n}\n`);
   if (o.png !== null) {

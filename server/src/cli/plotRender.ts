@@ -28,6 +28,8 @@ export interface PictureRequest {
   scale?: ViewSettings['scale'];
   axis?: ViewSettings['axis'];
   terms?: number;
+  /** Index into the evolution's times for the time view (default 0). */
+  step?: number;
 }
 
 /** One view drawn: the SVG text (null when the view has nothing to plot), the panel's notes, or why it is empty. */
@@ -53,6 +55,7 @@ export function drawView(result: PanelResult, request: PictureRequest): Picture 
     scale: request.scale ?? DEFAULT_SETTINGS.scale,
     axis: request.axis ?? DEFAULT_SETTINGS.axis,
     terms: request.terms ?? DEFAULT_SETTINGS.terms,
+    timeIndex: request.step ?? DEFAULT_SETTINGS.timeIndex,
   };
   const size = { width: request.width, height: request.height };
   const view = describeView({ result, settings, palette, tooltip: plainTooltip, size });
