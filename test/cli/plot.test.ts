@@ -5,7 +5,7 @@
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { copyFileSync, existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Resvg } from '@resvg/resvg-js';
@@ -157,6 +157,20 @@ describe('eigenspan plot files and refusals', () => {
     expect(again.code).toBe(2);
     expect(again.err).toContain('--force');
     expect(run(['plot', src, '--png', png, '--force']).code).toBe(0);
+  });
+
+  it('says how to get PNG output where the rasteriser is not installed, and still writes SVG', () => {
+    // The two bundles alone, away from this repository's node_modules, as in a package installed without its development dependencies.
+    const alone = mkdtempSync(join(tmpdir(), 'eigenspan-alone-'));
+    for (const f of ['cli.js', 'plot.js']) copyFileSync(join(ROOT, 'dist', f), join(alone, f));
+    const src = file('alone.qstate', PARABOLA);
+    const png = spawnSync(process.execPath, [join(alone, 'cli.js'), 'plot', src, '--png', join(alone, 'x.png')], { encoding: 'utf8', cwd: alone });
+    expect(png.status).toBe(2);
+    expect(png.stderr).toContain('npm install @resvg/resvg-js');
+    expect(existsSync(join(alone, 'x.png'))).toBe(false);
+    const svg = spawnSync(process.execPath, [join(alone, 'cli.js'), 'plot', src, '--svg', join(alone, 'x.svg')], { encoding: 'utf8', cwd: alone });
+    expect(svg.status, svg.stderr).toBe(0);
+    expect(parseSvg(readFileSync(join(alone, 'x.svg'), 'utf8')).name).toBe('svg');
   });
 
   it('refuses, as a usage error, a view the file has nothing for', () => {

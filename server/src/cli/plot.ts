@@ -114,6 +114,8 @@ export function plot(args: string[], io: Io): number {
   const shown = escapeText(o.file);
   // Refuse to replace an existing picture before doing any work; --force says the user means it.
   for (const p of [o.svg, o.png]) if (p !== null) assertWritable(p, o.force);
+  const r = renderer();
+  if (o.png !== null && !r.canRasterise()) throw new UsageError(`--png needs the package ${r.RASTERISER} (npm install ${r.RASTERISER}); --svg works without it`);
   const text = readText(o.file, o.limits.maxFileBytes);
   const samples = o.view === 'state' || o.view === 'time';
   const result = analyseBounded(text, { defaultBasis: o.basis, limits: o.limits, samples });
@@ -127,13 +129,12 @@ export function plot(args: string[], io: Io): number {
     io.err(`eigenspan: nothing to plot: '${shown}' has ${panel.levels.length === 0 ? 'no levels' : 'errors that make its plots meaningless'}\n`);
     return 1;
   }
-  const r = renderer();
   const picture = r.drawView(panel, { view: o.view, width: o.width, height: o.height, theme: o.theme, scale: o.scale, axis: o.axis, terms: o.terms, step: o.step });
   if (picture.svg === null) throw new UsageError(`no ${o.view} view for '${shown}': ${picture.empty ?? 'nothing to plot'}`);
   for (const n of picture.notes) io.err(`note: ${n}\n`);
   if (o.png !== null) {
     const png = r.svgToPng(picture.svg);
-    if (png === null) throw new UsageError(`--png needs the package ${r.RASTERISER} (npm install ${r.RASTERISER}); --svg works without it`);
+    if (png === null) throw new Error(`${r.RASTERISER} could not be loaded`);
     writeOutput(o.png, png, o.force);
   }
   // Text from the file (a unit name) can reach the SVG; it passes the same escaping as everything printed.

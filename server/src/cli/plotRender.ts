@@ -78,18 +78,26 @@ interface Rasteriser {
 /** The package that rasterises SVG; loaded on the first PNG only. */
 export const RASTERISER = '@resvg/resvg-js';
 
+/** The rasteriser, or null when it is not installed (a development dependency; users of the package install it for PNG). */
+function rasteriser(): Rasteriser | null {
+  try {
+    return require(RASTERISER) as Rasteriser;
+  } catch {
+    return null;
+  }
+}
+
+/** Whether PNG output is possible here. */
+export const canRasterise = (): boolean => rasteriser() !== null;
+
 /**
  * The SVG as a PNG of the SVG's own size in pixels, or null when the rasteriser is not installed.
  * Text is drawn with the machine's fonts (resvg loads the system fonts), so a machine without any of
  * `PICTURE_FONTS` draws the plot without its labels.
  */
 export function svgToPng(svg: string): Buffer | null {
-  let lib: Rasteriser;
-  try {
-    lib = require(RASTERISER) as Rasteriser;
-  } catch {
-    return null;
-  }
+  const lib = rasteriser();
+  if (!lib) return null;
   const resvg = new lib.Resvg(svg, { font: { loadSystemFonts: true, defaultFontFamily: PICTURE_FONT, sansSerifFamily: PICTURE_FONT }, background: undefined });
   return resvg.render().asPng();
 }
