@@ -240,7 +240,9 @@ describe('text widths of pictures', () => {
   it('reserve at least the drawn width of the chart\'s labels in the picture font, and not much more', () => {
     for (const s of ['symmetric about x = 0.5', 'cumulative weight', 'first K = 10 levels (ψ_K)', 'survival |⟨ψ(0)|ψ(t)⟩|²', 'E, V (meV)', 'x (nm)', '0.25', 'Re ψ_K (K = 2)']) {
       const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="900" height="40"><text x="0" y="20" font-size="13" font-family="${PICTURE_FONT}">${s}</text></svg>`;
-      const ink = new Resvg(svg, { font: { loadSystemFonts: true, defaultFontFamily: PICTURE_FONT } }).getBBox()!.width;
+      const box = new Resvg(svg, { font: { loadSystemFonts: true, defaultFontFamily: PICTURE_FONT } }).getBBox();
+      if (!box) throw new Error(`no text drawn: is ${PICTURE_FONT} installed (Debian's fonts-dejavu-core)?`);
+      const ink = box.width;
       const estimate = textWidth(s, '13px sans-serif');
       expect(estimate, s).toBeGreaterThanOrEqual(ink);
       expect(estimate, s).toBeLessThan(1.3 * ink);
