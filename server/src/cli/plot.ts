@@ -26,7 +26,7 @@ export type PlotView = (typeof PLOT_VIEWS)[number];
 /** The picture's size in pixels when `--width` and `--height` are not given (the panel's default size). */
 export const PLOT_DEFAULT_SIZE = { width: 800, height: 440 };
 /** The sizes `--width` and `--height` accept: enough room for the legend, and a PNG of at most 64 MB in memory. */
-export const PLOT_SIZE_RANGE = { width: [240, 4000], height: [180, 4000] } as const;
+export const PLOT_SIZE_RANGE = { width: [400, 4000], height: [300, 4000] } as const;
 
 /** Everything `plot` was asked for. */
 export interface PlotOptions {
