@@ -11,6 +11,7 @@ import type { Limits } from '../analysis/index';
 import type { AnalysisResult } from '../analysis/types';
 import { isPanelResult, type PanelResult } from '../../../client/src/messages';
 import { invalidates } from '../../../client/webview/charts/facts';
+import { DEFAULT_SIZE } from '../../../client/webview/charts/layout';
 import { lineTable } from '../language/positions';
 import { escapeLines, escapeText } from './escape';
 import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
@@ -23,8 +24,8 @@ import type * as Render from './plotRender';
 export const PLOT_VIEWS = ['spectrum', 'state', 'time', 'sweep'] as const;
 export type PlotView = (typeof PLOT_VIEWS)[number];
 
-/** The picture's size in pixels when `--width` and `--height` are not given (the panel's default size). */
-export const PLOT_DEFAULT_SIZE = { width: 800, height: 440 };
+/** The picture's size in pixels when `--width` and `--height` are not given: the chart builder's default size. */
+export const PLOT_DEFAULT_SIZE = DEFAULT_SIZE;
 /** The sizes `--width` and `--height` accept: enough room for the legend, and a PNG of at most 64 MB in memory. */
 export const PLOT_SIZE_RANGE = { width: [400, 4000], height: [300, 4000] } as const;
 
