@@ -191,6 +191,10 @@ describe('eigenspan plot files and refusals', () => {
     expect(r.code).toBe(1);
     expect(r.out).toBe('');
     expect(r.err).toMatch(/bad\.qstate:2:\d+: error\[name\]/);
+    // No state, no error: nothing to plot is a usage error.
+    const empty = run(['plot', file('nostate.qstate', 'system box(0, 1)\n')]);
+    expect(empty.code).toBe(2);
+    expect(empty.out).toBe('');
   });
 
   it('escapes control characters in what it prints', () => {

@@ -125,9 +125,10 @@ export function plot(args: string[], io: Io): number {
   const failed = result.diagnostics.some((d) => d.severity === 'error');
   if (invalidates(panel)) {
     // The panel shows the problems instead of plots in this case; so does the command line.
+    if (!failed) throw new UsageError(`nothing to plot: '${shown}' gives no levels (it needs a system and a state)`);
     const lines = lineTable(text);
     for (const d of result.diagnostics.filter((x) => x.severity === 'error')) io.err(`${renderDiagnostic(shown, d, lines)}\n`);
-    io.err(`eigenspan: nothing to plot: '${shown}' has ${panel.levels.length === 0 ? 'no levels' : 'errors that make its plots meaningless'}\n`);
+    io.err(`eigenspan: nothing to plot: '${shown}' has errors that make its plots meaningless\n`);
     return 1;
   }
   const picture = r.drawView(panel, { view: o.view, width: o.width, height: o.height, theme: o.theme, scale: o.scale, axis: o.axis, terms: o.terms, step: o.step });
