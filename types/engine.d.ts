@@ -1,6 +1,7 @@
 /**
  * Type declarations of `require('eigenspan/engine')` (hand-kept; test/cli/engine.test.ts checks them
- * against server/src/api/engine.ts). docs/api.md describes the result object.
+ * against server/src/api/engine.ts, test/cli/engineShape.test.ts against the results the built engine
+ * really returns). docs/api.md describes the result object.
  */
 
 /** How serious a finding is. */

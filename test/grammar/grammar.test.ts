@@ -7,6 +7,8 @@ import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import * as oniguruma from 'vscode-oniguruma';
 import * as vsctm from 'vscode-textmate';
+import { BUILTINS, builtin } from '../../server/src/expr/builtins/table';
+import { BUILTIN_NUMBERS, CONSTANTS, UNITS } from '../../server/src/expr/constants';
 
 const require = createRequire(import.meta.url);
 let grammar: vsctm.IGrammar;
@@ -209,6 +211,47 @@ describe('qstate grammar on the example files', () => {
           if (/^[a-z]/.test(line)) expect(toks.find((t) => t.line === i)!.scopes.at(-1)).toMatch(/^keyword\.control\.statement\./);
         });
     }
+  });
+});
+
+describe('function names', () => {
+  /** The names of the grammar rule that gives `scope` to a name before `(`. */
+  function namesOf(scope: string): string[] {
+    const raw = JSON.parse(readFileSync('syntaxes/qstate.tmLanguage.json', 'utf8'));
+    const rule = raw.repository['function-call'].patterns.find((p: { captures?: Record<string, { name: string }> }) => p.captures?.['1']?.name === scope);
+    const m = /^\\b\(([^)]*)\)\\s\*\(\?=\\\(\)$/.exec(rule.match);
+    if (!m) throw new Error(`unexpected pattern ${rule.match}`);
+    return m[1]!.split('|').sort();
+  }
+
+  it('highlights exactly the built-in functions of the one table', () => {
+    expect(namesOf('support.function.math.qstate')).toEqual(BUILTINS.filter((b) => b.form !== 'phi').map((b) => b.name).sort());
+    expect(namesOf('support.function.eigen.qstate')).toEqual(BUILTINS.filter((b) => b.form === 'phi').map((b) => b.name));
+  });
+
+  it('gives every built-in its scope and a name the sandbox refuses the scope of a user function', () => {
+    const line = `state psi(x) = ${BUILTINS.filter((b) => b.form !== 'phi').map((b) => `${b.name}(x)`).join(' + ')}`;
+    check(line, BUILTINS.filter((b) => b.form !== 'phi').map((b) => [b.name, 'support.function.math.qstate']));
+    // Names of common math libraries that are not built-ins here (the sandbox refuses them).
+    for (const name of ['gamma', 'factorial', 'erf', 'pow', 'mod', 'ln', 'arg', 'cot']) {
+      expect(builtin(name)).toBeUndefined();
+      check(`state psi(x) = ${name}(x)`, [[name, 'entity.name.function.qstate']]);
+    }
+  });
+});
+
+describe('constant names', () => {
+  it('highlights every named number and constant of the engine, and besides them only its particle-mass units', () => {
+    const raw = JSON.parse(readFileSync('syntaxes/qstate.tmLanguage.json', 'utf8'));
+    const m = /^\\b\(([^)]*)\)/.exec(raw.repository.constant.match);
+    const names = m![1]!.split('|');
+    const engine = [...BUILTIN_NUMBERS.keys(), ...CONSTANTS.keys()];
+    expect(names.filter((n) => engine.includes(n)).sort()).toEqual([...engine].sort());
+    const rest = names.filter((n) => !engine.includes(n));
+    expect(rest.map((n) => UNITS.get(n)?.kind)).toEqual(rest.map(() => 'mass'));
+    // Constants of nature only, not the SI's own kilogram and gram.
+    expect(rest.filter((n) => n === 'kg' || n === 'g')).toEqual([]);
+    check('let action = 2 h + hbar', [['h', 'constant.language.physical.qstate'], ['hbar', 'constant.language.physical.qstate']]);
   });
 });
 

@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { fitDecay, tailSum } from '../../server/src/physics/decay';
+import { fitDecay } from '../../server/src/physics/decay';
 import { boxBasis } from '../../server/src/physics/box';
 import { project } from '../../server/src/physics/project';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
@@ -84,21 +84,5 @@ describe('fitDecay', () => {
   it('reports unknown with too few points', () => {
     expect(fitDecay(labels(4), Float64Array.of(1, 0.5, 0.2, 0.1)).classification).toBe('unknown');
     expect(fitDecay(labels(3), new Float64Array(3)).classification).toBe('unknown');
-  });
-});
-
-describe('tailSum', () => {
-  it("estimates the parabola's missing energy tail and flags divergence", () => {
-    const A = (8 * Math.sqrt(15)) / Math.PI ** 3;
-    // Exact tail over odd n > 60 of n^2 |c_n|^2 (derived from Griffiths' parabola coefficients, from memory).
-    let exact = 0;
-    for (let n = 61; n < 2e6; n += 2) exact += (A * A) / n ** 4;
-    const est = tailSum(3, A, 60, 2, 0.5);
-    expect(Math.abs(est / exact - 1)).toBeLessThan(2e-3);
-    // A jump (p = 1): the energy series sum n^2 / n^2 diverges (derived from the Fourier sine series of a constant).
-    expect(tailSum(1, 0.9, 100, 2)).toBe(Infinity);
-    // The norm series of p = 1 converges: sum_{n > N} n^-2 ~ 1/(N + 1/2).
-    expect(Math.abs(tailSum(1, 1, 100, 0) * 100.5 - 1)).toBeLessThan(1e-12);
-    expect(tailSum(NaN, 1, 1, 1)).toBeNaN();
   });
 });

@@ -1,5 +1,23 @@
 import { describe, it, expect } from 'vitest';
-import { hermitePolynomial, hermiteFunction, hermiteFunctionTable } from '../../server/src/physics/hermite';
+import { hermiteFunction, hermiteFunctionTable } from '../../server/src/physics/hermite';
+
+/**
+ * The physicists' Hermite polynomial H_n(x) by H_0 = 1, H_1 = 2x, H_{k+1} = 2x H_k - 2k H_{k-1}
+ * (Abramowitz & Stegun 22.7.13 (from memory)). Plain doubles: it overflows to +-Infinity for large
+ * n |x|, so the engine uses hermiteFunctionTable; here it is the reference the Hermite functions are
+ * checked against.
+ */
+function hermitePolynomial(n: number, x: number): number {
+  let h0 = 1;
+  if (n === 0) return h0;
+  let h1 = 2 * x;
+  for (let k = 1; k < n; k++) {
+    const h2 = 2 * x * h1 - 2 * k * h0;
+    h0 = h1;
+    h1 = h2;
+  }
+  return h1;
+}
 
 /** |BigInt| to a double mantissa and binary exponent: v = m * 2^e, m in [0.5, 1). */
 function bigToMantExp(v: bigint): { m: number; e: number } {
@@ -38,16 +56,11 @@ function referencePsi(n: number, p: bigint, q: bigint): number {
   return Math.sign(Number(t1 === 0n ? 0n : t1 > 0n ? 1n : -1n)) * Math.exp(0.5 * log);
 }
 
-describe('hermitePolynomial', () => {
+describe('the reference H_n', () => {
   it('gives H_n(1) for n = 0..10', () => {
     // Abramowitz & Stegun, Table 22.12 (from memory)
     const table = [1, 2, 2, -4, -20, -8, 184, 464, -1648, -10720, 8224];
     for (let n = 0; n <= 10; n++) expect(hermitePolynomial(n, 1)).toBe(table[n]);
-  });
-
-  it('returns NaN for a bad degree', () => {
-    expect(hermitePolynomial(-1, 1)).toBeNaN();
-    expect(hermitePolynomial(1.5, 1)).toBeNaN();
   });
 });
 

@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { oscillatorBasis } from '../../server/src/physics/oscillator';
-import { gaussHermite, compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { gaussHermite } from './gaussHermite';
 import { project } from '../../server/src/physics/project';
 import { basisOrthonormalityError } from './helpers';
 

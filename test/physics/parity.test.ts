@@ -1,5 +1,5 @@
 import { describe, it, expect } from 'vitest';
-import { parityOf, nearlySymmetric, parityFromEvaluator } from '../../server/src/physics/parity';
+import { parityOf, nearlySymmetric } from '../../server/src/physics/parity';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
 
 const c = 1.25;
@@ -52,18 +52,5 @@ describe('parityOf', () => {
     const z = parityOf(sample(() => 0));
     expect(z.total).toBe(0);
     expect(z.classification).toBe('even');
-  });
-});
-
-describe('parityFromEvaluator', () => {
-  it('samples the mirror points itself and agrees with parityOf', () => {
-    // An odd complex state about c: (x - c) e^{-(x-c)^2} (1 + 0.5 i).
-    const f = (x: number) => (x - c) * Math.exp(-((x - c) ** 2));
-    const ev = (xs: Float64Array) => ({ re: Float64Array.from(xs, f), im: Float64Array.from(xs, (x) => 0.5 * f(x)) });
-    const p = parityFromEvaluator(ev, q, c);
-    expect(p.classification).toBe('odd');
-    // Odd weight = 1.25 * integral y^2 e^{-2 y^2} = 1.25 sqrt(pi/2)/4 (Gaussian moments, common practice).
-    expect(Math.abs(p.odd - (1.25 * Math.sqrt(Math.PI / 2)) / 4)).toBeLessThan(1e-13);
-    expect(p.even).toBeLessThan(1e-30);
   });
 });

@@ -1,5 +1,6 @@
 import { describe, it, expect } from 'vitest';
-import { gaussLegendre, compositeGaussLegendre, gaussHermite } from '../../server/src/physics/quadrature';
+import { gaussLegendre, compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { gaussHermite } from './gaussHermite';
 
 describe('gaussLegendre', () => {
   it('integrates monomials up to degree 2n - 1 exactly on [-1, 1]', () => {

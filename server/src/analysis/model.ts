@@ -11,6 +11,7 @@ import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
 import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, formatDimension, sameDimension } from '../expr/units';
+import { paramOf, type ConstructorName } from '../language/signatures';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
@@ -226,6 +227,12 @@ class ModelBuilder {
     return p.result;
   }
 
+  /** The value of argument `name` of constructor `c`, checked against the dimension its signature gives it. */
+  private argument(c: ConstructorName, name: string, src: ExprText): number | null {
+    const p = paramOf(c, name);
+    return p ? this.constant(src, p.kind, p.what) : null;
+  }
+
   /**
    * Parses, checks and evaluates a constant of the given kind; returns its real value or null. The
    * names and dimension are checked once, inside `evaluateConstant`; `checkExpression` runs again only
@@ -296,8 +303,8 @@ class ModelBuilder {
     const aArg = pos[0] ?? named.get('left');
     const bArg = pos[1] ?? named.get('right');
     if (!aArg || !bArg) return null;
-    const a = this.constant(aArg.value, 'length', "the box's left end");
-    const b = this.constant(bArg.value, 'length', "the box's right end");
+    const a = this.argument('box', 'left', aArg.value);
+    const b = this.argument('box', 'right', bArg.value);
     if (a === null || b === null) return null;
     if (!(b > a)) {
       this.error('evaluation', spec.span, `The box's right end (${fmt(b)}) must lie to the right of its left end (${fmt(a)}).`);
@@ -311,10 +318,10 @@ class ModelBuilder {
     const d = named.get('depth');
     const w = named.get('width');
     if (!d || !w) return null;
-    const depth = this.constant(d.value, 'energy', "the well's depth");
-    const width = this.constant(w.value, 'length', "the well's width");
+    const depth = this.argument('well', 'depth', d.value);
+    const width = this.argument('well', 'width', w.value);
     const c = named.get('center');
-    const center = c ? this.constant(c.value, 'length', "the well's centre") : 0;
+    const center = c ? this.argument('well', 'center', c.value) : 0;
     if (depth === null || width === null || center === null) return null;
     if (!(depth > 0)) {
       this.error('evaluation', d.value, `The well's depth must be positive (it is the potential outside the well), not ${fmt(depth)}.`);
@@ -335,11 +342,11 @@ class ModelBuilder {
     const q = named.get('quantum');
     const given = o ?? f ?? q;
     if (!given) return null;
-    if (o) omega = this.constant(o.value, 'angularFrequency', 'the angular frequency');
-    else if (f) omega = this.constant(f.value, 'frequency', 'the frequency');
-    else if (q) omega = this.constant(q.value, 'energy', 'the oscillator quantum'); // hbar = 1 internally
+    if (o) omega = this.argument('oscillator', 'omega', o.value);
+    else if (f) omega = this.argument('oscillator', 'frequency', f.value);
+    else if (q) omega = this.argument('oscillator', 'quantum', q.value); // hbar = 1 internally
     const c = named.get('center');
-    const center = c ? this.constant(c.value, 'length', "the oscillator's centre") : 0;
+    const center = c ? this.argument('oscillator', 'center', c.value) : 0;
     if (omega === null || center === null) return null;
     if (!(omega > 0)) {
       this.error('evaluation', given.value, `The oscillator's frequency must be positive, not ${fmt(omega)}.`);
@@ -398,9 +405,9 @@ class ModelBuilder {
         const w = named.get('width');
         const k = named.get('momentum');
         if (!c || !w) return null;
-        const center = this.constant(c.value, 'length', "the packet's centre");
-        const width = this.constant(w.value, 'length', "the packet's width");
-        const momentum = k ? this.constant(k.value, 'wavenumber', "the packet's momentum") : 0;
+        const center = this.argument('gaussian', 'center', c.value);
+        const width = this.argument('gaussian', 'width', w.value);
+        const momentum = k ? this.argument('gaussian', 'momentum', k.value) : 0;
         if (center === null || width === null || momentum === null) return null;
         if (!(width > 0)) {
           this.error('evaluation', w.value, `The packet's width must be positive, not ${fmt(width)}.`);

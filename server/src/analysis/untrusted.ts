@@ -12,6 +12,7 @@ import type { Scope, UnitSystem } from '../expr/types';
 import { parseExpression } from '../expr/sandbox';
 import { checkExpression, foldReal } from '../expr/check';
 import { createScope, makeUnitSystem } from '../expr/units';
+import { paramOf, SIGNATURES, type ConstructorName } from '../language/signatures';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { frequencyAsEnergy } from './frequencyEnergy';
 import { readFile, sortDiagnostics, internalError } from './front';
@@ -153,28 +154,15 @@ function comparisonSlots(c: Comparison, kind: ValueKind | null, what: string): S
   return c.kind === 'tolerance' ? [value, { src: c.tolerance, kind, what: 'the tolerance' }] : [value];
 }
 
-/** The kinds of each named argument of the constructors (positional box ends are lengths). */
-const ARGUMENTS: Record<string, Record<string, [ValueKind, string]>> = {
-  box: { left: ['length', "the box's left end"], right: ['length', "the box's right end"] },
-  well: { depth: ['energy', "the well's depth"], width: ['length', "the well's width"], center: ['length', "the well's centre"] },
-  oscillator: {
-    omega: ['angularFrequency', 'the angular frequency'],
-    frequency: ['frequency', 'the frequency'],
-    quantum: ['energy', 'the oscillator quantum'],
-    center: ['length', "the oscillator's centre"],
-  },
-  gaussian: { center: ['length', "the packet's centre"], width: ['length', "the packet's width"], momentum: ['wavenumber', "the packet's momentum"] },
-};
-
-function argSlots(constructor: string, args: Arg[]): Slot[] {
-  const table = ARGUMENTS[constructor] ?? {};
-  const positional = constructor === 'box' ? ['left', 'right'] : [];
+/** The slots of a constructor's arguments, each with its dimension and words from its signature. */
+function argSlots(constructor: ConstructorName, args: Arg[]): Slot[] {
+  const sig = SIGNATURES[constructor];
   let next = 0;
   return args.map((a) => {
-    const name = a.name ?? positional[next++] ?? null;
-    const known = name !== null && Object.prototype.hasOwnProperty.call(table, name) ? table[name]! : null;
+    const name = a.name ?? (sig.positional ? sig.params[next++]?.name : undefined) ?? null;
+    const p = name === null ? undefined : paramOf(constructor, name);
     // An argument the constructor does not know is parsed and name-checked only (the parser reports it).
-    return known ? { src: a.value, kind: known[0], what: known[1] } : { src: a.value, kind: null, what: 'the argument' };
+    return p ? { src: a.value, kind: p.kind, what: p.what } : { src: a.value, kind: null, what: 'the argument' };
   });
 }
 

@@ -6,6 +6,7 @@
  *   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force] [--time-limit MS] [--limit NAME=N]...
  *   eigenspan diff OLD NEW | FILE --rev REV [--tolerance T]
  *   eigenspan summary FILE
+ *   eigenspan plot FILE [--view spectrum|state|time|sweep] [--svg PATH] [--png PATH] [--width W] [--height H] ...
  *   eigenspan demo [FOLDER]
  *   eigenspan sweep FILE [--table | --csv | --json] [--sweep-time-limit MS] [--threads N] (sweep.ts)
  *
@@ -23,6 +24,7 @@ import { DEFAULT_TOLERANCE } from './diff';
 import { diff, summary } from './vcs';
 import { sweepCommand } from './sweep';
 import { serveSweepWorker, sweepCommandThreaded } from './sweepThreads';
+import { PLOT_DEFAULT_SIZE, PLOT_SIZE_RANGE, plot } from './plot';
 
 const USAGE = `Usage:
   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
@@ -57,6 +59,21 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
                  relative (default ${DEFAULT_TOLERANCE})
   eigenspan summary FILE
       Print the physics of FILE as stable, rounded lines, for git's textconv (README.md).
+  eigenspan plot FILE [--view spectrum|state|time|sweep] [--svg PATH] [--png PATH] [--force]
+                 [--width W] [--height H] [--theme light|dark] [--scale auto|linear|log]
+                 [--axis n|energy] [--terms K] [--step S] [--basis N] [--time-limit MS]
+                 [--limit NAME=N]...
+      Draw one of the panel's views as a picture, without a browser: the spectrum (default),
+      the state, the time evolution, or the sweep of a file with a sweep. The panel's notes on
+      the view go to standard error. Without --svg or --png the SVG goes to standard output.
+      --svg PATH, --png PATH  write the picture as SVG or PNG (both may be given); an existing
+                 file is not replaced unless --force is given
+      --width W, --height H  size in pixels (default ${PLOT_DEFAULT_SIZE.width} x ${PLOT_DEFAULT_SIZE.height}; width ${PLOT_SIZE_RANGE.width[0]} to ${PLOT_SIZE_RANGE.width[1]},
+                 height ${PLOT_SIZE_RANGE.height[0]} to ${PLOT_SIZE_RANGE.height[1]})
+      --theme    light (default) or dark colours
+      --scale, --axis, --terms  the spectrum's vertical scale, its horizontal axis (level
+                 number or energy) and the levels K of the partial sum, as in the panel
+      --step S   the evolve step the time view shows |psi(x,t)|^2 at (default 0, t = 0)
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan sweep FILE [--table | --csv | --csv-bare | --json] [--basis N] [--out PATH [--force]]
@@ -114,6 +131,8 @@ function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
       return diff(rest, io);
     case 'sweep':
       return sweepCommand(rest, io);
+    case 'plot':
+      return plot(rest, io);
     default:
       throw new UsageError(`unknown command '${cmd}'; try 'eigenspan --help'`);
   }

@@ -19,8 +19,8 @@ export function assertWritable(path: string, force: boolean): void {
   if (existsSync(path) && !statSync(path).isFile()) throw new UsageError(`'${escapeText(path)}' is not a regular file`);
 }
 
-/** Writes `text` to `path` (already escaped by the caller); a file that appeared meanwhile is not replaced without `force`. */
-export function writeOutput(path: string, text: string, force: boolean): void {
+/** Writes `text` (or bytes) to `path` (text already escaped by the caller); a file that appeared meanwhile is not replaced without `force`. */
+export function writeOutput(path: string, text: string | Uint8Array, force: boolean): void {
   try {
     writeFileSync(path, text, { flag: force ? 'w' : 'wx' });
   } catch (e) {

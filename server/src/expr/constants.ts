@@ -27,8 +27,6 @@ export const DIM = {
 export const H_SI = 6.62607015e-34;
 /** Elementary charge in C (exact, a defining constant of the SI). */
 export const QE_SI = 1.602176634e-19;
-/** Speed of light in vacuum in m/s (exact, a defining constant of the SI). */
-export const C_SI = 299792458;
 /** Reduced Planck constant h/(2 pi) in J s: exact, since h is (1.054571817646...e-34). */
 export const HBAR_SI = H_SI / (2 * Math.PI);
 /** The electronvolt in J: one elementary charge times one volt, e * 1 J/C (exact since 2019). */

@@ -1,13 +1,14 @@
 /**
  * The parameters of the system and state constructors, and the binding of written arguments to them.
  * The parser uses this to check argument names; the language server uses it for completion and
- * signature help.
+ * signature help; the model and the untrusted pipeline take each argument's dimension (`kind`) and the
+ * words its findings name it with (`what`) from here.
  */
 import type { Arg, Span } from './ast';
 import { diagnostic, type EngineDiagnostic } from './catalogue';
 import { suggest } from './suggest';
 
-/** The physical kind of a parameter's value (what the unit checker expects in physical mode). */
+/** The physical kind of a parameter's value (what the unit checker expects in physical mode; a kind of analysis/dimensions.ts). */
 export type ParamKind = 'length' | 'energy' | 'angularFrequency' | 'frequency' | 'wavenumber' | 'dimensionless';
 
 /** One parameter of a constructor. */
@@ -16,6 +17,8 @@ export interface ParamSpec {
   /** True when the parameter must be given (members of a `oneOf` group are not individually required). */
   required: boolean;
   kind: ParamKind;
+  /** How findings about the value name it, as in "the box's left end". */
+  what: string;
   /** The value used when the parameter is left out, as written in a file (absent when there is none). */
   defaultText?: string;
   /** One sentence for hovers and signature help. */
@@ -46,8 +49,8 @@ export const SIGNATURES: Readonly<Record<ConstructorName, Signature>> = {
     context: 'system',
     positional: true,
     params: [
-      { name: 'left', required: true, kind: 'length', doc: 'Position of the left hard wall.' },
-      { name: 'right', required: true, kind: 'length', doc: 'Position of the right hard wall; must exceed the left one.' },
+      { name: 'left', required: true, kind: 'length', what: "the box's left end", doc: 'Position of the left hard wall.' },
+      { name: 'right', required: true, kind: 'length', what: "the box's right end", doc: 'Position of the right hard wall; must exceed the left one.' },
     ],
     oneOf: [],
     doc: 'Infinite square well between two hard walls; levels n = 1, 2, ...',
@@ -57,9 +60,9 @@ export const SIGNATURES: Readonly<Record<ConstructorName, Signature>> = {
     context: 'system',
     positional: false,
     params: [
-      { name: 'depth', required: true, kind: 'energy', doc: 'Height D of the potential outside the well (V = 0 inside, D outside).' },
-      { name: 'width', required: true, kind: 'length', doc: 'Full width W of the region where the potential is zero.' },
-      { name: 'center', required: false, kind: 'length', defaultText: '0', doc: 'Position of the middle of the well.' },
+      { name: 'depth', required: true, kind: 'energy', what: "the well's depth", doc: 'Height D of the potential outside the well (V = 0 inside, D outside).' },
+      { name: 'width', required: true, kind: 'length', what: "the well's width", doc: 'Full width W of the region where the potential is zero.' },
+      { name: 'center', required: false, kind: 'length', what: "the well's centre", defaultText: '0', doc: 'Position of the middle of the well.' },
     ],
     oneOf: [],
     doc: 'Finite square well; levels n = 1 up to the number of bound states.',
@@ -69,10 +72,10 @@ export const SIGNATURES: Readonly<Record<ConstructorName, Signature>> = {
     context: 'system',
     positional: false,
     params: [
-      { name: 'omega', required: false, kind: 'angularFrequency', doc: 'Angular frequency W of V = m W^2 (x - C)^2 / 2.' },
-      { name: 'frequency', required: false, kind: 'frequency', doc: 'Ordinary frequency F, so that W = 2 pi F.' },
-      { name: 'quantum', required: false, kind: 'energy', doc: 'Level spacing Q = hbar W.' },
-      { name: 'center', required: false, kind: 'length', defaultText: '0', doc: 'Position C of the minimum of the potential.' },
+      { name: 'omega', required: false, kind: 'angularFrequency', what: 'the angular frequency', doc: 'Angular frequency W of V = m W^2 (x - C)^2 / 2.' },
+      { name: 'frequency', required: false, kind: 'frequency', what: 'the frequency', doc: 'Ordinary frequency F, so that W = 2 pi F.' },
+      { name: 'quantum', required: false, kind: 'energy', what: 'the oscillator quantum', doc: 'Level spacing Q = hbar W.' },
+      { name: 'center', required: false, kind: 'length', what: "the oscillator's centre", defaultText: '0', doc: 'Position C of the minimum of the potential.' },
     ],
     oneOf: [['omega', 'frequency', 'quantum']],
     doc: 'Harmonic oscillator; levels n = 0, 1, ...; give exactly one of omega, frequency or quantum.',
@@ -82,14 +85,19 @@ export const SIGNATURES: Readonly<Record<ConstructorName, Signature>> = {
     context: 'state',
     positional: false,
     params: [
-      { name: 'center', required: true, kind: 'length', doc: 'Mean position X0 of the packet.' },
-      { name: 'width', required: true, kind: 'length', doc: 'Position spread S (standard deviation of |psi|^2).' },
-      { name: 'momentum', required: false, kind: 'wavenumber', defaultText: '0', doc: 'Mean wave number K (momentum over hbar).' },
+      { name: 'center', required: true, kind: 'length', what: "the packet's centre", doc: 'Mean position X0 of the packet.' },
+      { name: 'width', required: true, kind: 'length', what: "the packet's width", doc: 'Position spread S (standard deviation of |psi|^2).' },
+      { name: 'momentum', required: false, kind: 'wavenumber', what: "the packet's momentum", defaultText: '0', doc: 'Mean wave number K (momentum over hbar).' },
     ],
     oneOf: [],
     doc: 'Normalised Gaussian packet exp(-(x - X0)^2 / (4 S^2) + i K x).',
   },
 };
+
+/** Parameter `name` of constructor `c`; undefined for a name it does not take. */
+export function paramOf(c: ConstructorName, name: string): ParamSpec | undefined {
+  return SIGNATURES[c].params.find((p) => p.name === name);
+}
 
 /** The result of `bindArguments`. */
 export interface Binding {

@@ -156,21 +156,3 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
   }
   return { ...base, exponent: p, amplitude, rate: null, classification, derivativeJump };
 }
-
-/**
- * Estimated tail sum over n > N of n^power |c_n|^2 for |c_n| ~ A n^-p, a fraction `density` of the
- * levels being nonzero: density A^2 sum_{n > N} n^s with s = power - 2p, approximated by the
- * midpoint integral density A^2 n0^{s+1} / (-(s + 1)), n0 = N + 1 - 1/(2 density) (each nonzero
- * level stands for a stretch 1/density wide centred on it; n0 = N + 1/2 for density 1, N for
- * every other level; at least N), error O(N^{s-1}) (common practice).
- * Infinity when s >= -1 (the series diverges), e.g. the box energy (power 2) with p <= 3/2.
- * Used to correct energy means computed from a truncated basis. NaN for invalid input.
- */
-export function tailSum(p: number, A: number, fromN: number, power: number, density = 1): number {
-  if (![p, A, fromN, power, density].every(Number.isFinite) || fromN < 0) return NaN;
-  const s = power - 2 * p;
-  if (A === 0 || density === 0) return 0;
-  if (s >= -1) return Infinity;
-  const n0 = Math.max(fromN, fromN + 1 - 0.5 / density, 1e-300);
-  return (density * A * A * Math.pow(n0, s + 1)) / -(s + 1);
-}

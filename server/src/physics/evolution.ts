@@ -13,35 +13,6 @@ export interface Coefficients {
   im: Float64Array;
 }
 
-/**
- * psi(x, t) = sum_k c_k e^{-i E_k t} phi_k(x) at every x of `xs` (the Schroedinger equation's solution
- * for a time-independent H, each stationary state turning with its phase e^{-i E_k t}; Griffiths,
- * Introduction to Quantum Mechanics, ch. 2 (from memory)). Levels beyond basis.count are ignored.
- */
-export function psiAt(basis: Eigenbasis, c: Coefficients, t: number, xs: Float64Array): Coefficients {
-  const K = Math.min(c.re.length, c.im.length, basis.count);
-  const nx = xs.length;
-  const re = new Float64Array(nx);
-  const im = new Float64Array(nx);
-  if (K === 0 || nx === 0) return { re, im };
-  const table = new Float64Array(K * nx);
-  basis.table(xs, K, table);
-  for (let k = 0; k < K; k++) {
-    const ph = -basis.energies[k] * t;
-    const cr = Math.cos(ph);
-    const ci = Math.sin(ph);
-    const ar = c.re[k] * cr - c.im[k] * ci;
-    const ai = c.re[k] * ci + c.im[k] * cr;
-    if (ar === 0 && ai === 0) continue;
-    const row = k * nx;
-    for (let j = 0; j < nx; j++) {
-      re[j] += ar * table[row + j];
-      im[j] += ai * table[row + j];
-    }
-  }
-  return { re, im };
-}
-
 /** Options of `evolve` and `matrixElements`, with their defaults. */
 export interface EvolveOptions {
   /** When given, |psi(x, t)|^2 of the normalised state on these x for every time. Default none. */

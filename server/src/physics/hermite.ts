@@ -2,24 +2,6 @@
  * Hermite polynomials and normalised Hermite functions, evaluated without overflow or underflow.
  */
 
-/**
- * The physicists' Hermite polynomial H_n(x) by H_0 = 1, H_1 = 2x, H_{k+1} = 2x H_k - 2k H_{k-1}
- * (Abramowitz & Stegun 22.7.13 (from memory)). Plain doubles: it overflows to +-Infinity for large
- * n |x|; use {@link hermiteFunctionTable} for eigenfunctions. NaN for n < 0 or non-integer n.
- */
-export function hermitePolynomial(n: number, x: number): number {
-  if (!(Number.isInteger(n) && n >= 0)) return NaN;
-  let h0 = 1;
-  if (n === 0) return h0;
-  let h1 = 2 * x;
-  for (let k = 1; k < n; k++) {
-    const h2 = 2 * x * h1 - 2 * k * h0;
-    h0 = h1;
-    h1 = h2;
-  }
-  return h1;
-}
-
 /** Cody–Waite split of ln 2: the high part has few bits, so q * LN2_HI is exact for |q| < 2^20. */
 const LN2_HI = 0.693145751953125;
 const LN2_LO = 1.4286068203094173e-6;

@@ -88,21 +88,3 @@ export function nearlySymmetric(
   if (fraction > lower && fraction <= upper) return { almost: p.even >= p.odd ? 'even' : 'odd', fraction };
   return null;
 }
-
-/**
- * {@link parityOf} for a state given as an evaluator: samples psi at the rule's nodes x_j and at
- * their mirrors 2c - x_j (one call each) and splits it about c. The rule should cover a region
- * symmetric about c that holds the state (e.g. the basis support); otherwise the parts only add
- * up to the mean of the two norms over that region.
- */
-export function parityFromEvaluator(
-  evaluate: (xs: Float64Array) => { re: Float64Array; im: Float64Array | null },
-  quad: { x: Float64Array; w: Float64Array },
-  center: number,
-  options: ParityOptions = {},
-): ParityResult {
-  const mirror = Float64Array.from(quad.x, (x) => 2 * center - x);
-  const a = evaluate(quad.x);
-  const b = evaluate(mirror);
-  return parityOf({ re: a.re, im: a.im, mirrorRe: b.re, mirrorIm: b.im, w: quad.w }, options);
-}
