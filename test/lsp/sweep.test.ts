@@ -22,8 +22,8 @@ afterEach(async () => {
 });
 
 /** A client that accepts progress tokens and records every $/progress. */
-async function progressClient(): Promise<{ c: TestClient; created: (string | number)[]; seen: Progress[]; next: (accept: (p: Progress) => boolean) => Promise<Progress> }> {
-  const c = await startClient({ capabilities: CAPS });
+async function progressClient(settings?: Record<string, unknown>): Promise<{ c: TestClient; created: (string | number)[]; seen: Progress[]; next: (accept: (p: Progress) => boolean) => Promise<Progress> }> {
+  const c = await startClient({ capabilities: CAPS, settings });
   client = c;
   const created: (string | number)[] = [];
   const seen: Progress[] = [];
@@ -83,6 +83,18 @@ describe('eigenspan/sweep', () => {
     expect(r.sweep.finished).toBeGreaterThan(0);
     expect(r.sweep.finished).toBeLessThan(r.sweep.total);
     await next((p) => p.value.kind === 'end');
+  });
+
+  it('runs under the sweep time limit of the settings and says how many points finished', async () => {
+    const { c } = await progressClient({ sweepTimeLimitMs: 100 });
+    c.open('file:///long.qstate', LONG);
+    const r = (await c.connection.sendRequest('eigenspan/sweep', { textDocument: { uri: 'file:///long.qstate' } })) as { sweep: { finished: number; total: number; stopped: string }; diagnostics: { code: string; message: string }[] };
+    // 5001 points of a numerical solve each cannot finish in 100 ms.
+    expect(r.sweep.stopped).toBe('time');
+    expect(r.sweep.finished).toBeLessThan(r.sweep.total);
+    const lim = r.diagnostics.filter((d) => d.code === 'limits');
+    expect(lim).toHaveLength(1);
+    expect(lim[0]!.message).toContain(`finished ${r.sweep.finished} of ${r.sweep.total} points`);
   });
 
   it('stops on $/cancelRequest', async () => {

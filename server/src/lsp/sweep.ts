@@ -5,7 +5,7 @@
  */
 import { Worker } from 'node:worker_threads';
 import { ResponseError, type CancellationToken, type Connection } from 'vscode-languageserver';
-import { DEFAULT_SWEEP_MILLIS, SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
+import { SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
 import type { DocumentStore } from './documents';
 import type { Session } from './session';
 import { toLspDiagnostics } from './diagnostics';
@@ -18,9 +18,11 @@ export function registerSweep(connection: Connection, store: DocumentStore, sess
     const doc = typeof uri === 'string' ? store.get(uri) : undefined;
     if (!doc) throw new ResponseError(-32602, `eigenspan/sweep: the document ${String(uri)} is not open`);
     if (!session.evaluate) throw new ResponseError(-32803, 'eigenspan/sweep: the workspace is not trusted, so nothing is evaluated');
+    // The sweep's time limit and caps come from the settings: wait until they have been read.
+    await session.settingsLoaded;
     const [lo, hi] = SWEEP_MILLIS_RANGE;
     const asked = params.timeLimitMs;
-    const maxMillis = typeof asked === 'number' && Number.isInteger(asked) && asked >= lo && asked <= hi ? asked : DEFAULT_SWEEP_MILLIS;
+    const maxMillis = typeof asked === 'number' && Number.isInteger(asked) && asked >= lo && asked <= hi ? asked : session.settings.sweepTimeLimitMs;
     const { text, version, lines } = doc;
     const progress = session.caps.window?.workDoneProgress === true ? await connection.window.createWorkDoneProgress() : null;
     const cancel = new Int32Array(new SharedArrayBuffer(4));

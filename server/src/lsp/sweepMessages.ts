@@ -2,7 +2,8 @@
  * The `eigenspan/sweep` request of the language server and the messages of its sweep worker.
  *
  * Request `eigenspan/sweep`, params `{ textDocument: { uri }, timeLimitMs? }`: runs the document's sweep
- * (its current text) under its own time limit (default 60000 ms, separate from the per-keystroke one),
+ * (its current text) under its own time limit (`timeLimitMs`, else the setting `eigenspan.sweepTimeLimitMs`,
+ * default 60000 ms; separate from the per-keystroke budget),
  * reporting LSP work-done progress (`window/workDoneProgress/create`, then `$/progress` begin, a report
  * a finished point with its percentage, and end) when the client supports it. Cancellable with
  * `$/cancelRequest` or `window/workDoneProgress/cancel`: the answer then holds the points finished and
