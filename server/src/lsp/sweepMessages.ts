@@ -13,9 +13,14 @@
  */
 import type { Limits } from '../analysis/index';
 import type { EngineDiagnostic } from '../language/catalogue';
-import type { SweepResult } from '../analysis/sweep/index';
+import type { SweepPoint, SweepResult } from '../analysis/sweep/index';
 
 export const SWEEP_REQUEST = 'eigenspan/sweep';
+/**
+ * Sent while a sweep runs, one a finished point (partial results as they arrive):
+ * `{ uri, version, finished, total, point }` with `point` a `SweepPoint` (analysis/sweep/types.ts).
+ */
+export const SWEEP_POINT_NOTIFICATION = 'eigenspan/sweepPoint';
 
 export interface SweepParams {
   textDocument: { uri: string };
@@ -33,6 +38,6 @@ export interface SweepJobData {
 }
 
 export type SweepWorkerMessage =
-  | { type: 'point'; finished: number; total: number }
+  | { type: 'point'; finished: number; total: number; point: SweepPoint }
   | { type: 'done'; outcome: { result: SweepResult; diagnostics: EngineDiagnostic[] } | null }
   | { type: 'failed'; message: string };
