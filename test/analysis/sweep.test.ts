@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyseWithSweep, prepareSweep, runPoints, runSweep, type SweepResult } from '../../server/src/analysis/sweep/index';
-import { analyse } from '../../server/src/analysis/index';
+import { analyse, analyseUntrusted } from '../../server/src/analysis/index';
 import { clearBasisMemo } from '../../server/src/analysis/systems';
 import { createBudget, manualClock } from '../../server/src/physics/budget';
 
@@ -150,6 +150,15 @@ describe('the sweep line', () => {
     expect(codes(well + 'sweep w from 1 nm to 3 nm steps 3\nexpect window covers 0.5 nm..2 nm\n')).toEqual([['evaluation', '0.5 nm..2 nm']]);
     // A valid sweep adds nothing to the quick stage.
     expect(codes(well + 'sweep w from 1 nm to 3 nm steps 3 log\n')).toEqual([]);
+  });
+
+  it('checks names and dimensions in an untrusted workspace, evaluating nothing', () => {
+    const well = 'units nm, meV\nlet w = 4 nm\nsystem well(depth = 100 meV, width = w)\nstate gaussian(center = 0, width = 1 nm)\n';
+    const untrusted = (text: string) => analyseUntrusted(text).diagnostics.filter((d) => d.severity === 'error').map((d) => [d.code, text.slice(d.start, d.end)]);
+    expect(untrusted(well + 'sweep w from 1 meV to 3 nm steps 5\n')).toEqual([['units', '1 meV']]);
+    expect(untrusted(well + 'sweep q from 1 nm to 3 nm steps 5\n')).toEqual([['name', 'q']]);
+    expect(untrusted(well + 'sweep w from 1 nm to 3 nm steps 5 nm\nexpect window covers 1 meV..2 nm\n')).toEqual([['units', '5 nm'], ['units', '1 meV']]);
+    expect(untrusted(well + 'sweep w from 1 nm to 3 nm steps 5\nexpect window covers 1 nm..2 nm\n')).toEqual([]);
   });
 
   it('names the values where the setup is invalid', () => {

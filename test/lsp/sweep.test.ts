@@ -22,8 +22,8 @@ afterEach(async () => {
 });
 
 /** A client that accepts progress tokens and records every $/progress. */
-async function progressClient(): Promise<{ c: TestClient; created: (string | number)[]; seen: Progress[]; next: (accept: (p: Progress) => boolean) => Promise<Progress> }> {
-  const c = await startClient({ capabilities: CAPS });
+async function progressClient(settings?: Record<string, unknown>): Promise<{ c: TestClient; created: (string | number)[]; seen: Progress[]; next: (accept: (p: Progress) => boolean) => Promise<Progress> }> {
+  const c = await startClient({ capabilities: CAPS, settings });
   client = c;
   const created: (string | number)[] = [];
   const seen: Progress[] = [];
@@ -54,6 +54,8 @@ const LONG = 'let k = 1\nsystem V(x) = k x^4 over [-4, 4]\nstate gaussian(center
 describe('eigenspan/sweep', () => {
   it('reports work-done progress point by point and answers with the sweep', async () => {
     const { c, created, seen } = await progressClient();
+    const partial: { finished: number; point: { at: number[] } }[] = [];
+    c.connection.onNotification('eigenspan/sweepPoint', (p: { finished: number; point: { at: number[] } }) => void partial.push(p));
     c.open('file:///small.qstate', SMALL);
     const r = (await c.connection.sendRequest('eigenspan/sweep', { textDocument: { uri: 'file:///small.qstate' } })) as { sweep: { finished: number; total: number; located: { kind: string; at: number }[] } };
     expect(r.sweep.finished).toBe(8);
@@ -70,6 +72,9 @@ describe('eigenspan/sweep', () => {
     expect(reports).toHaveLength(8);
     expect(reports.map((p) => p.value.percentage)).toEqual([12, 25, 37, 50, 62, 75, 87, 100]);
     expect(reports[7]!.value.message).toBe('8 of 8 points');
+    // Partial results: each point as it finished, before the answer (D = 1, 2.57, ..., 12).
+    expect(partial.map((p) => p.finished)).toEqual([1, 2, 3, 4, 5, 6, 7, 8]);
+    partial.forEach((p, i) => expect(Math.abs(p.point.at[0]! - (1 + (11 * i) / 7))).toBeLessThan(1e-12));
   });
 
   it('stops on window/workDoneProgress/cancel and keeps the points finished', async () => {
@@ -83,6 +88,18 @@ describe('eigenspan/sweep', () => {
     expect(r.sweep.finished).toBeGreaterThan(0);
     expect(r.sweep.finished).toBeLessThan(r.sweep.total);
     await next((p) => p.value.kind === 'end');
+  });
+
+  it('runs under the sweep time limit of the settings and says how many points finished', async () => {
+    const { c } = await progressClient({ sweepTimeLimitMs: 100 });
+    c.open('file:///long.qstate', LONG);
+    const r = (await c.connection.sendRequest('eigenspan/sweep', { textDocument: { uri: 'file:///long.qstate' } })) as { sweep: { finished: number; total: number; stopped: string }; diagnostics: { code: string; message: string }[] };
+    // 5001 points of a numerical solve each cannot finish in 100 ms.
+    expect(r.sweep.stopped).toBe('time');
+    expect(r.sweep.finished).toBeLessThan(r.sweep.total);
+    const lim = r.diagnostics.filter((d) => d.code === 'limits');
+    expect(lim).toHaveLength(1);
+    expect(lim[0]!.message).toContain(`finished ${r.sweep.finished} of ${r.sweep.total} points`);
   });
 
   it('stops on $/cancelRequest', async () => {

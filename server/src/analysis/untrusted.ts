@@ -17,6 +17,7 @@ import { dimensionOf, type ValueKind } from './dimensions';
 import { frequencyAsEnergy } from './frequencyEnergy';
 import { readFile, sortDiagnostics, internalError } from './front';
 import { resolveLimits, type AnalyseOptions, type Limits } from './options';
+import { checkSweepsUntrusted } from './sweep/untrusted';
 
 /** One expression of a statement and what it must be. */
 interface Slot {
@@ -98,6 +99,7 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
   }
   const state = file.statements.find((s) => s.kind === 'state');
   if (state && state.kind === 'state') stateSlots(state.state, hasSystem).forEach(check);
+  checkSweepsUntrusted(file, scope, parseOptions, push);
 }
 
 /** The expressions of a statement other than `let` and `state`. */

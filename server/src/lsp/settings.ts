@@ -2,6 +2,7 @@
  * The server's settings (section `eigenspan` of `workspace/configuration`) and their defaults.
  */
 import { readLimits, type Limits } from '../analysis/index';
+import { DEFAULT_SWEEP_MILLIS, SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
 
 /** Settings the server honours. */
 export interface Settings {
@@ -15,19 +16,22 @@ export interface Settings {
   limits: Partial<Limits>;
   /** Why set limits were refused (out of range, unknown names), for the server's log. */
   limitProblems: string[];
+  /** Time for a whole design sweep (`eigenspan/sweep`, lsp/sweep.ts), separate from the per-analysis budget (default 60000 ms). */
+  sweepTimeLimitMs: number;
 }
 
 /** The defaults, used when the client cannot answer `workspace/configuration`. */
-export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40, limits: Object.freeze({}), limitProblems: [] });
+export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40, limits: Object.freeze({}), limitProblems: [], sweepTimeLimitMs: DEFAULT_SWEEP_MILLIS });
 
 /**
  * The accepted range of each plain number setting, the same as `minimum` and `maximum` in package.json
  * (a test holds them together); the limits' ranges are the engine's `LIMIT_RANGES`.
  */
-export const SETTING_RANGES: Readonly<Record<'debounceMs' | 'timeBudgetMs' | 'defaultBasis', readonly [number, number]>> = Object.freeze({
+export const SETTING_RANGES: Readonly<Record<'debounceMs' | 'timeBudgetMs' | 'defaultBasis' | 'sweepTimeLimitMs', readonly [number, number]>> = Object.freeze({
   debounceMs: [0, 5000],
   timeBudgetMs: [100, 60_000],
   defaultBasis: [1, 5000],
+  sweepTimeLimitMs: SWEEP_MILLIS_RANGE,
 });
 
 /** Reads one number from an untrusted settings object, falling back when it is missing or out of range. */
@@ -46,6 +50,7 @@ export function readSettings(raw: unknown): Settings {
     debounceMs: num(o.debounceMs, DEFAULT_SETTINGS.debounceMs, SETTING_RANGES.debounceMs),
     timeBudgetMs: num(o.timeBudgetMs, DEFAULT_SETTINGS.timeBudgetMs, SETTING_RANGES.timeBudgetMs),
     defaultBasis: Math.round(num(o.defaultBasis, DEFAULT_SETTINGS.defaultBasis, SETTING_RANGES.defaultBasis)),
+    sweepTimeLimitMs: Math.round(num(o.sweepTimeLimitMs, DEFAULT_SETTINGS.sweepTimeLimitMs, SETTING_RANGES.sweepTimeLimitMs)),
     ...(() => {
       const { limits, problems } = readLimits(o.limits);
       return { limits, limitProblems: problems };

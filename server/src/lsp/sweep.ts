@@ -5,11 +5,12 @@
  */
 import { Worker } from 'node:worker_threads';
 import { ResponseError, type CancellationToken, type Connection } from 'vscode-languageserver';
-import { DEFAULT_SWEEP_MILLIS, SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
+import { SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
 import type { DocumentStore } from './documents';
 import type { Session } from './session';
 import { toLspDiagnostics } from './diagnostics';
-import { SWEEP_REQUEST, type SweepJobData, type SweepParams, type SweepWorkerMessage } from './sweepMessages';
+import { SWEEP_POINT_NOTIFICATION, SWEEP_REQUEST, type SweepJobData, type SweepParams, type SweepWorkerMessage } from './sweepMessages';
+import type { SweepPoint } from '../analysis/sweep/index';
 
 /** Registers the request; `workerPath` is the bundled sweep worker. */
 export function registerSweep(connection: Connection, store: DocumentStore, session: Session, workerPath: string): void {
@@ -18,9 +19,11 @@ export function registerSweep(connection: Connection, store: DocumentStore, sess
     const doc = typeof uri === 'string' ? store.get(uri) : undefined;
     if (!doc) throw new ResponseError(-32602, `eigenspan/sweep: the document ${String(uri)} is not open`);
     if (!session.evaluate) throw new ResponseError(-32803, 'eigenspan/sweep: the workspace is not trusted, so nothing is evaluated');
+    // The sweep's time limit and caps come from the settings: wait until they have been read.
+    await session.settingsLoaded;
     const [lo, hi] = SWEEP_MILLIS_RANGE;
     const asked = params.timeLimitMs;
-    const maxMillis = typeof asked === 'number' && Number.isInteger(asked) && asked >= lo && asked <= hi ? asked : DEFAULT_SWEEP_MILLIS;
+    const maxMillis = typeof asked === 'number' && Number.isInteger(asked) && asked >= lo && asked <= hi ? asked : session.settings.sweepTimeLimitMs;
     const { text, version, lines } = doc;
     const progress = session.caps.window?.workDoneProgress === true ? await connection.window.createWorkDoneProgress() : null;
     const cancel = new Int32Array(new SharedArrayBuffer(4));
@@ -29,7 +32,10 @@ export function registerSweep(connection: Connection, store: DocumentStore, sess
     progress?.token.onCancellationRequested(stop);
     progress?.begin('Sweep', 0, 'starting', true);
     const data: SweepJobData = { text, defaultBasis: session.settings.defaultBasis, limits: { ...session.settings.limits }, maxMillis, cancel };
-    const outcome = await runWorker(workerPath, data, (finished, total) => progress?.report(Math.floor((100 * finished) / total), `${finished} of ${total} points`));
+    const outcome = await runWorker(workerPath, data, (finished, total, point) => {
+      progress?.report(Math.floor((100 * finished) / total), `${finished} of ${total} points`);
+      void connection.sendNotification(SWEEP_POINT_NOTIFICATION, { uri, version, finished, total, point });
+    });
     progress?.done();
     if (outcome === null) return { uri, version, sweep: null, diagnostics: [] };
     return { uri, version, sweep: outcome.result, diagnostics: toLspDiagnostics(lines, version, outcome.diagnostics) };
@@ -37,12 +43,12 @@ export function registerSweep(connection: Connection, store: DocumentStore, sess
 }
 
 /** Runs one sweep on a worker of its own; resolves with its outcome (null without a valid sweep). */
-function runWorker(path: string, data: SweepJobData, onPoint: (finished: number, total: number) => void): Promise<Extract<SweepWorkerMessage, { type: 'done' }>['outcome']> {
+function runWorker(path: string, data: SweepJobData, onPoint: (finished: number, total: number, point: SweepPoint) => void): Promise<Extract<SweepWorkerMessage, { type: 'done' }>['outcome']> {
   return new Promise((resolve, reject) => {
     const w = new Worker(path, { workerData: data });
     let settled = false;
     w.on('message', (m: SweepWorkerMessage) => {
-      if (m.type === 'point') onPoint(m.finished, m.total);
+      if (m.type === 'point') onPoint(m.finished, m.total, m.point);
       else if (m.type === 'done') {
         settled = true;
         resolve(m.outcome);

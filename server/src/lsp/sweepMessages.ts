@@ -2,7 +2,8 @@
  * The `eigenspan/sweep` request of the language server and the messages of its sweep worker.
  *
  * Request `eigenspan/sweep`, params `{ textDocument: { uri }, timeLimitMs? }`: runs the document's sweep
- * (its current text) under its own time limit (default 60000 ms, separate from the per-keystroke one),
+ * (its current text) under its own time limit (`timeLimitMs`, else the setting `eigenspan.sweepTimeLimitMs`,
+ * default 60000 ms; separate from the per-keystroke budget),
  * reporting LSP work-done progress (`window/workDoneProgress/create`, then `$/progress` begin, a report
  * a finished point with its percentage, and end) when the client supports it. Cancellable with
  * `$/cancelRequest` or `window/workDoneProgress/cancel`: the answer then holds the points finished and
@@ -12,9 +13,14 @@
  */
 import type { Limits } from '../analysis/index';
 import type { EngineDiagnostic } from '../language/catalogue';
-import type { SweepResult } from '../analysis/sweep/index';
+import type { SweepPoint, SweepResult } from '../analysis/sweep/index';
 
 export const SWEEP_REQUEST = 'eigenspan/sweep';
+/**
+ * Sent while a sweep runs, one a finished point (partial results as they arrive):
+ * `{ uri, version, finished, total, point }` with `point` a `SweepPoint` (analysis/sweep/types.ts).
+ */
+export const SWEEP_POINT_NOTIFICATION = 'eigenspan/sweepPoint';
 
 export interface SweepParams {
   textDocument: { uri: string };
@@ -32,6 +38,6 @@ export interface SweepJobData {
 }
 
 export type SweepWorkerMessage =
-  | { type: 'point'; finished: number; total: number }
+  | { type: 'point'; finished: number; total: number; point: SweepPoint }
   | { type: 'done'; outcome: { result: SweepResult; diagnostics: EngineDiagnostic[] } | null }
   | { type: 'failed'; message: string };

@@ -29,7 +29,7 @@ import { evaluatePoint, type PointOutcome, type SweepSetting } from './point';
 import { locateAll } from './locate';
 import { sweepFindings, type FindingInput } from './report';
 import { displayOf, unitOf } from './display';
-import type { SweepAxis, SweepResult } from './types';
+import type { SweepAxis, SweepPoint, SweepResult } from './types';
 
 export type { SweepAxis, SweepExpect, SweepLocated, SweepPoint, SweepResult, SweepWindow } from './types';
 export type { PointOutcome } from './point';
@@ -47,8 +47,8 @@ export interface SweepOptions {
   clock?: Clock;
   /** Polled with the time limit; true stops the sweep with the points finished. */
   cancelled?: () => boolean;
-  /** Called after each point with the points finished so far and the total (progress reports). */
-  onPoint?: (finished: number, total: number) => void;
+  /** Called after each point with the points finished so far, the total and the point (progress reports, partial results). */
+  onPoint?: (finished: number, total: number, point: SweepPoint) => void;
 }
 
 /** A prepared sweep: what every stage needs. */
@@ -159,7 +159,7 @@ export function runSweep(text: string, options: AnalyseOptions = {}, sweep: Swee
   runPoints(job, [...Array(job.total).keys()], budget, (k, out) => {
     outcomes[k] = out;
     finished++;
-    sweep.onPoint?.(finished, job.total);
+    sweep.onPoint?.(finished, job.total, out.point);
   });
   const stopped = finished < job.total ? (budget.reason ?? 'time') : null;
   return finishSweep(job, outcomes, budget, stopped);

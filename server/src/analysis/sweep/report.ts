@@ -105,7 +105,7 @@ function stopFindings(input: FindingInput): EngineDiagnostic[] {
   ];
 }
 
-const SWEEP_HINT = ' The sweep time limit is `--sweep-time-limit MS` on the command line.';
+const SWEEP_HINT = ' The sweep time limit is the editor setting `eigenspan.sweepTimeLimitMs` and `--sweep-time-limit MS` on the command line.';
 
 /** Each `expect window covers A..B`: every row's window must hold the range. */
 function windowFindings(input: FindingInput): EngineDiagnostic[] {
