@@ -103,3 +103,12 @@ describe('expect norm with a dimension', () => {
     expect(failingLines('units nm, eV, fs\nsystem box(0, 1 nm)\nstate psi(x) = phi(1, x)\nexpect norm 1 nm +- 1e-9 nm\n')).toEqual([4]);
   });
 });
+
+describe('the untrusted pipeline checks the new forms', () => {
+  it('names each value of the wrong dimension, evaluating nothing', async () => {
+    const { analyseUntrusted } = await import('../../server/src/analysis/index');
+    const t = 'units nm, meV, fs\nsystem box(0 nm, 1 nm)\nstate psi(x) = phi(1, x)\nexpect level 1 energy 40 nm +- 1 meV\nexpect revival 500 meV +- 10 fs\nexpect mean x(10 nm) 5 nm +- 0.1 nm\nexpect mean p(1 fs) 5 nm +- 0.1 / nm\nexpect continuum <= 1 fs\n';
+    const covered = analyseUntrusted(t).diagnostics.filter((d) => d.code === 'units').map((d) => t.slice(d.start, d.end));
+    expect(covered).toEqual(['40 nm', '500 meV', '10 nm', '5 nm', '1 fs']);
+  });
+});
