@@ -134,7 +134,7 @@ export function findWindow(state: StateFunction, basis: Eigenbasis): [number, nu
 }
 
 /** The largest local wave number of the basis levels (sets the panel width). */
-function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number, number]): number {
+export function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number, number]): number {
   const eMax = basis.energies[Math.min(levels, basis.count) - 1] ?? 0;
   let vMin = Infinity;
   const n = 257;

@@ -31,11 +31,11 @@ interface StaticStage {
   limits: Limits;
 }
 
-function staticStage(text: string, options: AnalyseOptions): StaticStage {
-  return inQuickStage(text.length, () => staticStageIn(text, options));
+function staticStage(text: string, options: AnalyseOptions, full = false): StaticStage {
+  return inQuickStage(text.length, () => staticStageIn(text, options, full));
 }
 
-function staticStageIn(text: string, options: AnalyseOptions): StaticStage {
+function staticStageIn(text: string, options: AnalyseOptions, full: boolean): StaticStage {
   const limits = resolveLimits(options);
   const read = readFile(text, limits);
   if (!read.parsed) return { file: read.file, diagnostics: read.diagnostics, model: null, limits };
@@ -47,6 +47,9 @@ function staticStageIn(text: string, options: AnalyseOptions): StaticStage {
       maxEvolveSteps: limits.maxEvolveSteps,
       maxExpressionLength: limits.maxExpressionLength,
       maxNesting: limits.maxNesting,
+      // The quick stage reads no data files; the full analysis reports every path it was not given.
+      data: options.data ?? (full ? new Map() : undefined),
+      maxGridPoints: limits.maxGridPoints,
     },
     read.diagnostics,
   );
@@ -101,7 +104,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
   }
   let stage: StaticStage;
   try {
-    stage = staticStage(text, options);
+    stage = staticStage(text, options, true);
   } catch (err) {
     return { ...emptyResult(null, [internalError(err, text)]), elapsedMs: clock.now() - started };
   }

@@ -17,6 +17,7 @@ import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from '.
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
+import { resolvedCount } from './samplesState';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -58,8 +59,11 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   if (!model.state || ctx.budget.expired()) return;
   const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
   if (!state) return;
+  // A sampled state is expanded only on the levels its samples resolve.
+  const count = resolvedCount(model.state.model, basis, Math.min(asked, basis.count), out);
+  if (count === 0) return;
   try {
-    stateStage({ input, built, count: Math.min(asked, basis.count), state, checks }, result);
+    stateStage({ input, built, count, state, checks }, result);
   } catch (err) {
     // A state infinite at a sampled point: say how it grows there (the caller words it).
     if (err instanceof BadValue && Number.isFinite(err.x)) {

@@ -12,6 +12,7 @@ import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
 import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
+import { samplesState } from './samplesState';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -260,6 +261,8 @@ export function buildState(
   switch (state.kind) {
     case 'gaussian':
       return gaussianState(state.center, state.width, state.momentum);
+    case 'samples':
+      return samplesState(state, target, out);
     case 'eigen': {
       // Labels start at the basis's first label (0 or 1), so level + 1 levels always include it.
       const built = buildBasis(state.system, mass, state.level + 1, out, options);

@@ -128,7 +128,7 @@ export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;
 export const SYSTEM_KINDS = ['box', 'well', 'oscillator', 'V'] as const;
 
 /** The state kinds after `state`. */
-export const STATE_KINDS = ['psi', 'eigen', 'gaussian'] as const;
+export const STATE_KINDS = ['psi', 'eigen', 'gaussian', 'samples'] as const;
 
 /** Words with a fixed meaning inside statements (they split statements, so they cannot be `let` names). */
 export const INNER_WORDS = ['over', 'of', 'to', 'steps'] as const;
