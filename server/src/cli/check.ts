@@ -11,7 +11,8 @@ import { DEFAULT_LIMITS, type Limits } from '../analysis/index';
 import { lineTable } from '../language/positions';
 import { escapeText } from './escape';
 import { readBounded, walkTree, type Refusal } from './files';
-import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { analyseFile } from './data';
+import { limitOption, timeLimit, UsageError, type Io } from './options';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analysedRecord, refusedRecord, type FileRecord } from './records';
 import { renderDiagnostic } from './render';
@@ -71,7 +72,7 @@ function checkFile(io: Io, tally: Tally, f: string, limits: Partial<Limits>): vo
     return;
   }
   const text = read.data.toString('utf8');
-  const result = analyseBounded(text, { limits });
+  const result = analyseFile(f, text, { limits });
   const lines = lineTable(text);
   tally.records.push(analysedRecord(f, text, result, lines));
   for (const d of result.diagnostics) {

@@ -15,8 +15,9 @@ import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
 import { escapeJson, escapeLines, escapeText } from './escape';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
-import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { limitOption, timeLimit, UsageError, type Io } from './options';
 import { readText } from './readtext';
+import { analyseFile, takeDataOption } from './data';
 import { renderCsv, renderJson, renderTable } from './render';
 import { DEFAULT_TOLERANCE } from './diff';
 import { diff, summary } from './vcs';
@@ -58,6 +59,9 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
       Analyse every .qstate file in FOLDER (default examples) and print each one's table.
   eigenspan --help
       Show this text.
+  Every command takes --no-data: the data files a state names (samples("PATH")) are then
+  refused, not read (for checkouts you do not trust). Without it they are read only from the
+  .qstate file's folder and below: relative paths, regular files, at most 8 MiB.
 `;
 
 /** Runs the command line with `argv` (without node and the script); returns the exit code. */
@@ -82,7 +86,8 @@ function runSafe(argv: string[], io: Io, raw: (s: string) => void): number {
 
 function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
   if (argv.length === 0) throw new UsageError("no command given; try 'eigenspan --help'");
-  const [cmd, ...rest] = argv;
+  const [cmd, ...given] = argv;
+  const rest = takeDataOption(given);
   if (cmd === '--help' || cmd === '-h' || cmd === 'help') {
     io.out(USAGE);
     return 0;
@@ -136,7 +141,7 @@ function expand(args: string[], io: Io): number {
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null) assertWritable(outPath, force);
   const text = readText(file, limits.maxFileBytes);
-  const result = analyseBounded(text, { defaultBasis: basis, limits });
+  const result = analyseFile(file, text, { defaultBasis: basis, limits });
   const shown = escapeText(file);
   const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result, bare) : renderTable(result, text, shown);
   if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
@@ -153,7 +158,7 @@ function demo(args: string[], io: Io): number {
   let failed = false;
   for (const f of files) {
     const text = readText(f);
-    const result = analyseBounded(text);
+    const result = analyseFile(f, text);
     io.out(renderTable(result, text, escapeText(relative(process.cwd(), f) || f)));
     io.out('\n');
     if (result.diagnostics.some((d) => d.severity === 'error')) failed = true;
