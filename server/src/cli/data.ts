@@ -44,7 +44,8 @@ export function readDataFiles(path: string, text: string, policy: DataPolicy): M
     }
     const where = resolveInTree(root, name);
     if (!where.ok) {
-      out.set(name, { refused: `${where.refusal.message}; data files are read only from the .qstate file's folder and below` });
+      const why = where.refusal.reason === 'outside' ? `${where.refusal.message}; data files are read only from the .qstate file's folder and below` : where.refusal.message;
+      out.set(name, { refused: why });
       continue;
     }
     const read = readBounded(where.path, { maxBytes: policy.maxBytes ?? DATA_MAX_BYTES, inside: root });
