@@ -9,6 +9,7 @@ import { AnalysisScheduler } from './scheduler';
 import { Session } from './session';
 import { DocumentStore } from './documents';
 import { registerHandlers } from './handlers';
+import { DataFiles } from './dataWatch';
 
 /** Options of `startServer`. */
 export interface ServerOptions {
@@ -29,7 +30,9 @@ export function startServer(connection: Connection, options: ServerOptions): voi
       return session.samples;
     },
     onOutcome: (uri, revision, outcome) => store.onOutcome(uri, revision, outcome),
+    data: (uri, text) => dataFiles.read(uri, text),
   });
+  const dataFiles = new DataFiles({ connection, session, changed: (uris) => store.reanalyse(uris), logError });
   const store = new DocumentStore({ connection, session, scheduler: () => scheduler, log, logError });
 
   /** Reads the settings; a change of what results depend on analyses every document again (not on the first read). */
@@ -40,7 +43,11 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     store.reanalyseAll();
   }
 
-  connection.onInitialize((params) => session.initialize(params));
+  connection.onInitialize((params) => {
+    dataFiles.initialize(params);
+    return session.initialize(params);
+  });
+  connection.onDidChangeWatchedFiles((p) => dataFiles.onChange(p));
   connection.onInitialized(() => {
     if (session.evaluate) scheduler.warmUp();
     if (session.caps.workspace?.didChangeConfiguration?.dynamicRegistration) {
@@ -61,6 +68,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   registerHandlers(connection, store, session, logError);
   const documents = new TextDocuments(TextDocument);
   store.listen(documents);
+  documents.onDidClose((e) => dataFiles.forget(e.document.uri));
   documents.listen(connection);
   connection.listen();
 }
