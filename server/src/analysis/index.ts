@@ -112,7 +112,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
   result.values = stage.model ? letValues(stage.model) : [];
   const budget = createBudget({ limitMs: stage.limits.maxMillis, clock, cancelled: options.cancelled });
   try {
-    if (stage.model) numericStage({ model: stage.model, file: stage.file, ctx: { budget, limits: stage.limits }, samples: options.samples === true }, result);
+    if (stage.model) numericStage({ model: stage.model, file: stage.file, ctx: { budget, limits: stage.limits }, samples: options.samples === true, plot: options.plot }, result);
   } catch (err) {
     result.diagnostics.push(evaluationFinding(err, stage.model) ?? internalError(err, text));
   }

@@ -26,6 +26,8 @@ export interface NumericInput {
   ctx: ComputeContext;
   /** Include plot samples for the panel. */
   samples: boolean;
+  /** Their grid (AnalyseOptions.plot). */
+  plot?: { points?: number; levels?: number };
 }
 
 /** Runs the numerical stage, filling `result` (its diagnostics included). Throws `BadValue` and `MissingLevel` for the caller to word. */
@@ -90,9 +92,9 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   fillResult(m, result);
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out);
-  const plotX = plotGrid(m.basis, m.window);
+  const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels);
+  if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100);
 }
 
 /** The measured numbers a front end shows. */
@@ -165,20 +167,19 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
   return res;
 }
 
-/** 400 points over the walls (or the integration window) for plots. */
-function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
+/** `n` points (400 for the panel) over the walls (or the integration window) for plots. */
+function plotGrid(basis: Eigenbasis, window: [number, number], n: number): Float64Array {
   const [a, b] = basis.walls ?? window;
-  const n = 400;
   const xs = new Float64Array(n);
   for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
   return xs;
 }
 
-function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[]): SampleResult {
+function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[], maxLevels: number): SampleResult {
   const n = xs.length;
   const v = state.evaluate(xs, 0);
   const s = 1 / Math.sqrt(norm);
-  const kmax = Math.min(levels.length, 100);
+  const kmax = Math.min(levels.length, maxLevels);
   const table = new Float64Array(kmax * n);
   basis.table(xs, kmax, table);
   const phi: number[][] = [];

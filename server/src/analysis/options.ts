@@ -29,6 +29,12 @@ export interface AnalyseOptions {
    * `analyseStatic` says nothing about data files and `analyse` treats it as empty.
    */
   data?: ReadonlyMap<string, DataFile>;
+  /**
+   * The grid of the plot samples (with `samples: true`): `points` equally spaced points over the walls
+   * or the integration window (default 400), and the eigenfunctions of the first `levels` levels on it
+   * (default 100; the command line's `--samples` export asks for all of them).
+   */
+  plot?: { points?: number; levels?: number };
 }
 
 /** A data file as a front end hands it to the engine: its text, or the sentence saying why it was not read. */

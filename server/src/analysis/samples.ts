@@ -7,7 +7,8 @@
  * other line may be a header naming the columns, `x` first, then `re` and optionally `im`, or `abs` and
  * optionally `phase`; `x [nm]` gives x its unit (else the `.qstate` file's length unit), `phase [deg]`
  * the phase's (else radians). Without a header, two columns are x, re and three are x, re, im. Cells are
- * separated by commas when the header (or the first row) has one, else by white space. The values of
+ * separated by commas when the header (or the first row) has one, else by white space; the columns
+ * re_expansion and im_expansion of `expand --samples` are passed over. The values of
  * psi are in (x's length unit)^(-1/2).
  */
 import type { QFile, Span, StateSpec } from '../language/ast';
@@ -198,7 +199,8 @@ function header(line: string, lineNo: number): Columns | string {
   const list = names.map((n) => n.name).join(', ');
   const index = (n: string): number => names.findIndex((c) => c.name === n);
   if (names[0]?.name !== 'x') return `the header's first column must be x (it names ${list}).`;
-  const known = new Set(['x', 're', 'im', 'abs', 'phase']);
+  // The export's expansion columns (cli/export.ts) are read past, so its file can be read back.
+  const known = new Set(['x', 're', 'im', 'abs', 'phase', 're_expansion', 'im_expansion']);
   const unknown = names.find((n) => !known.has(n.name));
   if (unknown) return `the header names a column '${unknown.name}'; the columns are x, re, im, abs and phase.`;
   if (new Set(names.map((n) => n.name)).size !== names.length) return `the header names a column twice (${list}).`;

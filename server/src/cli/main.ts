@@ -1,7 +1,7 @@
 /**
  * The command line: a thin front end over `analyse`.
  *
- *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
+ *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]] [--samples PATH [--points N]]
  *                    [--time-limit MS] [--limit NAME=N]...
  *   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force] [--time-limit MS] [--limit NAME=N]...
  *   eigenspan diff OLD NEW | FILE --rev REV [--tolerance T]
@@ -18,6 +18,7 @@ import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { limitOption, timeLimit, UsageError, type Io } from './options';
 import { readText } from './readtext';
 import { analyseFile, takeDataOption } from './data';
+import { EXPORT_POINTS, exportGrid, pointsOption, renderSamplesCsv } from './export';
 import { renderCsv, renderJson, renderTable } from './render';
 import { DEFAULT_TOLERANCE } from './diff';
 import { diff, summary } from './vcs';
@@ -30,6 +31,10 @@ const USAGE = `Usage:
       --table  a readable table (the default)
       --csv    one row a level: n, energy, re, im, weight, after a comment line naming the energy unit
       --csv-bare  the same without the comment line
+      --samples PATH  also write the normalised state and its expansion on a grid as CSV
+                 (x, re, im, re_expansion, im_expansion) to PATH; never replaces an existing
+                 PATH unless --force is given
+      --points N  points of that grid (default 1000)
       --basis N  levels to use when the file has no basis line (default 40)
       --out PATH write the output to PATH instead of the terminal; an existing PATH is
                  never replaced unless --force is given
@@ -114,11 +119,15 @@ function expand(args: string[], io: Io): number {
   let file: string | null = null;
   let basis: number | undefined;
   let outPath: string | null = null;
+  let samplesPath: string | null = null;
+  let points = EXPORT_POINTS;
   let force = false;
   const limits: Partial<Limits> = {};
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
     if (a === '--out') outPath = outPathOption('--out', args[++i]);
+    else if (a === '--samples') samplesPath = outPathOption('--samples', args[++i]);
+    else if (a === '--points') points = pointsOption(args[++i]);
     else if (a === '--force') force = true;
     else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
@@ -140,8 +149,18 @@ function expand(args: string[], io: Io): number {
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null) assertWritable(outPath, force);
+  if (samplesPath !== null) {
+    if (samplesPath === outPath) throw new UsageError('--out and --samples need different files');
+    assertWritable(samplesPath, force);
+  }
   const text = readText(file, limits.maxFileBytes);
-  const result = analyseFile(file, text, { defaultBasis: basis, limits });
+  const plot = samplesPath === null ? {} : { samples: true, plot: exportGrid(points, limits.maxBasis ?? DEFAULT_LIMITS.maxBasis) };
+  const result = analyseFile(file, text, { defaultBasis: basis, limits, ...plot });
+  if (samplesPath !== null) {
+    const csv = renderSamplesCsv(result, escapeText(file));
+    if (csv === null) io.err(`eigenspan: no samples written to '${escapeText(samplesPath)}': the state could not be expanded (see its findings).\n`);
+    else writeOutput(samplesPath, escapeLines(csv), force);
+  }
   const shown = escapeText(file);
   const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result, bare) : renderTable(result, text, shown);
   if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
