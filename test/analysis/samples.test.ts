@@ -20,6 +20,7 @@
 import { describe, expect, it } from 'vitest';
 import { analyse } from '../../server/src/analysis/index';
 import type { AnalysisResult } from '../../server/src/analysis/types';
+import { messageProblems } from '../fuzz/harness';
 
 function table(f: (x: number) => number, a: number, b: number, N: number, head = 'x, re'): string {
   const rows = ['# written by the test', head];
@@ -140,6 +141,8 @@ describe('findings of a bad table, with the data file line', () => {
     expect(f, JSON.stringify(r.diagnostics)).toHaveLength(1);
     expect(text.slice(f[0]!.start, f[0]!.end)).toBe('"d.csv"');
     if (line !== null) expect(f[0]!.message).toContain(`line ${line}`);
+    // A sentence a user can act on, by the fuzzer's rule (test/fuzz/harness.ts).
+    expect(messageProblems(f[0]!.message)).toEqual([]);
     expect(r.levels).toEqual([]);
   };
   const head = '# comment\nx, re, im\n0, 0, 0\n0.25, 0.7, 0\n0.5, 1, 0\n';

@@ -79,3 +79,21 @@ describe('data files under the tree rules', () => {
     refused(checkWith('data/bad.csv', (d) => writeFileSync(join(d, 'data', 'bad.csv'), bad)), /line 4.*line 5/);
   });
 });
+
+describe('the fuzzer class of hostile data files (test/fuzz/hostile.ts)', () => {
+  it('seeded trees with hostile data files keep the promises of check (nothing read outside, one line a finding)', async () => {
+    const { checkTreeCase, dataEntries } = await import('../fuzz/hostile');
+    // A small seeded generator (mulberry32, common practice), so the cases are the same on every run.
+    let s = 17;
+    const r = (): number => {
+      s = (s + 0x6d2b79f5) | 0;
+      let t = Math.imul(s ^ (s >>> 15), 1 | s);
+      t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+      return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+    };
+    for (let i = 0; i < 12; i++) {
+      const entries = [{ kind: 'file' as const, path: 'a.qstate', text: 'system box(0, 1)\nstate psi(x) = sqrt(30) * x * (1 - x)\n' }, ...dataEntries(r)];
+      expect(checkTreeCase(entries), JSON.stringify(entries)).toEqual([]);
+    }
+  });
+});

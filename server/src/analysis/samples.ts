@@ -167,7 +167,7 @@ function rowProblem(cells: string[], columns: Columns): string | null {
   for (let k = 0; k < cells.length; k++) {
     const s = cells[k]!;
     if (s === '') return `cell ${k + 1} is blank`;
-    if (!NUMBER.test(s)) return /^[+-]?(nan|inf|infinity)$/i.test(s) ? `cell ${k + 1} is ${s}, not a finite number` : `cell ${k + 1} ('${s.slice(0, 20)}') is not a number`;
+    if (!NUMBER.test(s)) return /^[+-]?(nan|inf|infinity)$/i.test(s) ? `cell ${k + 1} is '${s}', not a finite number` : `cell ${k + 1} ('${s.slice(0, 20)}') is not a number`;
     if (!Number.isFinite(Number(s))) return `cell ${k + 1} overflows double precision`;
   }
   return null;
