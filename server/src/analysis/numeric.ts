@@ -17,7 +17,7 @@ import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from '.
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
-import { resolvedCount } from './samplesState';
+import { resolvedCount, samplePoints } from './samplesState';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -94,7 +94,10 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   checkExpects(model, result, out);
   const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100);
+  if (input.samples) {
+    result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100);
+    if (model.state?.model.kind === 'samples') result.samples.data = samplePoints(model.state.model, m.norm);
+  }
 }
 
 /** The measured numbers a front end shows. */

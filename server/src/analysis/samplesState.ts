@@ -125,3 +125,10 @@ export function resolvedCount(state: StateModel, basis: Eigenbasis, count: numbe
   }
   return lo;
 }
+
+/** The samples normalised as the plots are (divided by the square root of the norm), for the panel. */
+export function samplePoints(model: SamplesModel, norm: number): { x: number[]; re: number[]; im: number[] } {
+  const s = 1 / Math.sqrt(norm);
+  const { x, re, im } = model.table;
+  return { x: Array.from(x), re: Array.from(re, (v) => v * s), im: Array.from(im, (v) => v * s) };
+}
