@@ -133,6 +133,35 @@ describe('what the samples resolve', () => {
   });
 });
 
+describe('the capture finding past the resolution', () => {
+  it('offers no basis the samples cannot support', () => {
+    // The tent at 16 intervals: levels 1 .. 15 are resolved; their capture falls short of 1 - 1e-6
+    // (the tent's |c_n|^2 falls as n^-4), but a larger basis would only expand the spline.
+    const r = run(box, table((x) => Math.sqrt(12) * Math.min(x, 1 - x), 0, 1, 16), 'basis 40');
+    expect(r.levels).toHaveLength(15);
+    const capture = r.diagnostics.filter((d) => d.code === 'basis' && d.message.includes('capture'));
+    expect(capture).toHaveLength(1);
+    expect(capture[0]!.fixes).toBeUndefined();
+    expect(capture[0]!.message).toContain('resolve only 15');
+  });
+});
+
+describe('the clause samples("PATH")', () => {
+  const codeAt = (line: string): [string, string][] => {
+    const text = `${box}\n${line}\n`;
+    return analyse(text, { data: new Map() }).diagnostics.map((d) => [d.code, text.slice(d.start, d.end)]);
+  };
+  it('an empty path', () => expect(codeAt('state samples("")')).toEqual([['syntax', '""']]));
+  it('a backslash', () => expect(codeAt('state samples("data\\p.csv")')).toEqual([['syntax', '"data\\p.csv"']]));
+  it('an unclosed quote', () => expect(codeAt('state samples("data/p.csv)')).toEqual([['syntax', '"']]));
+  it('no quotes', () => expect(codeAt('state samples(data)')).toEqual([['syntax', '(d']]));
+  it('text after the call', () => expect(codeAt('state samples("p.csv") of box(0, 1)')).toEqual([['syntax', 'of box(0, 1)']]));
+  it('a # in the path ends it at a comment', () => expect(codeAt('state samples("a#b.csv")')[0]![0]).toBe('syntax'));
+  it('the untrusted pipeline reads nothing and finds nothing', () => {
+    expect(analyse(`${box}\nstate samples("p.csv")\n`, { evaluate: false }).diagnostics).toEqual([]);
+  });
+});
+
 describe('findings of a bad table, with the data file line', () => {
   const check = (data: string, line: number | null, code = 'data'): void => {
     const text = `${box}\nstate samples("d.csv")\n`;

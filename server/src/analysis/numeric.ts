@@ -64,6 +64,7 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   // A sampled state is expanded only on the levels its samples resolve.
   const count = resolvedCount(model.state.model, basis, Math.min(asked, basis.count), out);
   if (count === 0) return;
+  if (count < Math.min(asked, basis.count)) checks.resolved = count;
   try {
     stateStage({ input, built, count, state, checks }, result);
   } catch (err) {
