@@ -83,6 +83,11 @@ export const KEYWORDS: readonly KeywordInfo[] = [
         snippet: 'state eigen(${1:1}) of ${2:box(0, 1)}',
         doc: 'Level N of another system: the state left behind when the potential changes suddenly.',
       },
+      {
+        label: 'state samples("PATH")',
+        snippet: 'state samples("${1:data/psi.csv}")',
+        doc: 'Samples of psi in a data file beside this one (columns x, re, im or x, abs, phase), interpolated by a cubic spline.',
+      },
     ],
   },
   {
