@@ -184,6 +184,11 @@ describe('findings of a bad table, with the data file line', () => {
   it('unknown column', () => check('x, re, imag\n0, 0, 0\n', 1));
   it('too few rows', () => check('x, re\n0, 0\n1, 0\n', null));
   it('binary', () => check('x, re\n\u0000\u0001\n', null));
+  it('a byte order mark is not a bad header', () => {
+    const r = run(box, '\ufeff' + table((x) => Math.SQRT2 * Math.sin(Math.PI * x), 0, 1, 32));
+    expect(r.diagnostics.filter((d) => d.code === 'data')).toEqual([]);
+    expect(r.levels[0]!.weight).toBeCloseTo(1, 8);
+  });
   it('a path the front end did not read', () => {
     const r = analyse(`${box}\nstate samples("d.csv")\n`, { data: new Map() });
     expect(r.diagnostics.map((d) => d.code)).toEqual(['data']);

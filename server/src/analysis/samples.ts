@@ -18,6 +18,7 @@ import { internalUnitSI, lookupPhysical, sameDimension } from '../expr/units';
 import { parse } from '../language/parser';
 import type { DataFile } from './options';
 import { fmt, plural } from './findings';
+import { raiseHint } from '../shared/limits';
 
 /** Most bytes of a data file a front end reads (a larger one is refused before it is parsed). */
 export const DATA_MAX_BYTES = 8 * 1024 * 1024;
@@ -122,7 +123,8 @@ const NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
 
 /** Reads the rows; a problem sentence (naming lines) when the table is not usable. */
 export function readTable(text: string, maxRows: number): RawTable | { problem: string } {
-  const lines = text.split(/\r\n|\n|\r/);
+  // A byte order mark at the start is not part of the first line.
+  const lines = (text.charCodeAt(0) === 0xfeff ? text.slice(1) : text).split(/\r\n|\n|\r/);
   let columns: Columns | null = null;
   const raw: RawTable = { columns: null as unknown as Columns, x: [], a: [], b: [], lines: [] };
   const problems: string[] = [];
@@ -136,7 +138,7 @@ export function readTable(text: string, maxRows: number): RawTable | { problem: 
       raw.columns = h;
       if (h.line > 0) continue;
     }
-    if (raw.x.length >= maxRows) return { problem: `has more than ${maxRows} rows (line ${li + 1}), the most that fit the grid cap; it is not read. Raise maxGridPoints to read more.` };
+    if (raw.x.length >= maxRows) return { problem: `has more than ${maxRows} rows (line ${li + 1}), the most that fit the grid cap (20 nodes a row); it is not read.${raiseHint('maxGridPoints')}` };
     const cells = columns.comma ? c.split(',').map((s) => s.trim()) : c.split(/\s+/);
     const bad = rowProblem(cells, columns);
     if (bad !== null) {
