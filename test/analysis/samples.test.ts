@@ -85,6 +85,22 @@ describe('convergence to closed-form coefficients', () => {
     expect(r.levels.reduce((s, l) => s + l.weight, 0)).toBeCloseTo(r.captured!, 12);
   });
 
+  it('a displaced, moving packet on 13106 samples: no jump at the knots, and the coherent-state energies', () => {
+    // Displaced by d = 1 with wave number k = 2 in the oscillator of omega = 1: |alpha|^2 = (d^2 + k^2) / 2,
+    // <H> = |alpha|^2 + 1/2 = 3 and Delta H = |alpha| = sqrt(2.5) (coherent states, common practice).
+    const N = 13105;
+    const rows = ['x re im'];
+    for (let i = 0; i <= N; i++) {
+      const x = -15 + (30 * i) / N;
+      const g = Math.PI ** -0.25 * Math.exp(-((x - 1) ** 2) / 2);
+      rows.push(`${x} ${g * Math.cos(2 * x)} ${g * Math.sin(2 * x)}`);
+    }
+    const r = run(osc, rows.join('\n'), 'basis 40');
+    expect(r.diagnostics.filter((d) => d.severity !== 'info')).toEqual([]);
+    expect(r.energy!.mean!).toBeCloseTo(3, 6);
+    expect(r.energy!.spread!).toBeCloseTo(Math.sqrt(2.5), 6);
+  });
+
   it('abs and phase columns give the same state as re and im (a moving packet, phase in degrees)', () => {
     const k = 2;
     const g = (x: number): number => Math.PI ** -0.25 * Math.exp(-(x * x) / 2);

@@ -49,6 +49,8 @@ export function samplesState(model: SamplesModel, basis: Eigenbasis | null, out:
       for (let k = 0; k < x.length; k++) if (x[k]! > a && x[k]! < b) pts.push(x[k]!);
       return pts;
     },
+    // The spline is C2 inside: only its ends, where it drops to zero, can jump or kink.
+    jumpCandidates: (a, b) => ends.filter((e) => e > a && e < b),
     support: ends,
     window: ends,
     walls: null,

@@ -157,6 +157,11 @@ export interface StateFunction {
   window: [number, number] | null;
   /** Hard walls of the system the state came from (sudden changes), which are kinks of the state. */
   walls: [number, number] | null;
+  /**
+   * Of the breakpoints, those where the state may jump or kink (checked by `classifyBreakpoints`);
+   * all of them when absent. A sampled state's inner knots are smooth by construction (the spline is C2).
+   */
+  jumpCandidates?(a: number, b: number): number[];
 }
 
 /** Makes the `phi(n, x)` provider of a basis; levels beyond the basis are reported through `missing`. */
