@@ -63,10 +63,20 @@ export class DataFiles {
     for (const name of names) {
       if (!this.o.session.evaluate) out.push([name, { refused: 'data files are read only in a trusted workspace' }]);
       else if (doc === null) out.push([name, { refused: 'the document is not a file on disk, so it has no folder to read from' }]);
-      else out.push([name, this.readOne(doc, name, paths)]);
+      else out.push([name, this.readSafely(doc, name, paths)]);
     }
     this.remember(uri, paths);
     return out;
+  }
+
+  /** `readOne`, with anything unexpected turned into a refusal: the scheduler calls this and must not throw. */
+  private readSafely(doc: string, name: string, paths: Set<string>): DataFile {
+    try {
+      return this.readOne(doc, name, paths);
+    } catch (e) {
+      this.o.logError(`reading the data file ${name} failed: ${String(e)}`);
+      return { refused: 'it could not be read' };
+    }
   }
 
   private readOne(doc: string, name: string, paths: Set<string>): DataFile {
