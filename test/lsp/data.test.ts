@@ -29,14 +29,15 @@ afterEach(async () => {
 });
 
 /** A client that records the watchers the server registers. */
-async function watchingClient(evaluate = true): Promise<{ c: TestClient; watched: () => Promise<string[]> }> {
-  const c = await startClient({ capabilities: caps, settings: { debounceMs: 0 }, initializationOptions: { evaluate } });
+async function watchingClient(evaluate = true, relative = false): Promise<{ c: TestClient; watched: () => Promise<string[]> }> {
+  const capabilities = relative ? { ...caps, workspace: { ...caps.workspace, didChangeWatchedFiles: { dynamicRegistration: true, relativePatternSupport: true } } } : caps;
+  const c = await startClient({ capabilities, settings: { debounceMs: 0 }, initializationOptions: { evaluate } });
   clients.push(c);
   const seen: string[][] = [];
   let wake: (() => void) | null = null;
   c.connection.onRequest('client/registerCapability', (p: { registrations: { method: string; registerOptions?: { watchers?: { globPattern: unknown }[] } }[] }) => {
     for (const r of p.registrations) {
-      if (r.method === 'workspace/didChangeWatchedFiles') seen.push((r.registerOptions?.watchers ?? []).map((w) => String(w.globPattern)));
+      if (r.method === 'workspace/didChangeWatchedFiles') seen.push((r.registerOptions?.watchers ?? []).map((w) => (typeof w.globPattern === 'string' ? w.globPattern : JSON.stringify(w.globPattern))));
     }
     wake?.();
     return null;
@@ -71,6 +72,27 @@ describe('data files in the editor', () => {
     c.connection.sendNotification('workspace/didChangeWatchedFiles', { changes: [{ uri: pathToFileURL(w.file).href, type: 2 }] });
     const second = await c.result(w.uri, (r) => weightOf(r as never, 2) > 0.999999);
     expect(weightOf(second, 1)).toBeLessThan(1e-12);
+  });
+
+  it('watches with a relative pattern when the client supports one (as VS Code does)', async () => {
+    const { c, watched } = await watchingClient(true, true);
+    const w = workspace();
+    c.open(w.uri, TEXT);
+    await c.result(w.uri);
+    expect(await watched()).toEqual([JSON.stringify({ baseUri: pathToFileURL(join(w.dir, 'data')).href, pattern: 'p.csv' })]);
+  });
+
+  it('a missing data file is watched too: creating it analyses the document again', async () => {
+    const { c, watched } = await watchingClient();
+    const w = workspace();
+    const later = join(w.dir, 'data', 'later.csv');
+    c.open(w.uri, 'system box(0, 1)\nstate samples("data/later.csv")\n');
+    await c.diagnostics(w.uri, (q) => q.diagnostics.some((d) => d.code === 'data'));
+    expect(await watched()).toEqual([later]);
+    writeFileSync(later, level(3));
+    c.connection.sendNotification('workspace/didChangeWatchedFiles', { changes: [{ uri: pathToFileURL(later).href, type: 1 }] });
+    const r = await c.result(w.uri, (q) => weightOf(q as never, 3) > 0.999999);
+    expect(weightOf(r, 3)).toBeCloseTo(1, 6);
   });
 
   it('a path out of the workspace is one data finding on the path', async () => {
