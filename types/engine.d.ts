@@ -8,7 +8,7 @@
 export type Severity = 'error' | 'warning' | 'info';
 
 /** A stable diagnostic code. */
-export type Code = 'syntax' | 'name' | 'units' | 'evaluation' | 'forbidden' | 'limits' | 'norm' | 'boundary' | 'convergence' | 'basis' | 'continuum' | 'parity' | 'expect';
+export type Code = 'syntax' | 'name' | 'units' | 'evaluation' | 'forbidden' | 'limits' | 'norm' | 'boundary' | 'convergence' | 'basis' | 'continuum' | 'parity' | 'expect' | 'data';
 
 /** Resource caps; `maxMillis` is the time limit of one analysis in milliseconds. */
 export interface Limits {

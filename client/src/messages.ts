@@ -50,7 +50,15 @@ function isSamples(v: unknown): boolean {
   const same = (a: unknown) => isNumArr(a) && a.length === n;
   const walls = v.walls === null || (Array.isArray(v.walls) && v.walls.length === 2 && v.walls.every(isNum));
   const phi = isMatrix(v.phi, 10_000, n) && (v.phi as unknown[][]).every((r) => r.length === n);
-  return isNumArr(v.x) && same(v.re) && same(v.im) && same(v.potential) && phi && walls;
+  return isNumArr(v.x) && same(v.re) && same(v.im) && same(v.potential) && phi && walls && isDataPoints(v.data);
+}
+
+/** The samples of a sampled state, when present: three number arrays of one length. */
+function isDataPoints(v: unknown): boolean {
+  if (v === undefined) return true;
+  if (!isObj(v) || !Array.isArray(v.x)) return false;
+  const n = v.x.length;
+  return isNumArr(v.x) && isNumArr(v.re) && v.re.length === n && isNumArr(v.im) && v.im.length === n;
 }
 
 function isEvolution(v: unknown): boolean {

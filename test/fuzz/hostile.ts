@@ -1,6 +1,7 @@
 /**
  * Hostile classes of the fuzz harness (issue 14): texts with long names, many names and control
- * characters; file trees with link loops, links out, devices, FIFOs and odd names; and broken frames of
+ * characters; file trees with link loops, links out, devices, FIFOs and odd names, and hostile data files
+ * named by `samples("PATH")` (issue 17); and broken frames of
  * the language server's stream. Each case is plain data (saved as JSON when it fails) and is checked
  * against the promises of docs/format.md: bounded work, file rules, escaped output, a stream that recovers.
  */
@@ -105,6 +106,36 @@ export function treeEntries(r: Rand): TreeEntry[] {
     else if (what === 8) out.push({ kind: 'link', path, target: 'a.qstate' });
     else out.push({ kind: 'file', path: pick(r, names), text: r() < 0.5 ? GOOD : BAD });
   }
+  if (r() < 0.5) out.push(...dataEntries(r));
+  return out;
+}
+
+/** Sampled sqrt(2) sin(pi x) on the box (0, 1): a good data file. */
+const GOOD_DATA = ['x, re', ...Array.from({ length: 17 }, (_, i) => `${i / 16}, ${Math.SQRT2 * Math.sin((Math.PI * i) / 16)}`)].join('\n') + '\n';
+
+/**
+ * Hostile data files (issue 17): `.qstate` files naming data paths that are absolute, lead out of the
+ * tree (by `..` or a link), are devices, FIFOs or folders, or hold binary, ragged or NaN rows. The file
+ * outside the tree holds the marker, so reading it would show in the output.
+ */
+export function dataEntries(r: Rand): TreeEntry[] {
+  const out: TreeEntry[] = [{ kind: 'dir', path: 'data' }];
+  const k = int(r, 1, 4);
+  for (let i = 0; i < k; i++) {
+    const choice = int(r, 0, 10);
+    let path = `data/d${i}.csv`;
+    if (choice === 0) out.push({ kind: 'link', path, target: pick(r, ['/dev/zero', '/dev/urandom', '/dev/null']) });
+    else if (choice === 1) out.push({ kind: 'link', path, target: '@outside/secret.csv' });
+    else if (choice === 2) path = pick(r, ['../outside/secret.csv', 'data/../../outside/secret.csv', '/etc/passwd', '..']);
+    else if (choice === 3) out.push({ kind: 'fifo', path });
+    else if (choice === 4) out.push({ kind: 'link', path, target: '.' });
+    else if (choice === 5) out.push({ kind: 'file', path, text: 'x, re\n0, 0\n\u0000\u00ff\u0001, 1\n' });
+    else if (choice === 6) out.push({ kind: 'file', path, text: 'x, re, im\n0, 0, 0\n0.5, NaN, 0\n0.75, 1\n1, , 0\n' });
+    else if (choice === 7) out.push({ kind: 'file', path, text: `x${pick(r, CONTROLS)}, re\n0, 0\n0.5, 1\n0.4, 1\n1, 0\n` });
+    else if (choice === 8) out.push({ kind: 'link', path, target: `missing${i}.csv` });
+    else out.push({ kind: 'file', path, text: GOOD_DATA });
+    out.push({ kind: 'file', path: `samples${i}.qstate`, text: `system box(0, 1)\nstate samples("${path}")\n` });
+  }
   return out;
 }
 
@@ -116,6 +147,7 @@ export function buildTree(entries: readonly TreeEntry[]): { root: string; base: 
   mkdirSync(root);
   mkdirSync(outside);
   writeFileSync(join(outside, 'secret.qstate'), `${OUTSIDE_MARKER} = 1\n`);
+  writeFileSync(join(outside, 'secret.csv'), `x, re\n${OUTSIDE_MARKER}, 1\n`);
   for (const e of entries) {
     const p = join(root, e.path);
     try {

@@ -147,6 +147,16 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
   const arrays: ArrayLike<number>[] = [st.density, st.re, part.re];
   if (anyNonZero(st.im) || anyNonZero(part.im)) (series.push(line(ctx, 'im', 'Im ψ', p.imag, pairs(s.x, st.im))), arrays.push(st.im));
   series.push(line(ctx, 'partial', `Re ψ_K (K = ${part.terms})`, p.partial, pairs(s.x, part.re), { lineStyle: { color: p.partial, width: p.lineWidth, type: 'dashed' } }));
+  if (s.data && s.data.x.length > 0) {
+    // The samples of a sampled state, as points over the reconstruction (thinned to about 200 markers).
+    const d = s.data;
+    const step = Math.max(1, Math.ceil(d.x.length / 200));
+    const pts: [number, number][] = [];
+    for (let j = 0; j < d.x.length; j += step) pts.push([d.x[j] ?? NaN, d.re[j] ?? NaN]);
+    // A line series of markers only (no line): the panel registers no scatter chart.
+    series.push(line(ctx, 'data', 'samples (Re ψ)', p.real, pts, { showSymbol: true, symbol: 'circle', symbolSize: 4, lineStyle: { opacity: 0, width: 0 } }));
+    arrays.push(Float64Array.from(pts, (q) => q[1]));
+  }
   if (settings.selected !== null && s.phi[settings.selected]) {
     const phi = Float64Array.from(s.phi[settings.selected]!, (v) => v ?? 0);
     arrays.push(phi);

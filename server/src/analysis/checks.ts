@@ -23,6 +23,8 @@ export interface CheckContext {
   /** The system's statement (a `basis` line is inserted after it). */
   systemStmt: Statement;
   limits: Limits;
+  /** A sampled state whose samples resolve fewer levels than asked: how many they resolve (samplesState.ts). */
+  resolved?: number;
 }
 
 /** One family of findings about a measured state. */
@@ -222,7 +224,9 @@ export const checkCapture: StateCheck = (m, ctx) => {
     ];
   }
   if (!(m.captured < 1 - TOL)) return [];
-  const need = m.needed;
+  // Past the samples' resolution no basis helps: the resolution finding says so, and no fix is offered.
+  const need = ctx.resolved !== undefined && m.needed !== null && m.needed > ctx.resolved ? null : m.needed;
+  const past = need === null && m.needed !== null;
   const basisStmt = ctx.model.basis.stmt;
   const fixes: FixData[] | undefined =
     need !== null && need <= ctx.limits.maxBasis
@@ -231,7 +235,7 @@ export const checkCapture: StateCheck = (m, ctx) => {
           : { kind: 'insert', title: `Add basis ${need}`, at: ctx.systemStmt.span.end, text: `\nbasis ${need}` }]
       : undefined;
   const count = m.levels.length;
-  const tail = need !== null ? ` ${need} levels capture all but 1e-6.` : ' Even the largest basis allowed does not capture all but 1e-6.';
+  const tail = need !== null ? ` ${need} levels capture all but 1e-6.` : past ? ` ${m.needed} levels would, but the samples resolve only ${ctx.resolved}.` : ' Even the largest basis allowed does not capture all but 1e-6.';
   return [warn('basis', basisStmt ? basisStmt.span : ctx.stateSpan, `The ${count} levels capture ${captureText(m.captured)} of the state, short of 1 by ${fmt(1 - m.captured)}.${tail}`, fixes)];
 };
 

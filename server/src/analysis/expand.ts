@@ -134,7 +134,7 @@ export function findWindow(state: StateFunction, basis: Eigenbasis): [number, nu
 }
 
 /** The largest local wave number of the basis levels (sets the panel width). */
-function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number, number]): number {
+export function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number, number]): number {
   const eMax = basis.energies[Math.min(levels, basis.count) - 1] ?? 0;
   let vMin = Infinity;
   const n = 257;
@@ -258,7 +258,7 @@ export function classifyBreakpoints(
 ): { jumps: number[]; kinks: number[] } {
   const jumps: number[] = [];
   const kinks: number[] = [];
-  const pts = state.breakpoints(window[0], window[1]);
+  const pts = state.jumpCandidates ? state.jumpCandidates(window[0], window[1]) : state.breakpoints(window[0], window[1]);
   if (state.walls) for (const w of state.walls) if (w > window[0] && w < window[1]) pts.push(w);
   if (pts.length === 0) return { jumps, kinks };
   const h = 1e-7 * (window[1] - window[0]);

@@ -32,11 +32,11 @@ interface StaticStage {
   limits: Limits;
 }
 
-function staticStage(text: string, options: AnalyseOptions): StaticStage {
-  return inQuickStage(text.length, () => staticStageIn(text, options));
+function staticStage(text: string, options: AnalyseOptions, full = false): StaticStage {
+  return inQuickStage(text.length, () => staticStageIn(text, options, full));
 }
 
-function staticStageIn(text: string, options: AnalyseOptions): StaticStage {
+function staticStageIn(text: string, options: AnalyseOptions, full: boolean): StaticStage {
   const limits = resolveLimits(options);
   const read = readFile(text, limits);
   if (!read.parsed) return { file: read.file, diagnostics: read.diagnostics, model: null, limits };
@@ -48,6 +48,9 @@ function staticStageIn(text: string, options: AnalyseOptions): StaticStage {
       maxEvolveSteps: limits.maxEvolveSteps,
       maxExpressionLength: limits.maxExpressionLength,
       maxNesting: limits.maxNesting,
+      // The quick stage reads no data files; the full analysis reports every path it was not given.
+      data: options.data ?? (full ? new Map() : undefined),
+      maxGridPoints: limits.maxGridPoints,
     },
     read.diagnostics,
   );
@@ -104,7 +107,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
   }
   let stage: StaticStage;
   try {
-    stage = staticStage(text, options);
+    stage = staticStage(text, options, true);
   } catch (err) {
     return { ...emptyResult(null, [internalError(err, text)]), elapsedMs: clock.now() - started };
   }
@@ -112,7 +115,7 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
   result.values = stage.model ? letValues(stage.model) : [];
   const budget = createBudget({ limitMs: stage.limits.maxMillis, clock, cancelled: options.cancelled });
   try {
-    if (stage.model) numericStage({ model: stage.model, file: stage.file, ctx: { budget, limits: stage.limits }, samples: options.samples === true }, result);
+    if (stage.model) numericStage({ model: stage.model, file: stage.file, ctx: { budget, limits: stage.limits }, samples: options.samples === true, plot: options.plot }, result);
   } catch (err) {
     result.diagnostics.push(evaluationFinding(err, stage.model) ?? internalError(err, text));
   }

@@ -17,6 +17,8 @@ import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
 import { gaussianFactors, type NarrowPeak } from './narrow';
+import { NODES_PER_SAMPLE, samplesModel, type SamplesModel } from './samples';
+import type { DataFile } from './options';
 
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
@@ -43,7 +45,8 @@ export type SystemModel =
 export type StateModel =
   | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean; dimension?: Dimension; peaks?: NarrowPeak[] }
   | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
-  | { kind: 'gaussian'; center: number; width: number; momentum: number };
+  | { kind: 'gaussian'; center: number; width: number; momentum: number }
+  | SamplesModel;
 
 /** A checked `expect` line. */
 export type ExpectModel =
@@ -86,6 +89,10 @@ export interface ModelOptions {
   /** Longest expression and deepest bracket nesting the sandbox parses (its own defaults when absent). */
   maxExpressionLength?: number;
   maxNesting?: number;
+  /** The data files a front end read (`samples("PATH")`); absent, a samples state is left out silently (the quick stage). */
+  data?: ReadonlyMap<string, DataFile>;
+  /** The grid cap, which caps the rows of a data file (NODES_PER_SAMPLE nodes a row). */
+  maxGridPoints?: number;
 }
 
 
@@ -414,6 +421,14 @@ class ModelBuilder {
           return null;
         }
         return { kind: 'gaussian', center, width, momentum };
+      }
+      case 'samples': {
+        if (this.options.data === undefined) return null;
+        const rows = Math.floor((this.options.maxGridPoints ?? 1 << 18) / NODES_PER_SAMPLE) - 1;
+        const found: EngineDiagnostic[] = [];
+        const m = samplesModel(spec, this.options.data, this.units, rows, found);
+        this.push(found);
+        return m;
       }
     }
   }

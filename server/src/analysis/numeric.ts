@@ -20,6 +20,7 @@ import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from '.
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
+import { resolvedCount, samplePoints } from './samplesState';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -28,6 +29,8 @@ export interface NumericInput {
   ctx: ComputeContext;
   /** Include plot samples for the panel. */
   samples: boolean;
+  /** Their grid (AnalyseOptions.plot). */
+  plot?: { points?: number; levels?: number };
 }
 
 /** Runs the numerical stage, filling `result` (its diagnostics included). Throws `BadValue` and `MissingLevel` for the caller to word. */
@@ -61,8 +64,12 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   if (!model.state || ctx.budget.expired()) return;
   const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
   if (!state) return;
+  // A sampled state is expanded only on the levels its samples resolve.
+  const count = resolvedCount(model.state.model, basis, Math.min(asked, basis.count), out);
+  if (count === 0) return;
+  if (count < Math.min(asked, basis.count)) checks.resolved = count;
   try {
-    stateStage({ input, built, count: Math.min(asked, basis.count), state, checks }, result);
+    stateStage({ input, built, count, state, checks }, result);
   } catch (err) {
     // A state infinite at a sampled point: say how it grows there (the caller words it).
     if (err instanceof BadValue && Number.isFinite(err.x)) {
@@ -90,9 +97,12 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   if (m.basis.kind === 'oscillator') result.meanQuantumNumber = meanQuantumNumber(result.system, result.energy?.mean);
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out, { basis: m.basis, levels: m.levels, budget: ctx.budget });
-  const plotX = plotGrid(m.basis, m.window);
+  const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels);
+  if (input.samples) {
+    result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100);
+    if (model.state?.model.kind === 'samples') result.samples.data = samplePoints(model.state.model, m.norm);
+  }
 }
 
 /** The measured numbers a front end shows. */
@@ -166,20 +176,19 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
   return res;
 }
 
-/** 400 points over the walls (or the integration window) for plots. */
-function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
+/** `n` points (400 for the panel) over the walls (or the integration window) for plots. */
+function plotGrid(basis: Eigenbasis, window: [number, number], n: number): Float64Array {
   const [a, b] = basis.walls ?? window;
-  const n = 400;
   const xs = new Float64Array(n);
   for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
   return xs;
 }
 
-function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[]): SampleResult {
+function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[], maxLevels: number): SampleResult {
   const n = xs.length;
   const v = state.evaluate(xs, 0);
   const s = 1 / Math.sqrt(norm);
-  const kmax = Math.min(levels.length, 100);
+  const kmax = Math.min(levels.length, maxLevels);
   const table = new Float64Array(kmax * n);
   basis.table(xs, kmax, table);
   const phi: number[][] = [];

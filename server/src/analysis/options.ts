@@ -22,7 +22,23 @@ export interface AnalyseOptions {
   limits?: Partial<Limits>;
   /** The clock the time limit is measured on (default the machine's monotonic clock; tests inject one). */
   clock?: Clock;
+  /**
+   * The data files the text names (`state samples("PATH")`, listed by `dataPaths`), keyed by the path
+   * as written: the text a front end read under its file rules, or why it refused to. The engine reads
+   * no file itself. A path missing from the map is reported as not read; without the map at all,
+   * `analyseStatic` says nothing about data files and `analyse` treats it as empty.
+   */
+  data?: ReadonlyMap<string, DataFile>;
+  /**
+   * The grid of the plot samples (with `samples: true`): `points` equally spaced points over the walls
+   * or the integration window (default 400), and the eigenfunctions of the first `levels` levels on it
+   * (default 100; the command line's `--samples` export asks for all of them).
+   */
+  plot?: { points?: number; levels?: number };
 }
+
+/** A data file as a front end hands it to the engine: its text, or the sentence saying why it was not read. */
+export type DataFile = { text: string } | { refused: string };
 
 /** Resource caps; each exceeded cap is a `limits` diagnostic. */
 export interface Limits {

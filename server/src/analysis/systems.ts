@@ -14,6 +14,7 @@ import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
 import { continuumLevels, solverCaps, type WallEnd } from './walls';
 import { coarserBasis } from './coefficientErrors';
+import { samplesState } from './samplesState';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -180,6 +181,11 @@ export interface StateFunction {
   window: [number, number] | null;
   /** Hard walls of the system the state came from (sudden changes), which are kinks of the state. */
   walls: [number, number] | null;
+  /**
+   * Of the breakpoints, those where the state may jump or kink (checked by `classifyBreakpoints`);
+   * all of them when absent. A sampled state's inner knots are smooth by construction (the spline is C2).
+   */
+  jumpCandidates?(a: number, b: number): number[];
 }
 
 /** Makes the `phi(n, x)` provider of a basis; levels beyond the basis are reported through `missing`. */
@@ -284,6 +290,8 @@ export function buildState(
   switch (state.kind) {
     case 'gaussian':
       return gaussianState(state.center, state.width, state.momentum);
+    case 'samples':
+      return samplesState(state, target, out);
     case 'eigen': {
       // Labels start at the basis's first label (0 or 1), so level + 1 levels always include it.
       const built = buildBasis(state.system, mass, state.level + 1, out, { ...options, coarse: false });

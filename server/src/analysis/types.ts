@@ -62,6 +62,8 @@ export interface SampleResult {
   /** The eigenfunctions on x, phi[k][j] for level index k (capped in count); the panel builds partial sums from these. */
   phi: number[][];
   walls: [number, number] | null;
+  /** A sampled state (`samples("PATH")`): its samples, normalised like `re` and `im`, for the panel to draw over the reconstruction. */
+  data?: { x: number[]; re: number[]; im: number[] };
 }
 
 /** Everything known about a file after analysis. */

@@ -185,5 +185,8 @@ function stateSlots(spec: StateSpec, hasSystem: boolean): Slot[] {
       return [{ src: spec.level, kind: 'dimensionless', what: 'the level' }, ...systemSlots(spec.system)];
     case 'gaussian':
       return argSlots('gaussian', spec.args);
+    case 'samples':
+      // A path, not an expression: nothing to check, and an untrusted workspace reads no data file.
+      return [];
   }
 }

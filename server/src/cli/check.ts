@@ -11,8 +11,9 @@ import { DEFAULT_LIMITS, type Limits } from '../analysis/index';
 import { lineTable } from '../language/positions';
 import { escapeText } from './escape';
 import { readBounded, walkTree, type Refusal } from './files';
-import { analyseBounded, limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
+import { limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
 import type { SweepOptions } from '../analysis/sweep/index';
+import { analyseFile } from './data';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analysedRecord, refusedRecord, type FileRecord } from './records';
 import { renderDiagnostic } from './render';
@@ -72,7 +73,7 @@ function checkFile(io: Io, tally: Tally, f: string, limits: Partial<Limits>, swe
     return;
   }
   const text = read.data.toString('utf8');
-  const result = analyseBounded(text, { limits }, sweep);
+  const result = analyseFile(f, text, { limits }, sweep);
   const lines = lineTable(text);
   tally.records.push(analysedRecord(f, text, result, lines));
   for (const d of result.diagnostics) {

@@ -247,10 +247,12 @@ function readCapped(fd: number, maxBytes: number, refuse: (r: RefusalReason, m: 
 /**
  * Resolves `name`, a path written inside a file of folder `root`, under the tree rules: it must be
  * relative and stay inside `root` once `..` and links are resolved. Returns the path or the refusal.
+ * `base`, the folder the path is relative to, is `root` unless given (the editor resolves a data path
+ * from the document's folder and confines it to the workspace folder).
  */
-export function resolveInTree(root: string, name: string): { ok: true; path: string } | { ok: false; refusal: Refusal } {
+export function resolveInTree(root: string, name: string, base: string = root): { ok: true; path: string } | { ok: false; refusal: Refusal } {
   if (isAbsolute(name)) return { ok: false, refusal: { path: name, reason: 'absolute', message: 'an absolute path; only paths relative to the folder are read' } };
-  const joined = resolve(root, name);
+  const joined = resolve(base, name);
   const rel = relative(resolve(root), joined);
   if (rel === '..' || rel.startsWith('..' + sep) || isAbsolute(rel)) return { ok: false, refusal: { path: name, reason: 'outside', message: 'a path out of the folder' } };
   const realRoot = realOrNull(root) ?? resolve(root);

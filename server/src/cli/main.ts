@@ -1,7 +1,7 @@
 /**
  * The command line: a thin front end over `analyse`.
  *
- *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]]
+ *   eigenspan expand FILE [--json | --table | --csv] [--basis N] [--out PATH [--force]] [--samples PATH [--points N]]
  *                    [--time-limit MS] [--limit NAME=N]...
  *   eigenspan check FILE|FOLDER... [--sarif PATH] [--junit PATH] [--force] [--time-limit MS] [--limit NAME=N]...
  *   eigenspan diff OLD NEW | FILE --rev REV [--tolerance T]
@@ -17,8 +17,10 @@ import { DEFAULT_LIMITS, LIMIT_RANGES, type Limits } from '../analysis/index';
 import { check, findQstateFiles } from './check';
 import { escapeJson, escapeLines, escapeText } from './escape';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
-import { analyseBounded, limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
+import { limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
 import { readText } from './readtext';
+import { analyseFile, takeDataOption } from './data';
+import { EXPORT_POINTS, exportGrid, pointsOption, renderSamplesCsv } from './export';
 import { renderCsv, renderJson, renderTable } from './render';
 import { DEFAULT_TOLERANCE } from './diff';
 import { diff, summary } from './vcs';
@@ -34,6 +36,10 @@ const USAGE = `Usage:
       --table  a readable table (the default)
       --csv    one row a level: n, energy, re, im, weight, after a comment line naming the energy unit
       --csv-bare  the same without the comment line
+      --samples PATH  also write the normalised state and its expansion on a grid as CSV
+                 (x, re, im, re_expansion, im_expansion) to PATH; never replaces an existing
+                 PATH unless --force is given
+      --points N  points of that grid (default 1000)
       --basis N  levels to use when the file has no basis line (default 40)
       --out PATH write the output to PATH instead of the terminal; an existing PATH is
                  never replaced unless --force is given
@@ -88,6 +94,9 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
       --threads N  worker threads for points whose system changes (default 2)
   eigenspan --help
       Show this text.
+  Every command takes --no-data: the data files a state names (samples("PATH")) are then
+  refused, not read (for checkouts you do not trust). Without it they are read only from the
+  .qstate file's folder and below: relative paths, regular files, at most 8 MiB.
 `;
 
 /** Runs the command line with `argv` (without node and the script); returns the exit code. */
@@ -113,7 +122,8 @@ function runSafe(argv: string[], io: Io, raw: (s: string) => void, thrown?: unkn
 
 function dispatch(argv: string[], io: Io, raw: (s: string) => void): number {
   if (argv.length === 0) throw new UsageError("no command given; try 'eigenspan --help'");
-  const [cmd, ...rest] = argv;
+  const [cmd, ...given] = argv;
+  const rest = takeDataOption(given);
   if (cmd === '--help' || cmd === '-h' || cmd === 'help') {
     io.out(USAGE);
     return 0;
@@ -144,6 +154,8 @@ function expand(args: string[], io: Io): number {
   let file: string | null = null;
   let basis: number | undefined;
   let outPath: string | null = null;
+  let samplesPath: string | null = null;
+  let points = EXPORT_POINTS;
   let force = false;
   const limits: Partial<Limits> = {};
   let sweepMillis: number | undefined;
@@ -151,6 +163,8 @@ function expand(args: string[], io: Io): number {
     const a = args[i]!;
     if (a === '--sweep-time-limit') sweepMillis = sweepTimeLimit(args[++i]);
     else if (a === '--out') outPath = outPathOption('--out', args[++i]);
+    else if (a === '--samples') samplesPath = outPathOption('--samples', args[++i]);
+    else if (a === '--points') points = pointsOption(args[++i]);
     else if (a === '--force') force = true;
     else if (a === '--time-limit') limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], limits);
@@ -172,8 +186,18 @@ function expand(args: string[], io: Io): number {
   if (file === null) throw new UsageError('expand needs a file');
   // Refuse to replace an existing export before doing any work; --force says the user means it.
   if (outPath !== null) assertWritable(outPath, force);
+  if (samplesPath !== null) {
+    if (samplesPath === outPath) throw new UsageError('--out and --samples need different files');
+    assertWritable(samplesPath, force);
+  }
   const text = readText(file, limits.maxFileBytes);
-  const result = analyseBounded(text, { defaultBasis: basis, limits }, { maxMillis: sweepMillis });
+  const plot = samplesPath === null ? {} : { samples: true, plot: exportGrid(points, limits.maxBasis ?? DEFAULT_LIMITS.maxBasis) };
+  const result = analyseFile(file, text, { defaultBasis: basis, limits, ...plot }, { maxMillis: sweepMillis });
+  if (samplesPath !== null) {
+    const csv = renderSamplesCsv(result, escapeText(file));
+    if (csv === null) io.err(`eigenspan: no samples written to '${escapeText(samplesPath)}': the state could not be expanded (see its findings).\n`);
+    else writeOutput(samplesPath, escapeLines(csv), force);
+  }
   const shown = escapeText(file);
   const rendered = format === 'json' ? escapeJson(renderJson(result, text)) + '\n' : format === 'csv' ? renderCsv(result, bare) : renderTable(result, text, shown);
   if (outPath !== null) writeOutput(outPath, escapeLines(rendered), force);
@@ -190,7 +214,7 @@ function demo(args: string[], io: Io): number {
   let failed = false;
   for (const f of files) {
     const text = readText(f);
-    const result = analyseBounded(text);
+    const result = analyseFile(f, text);
     io.out(renderTable(result, text, escapeText(relative(process.cwd(), f) || f)));
     io.out('\n');
     if (result.diagnostics.some((d) => d.severity === 'error')) failed = true;

@@ -14,7 +14,8 @@ import { invalidates } from '../../../client/webview/charts/facts';
 import { DEFAULT_SIZE } from '../../../client/webview/charts/layout';
 import { lineTable } from '../language/positions';
 import { escapeLines, escapeText } from './escape';
-import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { analyseFile } from './data';
+import { limitOption, timeLimit, UsageError, type Io } from './options';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { readText } from './readtext';
 import { renderDiagnostic } from './render';
@@ -119,7 +120,7 @@ export function plot(args: string[], io: Io): number {
   if (o.png !== null && !r.canRasterise()) throw new UsageError(`--png needs the package ${r.RASTERISER} (npm install ${r.RASTERISER}); --svg works without it`);
   const text = readText(o.file, o.limits.maxFileBytes);
   const samples = o.view === 'state' || o.view === 'time';
-  const result = analyseBounded(text, { defaultBasis: o.basis, limits: o.limits, samples });
+  const result = analyseFile(o.file, text, { defaultBasis: o.basis, limits: o.limits, samples });
   if (o.view === 'sweep') assertSweep(result, shown);
   const panel = asPanelResult(result);
   const failed = result.diagnostics.some((d) => d.severity === 'error');

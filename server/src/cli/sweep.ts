@@ -13,7 +13,8 @@ import type { Limits } from '../analysis/index';
 import { DEFAULT_SWEEP_MILLIS } from '../analysis/sweep/index';
 import { escapeJson, escapeLines, escapeText } from './escape';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
-import { analyseBounded, limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
+import { analyseFile } from './data';
+import { limitOption, sweepTimeLimit, timeLimit, UsageError, type Io } from './options';
 import { readText } from './readtext';
 import { renderJson } from './render';
 import { renderSweepCsv, renderSweepTable } from './sweepRender';
@@ -88,6 +89,6 @@ export function sweepOutput(a: SweepArgs, result: AnalysisResult, text: string, 
 export function sweepCommand(args: string[], io: Io): number {
   const a = parseSweepArgs(args);
   const text = sweepInput(a);
-  const result = analyseBounded(text, { defaultBasis: a.basis, limits: a.limits }, { maxMillis: a.sweepMillis });
+  const result = analyseFile(a.file, text, { defaultBasis: a.basis, limits: a.limits }, { maxMillis: a.sweepMillis });
   return sweepOutput(a, result, text, io);
 }

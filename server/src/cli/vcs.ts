@@ -14,7 +14,8 @@ import type { AnalysisResult } from '../analysis/types';
 import { comparePhysics, DEFAULT_TOLERANCE } from './diff';
 import { renderChanges } from './diffText';
 import { escapeText } from './escape';
-import { analyseBounded, limitOption, timeLimit, UsageError, type Io } from './options';
+import { analyseFile } from './data';
+import { limitOption, timeLimit, UsageError, type Io } from './options';
 import { readText } from './readtext';
 import { renderSummary } from './summary';
 
@@ -39,7 +40,8 @@ export function summary(args: string[], io: Io): number {
     else throw new UsageError('summary takes one file');
   }
   if (file === null) throw new UsageError('summary needs a file');
-  io.out(renderSummary(analyseBounded(readText(file, limits.maxFileBytes), { limits })));
+  const text = readText(file, limits.maxFileBytes);
+  io.out(renderSummary(analyseFile(file, text, { limits })));
   return 0;
 }
 
@@ -84,8 +86,8 @@ export function diff(args: string[], io: Io): number {
   const newFile = files[files.length - 1]!;
   const oldText = rev === null ? readText(files[0]!, limits.maxFileBytes) : readAtRevision(newFile, rev, limits.maxFileBytes);
   const oldName = rev === null ? files[0]! : `${newFile}@${rev}`;
-  const a: AnalysisResult = analyseBounded(oldText, { limits });
-  const b: AnalysisResult = analyseBounded(readText(newFile, limits.maxFileBytes), { limits });
+  const a: AnalysisResult = analyseFile(rev === null ? files[0]! : newFile, oldText, { limits });
+  const b: AnalysisResult = analyseFile(newFile, readText(newFile, limits.maxFileBytes), { limits });
   const changes = comparePhysics(a, b, tolerance);
   const unit = (r: AnalysisResult): string => (r.units.energy ? ` ${r.units.energy}` : '');
   io.out(renderChanges(changes, escapeText(oldName), escapeText(newFile), tolerance, { old: unit(a), new: unit(b) }));

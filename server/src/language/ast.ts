@@ -44,7 +44,9 @@ export interface WallDeclaration {
 export type StateSpec =
   | { kind: 'psi'; span: Span; expr: ExprText }
   | { kind: 'eigen'; span: Span; level: ExprText; system: SystemSpec }
-  | { kind: 'gaussian'; span: Span; keywordSpan: Span; args: Arg[] };
+  | { kind: 'gaussian'; span: Span; keywordSpan: Span; args: Arg[] }
+  /** `samples("PATH")`: a table of samples in a data file; `pathSpan` covers the quoted path, quotes included. */
+  | { kind: 'samples'; span: Span; keywordSpan: Span; path: string; pathSpan: Span };
 
 /** A comparison at the end of an `expect` line. */
 export type Comparison =

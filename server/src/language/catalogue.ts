@@ -21,6 +21,7 @@ export const CATALOGUE = {
   continuum: { severity: 'warning', about: 'Weight outside the bound states of a finite well.' },
   parity: { severity: 'info', about: 'Symmetry facts and mismatches.' },
   expect: { severity: 'error', about: 'A failed expect line.' },
+  data: { severity: 'error', about: 'A data file of samples that is refused, unreadable or has bad rows, or samples that do not fit the system.' },
 } as const satisfies Record<string, { severity: Severity; about: string }>;
 
 /** A stable diagnostic code. */

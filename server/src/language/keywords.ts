@@ -83,6 +83,11 @@ export const KEYWORDS: readonly KeywordInfo[] = [
         snippet: 'state eigen(${1:1}) of ${2:box(0, 1)}',
         doc: 'Level N of another system: the state left behind when the potential changes suddenly.',
       },
+      {
+        label: 'state samples("PATH")',
+        snippet: 'state samples("${1:data/psi.csv}")',
+        doc: 'Samples of psi in a data file beside this one (columns x, re, im or x, abs, phase), interpolated by a cubic spline.',
+      },
     ],
   },
   {
@@ -145,7 +150,7 @@ export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;
 export const SYSTEM_KINDS = ['box', 'well', 'oscillator', 'V'] as const;
 
 /** The state kinds after `state`. */
-export const STATE_KINDS = ['psi', 'eigen', 'gaussian'] as const;
+export const STATE_KINDS = ['psi', 'eigen', 'gaussian', 'samples'] as const;
 
 /** Words with a fixed meaning inside statements (they split statements, so they cannot be `let` names). */
 export const INNER_WORDS = ['over', 'of', 'to', 'steps'] as const;

@@ -6,6 +6,7 @@ import type { Span, StateSpec, SystemSpec, WallDeclaration, WallKind } from './a
 import { STATE_KINDS, SYSTEM_KINDS, WALL_KINDS } from './keywords';
 import { isSpace } from './scanner';
 import { SIGNATURES } from './signatures';
+import { parseSamples } from './parseSamples';
 import { expectXCall, fail, parseCall, unexpected, unknownName, type Ctx } from './parserParts';
 import {
   exprText,
@@ -37,6 +38,7 @@ export function parseState(ctx: Ctx, from: number, hi: number, anchor: Span): St
     if (call === null) return null;
     return { kind: 'gaussian', span: { start: p, end: hi }, keywordSpan: kindSpan, args: call };
   }
+  if (kind === 'samples') return parseSamples(ctx, kindSpan, hi);
   if (kind === 'eigen') {
     const open = skipSpace(m, e, hi);
     if (open >= hi || m[open] !== '(') return unexpected(ctx, open, hi, kindSpan, "Expected '(' and a level after 'eigen', as in 'eigen(1) of box(0, 1)'.");

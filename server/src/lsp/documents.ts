@@ -179,6 +179,18 @@ export class DocumentStore {
     }
   }
 
+  /** Analyses the documents `uris` again, forgetting their remembered results (a data file they use changed). */
+  reanalyse(uris: readonly string[]): void {
+    for (const uri of uris) {
+      const st = this.docs.get(uri);
+      if (!st) continue;
+      st.byText.clear();
+      st.full = null;
+      st.revision = ++this.revisions;
+      if (this.o.session.evaluate) this.o.scheduler().schedule(st.uri, st.revision, st.text, true);
+    }
+  }
+
   /** Evaluation was switched on or off: republish the static findings and, when on, analyse again. */
   trustChanged(): void {
     const on = this.o.session.evaluate;

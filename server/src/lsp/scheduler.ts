@@ -7,6 +7,7 @@ import { Worker } from 'node:worker_threads';
 import type { AnalysisResult } from '../analysis/types';
 import type { Limits } from '../analysis/index';
 import type { AnalyseJob, WorkerReply } from './workerMessages';
+import type { DataFile } from '../analysis/options';
 
 /** How a scheduled analysis ended. */
 export type Outcome =
@@ -30,6 +31,8 @@ export interface SchedulerOptions {
   onOutcome: (uri: string, revision: number, outcome: Outcome) => void;
   /** Heap cap of the worker in MB (default 1024), so a runaway allocation cannot take the server down. */
   maxHeapMb?: number;
+  /** Reads the data files a text names when its analysis starts (none when absent). */
+  data?: (uri: string, text: string) => [string, DataFile][];
 }
 
 interface Pending {
@@ -174,6 +177,7 @@ export class AnalysisScheduler {
     const budget = this.ready ? setTimeout(() => this.onBudget(id), timeBudgetMs) : null;
     this.running = { ...job, id, uri, cancel, budget };
     const message: AnalyseJob = { type: 'analyse', id, text: job.text, defaultBasis, samples: this.options.samples, maxMillis: Math.max(MIN_ENGINE_MS, Math.floor(ENGINE_SHARE * timeBudgetMs)), limits, cancel };
+    if (this.options.data) message.data = this.options.data(uri, job.text);
     this.worker.postMessage(message);
   }
 

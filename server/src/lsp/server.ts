@@ -10,6 +10,7 @@ import { Session } from './session';
 import { DocumentStore } from './documents';
 import { registerHandlers } from './handlers';
 import { registerSweep } from './sweep';
+import { DataFiles } from './dataWatch';
 
 /** Options of `startServer`. */
 export interface ServerOptions {
@@ -32,7 +33,9 @@ export function startServer(connection: Connection, options: ServerOptions): voi
       return session.samples;
     },
     onOutcome: (uri, revision, outcome) => store.onOutcome(uri, revision, outcome),
+    data: (uri, text) => dataFiles.read(uri, text),
   });
+  const dataFiles = new DataFiles({ connection, session, changed: (uris) => store.reanalyse(uris), logError });
   const store = new DocumentStore({ connection, session, scheduler: () => scheduler, log, logError });
 
   /** Reads the settings; a change of what results depend on analyses every document again (not on the first read). */
@@ -43,7 +46,11 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     store.reanalyseAll();
   }
 
-  connection.onInitialize((params) => session.initialize(params));
+  connection.onInitialize((params) => {
+    dataFiles.initialize(params);
+    return session.initialize(params);
+  });
+  connection.onDidChangeWatchedFiles((p) => dataFiles.onChange(p));
   connection.onInitialized(() => {
     if (session.evaluate) scheduler.warmUp();
     if (session.caps.workspace?.didChangeConfiguration?.dynamicRegistration) {
@@ -65,6 +72,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   if (options.sweepWorkerPath) registerSweep(connection, store, session, options.sweepWorkerPath);
   const documents = new TextDocuments(TextDocument);
   store.listen(documents);
+  documents.onDidClose((e) => dataFiles.forget(e.document.uri));
   documents.listen(connection);
   connection.listen();
 }

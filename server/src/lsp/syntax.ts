@@ -48,6 +48,7 @@ export function statementExprTexts(s: Statement): ExprText[] {
     case 'state':
       if (s.state.kind === 'psi') out.push(s.state.expr);
       else if (s.state.kind === 'gaussian') argTexts(s.state.args, out);
+      else if (s.state.kind === 'samples') break;
       else {
         out.push(s.state.level);
         systemTexts(s.state.system, out);

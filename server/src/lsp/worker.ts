@@ -19,7 +19,7 @@ function run(job: AnalyseJob): void {
     if (EIGENSPAN_TEST_BUILD) {
       if (runTestHook(job.text, job.id, cancelled)) return reply({ type: 'cancelled', id: job.id });
     }
-    const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled, limits: { ...job.limits, maxMillis: job.maxMillis } });
+    const result = analyse(job.text, { defaultBasis: job.defaultBasis, samples: job.samples, cancelled, limits: { ...job.limits, maxMillis: job.maxMillis }, data: new Map(job.data ?? []) });
     if (cancelled()) reply({ type: 'cancelled', id: job.id });
     else reply({ type: 'done', id: job.id, result });
   } catch (e) {

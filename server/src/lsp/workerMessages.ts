@@ -3,6 +3,7 @@
  */
 import type { AnalysisResult } from '../analysis/types';
 import type { Limits } from '../analysis/index';
+import type { DataFile } from '../analysis/options';
 
 /** Main thread to worker: analyse one document version. */
 export interface AnalyseJob {
@@ -21,6 +22,8 @@ export interface AnalyseJob {
   limits?: Partial<Limits>;
   /** An Int32Array view of a SharedArrayBuffer; element 0 becomes 1 when the job is superseded. */
   cancel: Int32Array;
+  /** The data files the text names, read on the main thread (lsp/dataWatch.ts): path as written, and text or refusal. */
+  data?: [string, DataFile][];
 }
 
 /** Worker to main thread. */
