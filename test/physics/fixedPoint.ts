@@ -93,3 +93,15 @@ export function bisect(f: (x: bigint) => bigint, lo: bigint, hi: bigint): bigint
   }
   return (lo + hi) / 2n;
 }
+
+/** erf x = (2/sqrt(pi)) sum (-1)^n x^(2n+1) / (n! (2n+1)) (Abramowitz & Stegun 7.1.5), for |x| up to a few units. */
+export function erf(x: bigint): bigint {
+  const x2 = mul(x, x);
+  let power = x; // (-1)^n x^(2n+1) / n!
+  let sum = 0n;
+  for (let n = 0n; n < 2000n && power !== 0n; n++) {
+    sum += power / (2n * n + 1n);
+    power = -mul(power, x2) / (n + 1n);
+  }
+  return div(2n * sum, sqrt(PI));
+}

@@ -18,7 +18,7 @@ import { raiseHint, type CapName } from '../shared/limits';
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
   | { kind: 'box'; a: number; b: number; span: Span }
-  | { kind: 'well'; depth: number; width: number; center: number; span: Span }
+  | { kind: 'well'; depth: number; width: number; center: number; span: Span; barrierMass?: number }
   | { kind: 'oscillator'; omega: number; center: number; span: Span }
   | {
       kind: 'potential';
@@ -307,7 +307,14 @@ class ModelBuilder {
       this.error('evaluation', w.value, `The well's width must be positive, not ${fmt(width)}.`);
       return null;
     }
-    return { kind: 'well', depth, width, center, span: spec.span };
+    const bm = named.get('barrier_mass');
+    const barrierMass = bm ? this.constant(bm.value, 'mass', 'the barrier mass') : undefined;
+    if (barrierMass === null) return null;
+    if (barrierMass !== undefined && !(barrierMass > 0 && Number.isFinite(barrierMass))) {
+      this.error('evaluation', bm!.value, `The barrier mass must be positive and finite, not ${fmt(barrierMass)}.`);
+      return null;
+    }
+    return { kind: 'well', depth, width, center, span: spec.span, ...(barrierMass !== undefined ? { barrierMass } : {}) };
   }
 
   private oscillator(spec: Extract<SystemSpec, { kind: 'oscillator' }>): SystemModel | null {

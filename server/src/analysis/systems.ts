@@ -68,7 +68,7 @@ export function buildBasis(
     case 'box':
       return { basis: boxBasis(system.a, system.b, mass, count) };
     case 'well':
-      return { basis: wellBasis(system.depth, system.width, system.center, mass) };
+      return { basis: wellBasis(system.depth, system.width, system.center, mass, system.barrierMass === undefined ? {} : { barrierMass: system.barrierMass }) };
     case 'oscillator':
       return { basis: oscillatorBasis(system.omega, system.center, mass, count) };
     case 'potential':

@@ -128,7 +128,7 @@ function comparisonSlots(c: Comparison, kind: ValueKind, what: string): Slot[] {
 /** The kinds of each named argument of the constructors (positional box ends are lengths). */
 const ARGUMENTS: Record<string, Record<string, [ValueKind, string]>> = {
   box: { left: ['length', "the box's left end"], right: ['length', "the box's right end"] },
-  well: { depth: ['energy', "the well's depth"], width: ['length', "the well's width"], center: ['length', "the well's centre"] },
+  well: { depth: ['energy', "the well's depth"], width: ['length', "the well's width"], center: ['length', "the well's centre"], barrier_mass: ['mass', 'the barrier mass'] },
   oscillator: {
     omega: ['angularFrequency', 'the angular frequency'],
     frequency: ['frequency', 'the frequency'],

@@ -21,6 +21,8 @@ export interface Eigenbasis {
    * (internal units). The kinetic energy is then integral |psi'|^2 / (2 m(x)) dx.
    */
   masses?(xs: Float64Array): Float64Array;
+  /** With `masses`: the points where the mass jumps (interfaces), ascending; each is also in `breakpoints`. */
+  massJumps?: number[];
   /** Centre of symmetry of the potential, or null when it has none. */
   center: number | null;
   /** Hard walls (box, potential), or null on the whole line. */

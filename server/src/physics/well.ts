@@ -166,7 +166,10 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
     potential: (x: number) => (Math.abs(x - c) < a ? 0 : depth),
     table: (xs, want, out, d1, d2, from = 0) => wellTable(levels, c, a, xs, Math.min(want, n), out, d1, d2, from),
   };
-  if (mb !== mass) basis.masses = (xs) => xs.map((x) => (Math.abs(x - c) < a ? mass : mb));
+  if (mb !== mass && valid) {
+    basis.masses = (xs) => xs.map((x) => (Math.abs(x - c) < a ? mass : mb));
+    basis.massJumps = [c - a, c + a];
+  }
   return basis;
 }
 
