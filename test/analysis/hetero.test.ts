@@ -6,6 +6,7 @@ import { describe, expect, it } from 'vitest';
 import { analyse } from '../../server/src/analysis/index';
 import { EV_SI, HBAR_SI, ME_SI } from '../../server/src/expr/constants';
 import { erf, fromDecimal, toNumber } from '../physics/fixedPoint';
+import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
 
 const HEAD = 'units nm, meV\nmass 0.067 m_e\n';
 const WELL = 'well(depth = 250 meV, width = 8 nm, barrier_mass = 0.092 m_e)';
@@ -49,5 +50,62 @@ describe('finite well with a barrier mass in a file', () => {
     expect(bad.diagnostics.some((d) => d.code === 'evaluation' && d.severity === 'error')).toBe(true);
     const units = analyse(`${HEAD}system well(depth = 250 meV, width = 8 nm, barrier_mass = 0.1 nm)\nstate gaussian(center = 0 nm, width = 1 nm)\n`);
     expect(units.diagnostics.some((d) => d.code === 'units')).toBe(true);
+  });
+});
+
+/**
+ * A smooth mass with a closed form (the change of variables of test/physics/massProfile.test.ts, derived
+ * there): s = 1 + tanh(x)/2, m = s^2, y = x + ln(cosh x)/2 and V = y^2/2 - U with
+ * U = -(1/4) s_xx/s^3 + (5/8) s_x^2/s^4 has E_n = n + 1/2 and psi_n = s^(1/2) phi_n(y), phi_n the
+ * oscillator's levels (hbar = m = omega = 1).
+ */
+const S = '(1 + tanh(x)/2)';
+const SX = '(sech(x)^2/2)';
+const SXX = '(-sech(x)^2 tanh(x))';
+const SMOOTH = `V(x) = (x + log(cosh(x))/2)^2/2 + ${SXX}/(4 ${S}^3) - 5 ${SX}^2/(8 ${S}^4) over [-16, 12] with mass(x) = ${S}^2`;
+
+describe('V(x) with mass(x) in a file', () => {
+  it('solves a smooth mass profile to its closed form, and the energy of a superposition with m(x)', () => {
+    // psi = phi_1 + phi_3: <H> = (E_1 + E_3)/2 = 1.5 and the spread (E_3 - E_1)/2 = 1, the grid's
+    // integrals of |psi'|^2/(2 m(x)) + V |psi|^2 and |H psi|^2 with the chain-rule derivatives of the levels.
+    const r = analyse(`system ${SMOOTH}\nstate psi(x) = phi(1, x) + phi(3, x)\nbasis 8\n`);
+    expect(r.diagnostics.filter((d) => d.severity === 'error')).toEqual([]);
+    for (let n = 0; n < 8; n++) {
+      const lv = r.levels[n]!;
+      expect(Math.abs(lv.energy - (n + 0.5))).toBeLessThan(1e-9);
+      expect(Math.abs(lv.energy - (n + 0.5))).toBeLessThanOrEqual(lv.uncertainty!);
+    }
+    expect(Math.abs(r.energy!.mean! - 1.5)).toBeLessThan(1e-9);
+    expect(Math.abs(r.energy!.spread! - 1)).toBeLessThan(1e-8);
+  });
+
+  it('a sudden change between two mass profiles: the overlap is the plain inner product', () => {
+    // The ground state of the smooth-mass system, psi_1 = s^(1/2) pi^(-1/4) exp(-y^2/2), released into
+    // the constant-mass oscillator: weight |<phi_0|psi_1>|^2 with the plain inner product, computed here
+    // by quadrature of the two closed forms.
+    const r = analyse(`system oscillator(omega = 1)\nstate eigen(1) of ${SMOOTH}\nbasis 40\n`);
+    expect(r.diagnostics.filter((d) => d.severity === 'error')).toEqual([]);
+    const rule = compositeGaussLegendre(-16, 12, { panels: 200, order: 20 });
+    let overlap = 0;
+    for (let j = 0; j < rule.x.length; j++) {
+      const x = rule.x[j]!;
+      const s = 1 + Math.tanh(x) / 2;
+      const y = x + Math.log(Math.cosh(x)) / 2;
+      overlap += rule.w[j]! * Math.PI ** -0.5 * Math.sqrt(s) * Math.exp(-(y * y) / 2 - (x * x) / 2);
+    }
+    expect(Math.abs(r.levels[0]!.weight - overlap * overlap)).toBeLessThan(1e-9);
+    expect(overlap * overlap).toBeLessThan(0.99);
+    expect(Math.abs(r.norm! - 1)).toBeLessThan(1e-9);
+  });
+
+  it('reports a mass that is not positive, with the x, on the mass formula', () => {
+    const text = `${HEAD}system V(x) = 0 meV over [0 nm, 10 nm] with mass(x) = (x - 6 nm) * 0.1 m_e / nm\nstate gaussian(center = 5 nm, width = 1 nm)\n`;
+    const r = analyse(text);
+    const d = r.diagnostics.find((x) => x.code === 'evaluation')!;
+    expect(d).toBeDefined();
+    expect(text.slice(d.start, d.end)).toBe('(x - 6 nm) * 0.1 m_e / nm');
+    expect(d.message).toMatch(/not positive at x = /);
+    const units = analyse(`${HEAD}system V(x) = 0 meV over [0 nm, 10 nm] with mass(x) = 0.1 meV\nstate gaussian(center = 5 nm, width = 1 nm)\n`);
+    expect(units.diagnostics.some((x) => x.code === 'units')).toBe(true);
   });
 });

@@ -32,6 +32,9 @@ export type SystemModel =
        * equal potentials, so a solved basis can be reused (systems.ts keeps a small memo).
        */
       key?: string;
+      /** `with mass(x) = ...`: the compiled mass (internal units) and the span of its formula. */
+      massFn?: CompiledFunction;
+      massSpan?: Span;
     };
 
 /** A state with its parameters evaluated or compiled. */
@@ -354,7 +357,21 @@ class ModelBuilder {
     const c = compileFunction(e, scope);
     this.push(c.diagnostics);
     if (!c.result) return null;
-    return { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    const sys: SystemModel = { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    return spec.mass ? this.massProfile(sys, spec.mass, scope) : sys;
+  }
+
+  /** `with mass(x) = ...`: checked as a mass in x, compiled, and made part of the potential's key. */
+  private massProfile(sys: Extract<SystemModel, { kind: 'potential' }>, src: ExprText, scope: Scope): SystemModel | null {
+    const e = this.expr(src);
+    if (!e) return null;
+    const checked = checkExpression(e, scope, dimensionOf('mass', this.units), 'the mass');
+    this.push(checked.diagnostics);
+    if (checked.dimension === null) return null;
+    const c = compileFunction(e, scope);
+    this.push(c.diagnostics);
+    if (!c.result) return null;
+    return { ...sys, massFn: c.result, massSpan: src, key: `${sys.key}|mass|${potentialKey(src.text, e, scope)}` };
   }
 
   private state(spec: StateSpec, hasSystem: boolean): StateModel | null {

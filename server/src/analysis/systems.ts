@@ -12,6 +12,7 @@ import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { StateModel, SystemModel } from './model';
 import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
+import { massFindings, massProfileOf } from './massSystems';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -28,6 +29,8 @@ export interface BuiltBasis {
   points?: number;
   /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
   stopped?: StopReason | null;
+  /** Findings of the solve that a remembered basis must repeat (the mass profile's, massSystems.ts). */
+  findings?: EngineDiagnostic[];
 }
 
 /** Options of `buildBasis` and `buildState`. */
@@ -84,6 +87,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     // Most recently used last.
     basisMemo.delete(memoKey);
     basisMemo.set(memoKey, hit);
+    if (hit.findings) out.push(...hit.findings);
     return hit;
   }
   const V = system.V;
@@ -115,13 +119,19 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     );
     return null;
   }
-  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget });
+  const massProfile = massProfileOf(system, out);
+  if (massProfile === null) return null;
+  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...(massProfile ? { massProfile } : {}) });
+  const findings: EngineDiagnostic[] = [];
+  massFindings(system, solved.notes, findings);
+  out.push(...findings);
   if (bad !== null) {
     const b = bad as { x: number; value: string };
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
     return null;
   }
   if (solved.basis.count === 0) {
+    if (solved.notes.some((n) => n.kind === 'mass')) return null;
     const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
     // The solver's notes name raw values; say them in words.
     const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
@@ -135,6 +145,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     unresolved: solved.unresolved,
     points: solved.points,
     stopped,
+    ...(findings.length > 0 ? { findings } : {}),
   };
   // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.
   if (memoKey !== null && (stopped === null || stopped === 'cap')) {

@@ -28,7 +28,17 @@ export type SystemSpec =
   | { kind: 'box'; span: Span; keywordSpan: Span; args: Arg[] }
   | { kind: 'well'; span: Span; keywordSpan: Span; args: Arg[] }
   | { kind: 'oscillator'; span: Span; keywordSpan: Span; args: Arg[] }
-  | { kind: 'potential'; span: Span; keywordSpan: Span; expr: ExprText; from: ExprText; to: ExprText };
+  | {
+      kind: 'potential';
+      span: Span;
+      keywordSpan: Span;
+      expr: ExprText;
+      from: ExprText;
+      to: ExprText;
+      /** `with mass(x) = ...`: a mass that depends on x, and the span of its `mass(x)` head. */
+      mass?: ExprText;
+      massHead?: Span;
+    };
 
 /** The state part of a `state` statement. */
 export type StateSpec =

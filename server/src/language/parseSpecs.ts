@@ -2,7 +2,7 @@
  * Readers of the parser's `state` and `system` clauses (grammar in `parser.ts`): `psi(x) = ...`,
  * `gaussian(...)`, `eigen(N) of SYSTEM`, `box/well/oscillator(...)` and `V(x) = ... over [A, B]`.
  */
-import type { Span, StateSpec, SystemSpec } from './ast';
+import type { ExprText, Span, StateSpec, SystemSpec } from './ast';
 import { STATE_KINDS, SYSTEM_KINDS } from './keywords';
 import { isSpace } from './scanner';
 import { SIGNATURES } from './signatures';
@@ -96,12 +96,33 @@ export function parsePotential(ctx: Ctx, vSpan: Span, hi: number): SystemSpec | 
   const close = matchClose(m, open, hi);
   if (close < 0 || m[close] !== ']') return fail(ctx, 'syntax', { start: open, end: open + 1 }, "This '[' is not closed.");
   const rest = skipSpace(m, close + 1, hi);
-  if (rest < hi) return fail(ctx, 'syntax', { start: rest, end: hi }, "Unexpected text after 'over [A, B]'.");
+  const withMass = rest < hi ? parseMassClause(ctx, rest, hi) : undefined;
+  if (withMass === null) return null;
+  if (rest < hi && withMass === undefined) return fail(ctx, 'syntax', { start: rest, end: hi }, "Unexpected text after 'over [A, B]'; a mass that depends on x is written 'with mass(x) = ...'.");
   const ends = splitTop(m, open + 1, close, ',');
   const bracket: Span = { start: open, end: close + 1 };
   if (ends.length !== 2) return fail(ctx, 'syntax', bracket, `Expected two ends, as in 'over [-5, 5]'.`);
   const a = exprText(m, ends[0]![0], ends[0]![1]);
   const b = exprText(m, ends[1]![0], ends[1]![1]);
   if (a === null || b === null) return fail(ctx, 'syntax', bracket, `Expected two ends, as in 'over [-5, 5]'.`);
-  return { kind: 'potential', span: { start: vSpan.start, end: hi }, keywordSpan: head, expr, from: a, to: b };
+  return { kind: 'potential', span: { start: vSpan.start, end: hi }, keywordSpan: head, expr, from: a, to: b, ...(withMass ?? {}) };
+}
+
+/**
+ * `with mass(x) = EXPR` after `over [A, B]`, starting at the `with`: undefined when the text there does
+ * not start with `with`, null after a reported error.
+ */
+function parseMassClause(ctx: Ctx, from: number, hi: number): { mass: ExprText; massHead: Span } | null | undefined {
+  const { m } = ctx;
+  const we = identEnd(m, from, hi);
+  if (m.slice(from, we) !== 'with') return undefined;
+  const p = skipSpace(m, we, hi);
+  const e = identEnd(m, p, hi);
+  const withSpan: Span = { start: from, end: we };
+  if (m.slice(p, e) !== 'mass') return unexpected(ctx, p, hi, withSpan, "Expected 'mass(x) = ...' after 'with'.");
+  const eq = expectXCall(ctx, e, hi, { start: p, end: e }, 'mass');
+  if (eq < 0) return null;
+  const mass = exprText(m, eq + 1, hi);
+  if (mass === null) return fail(ctx, 'syntax', { start: eq, end: eq + 1 }, "Expected the mass after 'mass(x) ='.");
+  return { mass, massHead: { start: p, end: lastBefore(m, eq) } };
 }

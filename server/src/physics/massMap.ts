@@ -81,21 +81,29 @@ export interface MassMap {
 
 /**
  * Panels over [a, b] cut at every point of `cuts`, `panels` in all (each piece at least one, in
- * proportion to its length), with m and xi at every node. Null when m is not positive and finite at
- * some node (the caller has checked the profile before; this guards the solver).
+ * proportion to its length, or, given a `pilot` map of the same mass, to its length in xi, with ends
+ * at equal steps of the pilot's xi, so every panel spans about X / panels of the mass coordinate), with
+ * m and xi at every node. Null when m is not positive and finite at some node (the caller has checked
+ * the profile before; this guards the solver).
  */
-export function buildMassMap(mass: (xs: Float64Array) => Float64Array, a: number, b: number, cuts: number[], panels: number): MassMap | null {
+export function buildMassMap(mass: (xs: Float64Array) => Float64Array, a: number, b: number, cuts: number[], panels: number, pilot?: MassMap): MassMap | null {
   const ref = reference();
   const n = MAP_ORDER;
   const edges = [a];
   for (const c of [...cuts].sort((p, q) => p - q)) if (c > edges[edges.length - 1]! && c < b) edges.push(c);
   edges.push(b);
   const ends: number[] = [a];
+  const xiEdges = pilot ? xiAt(pilot, Float64Array.from(edges)) : Float64Array.from(edges, (x) => x - a);
+  const span = pilot ? pilot.total : b - a;
   for (let s = 0; s + 1 < edges.length; s++) {
     const lo = edges[s]!;
     const hi = edges[s + 1]!;
-    const k = Math.max(1, Math.ceil(panels * ((hi - lo) / (b - a)) - 1e-12));
-    for (let j = 1; j <= k; j++) ends.push(j === k ? hi : lo + (hi - lo) * (j / k));
+    const k = Math.max(1, Math.ceil(panels * ((xiEdges[s + 1]! - xiEdges[s]!) / span) - 1e-12));
+    for (let j = 1; j <= k; j++) {
+      if (j === k) ends.push(hi);
+      else if (!pilot) ends.push(lo + (hi - lo) * (j / k));
+      else ends.push(invertXi(pilot, xiEdges[s]! + (xiEdges[s + 1]! - xiEdges[s]!) * (j / k), lo, hi));
+    }
   }
   const P = ends.length - 1;
   const x = new Float64Array(P * n);
@@ -131,6 +139,17 @@ export function buildMassMap(mass: (xs: Float64Array) => Float64Array, a: number
     xiEnds[p + 1] = xiEnds[p]! + h * whole;
   }
   return { a, b, ends: Float64Array.from(ends), x, w, m, xi, xiEnds, total: xiEnds[P]!, mMin, mMax };
+}
+
+/** The x in [lo, hi] where the map's xi equals `target` (xi increases strictly), by 60 bisections. */
+function invertXi(map: MassMap, target: number, lo: number, hi: number): number {
+  const one = new Float64Array(1);
+  for (let it = 0; it < 60 && hi - lo > 1e-15 * Math.max(Math.abs(lo), Math.abs(hi)); it++) {
+    one[0] = 0.5 * (lo + hi);
+    if (xiAt(map, one)[0]! < target) lo = one[0];
+    else hi = one[0];
+  }
+  return 0.5 * (lo + hi);
 }
 
 /** xi at every x of xs (clamped to [a, b]), by the barycentric formula on the panel holding x. */

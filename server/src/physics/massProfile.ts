@@ -19,10 +19,10 @@
 import type { Eigenbasis } from './types';
 import type { Budget } from './budget';
 import type { PotentialFn, PotentialNote } from './potential';
-import { firstGridSize, scanPotential, type Jump, type PotentialScan } from './potentialScan';
+import { scanPotential, type Jump, type PotentialScan } from './potentialScan';
 import { symmetricLowest } from './tridiag';
 import { sineLadder } from './sines';
-import type { SineDvrSolution } from './dvr';
+import { sineDvrWork, type SineDvrSolution } from './dvr';
 import { buildMassMap, xiAt, MAP_ORDER, type MassMap } from './massMap';
 import { makeBasis } from './potentialView';
 
@@ -51,6 +51,8 @@ export interface MassSetup {
   /** The first grid size for K levels (as `firstGridSize`, for the heaviest mass, rescaled to xi). */
   firstSize(K: number, o: { pointsPerWavelength: number; minPoints: number; growth: number }, cap: number): number;
   solve(N: number, wall: number, K: number, V: PotentialFn, budget: Budget): MassSolution | null;
+  /** Notes on the final solution's grid: see {@link resolutionNotes}. */
+  check(sol: MassSolution): PotentialNote[];
 }
 
 /**
@@ -60,10 +62,10 @@ export interface MassSetup {
  */
 export function massSetup(profile: MassProfile, a: number, b: number, scanV: PotentialScan, samples: number, symmetryTolerance: number): MassSetup | PotentialNote {
   const ms = scanPotential(profile.at, a, b, samples, symmetryTolerance);
-  if ('kind' in ms) return { kind: 'input', message: `The mass is ${/NaN/.test(ms.message) ? 'not a number' : 'not finite'} at x = ${ms.at ?? a}.`, at: ms.at };
+  if ('kind' in ms) return { kind: 'mass', message: `The mass is ${/NaN/.test(ms.message) ? 'not a number' : 'not finite'} at x = ${ms.at ?? a}.`, at: ms.at };
   for (let j = 0; j < ms.sv.length; j++) {
     const v = ms.sv[j]!;
-    if (!(v > 0 && Number.isFinite(v))) return { kind: 'input', message: `The mass is ${v > 0 ? 'infinite' : 'not positive'} at x = ${ms.sx[j]}.`, at: ms.sx[j] };
+    if (!(v > 0 && Number.isFinite(v))) return { kind: 'mass', message: `The mass is ${v > 0 ? 'infinite' : 'not positive'} at x = ${ms.sx[j]}.`, at: ms.sx[j] };
   }
   const L = b - a;
   const jumps: number[] = [];
@@ -83,15 +85,85 @@ export function massSetup(profile: MassProfile, a: number, b: number, scanV: Pot
   if (jumps.length > 0) {
     notes.push({ kind: 'jumps', message: `The mass jumps at ${jumps.length} point(s); energies converge algebraically (about N^-3), not exponentially.`, at: jumps[0] });
   }
-  const ratio = Math.sqrt(ms.vmaxFinite / ms.vmin);
+  const input: SolveInput = { profile, a, b, cuts, symmetric: scan.symmetric };
   return {
     scan,
     jumps,
     notes,
-    // In xi the local wave number is k/m: N_xi / N_x = X / (L sqrt(m_max m_min)) <= sqrt(m_max / m_min).
-    firstSize: (K, o, cap) => Math.min(Math.max(8, Math.floor(cap / o.growth)), Math.max(Math.ceil(firstGridSize(scanV, L, ms.vmaxFinite, K, o, cap) * ratio), K + 8)),
-    solve: (N, wall, K, V, budget) => massSolve({ profile, a, b, cuts, symmetric: scan.symmetric, ratio: ms.vmaxFinite / ms.vmin }, N, wall, K, V, budget),
+    firstSize: (K, o, cap) => Math.min(Math.max(8, Math.floor(cap / o.growth)), Math.max(firstSizeXi(scanV, ms, K, o), Math.floor(o.minPoints), K + 8)),
+    check: (sol) => resolutionNotes(sol, profile, cuts, jumps),
+    solve: (N, wall, K, V, budget) => massSolve(input, N, wall, K, V, budget),
   };
+}
+
+/**
+ * The first grid in xi: `pointsPerWavelength` points per shortest wavelength of the mass coordinate,
+ * 2 pi / max_x sqrt(2 (E_K - V)_+ / m) (the local wave number sqrt(2 m (E - V)) over dxi/dx = m), at
+ * the WKB estimate of E_K from (1/pi) integral sqrt(2 m (E - V)_+) dx = K (Bohr–Sommerfeld), on the
+ * scans' common samples, plus 16 (as `firstGridSize` for a constant mass).
+ */
+function firstSizeXi(sv: PotentialScan, sm: PotentialScan, K: number, o: { pointsPerWavelength: number }): number {
+  const n = Math.min(sv.sv.length, sm.sv.length);
+  const vs = sv.sv.map((y) => (y === Infinity ? sv.vmaxFinite + 1e300 : y));
+  const count = (E: number): number => {
+    let s = 0;
+    for (let j = 0; j < n; j++) if (E > vs[j]!) s += Math.sqrt(2 * sm.sv[j]! * (E - vs[j]!));
+    return (s * sv.hs) / Math.PI;
+  };
+  let lo = sv.vmin;
+  let hi = sv.vmin + 1;
+  for (let i = 0; i < 2000 && count(hi) < K; i++) hi = sv.vmin + 2 * (hi - sv.vmin);
+  for (let i = 0; i < 80; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (count(mid) < K) lo = mid;
+    else hi = mid;
+  }
+  let X = 0;
+  let kmax = 0;
+  for (let j = 0; j < n; j++) {
+    X += sm.sv[j]! * sv.hs;
+    if (hi > vs[j]!) kmax = Math.max(kmax, Math.sqrt((2 * (hi - vs[j]!)) / sm.sv[j]!));
+  }
+  return Math.ceil((o.pointsPerWavelength * X * kmax) / (2 * Math.PI)) + 16;
+}
+
+/**
+ * What the final grid does not resolve, as notes of kind `mass`: (1) the mass changes faster than its
+ * panels follow (xi at the panel ends moves by more than 1e-9 of X when the panels are halved: a steep
+ * but smooth step, or a jump no breakpoint reported), with the first such x; (2) a layer between two
+ * jumps (or a jump and a wall) thinner in xi than two grid spacings X/N, which the N - 1 sines cannot
+ * shape however the panels fall.
+ */
+function resolutionNotes(sol: MassSolution, profile: MassProfile, cuts: number[], jumps: number[]): PotentialNote[] {
+  const notes: PotentialNote[] = [];
+  const map = sol.map;
+  const P = map.ends.length - 1;
+  const fine = buildMassMap(profile.at, map.a, map.b, cuts, 2 * P);
+  if (fine) {
+    const again = xiAt(fine, map.ends);
+    for (let p = 1; p <= P; p++) {
+      if (Math.abs(again[p]! - map.xiEnds[p]!) > 1e-9 * map.total) {
+        const x = map.ends[p - 1]!;
+        notes.push({ kind: 'mass', message: `The mass changes faster than the solver's panels follow near x = ${x}; give the step as a jump (a ?: condition) or refine it less sharply.`, at: x });
+        break;
+      }
+    }
+  }
+  const edges = [map.a, ...jumps, map.b];
+  const xiEdges = xiAt(map, Float64Array.from(edges));
+  const spacing = map.total / sol.intervals;
+  for (let i = 0; i + 1 < edges.length; i++) {
+    if (jumps.length === 0) break;
+    if (xiEdges[i + 1]! - xiEdges[i]! < 2 * spacing) {
+      notes.push({
+        kind: 'mass',
+        message: `The mass layer from x = ${edges[i]} to ${edges[i + 1]} is thinner than two grid spacings of the solver (${sol.intervals} intervals); its effect on the levels is not resolved.`,
+        at: edges[i],
+      });
+      break;
+    }
+  }
+  return notes;
 }
 
 /** Moments C(q) = (1/X) sum_i w_i f_i cos(q theta_i), q < count, for f = 1 (cw) and f = V (cv). */
@@ -121,18 +193,19 @@ interface SolveInput {
   b: number;
   cuts: number[];
   symmetric: boolean;
-  /** Largest over smallest mass on the samples. */
-  ratio: number;
+  /** A coarse map that places the panels at equal steps of xi (made by the first solve). */
+  pilot?: MassMap;
 }
 
 /**
- * One Galerkin solve with N - 1 sines of xi (see the module comment). Panels: one per wavelength of the
- * highest moment q = 2N in xi, counted in x with the mass contrast (as interfaces.ts for V alone).
+ * One Galerkin solve with N - 1 sines of xi (see the module comment). Panels: N of equal length in xi,
+ * one per wavelength X / N of the highest moment q = 2N (as interfaces.ts for V alone), cut at every jump.
  * Null when V or m fails on the nodes.
  */
 function massSolve(s: SolveInput, N: number, wall: number, K: number, V: PotentialFn, budget: Budget): MassSolution | null {
-  const panels = Math.max(4, Math.ceil(N * s.ratio));
-  const map = buildMassMap(s.profile.at, s.a, s.b, s.cuts, panels);
+  s.pilot ??= buildMassMap(s.profile.at, s.a, s.b, s.cuts, 256) ?? undefined;
+  if (!s.pilot) return null;
+  const map = buildMassMap(s.profile.at, s.a, s.b, s.cuts, Math.max(4, N), s.pilot);
   if (!map) return null;
   let v: Float64Array;
   try {
@@ -152,7 +225,10 @@ function massSolve(s: SolveInput, N: number, wall: number, K: number, V: Potenti
   const blocks = s.symmetric
     ? [Int32Array.from({ length: Math.ceil(n / 2) }, (_, r) => 2 * r + 1), Int32Array.from({ length: Math.floor(n / 2) }, (_, r) => 2 * r + 2)]
     : [Int32Array.from({ length: n }, (_, r) => r + 1)];
-  budget.count(map.x.length * 2 * N + blocks.reduce((t, ks) => t + 4 * ks.length ** 3, 0), map.x.length);
+  // Counted in the unit the refinement predicts with (`sineDvrWork`, which `wouldOverrun` scales by the
+  // last solve's measured rate), so the prediction stays proportional; the true flops are about 2.5 times
+  // that (Cholesky and the two triangular solves besides the eigensolver).
+  budget.count(sineDvrWork(N, s.symmetric) + map.x.length * 2 * N, map.x.length);
   const want = Math.min(K, n);
   const found: { e: number; parity: number; ks: Int32Array; vec: Float64Array }[] = [];
   for (let bi = 0; bi < blocks.length; bi++) {
@@ -220,27 +296,32 @@ function generalized(ks: Int32Array, cw: Float64Array, cv: Float64Array, kin: nu
       Lm[i * m + j] = sum / ljj;
     }
   }
-  // B = L^-1 H (row i of B from the rows above it: contiguous row operations), then A = L^-1 B^T.
+  // B = L^-1 H (row i of B from the rows above it: contiguous row operations).
   const forward = (src: Float64Array): Float64Array => {
     const out = src.slice();
     for (let i = 0; i < m; i++) {
-      const row = out.subarray(i * m, (i + 1) * m);
+      const row = i * m;
       for (let p = 0; p < i; p++) {
-        const l = Lm[i * m + p]!;
+        const l = Lm[row + p]!;
         if (l === 0) continue;
-        const above = out.subarray(p * m, (p + 1) * m);
-        for (let c = 0; c < m; c++) row[c]! -= l * above[c]!;
+        const above = p * m;
+        for (let c = 0; c < m; c++) out[row + c] -= l * out[above + c]!;
       }
-      const inv = 1 / Lm[i * m + i]!;
-      for (let c = 0; c < m; c++) row[c]! *= inv;
+      const inv = 1 / Lm[row + i]!;
+      for (let c = 0; c < m; c++) out[row + c] *= inv;
     }
     return out;
   };
   const B = forward(H);
-  const Bt = new Float64Array(m * m);
-  for (let i = 0; i < m; i++) for (let j = 0; j < m; j++) Bt[i * m + j] = B[j * m + i]!;
-  const A = forward(Bt);
-  for (let i = 0; i < m; i++) for (let j = 0; j < i; j++) A[i * m + j] = 0.5 * (A[i * m + j]! + A[j * m + i]!);
+  // A = B L^-T, lower triangle only (all the eigensolver reads): row i solves A[i, :] L^T = B[i, :].
+  const A = new Float64Array(m * m);
+  for (let i = 0; i < m; i++) {
+    for (let j = 0; j <= i; j++) {
+      let sum = B[i * m + j]!;
+      for (let p = 0; p < j; p++) sum -= A[i * m + p]! * Lm[j * m + p]!;
+      A[i * m + j] = sum / Lm[j * m + j]!;
+    }
+  }
   const eig = symmetricLowest(A, m, want);
   const count = eig.values.length;
   const vectors = new Float64Array(count * m);

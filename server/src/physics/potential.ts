@@ -59,9 +59,10 @@ export interface PotentialNote {
    * `evaluation`: V gave NaN, -Infinity or the wrong length (no basis built); `input`: bad a, b, mass or
    * levels; `cap`: the grid cap stopped refinement short; `clamped`: +Infinity values were replaced by a
    * wall far above the spectrum; `walls`: levels lie above V at both ends (wall-quantised continuum);
-   * `jumps`: V jumps, so convergence is algebraic.
+   * `jumps`: V jumps, so convergence is algebraic; `mass`: the mass profile is bad or not resolved
+   * (massProfile.ts).
    */
-  kind: 'evaluation' | 'input' | 'cap' | 'clamped' | 'walls' | 'jumps';
+  kind: 'evaluation' | 'input' | 'cap' | 'clamped' | 'walls' | 'jumps' | 'mass';
   message: string;
   /** A position the note is about (first bad x, first jump), if any. */
   at?: number;
@@ -220,6 +221,7 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   }
   if (scan.clamped) notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
   // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum.
+  if (mp) notes.push(...mp.check(sol as MassSolution));
   if (mp) fixMassSigns(sol as MassSolution, options.massProfile!);
   else fixSigns(sol);
   const walls = wallClassification(V, a, b, sol.energies);
