@@ -136,4 +136,17 @@ describe('potentialBasis with a mass profile', () => {
     expect(nan.basis.count).toBe(0);
     expect(nan.notes[0]!.message).toMatch(/not a number/);
   });
+
+  it('notes a mass layer thinner than the grid and a step steeper than its panels', () => {
+    const V: PotentialFn = map(() => 0);
+    const thin = potentialBasis(V, 0, 10, 1, 3, { massProfile: profile((x) => (Math.abs(x - 5) < 5e-4 ? 8 : 1), () => 0, [5 - 5e-4, 5 + 5e-4]), tolerance: 1e-4 });
+    expect(thin.notes.some((n) => n.kind === 'mass' && /thinner than two grid spacings/.test(n.message) && Math.abs(n.at! - (5 - 5e-4)) < 1e-12)).toBe(true);
+    // A heavy bump of width 1e-4, far below the scan's sample spacing, that no breakpoint announces: the
+    // halved panels move xi. (A steep step is found by the scan and becomes a panel end instead.)
+    const steep = potentialBasis(V, 0, 10, 1, 3, { massProfile: profile((x) => 1 + 5 * Math.exp(-(((x - 5.123) / 1e-4) ** 2)), () => 0), tolerance: 1e-4 });
+    expect(steep.notes.some((n) => n.kind === 'mass' && /faster than the solver's panels/.test(n.message))).toBe(true);
+    // A resolved profile gets neither note.
+    const fine = potentialBasis(V, 0, 10, 1, 3, { massProfile: profile((x) => (x < 5 ? 1 : 2), () => 0, [5]), tolerance: 1e-4 });
+    expect(fine.notes.filter((n) => n.kind === 'mass')).toEqual([]);
+  });
 });
