@@ -17,6 +17,7 @@ import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from '.
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
+import { massRegions, massSamples } from './massView';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -55,6 +56,8 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   const checks: CheckContext = { model, basis, stateSpan, systemStmt: sysStmt, limits: ctx.limits };
   out.push(...checkBasisFacts(built, asked, checks));
   result.system = systemFacts(basis);
+  const massFacts = massRegions(basis, model.units);
+  if (massFacts) result.system.mass = massFacts;
   if (!model.state || ctx.budget.expired()) return;
   const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
   if (!state) return;
@@ -88,7 +91,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   checkExpects(model, result, out);
   const plotX = plotGrid(m.basis, m.window);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels);
+  if (input.samples) result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels), ...massSamples(m.basis, plotX, model.units) };
 }
 
 /** The measured numbers a front end shows. */
