@@ -272,7 +272,12 @@ export function classifyBreakpoints(
   });
   const v = state.evaluate(xs, 1);
   pts.forEach((x, i) => {
-    const dv = Math.hypot(v.re[2 * i + 1]! - v.re[2 * i]!, v.im[2 * i + 1]! - v.im[2 * i]!);
+    // The change across the point less what the one-sided slopes account for over 2h (trapezoid), so a
+    // kink (psi' jumping, as at an interface of two masses) in a wide window is not taken for a jump.
+    const dv = Math.hypot(
+      v.re[2 * i + 1]! - v.re[2 * i]! - h * (v.d1re![2 * i + 1]! + v.d1re![2 * i]!),
+      v.im[2 * i + 1]! - v.im[2 * i]! - h * (v.d1im![2 * i + 1]! + v.d1im![2 * i]!),
+    );
     const dd = Math.hypot(v.d1re![2 * i + 1]! - v.d1re![2 * i]!, v.d1im![2 * i + 1]! - v.d1im![2 * i]!);
     if (dv > 1e-5 * scale.psi) jumps.push(x);
     else if (dd > 1e-4 * scale.dpsi) kinks.push(x);
