@@ -15,6 +15,9 @@
  * jump in the second derivative: the energy error falls as N^-3 (as for a step of V), where sines of x
  * would see the kink of psi itself and converge as N^-1. For a smooth m and V the convergence is
  * exponential. With m constant xi = m (x - a) and this is the sine Galerkin of the constant-mass solver.
+ * A profile without jumps is solved in the Liouville coordinate y = integral sqrt(m) dx instead, where
+ * the kinetic form is a Toeplitz-plus-Hankel matrix of the overlap's moments (`coordinateDensity`) and
+ * the local wave number no longer depends on m, so light and heavy regions need the same grid.
  */
 import type { Eigenbasis } from './types';
 import type { Budget } from './budget';
@@ -36,9 +39,10 @@ export interface MassProfile {
   breaks: number[];
 }
 
-/** A solution in the mass coordinate: a sine-series solution of xi, with its map. */
+/** A solution in the mass coordinate: a sine-series solution of zeta, with its map and zeta' = m^power. */
 export interface MassSolution extends SineDvrSolution {
   map: MassMap;
+  power: 0.5 | 1;
 }
 
 /** The mass profile's part of a potential solve (see `massSetup`). */
@@ -85,24 +89,24 @@ export function massSetup(profile: MassProfile, a: number, b: number, scanV: Pot
   if (jumps.length > 0) {
     notes.push({ kind: 'jumps', message: `The mass jumps at ${jumps.length} point(s); energies converge algebraically (about N^-3), not exponentially.`, at: jumps[0] });
   }
-  const input: SolveInput = { profile, a, b, cuts, symmetric: scan.symmetric };
+  const input: SolveInput = { profile, a, b, cuts, symmetric: scan.symmetric, power: jumps.length > 0 ? 1 : 0.5 };
   return {
     scan,
     jumps,
     notes,
-    firstSize: (K, o, cap) => Math.min(Math.max(8, Math.floor(cap / o.growth)), Math.max(firstSizeXi(scanV, ms, K, o), Math.floor(o.minPoints), K + 8)),
-    check: (sol) => resolutionNotes(sol, profile, cuts, jumps),
+    firstSize: (K, o, cap) => Math.min(Math.max(8, Math.floor(cap / o.growth)), Math.max(firstSizeXi(scanV, ms, K, o, input.power), Math.floor(o.minPoints), K + 8)),
+    check: (sol) => resolutionNotes(sol, coordinateDensity(profile, input.power), cuts, jumps),
     solve: (N, wall, K, V, budget) => massSolve(input, N, wall, K, V, budget),
   };
 }
 
 /**
- * The first grid in xi: `pointsPerWavelength` points per shortest wavelength of the mass coordinate,
- * 2 pi / max_x sqrt(2 (E_K - V)_+ / m) (the local wave number sqrt(2 m (E - V)) over dxi/dx = m), at
+ * The first grid in zeta: `pointsPerWavelength` points per shortest wavelength of the coordinate,
+ * 2 pi / max_x sqrt(2 (E_K - V)_+) m^(1/2 - p) (the local wave number sqrt(2 m (E - V)) over zeta' = m^p), at
  * the WKB estimate of E_K from (1/pi) integral sqrt(2 m (E - V)_+) dx = K (Bohr–Sommerfeld), on the
  * scans' common samples, plus 16 (as `firstGridSize` for a constant mass).
  */
-function firstSizeXi(sv: PotentialScan, sm: PotentialScan, K: number, o: { pointsPerWavelength: number }): number {
+function firstSizeXi(sv: PotentialScan, sm: PotentialScan, K: number, o: { pointsPerWavelength: number }, power: 0.5 | 1): number {
   const n = Math.min(sv.sv.length, sm.sv.length);
   const vs = sv.sv.map((y) => (y === Infinity ? sv.vmaxFinite + 1e300 : y));
   const count = (E: number): number => {
@@ -121,8 +125,9 @@ function firstSizeXi(sv: PotentialScan, sm: PotentialScan, K: number, o: { point
   let X = 0;
   let kmax = 0;
   for (let j = 0; j < n; j++) {
-    X += sm.sv[j]! * sv.hs;
-    if (hi > vs[j]!) kmax = Math.max(kmax, Math.sqrt((2 * (hi - vs[j]!)) / sm.sv[j]!));
+    // In zeta (zeta' = m^p) the local wave number is sqrt(2 (E - V)) m^(1/2 - p).
+    X += sm.sv[j]! ** power * sv.hs;
+    if (hi > vs[j]!) kmax = Math.max(kmax, Math.sqrt(2 * (hi - vs[j]!)) * sm.sv[j]! ** (0.5 - power));
   }
   return Math.ceil((o.pointsPerWavelength * X * kmax) / (2 * Math.PI)) + 16;
 }
@@ -134,11 +139,11 @@ function firstSizeXi(sv: PotentialScan, sm: PotentialScan, K: number, o: { point
  * jumps (or a jump and a wall) thinner in xi than two grid spacings X/N, which the N - 1 sines cannot
  * shape however the panels fall.
  */
-function resolutionNotes(sol: MassSolution, profile: MassProfile, cuts: number[], jumps: number[]): PotentialNote[] {
+function resolutionNotes(sol: MassSolution, density: (xs: Float64Array) => Float64Array, cuts: number[], jumps: number[]): PotentialNote[] {
   const notes: PotentialNote[] = [];
   const map = sol.map;
   const P = map.ends.length - 1;
-  const fine = buildMassMap(profile.at, map.a, map.b, cuts, 2 * P);
+  const fine = buildMassMap(density, map.a, map.b, cuts, 2 * P);
   if (fine) {
     const again = xiAt(fine, map.ends);
     for (let p = 1; p <= P; p++) {
@@ -193,8 +198,23 @@ interface SolveInput {
   b: number;
   cuts: number[];
   symmetric: boolean;
-  /** A coarse map that places the panels at equal steps of xi (made by the first solve). */
+  /** The coordinate zeta' = m^power: 1 where m jumps, 1/2 for a profile without jumps. */
+  power: 0.5 | 1;
+  /** A coarse map that places the panels at equal steps of zeta (made by the first solve). */
   pilot?: MassMap;
+}
+
+/**
+ * The density zeta' = m^p of the solver's coordinate. p = 1 is the mass coordinate xi, in which an
+ * eigenfunction is C^1 across a jump of m (psi_xi = psi'/m); p = 1/2 is the Liouville coordinate
+ * y = integral sqrt(m) dx, in which the local wave number sqrt(2 (E - V)) does not depend on m, so a
+ * uniform grid in y resolves light and heavy regions alike (in xi it is sqrt(2 (E - V)/m), and the light
+ * regions would set the grid). For sines u_k of zeta, integral u_k' u_l' / (2m) dx =
+ * (pi/Z)^2 k l [D(k - l) + D(k + l)] with D(q) = (1/Z) integral m^(2p-1)/2 cos(q pi zeta/Z) dx (derived
+ * as in the module comment): diagonal for p = 1, half the overlap's moments for p = 1/2.
+ */
+function coordinateDensity(profile: MassProfile, power: 0.5 | 1): (xs: Float64Array) => Float64Array {
+  return power === 1 ? profile.at : (xs) => profile.at(xs).map(Math.sqrt);
 }
 
 /**
@@ -203,9 +223,10 @@ interface SolveInput {
  * Null when V or m fails on the nodes.
  */
 function massSolve(s: SolveInput, N: number, wall: number, K: number, V: PotentialFn, budget: Budget): MassSolution | null {
-  s.pilot ??= buildMassMap(s.profile.at, s.a, s.b, s.cuts, 256) ?? undefined;
+  const density = coordinateDensity(s.profile, s.power);
+  s.pilot ??= buildMassMap(density, s.a, s.b, s.cuts, 256) ?? undefined;
   if (!s.pilot) return null;
-  const map = buildMassMap(s.profile.at, s.a, s.b, s.cuts, Math.max(4, N), s.pilot);
+  const map = buildMassMap(density, s.a, s.b, s.cuts, Math.max(4, N), s.pilot);
   if (!map) return null;
   let v: Float64Array;
   try {
@@ -235,7 +256,7 @@ function massSolve(s: SolveInput, N: number, wall: number, K: number, V: Potenti
     const ks = blocks[bi]!;
     const k = Math.min(ks.length, s.symmetric ? (bi === 0 ? Math.ceil(want / 2) + 1 : Math.floor(want / 2) + 1) : want);
     if (ks.length === 0 || k === 0) continue;
-    const r = generalized(ks, cw, cv, kin, k);
+    const r = generalized(ks, cw, cv, kin, k, s.power);
     if (!r) return null;
     for (let j = 0; j < r.values.length; j++) found.push({ e: r.values[j]!, parity: s.symmetric ? bi + 1 : 0, ks, vec: r.vectors.subarray(j * ks.length, (j + 1) * ks.length) });
   }
@@ -259,9 +280,11 @@ function massSolve(s: SolveInput, N: number, wall: number, K: number, V: Potenti
     terms[j] = last;
   }
   if (!energies.every(Number.isFinite)) return null;
-  // ||M^-1/2 H M^-1/2|| <= ||M^-1|| (||K|| + ||V||), with ||M^-1|| <= m_max and ||V|| <= max|V| / m_min.
-  const normBound = map.mMax * (kin * n * n + vmax / map.mMin);
-  return { a: s.a, b: s.b, mass: map.mMin, intervals: N, energies, coefficients, parity, terms, normBound, map };
+  // ||M^-1/2 H M^-1/2|| <= ||M^-1|| (||K|| + ||V||) with rho = zeta' = m^p: ||M^-1|| <= max rho,
+  // ||V|| <= max|V| / min rho and ||K|| <= (n pi/Z)^2 max(m^(p-1)) / 2 = kin n^2 max(rho^((p-1)/p)).
+  const kinMax = s.power === 1 ? 1 : Math.max(map.mMin ** -1, map.mMax ** -1);
+  const normBound = map.mMax * (kin * n * n * kinMax + vmax / map.mMin);
+  return { a: s.a, b: s.b, mass: map.mMin, intervals: N, energies, coefficients, parity, terms, normBound, map, power: s.power };
 }
 
 /**
@@ -269,7 +292,7 @@ function massSolve(s: SolveInput, N: number, wall: number, K: number, V: Potenti
  * symmetric A = L^-1 (K + V) L^-T, its eigenvectors y, and c = L^-T y (so c^T M c = 1). Golub & Van
  * Loan, Matrix Computations, section 8.7 (from memory). Null when M is not positive definite.
  */
-function generalized(ks: Int32Array, cw: Float64Array, cv: Float64Array, kin: number, want: number): { values: Float64Array; vectors: Float64Array } | null {
+function generalized(ks: Int32Array, cw: Float64Array, cv: Float64Array, kin: number, want: number, power: 0.5 | 1): { values: Float64Array; vectors: Float64Array } | null {
   const m = ks.length;
   const H = new Float64Array(m * m);
   const Lm = new Float64Array(m * m);
@@ -277,7 +300,10 @@ function generalized(ks: Int32Array, cw: Float64Array, cv: Float64Array, kin: nu
     for (let c = 0; c <= r; c++) {
       const k = ks[r]!;
       const l = ks[c]!;
-      const h = cv[k - l]! - cv[k + l]! + (r === c ? kin * k * k : 0);
+      // Kinetic: (pi/Z)^2 k l [D(k - l) + D(k + l)] with D = moments of m^(2p-1)/2: diagonal for p = 1,
+      // the overlap's moments over two for p = 1/2 (see `coordinateDensity`).
+      const t = power === 1 ? (r === c ? kin * k * k : 0) : kin * k * l * (cw[k - l]! + cw[k + l]!);
+      const h = cv[k - l]! - cv[k + l]! + t;
       H[r * m + c] = h;
       H[c * m + r] = h;
       Lm[r * m + c] = cw[k - l]! - cw[k + l]!;
@@ -350,6 +376,10 @@ export function massTable(sol: MassSolution, profile: MassProfile, xs: Float64Ar
   const xi = xiAt(sol.map, xs);
   const m = d1 || d2 ? profile.at(xs) : null;
   const dm = d2 ? profile.slope(xs) : null;
+  const p = sol.power;
+  // zeta' = m^p and zeta'' = p m^(p-1) m'.
+  const z1 = m ? (p === 1 ? m : m.map(Math.sqrt)) : null;
+  const z2 = dm && m ? (p === 1 ? dm : dm.map((d, i) => (0.5 * d) / Math.sqrt(m[i]!))) : null;
   let kTop = 1;
   for (let j = j0; j < count; j++) kTop = Math.max(kTop, sol.terms[j]!);
   const S = new Float64Array(kTop + 1);
@@ -375,8 +405,8 @@ export function massTable(sol: MassSolution, profile: MassProfile, xs: Float64Ar
       }
       out[at] = norm * f;
       const pxi = norm * kf * g;
-      if (d1) d1[at] = inside ? m![i]! * pxi : 0;
-      if (d2) d2[at] = inside ? dm![i]! * pxi - m![i]! * m![i]! * norm * kf * kf * h : 0;
+      if (d1) d1[at] = inside ? z1![i]! * pxi : 0;
+      if (d2) d2[at] = inside ? z2![i]! * pxi - z1![i]! * z1![i]! * norm * kf * kf * h : 0;
     }
   }
 }
