@@ -94,7 +94,7 @@ export function benchSmoothMass(levels: number, reps: number): Row {
   return {
     item: 9,
     job: `smooth mass profile: ${levels} levels of a tanh-graded mass mapped to the oscillator`,
-    method: 'Galerkin in the sines of the mass coordinate (exponential convergence)',
+    method: 'Galerkin in the sines of the Liouville coordinate y = integral sqrt(m) dx (exponential)',
     size: `${levels} levels, grids ${ours.result.sizes.join(', ')}`,
     timing: ours.timing,
     accuracy: { value: err(ours.result.basis.energies), measure: 'max |E_n - (n + 1/2)|', reference: 'closed form by a change of variables (derived in the test)' },
