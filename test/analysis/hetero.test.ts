@@ -109,3 +109,16 @@ describe('V(x) with mass(x) in a file', () => {
     expect(units.diagnostics.some((x) => x.code === 'units')).toBe(true);
   });
 });
+
+describe('mass profiles in an untrusted workspace', () => {
+  it('checks the names and dimensions of barrier_mass and mass(x) without evaluating them', () => {
+    const good = analyse(`${HEAD}system V(x) = 0 meV over [0 nm, 10 nm] with mass(x) = x < 5 nm ? 0.067 m_e : 0.092 m_e\nstate gaussian(center = 5 nm, width = 1 nm)\n`, { evaluate: false });
+    expect(good.diagnostics.filter((d) => d.severity === 'error')).toEqual([]);
+    const text = `${HEAD}system V(x) = 0 meV over [0 nm, 10 nm] with mass(x) = 0.1 meV\nstate eigen(1) of well(depth = 1 meV, width = 1 nm, barrier_mass = 2 nm)\n`;
+    const bad = analyse(text, { evaluate: false });
+    const units = bad.diagnostics.filter((d) => d.code === 'units').map((d) => text.slice(d.start, d.end));
+    expect(units).toEqual(['0.1 meV', '2 nm']);
+    const syntax = analyse('system V(x) = x^2 over [-1, 1] with mas(x) = 1\nstate gaussian(center = 0, width = 0.2)\n', { evaluate: false });
+    expect(syntax.diagnostics.some((d) => d.code === 'syntax' && /mass\(x\) = \.\.\./.test(d.message))).toBe(true);
+  });
+});
