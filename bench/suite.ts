@@ -24,6 +24,7 @@ import { benchColdStart, benchLsp, bundleRows } from './processes';
 import { benchExpression } from './expressions';
 import { boxPacketReference } from './anchor';
 import { benchSweep } from './sweep';
+import { benchHeteroWell, benchMassStep, benchSmoothMass } from './hetero';
 
 export { formatReport } from './report';
 
@@ -43,7 +44,7 @@ export interface SuiteOptions {
 
 /** One measured job. */
 export interface Row {
-  /** Item number of the performance issue (1..8). */
+  /** Item number of the performance issue (1..8; 9: position-dependent mass, hetero.ts). */
   item: number;
   job: string;
   method: string;
@@ -525,6 +526,11 @@ export function runSuite(options: SuiteOptions = {}): SuiteResult {
     for (const name of tiny ? names.slice(0, 1) : names) rows.push(benchAnalyseText(`examples/${name}`, readFileSync(join(dir, name), 'utf8'), r6, '<= 20 ms', 20));
     rows.push(benchAnalyseText(`a ${tiny ? 10 : 200}-level numerical file`, numericalFile(tiny ? 10 : 200), Math.min(reps, 5), null, null));
     scaling.push(scalingAnalyse(tiny ? [5, 10] : [25, 50, 100, 200, 400], Math.min(reps, 3)));
+  });
+  step('9 mass', () => {
+    rows.push(benchHeteroWell(tiny ? 250 : 1000, fastReps));
+    rows.push(benchMassStep(tiny ? 1e-4 : 1e-6, Math.min(reps, 3)));
+    rows.push(benchSmoothMass(tiny ? 2 : 6, Math.min(reps, 3)));
   });
   step('7 lsp', () => rows.push(benchLsp(root, tiny)));
   step('8 cold start', () => {

@@ -10,8 +10,8 @@ import { SIGNATURES, type ParamKind, type Signature } from '../../server/src/lan
 
 const UNITS = 'units nm, meV, ps\n';
 /** A value of each kind in the file's units, and one of another dimension. */
-const RIGHT: Record<ParamKind, string> = { length: '1 nm', energy: '50 meV', angularFrequency: '2 / ps', frequency: '1 THz', wavenumber: '1 / nm', dimensionless: '2' };
-const WRONG: Record<ParamKind, string> = { length: '7 meV', energy: '7 nm', angularFrequency: '7 nm', frequency: '7 nm', wavenumber: '7 meV', dimensionless: '7 nm' };
+const RIGHT: Record<ParamKind, string> = { length: '1 nm', energy: '50 meV', angularFrequency: '2 / ps', frequency: '1 THz', wavenumber: '1 / nm', dimensionless: '2', mass: '0.09 m_e' };
+const WRONG: Record<ParamKind, string> = { length: '7 meV', energy: '7 nm', angularFrequency: '7 nm', frequency: '7 nm', wavenumber: '7 meV', dimensionless: '7 nm', mass: '7 nm' };
 
 /** A call of `sig` with its required parameters, one of each `oneOf` group, and `tested` set to `value`. */
 function call(sig: Signature, tested: string, value: string): string {

@@ -133,6 +133,11 @@ describe('qstate grammar', () => {
       ['over', 'keyword.other.over.qstate'],
       ['[', 'punctuation.section.brackets.begin.qstate'],
     ]);
+    check('system V(x) = 0 over [-6, 6] with mass(x) = x < 0 ? 1 : 2', [
+      ['with', 'keyword.other.with.qstate'],
+      ['mass', 'entity.name.function.mass.qstate'],
+      ['?', 'keyword.operator.ternary.qstate'],
+    ]);
   });
 
   it('scopes the state forms and functions', () => {

@@ -20,7 +20,7 @@ describe('SIGNATURES', () => {
     const table = Object.values(SIGNATURES).map((s) => [s.name, s.params.map((p) => `${p.name}:${p.kind}${p.required ? '!' : ''}${p.defaultText ? `=${p.defaultText}` : ''}`)]);
     expect(table).toEqual([
       ['box', ['left:length!', 'right:length!']],
-      ['well', ['depth:energy!', 'width:length!', 'center:length=0']],
+      ['well', ['depth:energy!', 'width:length!', 'center:length=0', 'barrier_mass:mass']],
       ['oscillator', ['omega:angularFrequency', 'frequency:frequency', 'quantum:energy', 'center:length=0']],
       ['gaussian', ['center:length!', 'width:length!', 'momentum:wavenumber=0']],
     ]);

@@ -169,6 +169,39 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
   return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
 }
 
+/**
+ * A mass that depends on x: its profile on a third, hidden axis from 0 (so its shape and the tooltip's
+ * values show without a scale of its own) and a dashed vertical line at each interface, labelled with
+ * the masses on its two sides. Nothing for a constant mass.
+ */
+function massSeries(ctx: BuildContext): { series: Option[]; axis: Option | null } {
+  const s = ctx.result.samples!;
+  const mass = s.mass;
+  if (!Array.isArray(mass) || mass.length !== s.x.length || mass.length === 0) return { series: [], axis: null };
+  const p = ctx.palette;
+  const unit = s.massUnit ? ` ${s.massUnit}` : '';
+  let top = 0;
+  for (const v of mass) if (Number.isFinite(v)) top = Math.max(top, v);
+  const side = (x: number, dir: -1 | 1): number => {
+    // The sample nearest to x on the given side.
+    let best = NaN;
+    for (let j = 0; j < s.x.length; j++) if ((s.x[j]! - x) * dir > 0 && (Number.isNaN(best) || Math.abs(s.x[j]! - x) < Math.abs(s.x[best]! - x))) best = j;
+    return Number.isNaN(best) ? NaN : mass[best]!;
+  };
+  const interfaces = (Array.isArray(s.interfaces) ? s.interfaces : []).filter((x) => Number.isFinite(x));
+  const marks = interfaces.map((x) => ({
+    xAxis: x,
+    lineStyle: { color: p.muted, width: 1, type: 'dashed' },
+    label: { show: true, position: 'insideEndTop', color: p.muted, formatter: `m ${formatNumber(side(x, -1), 3)} | ${formatNumber(side(x, 1), 3)}${unit}` },
+  }));
+  const series = line(ctx, 'mass', `m(x)${unit ? ` (${unit.trim()})` : ''}`, p.muted, pairs(s.x, Float64Array.from(mass)), {
+    yAxisIndex: 2,
+    lineStyle: { color: p.muted, width: 1, type: 'dotted' },
+    markLine: { silent: true, symbol: 'none', animation: false, data: marks },
+  });
+  return { series: [series], axis: { type: 'value', show: false, min: 0, max: top > 0 ? 1.25 * top : 1 } };
+}
+
 /** The state view's chart option and whether its two vertical axes share their zero. */
 export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean } {
   const { result, palette: p } = ctx;
@@ -176,7 +209,8 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
   const lu = result.units.length;
   const [elo, ehi] = energyWindow(result);
   const psi = psiSeries(ctx);
-  const series = [...psi.series, ...energySeries(ctx, ehi)];
+  const mass = massSeries(ctx);
+  const series = [...psi.series, ...energySeries(ctx, ehi), ...mass.series];
   const axes = stateAxes(psi.range, [elo, ehi]);
   const xr = niceAxis(x[0] ?? 0, x[x.length - 1] ?? 1, xTicks(ctx.size ?? DEFAULT_SIZE));
   const nameGap = Math.round(p.fontSize * 2.2);
@@ -194,6 +228,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     yAxis: [
       { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
       { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `E, V${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
+      ...(mass.axis ? [mass.axis] : []),
     ],
     series,
   };

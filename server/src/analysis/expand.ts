@@ -13,6 +13,7 @@ import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
 import type { Budget, StopReason } from './context';
 import { growthAt, type Singularity } from './singular';
+import { massGridEnergy } from '../physics/massEnergy';
 
 /** Options of `expandState`. */
 export interface ExpandOptions {
@@ -146,7 +147,9 @@ export function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number
     if (Number.isFinite(v)) vMin = Math.min(vMin, v);
   }
   if (!Number.isFinite(vMin)) vMin = 0;
-  return Math.sqrt(Math.max(0, 2 * basis.mass * (eMax - vMin)));
+  // A mass that depends on x: the largest one sets the shortest wavelength.
+  const mass = basis.masses ? Math.max(basis.mass, ...basis.masses(xs)) : basis.mass;
+  return Math.sqrt(Math.max(0, 2 * mass * (eMax - vMin)));
 }
 
 function quadratureFor(window: [number, number], breakpoints: number[], panels: number): Quadrature {
@@ -269,7 +272,8 @@ export function classifyBreakpoints(
   });
   const v = state.evaluate(xs, 1);
   pts.forEach((x, i) => {
-    // The change across 2h less what the slopes account for: a steep continuous state is no jump.
+    // The change across the point less what the one-sided slopes account for over 2h (trapezoid), so a
+    // kink (psi' jumping, as at an interface of two masses) in a wide window is not taken for a jump.
     const dv = Math.hypot(
       v.re[2 * i + 1]! - v.re[2 * i]! - h * (v.d1re![2 * i + 1]! + v.d1re![2 * i]!),
       v.im[2 * i + 1]! - v.im[2 * i]! - h * (v.d1im![2 * i + 1]! + v.d1im![2 * i]!),
@@ -305,6 +309,8 @@ export function parityParts(state: StateFunction, q: Quadrature, values: GridVal
  * decides divergence from jumps, kinks and wall values). Divided by the norm.
  */
 export function gridEnergy(basis: Eigenbasis, q: Quadrature, v: GridValues, norm: number): { mean: number; meanSquare: number } {
+  // A mass that depends on x (physics/massEnergy.ts).
+  if (basis.masses) return massGridEnergy(basis, q, v, norm);
   let t = 0;
   let h2 = 0;
   const m = basis.mass;

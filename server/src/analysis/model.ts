@@ -5,7 +5,7 @@
  */
 import { rejectedNames, type Arg, type ExprText, type QFile, type Span, type Statement, type StateSpec, type SystemSpec } from '../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
-import type { Complex, CompiledFunction, Dimension, Expr, Scope, UnitSystem } from '../expr/types';
+import type { Dimension, Expr, Scope, UnitSystem } from '../expr/types';
 import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../expr/sandbox';
 import { forEachNode } from '../expr/walk';
 import { checkExpression } from '../expr/check';
@@ -16,84 +16,11 @@ import { dimensionOf, type ValueKind } from './dimensions';
 import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
-import { gaussianFactors, type NarrowPeak } from './narrow';
-import { NODES_PER_SAMPLE, samplesModel, type SamplesModel } from './samples';
-import type { DataFile } from './options';
+import { gaussianFactors } from './narrow';
+import { NODES_PER_SAMPLE, samplesModel } from './samples';
 
-/** A system with its parameters evaluated (internal units). */
-export type SystemModel =
-  | { kind: 'box'; a: number; b: number; span: Span }
-  | { kind: 'well'; depth: number; width: number; center: number; span: Span }
-  | { kind: 'oscillator'; omega: number; center: number; span: Span }
-  | {
-      kind: 'potential';
-      V: CompiledFunction;
-      a: number;
-      b: number;
-      span: Span;
-      exprSpan: Span;
-      /**
-       * Identifies V: its text, the unit system and the values of the names it uses. Equal keys give
-       * equal potentials, so a solved basis can be reused (systems.ts keeps a small memo).
-       */
-      key?: string;
-      /** Which ends the file declares hard (`walls hard open`); absent: both open, truncating the line. */
-      hard?: [boolean, boolean];
-    };
-
-/** A state with its parameters evaluated or compiled. */
-export type StateModel =
-  | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean; dimension?: Dimension; peaks?: NarrowPeak[] }
-  | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
-  | { kind: 'gaussian'; center: number; width: number; momentum: number }
-  | SamplesModel;
-
-/** A checked `expect` line. */
-export type ExpectModel =
-  | { kind: 'norm' | 'energy' | 'spread'; stmt: Statement; comparison: ComparisonModel; unit?: string }
-  | { kind: 'parity'; stmt: Statement; value: 'even' | 'odd' | 'mixed' }
-  | { kind: 'weight'; stmt: Statement; from: number; to: number; comparison: ComparisonModel }
-  | { kind: 'level'; stmt: Statement; level: number; comparison: ComparisonModel }
-  | { kind: 'continuum' | 'revival'; stmt: Statement; comparison: ComparisonModel }
-  | { kind: 'mean'; stmt: Statement; observable: 'x' | 'p'; time: number; comparison: ComparisonModel };
-
-/** A comparison with its numbers in internal units. */
-export interface ComparisonModel {
-  kind: 'tolerance' | 'atLeast' | 'atMost';
-  value: number;
-  tolerance: number;
-  /** The written value, to be replaced by a quick fix. */
-  valueText: ExprText;
-}
-
-/** Everything the numerical stage needs. */
-export interface Model {
-  units: UnitSystem;
-  mass: number;
-  system: { model: SystemModel; stmt: Statement } | null;
-  state: { model: StateModel; stmt: Statement } | null;
-  basis: { value: number; stmt: Statement | null };
-  expects: ExpectModel[];
-  evolve: { to: number; steps: number; stmt: Statement } | null;
-  /** Names defined by `let`, with their values (internal units) and where they are defined. */
-  lets: Map<string, { value: Complex; dimension: Dimension; span: Span; valueSpan: Span }>;
-  /** True when no error-severity diagnostic was found. */
-  ok: boolean;
-}
-
-/** Options of `buildModel`. */
-export interface ModelOptions {
-  defaultBasis: number;
-  maxBasis: number;
-  maxEvolveSteps: number;
-  /** Longest expression and deepest bracket nesting the sandbox parses (its own defaults when absent). */
-  maxExpressionLength?: number;
-  maxNesting?: number;
-  /** The data files a front end read (`samples("PATH")`); absent, a samples state is left out silently (the quick stage). */
-  data?: ReadonlyMap<string, DataFile>;
-  /** The grid cap, which caps the rows of a data file (NODES_PER_SAMPLE nodes a row). */
-  maxGridPoints?: number;
-}
+import type { ComparisonModel, ExpectModel, Model, ModelOptions, StateModel, SystemModel } from './modelTypes';
+export type { ComparisonModel, ExpectModel, Model, ModelOptions, StateModel, SystemModel } from './modelTypes';
 
 
 /**
@@ -338,7 +265,14 @@ class ModelBuilder {
       this.error('evaluation', w.value, `The well's width must be positive, not ${fmt(width)}.`);
       return null;
     }
-    return { kind: 'well', depth, width, center, span: spec.span };
+    const bm = named.get('barrier_mass');
+    const barrierMass = bm ? this.constant(bm.value, 'mass', 'the barrier mass') : undefined;
+    if (barrierMass === null) return null;
+    if (barrierMass !== undefined && !(barrierMass > 0 && Number.isFinite(barrierMass))) {
+      this.error('evaluation', bm!.value, `The barrier mass must be positive and finite, not ${fmt(barrierMass)}.`);
+      return null;
+    }
+    return { kind: 'well', depth, width, center, span: spec.span, ...(barrierMass !== undefined ? { barrierMass } : {}) };
   }
 
   private oscillator(spec: Extract<SystemSpec, { kind: 'oscillator' }>): SystemModel | null {
@@ -378,9 +312,22 @@ class ModelBuilder {
     const c = compileFunction(e, scope);
     this.push(c.diagnostics);
     if (!c.result) return null;
-    const model: SystemModel = { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
-    if (spec.walls) model.hard = [spec.walls.left === 'hard', spec.walls.right === 'hard'];
-    return model;
+    const sys: SystemModel = { kind: 'potential', V: c.result, a, b, span: spec.span, exprSpan: spec.expr, key: potentialKey(spec.expr.text, e, scope) };
+    if (spec.walls) sys.hard = [spec.walls.left === 'hard', spec.walls.right === 'hard'];
+    return spec.mass ? this.massProfile(sys, spec.mass, scope) : sys;
+  }
+
+  /** `with mass(x) = ...`: checked as a mass in x, compiled, and made part of the potential's key. */
+  private massProfile(sys: Extract<SystemModel, { kind: 'potential' }>, src: ExprText, scope: Scope): SystemModel | null {
+    const e = this.expr(src);
+    if (!e) return null;
+    const checked = checkExpression(e, scope, dimensionOf('mass', this.units), 'the mass');
+    this.push(checked.diagnostics);
+    if (checked.dimension === null) return null;
+    const c = compileFunction(e, scope);
+    this.push(c.diagnostics);
+    if (!c.result) return null;
+    return { ...sys, massFn: c.result, massSpan: src, key: `${sys.key}|mass|${potentialKey(src.text, e, scope)}` };
   }
 
   private state(spec: StateSpec, hasSystem: boolean): StateModel | null {

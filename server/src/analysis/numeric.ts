@@ -21,6 +21,7 @@ import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
 import { resolvedCount, samplePoints } from './samplesState';
+import { massRegions, massSamples } from './massView';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -61,6 +62,8 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   const checks: CheckContext = { model, basis, stateSpan, systemStmt: sysStmt, limits: ctx.limits };
   out.push(...checkBasisFacts(built, asked, checks));
   result.system = systemFacts(basis);
+  const massFacts = massRegions(basis, model.units);
+  if (massFacts) result.system.mass = massFacts;
   if (!model.state || ctx.budget.expired()) return;
   const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
   if (!state) return;
@@ -100,7 +103,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
   if (input.samples) {
-    result.samples = samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100);
+    result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100), ...massSamples(m.basis, plotX, model.units) };
     if (model.state?.model.kind === 'samples') result.samples.data = samplePoints(model.state.model, m.norm);
   }
 }

@@ -15,6 +15,7 @@ import { fmt, plural } from './findings';
 import { continuumLevels, solverCaps, type WallEnd } from './walls';
 import { coarserBasis } from './coefficientErrors';
 import { samplesState } from './samplesState';
+import { massFindings, massProfileOf } from './massSystems';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -41,6 +42,8 @@ export interface BuiltBasis {
    * solver stopped on its first grid or the budget ran out.
    */
   coarse?: Eigenbasis;
+  /** Findings of the solve that a remembered basis must repeat (the mass profile's, massSystems.ts). */
+  findings?: EngineDiagnostic[];
 }
 
 /** Options of `buildBasis` and `buildState`. */
@@ -83,7 +86,7 @@ export function buildBasis(
     case 'box':
       return { basis: boxBasis(system.a, system.b, mass, count) };
     case 'well':
-      return { basis: wellBasis(system.depth, system.width, system.center, mass) };
+      return { basis: wellBasis(system.depth, system.width, system.center, mass, system.barrierMass === undefined ? {} : { barrierMass: system.barrierMass }) };
     case 'oscillator':
       return { basis: oscillatorBasis(system.omega, system.center, mass, count) };
     case 'potential':
@@ -99,6 +102,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     // Most recently used last.
     basisMemo.delete(memoKey);
     basisMemo.set(memoKey, hit);
+    if (hit.built.findings) out.push(...hit.built.findings);
     return declared(hit, system.hard);
   }
   const V = system.V;
@@ -130,13 +134,20 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     );
     return null;
   }
-  const solved = potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...solverCaps(options.maxGridPoints) });
+  const massProfile = massProfileOf(system, out);
+  if (massProfile === null) return null;
+  const caps = { budget: options.budget, ...solverCaps(options.maxGridPoints), ...(massProfile ? { massProfile } : {}) };
+  const solved = potentialBasis(evalV, system.a, system.b, mass, count, caps);
+  const findings: EngineDiagnostic[] = [];
+  massFindings(system, solved.notes, findings);
+  out.push(...findings);
   if (bad !== null) {
     const b = bad as { x: number; value: string };
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
     return null;
   }
   if (solved.basis.count === 0) {
+    if (solved.notes.some((n) => n.kind === 'mass')) return null;
     const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
     // The solver's notes name raw values; say them in words.
     const why = note.replace(/-Infinity/g, 'minus infinity').replace(/\bInfinity\b/g, 'infinity').replace(/\bNaN\b/g, 'not a number');
@@ -150,8 +161,9 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     points: solved.points,
     stopped,
     wallTrend: solved.wallTrend,
+    ...(findings.length > 0 ? { findings } : {}),
   };
-  const coarse = options.coarse === false ? null : coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { budget: options.budget, ...solverCaps(options.maxGridPoints), maxPoints }));
+  const coarse = options.coarse === false ? null : coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { ...caps, maxPoints }));
   if (coarse) built.coarse = coarse;
   const entry = { built, above: solved.wallLevels, ends: solved.wallEnds };
   // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.

@@ -64,6 +64,10 @@ export interface SampleResult {
   walls: [number, number] | null;
   /** A sampled state (`samples("PATH")`): its samples, normalised like `re` and `im`, for the panel to draw over the reconstruction. */
   data?: { x: number[]; re: number[]; im: number[] };
+  /** A mass that depends on x: its value on x (in `massUnit`: m_e in a physical file) and the interfaces where it jumps. */
+  mass?: number[];
+  interfaces?: number[];
+  massUnit?: string | null;
 }
 
 /** Everything known about a file after analysis. */
@@ -79,6 +83,11 @@ export interface AnalysisResult {
     uncertainties?: number[];
     boundCount?: number;
     center: number | null;
+    /**
+     * A mass that depends on x: the regions between its interfaces (null ends: the open line), with the
+     * smallest and largest mass in each, in `unit` (m_e in a physical file, null in natural units).
+     */
+    mass?: { regions: { from: number | null; to: number | null; min: number; max: number }[]; unit: string | null };
   } | null;
   levels: LevelResult[];
   /** Integral of |psi|^2 as written (file units). */

@@ -174,6 +174,7 @@ function systemSlots(spec: SystemSpec): Slot[] {
     { src: spec.from, kind: 'length', what: "the interval's left end" },
     { src: spec.to, kind: 'length', what: "the interval's right end" },
     { src: spec.expr, kind: 'energy', what: 'the potential', hasX: true },
+    ...(spec.mass ? [{ src: spec.mass, kind: 'mass' as const, what: 'the mass', hasX: true }] : []),
   ];
 }
 

@@ -28,7 +28,19 @@ export type SystemSpec =
   | { kind: 'box'; span: Span; keywordSpan: Span; args: Arg[] }
   | { kind: 'well'; span: Span; keywordSpan: Span; args: Arg[] }
   | { kind: 'oscillator'; span: Span; keywordSpan: Span; args: Arg[] }
-  | { kind: 'potential'; span: Span; keywordSpan: Span; expr: ExprText; from: ExprText; to: ExprText; walls?: WallDeclaration };
+  | {
+      kind: 'potential';
+      span: Span;
+      keywordSpan: Span;
+      expr: ExprText;
+      from: ExprText;
+      to: ExprText;
+      /** `with mass(x) = ...`: a mass that depends on x, and the span of its `mass(x)` head. */
+      mass?: ExprText;
+      massHead?: Span;
+      /** `walls LEFT RIGHT` after `over [A, B]`. */
+      walls?: WallDeclaration;
+    };
 
 /** What each end of a `V(x)` interval is: `hard` (a physical wall) or `open` (it only truncates the line). */
 export type WallKind = 'hard' | 'open';

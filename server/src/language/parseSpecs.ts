@@ -2,7 +2,7 @@
  * Readers of the parser's `state` and `system` clauses (grammar in `parser.ts`): `psi(x) = ...`,
  * `gaussian(...)`, `eigen(N) of SYSTEM`, `box/well/oscillator(...)` and `V(x) = ... over [A, B]`.
  */
-import type { Span, StateSpec, SystemSpec, WallDeclaration, WallKind } from './ast';
+import type { ExprText, Span, StateSpec, SystemSpec, WallDeclaration, WallKind } from './ast';
 import { STATE_KINDS, SYSTEM_KINDS, WALL_KINDS } from './keywords';
 import { isSpace } from './scanner';
 import { SIGNATURES } from './signatures';
@@ -99,10 +99,17 @@ export function parsePotential(ctx: Ctx, vSpan: Span, hi: number): SystemSpec | 
   if (close < 0 || m[close] !== ']') return fail(ctx, 'syntax', { start: open, end: open + 1 }, "This '[' is not closed.");
   const rest = skipSpace(m, close + 1, hi);
   let walls: WallDeclaration | undefined;
-  if (rest < hi) {
-    const declared = parseWalls(ctx, rest, hi);
+  let tail = rest;
+  if (tail < hi && m.slice(tail, identEnd(m, tail, hi)) === 'walls') {
+    const declared = parseWalls(ctx, tail, hi);
     if (declared === null) return null;
     walls = declared;
+    tail = skipSpace(m, declared.span.end, hi);
+  }
+  const withMass = tail < hi ? parseMassClause(ctx, tail, hi) : undefined;
+  if (withMass === null) return null;
+  if (tail < hi && withMass === undefined) {
+    return fail(ctx, 'syntax', { start: tail, end: hi }, "Unexpected text after 'over [A, B]'; only 'walls hard', 'walls open' or 'walls hard open' (left, right), then 'with mass(x) = ...', may follow.");
   }
   const ends = splitTop(m, open + 1, close, ',');
   const bracket: Span = { start: open, end: close + 1 };
@@ -110,29 +117,50 @@ export function parsePotential(ctx: Ctx, vSpan: Span, hi: number): SystemSpec | 
   const a = exprText(m, ends[0]![0], ends[0]![1]);
   const b = exprText(m, ends[1]![0], ends[1]![1]);
   if (a === null || b === null) return fail(ctx, 'syntax', bracket, `Expected two ends, as in 'over [-5, 5]'.`);
-  const spec: SystemSpec = { kind: 'potential', span: { start: vSpan.start, end: hi }, keywordSpan: head, expr, from: a, to: b };
+  const spec: SystemSpec = { kind: 'potential', span: { start: vSpan.start, end: hi }, keywordSpan: head, expr, from: a, to: b, ...(withMass ?? {}) };
   if (walls) spec.walls = walls;
   return spec;
 }
 
-/** `walls KIND [KIND]` after `over [A, B]`: one kind for both ends, or the left's and the right's. */
+/** `walls KIND [KIND]` after `over [A, B]`, up to a `with` clause or the end: one kind for both ends, or the left's and the right's. */
 function parseWalls(ctx: Ctx, from: number, hi: number): WallDeclaration | null {
   const { m } = ctx;
   const e = identEnd(m, from, hi);
-  if (m.slice(from, e) !== 'walls') return fail(ctx, 'syntax', { start: from, end: hi }, "Unexpected text after 'over [A, B]'; only 'walls hard', 'walls open' or 'walls hard open' (left, right) may follow.");
   const kinds: WallKind[] = [];
+  let end = e;
   let p = skipSpace(m, e, hi);
   while (p < hi) {
     const q = identEnd(m, p, hi);
     const word = m.slice(p, q);
+    if (word === 'with') break;
     if (word !== 'hard' && word !== 'open') {
       if (q === p) return fail(ctx, 'syntax', { start: p, end: hi }, "Expected 'hard' or 'open' for each wall.");
       return unknownName(ctx, { start: p, end: q }, word, WALL_KINDS, `Expected 'hard' or 'open' for each wall, not '${word}'.`, 'syntax');
     }
-    if (kinds.length === 2) return fail(ctx, 'syntax', { start: p, end: hi }, 'An interval has two walls: at most two kinds (left, right).');
+    if (kinds.length === 2) return fail(ctx, 'syntax', { start: p, end: q }, 'An interval has two walls: at most two kinds (left, right).');
     kinds.push(word);
+    end = q;
     p = skipSpace(m, q, hi);
   }
   if (kinds.length === 0) return fail(ctx, 'syntax', { start: from, end: e }, "Expected 'hard' or 'open' after 'walls', as in 'walls hard open' (left, right).");
-  return { left: kinds[0]!, right: kinds[kinds.length - 1]!, span: { start: from, end: hi } };
+  return { left: kinds[0]!, right: kinds[kinds.length - 1]!, span: { start: from, end } };
+}
+
+/**
+ * `with mass(x) = EXPR` after `over [A, B]`, starting at the `with`: undefined when the text there does
+ * not start with `with`, null after a reported error.
+ */
+function parseMassClause(ctx: Ctx, from: number, hi: number): { mass: ExprText; massHead: Span } | null | undefined {
+  const { m } = ctx;
+  const we = identEnd(m, from, hi);
+  if (m.slice(from, we) !== 'with') return undefined;
+  const p = skipSpace(m, we, hi);
+  const e = identEnd(m, p, hi);
+  const withSpan: Span = { start: from, end: we };
+  if (m.slice(p, e) !== 'mass') return unexpected(ctx, p, hi, withSpan, "Expected 'mass(x) = ...' after 'with'.");
+  const eq = expectXCall(ctx, e, hi, { start: p, end: e }, 'mass');
+  if (eq < 0) return null;
+  const mass = exprText(m, eq + 1, hi);
+  if (mass === null) return fail(ctx, 'syntax', { start: eq, end: eq + 1 }, "Expected the mass after 'mass(x) ='.");
+  return { mass, massHead: { start: p, end: lastBefore(m, eq) } };
 }

@@ -9,7 +9,7 @@ import { diagnostic, type EngineDiagnostic } from './catalogue';
 import { suggest } from './suggest';
 
 /** The physical kind of a parameter's value (what the unit checker expects in physical mode; a kind of analysis/dimensions.ts). */
-export type ParamKind = 'length' | 'energy' | 'angularFrequency' | 'frequency' | 'wavenumber' | 'dimensionless';
+export type ParamKind = 'length' | 'energy' | 'angularFrequency' | 'frequency' | 'wavenumber' | 'dimensionless' | 'mass';
 
 /** One parameter of a constructor. */
 export interface ParamSpec {
@@ -63,6 +63,13 @@ export const SIGNATURES: Readonly<Record<ConstructorName, Signature>> = {
       { name: 'depth', required: true, kind: 'energy', what: "the well's depth", doc: 'Height D of the potential outside the well (V = 0 inside, D outside).' },
       { name: 'width', required: true, kind: 'length', what: "the well's width", doc: 'Full width W of the region where the potential is zero.' },
       { name: 'center', required: false, kind: 'length', what: "the well's centre", defaultText: '0', doc: 'Position of the middle of the well.' },
+      {
+        name: 'barrier_mass',
+        required: false,
+        kind: 'mass',
+        what: 'the barrier mass',
+        doc: "The particle's mass outside the well (the file's mass holds inside); psi and psi'/m are continuous at the edges.",
+      },
     ],
     oneOf: [],
     doc: 'Finite square well; levels n = 1 up to the number of bound states.',

@@ -64,6 +64,7 @@ function systemHover(view: DocView): string[] {
   const lines = [`**system** ${s.kind}`, ''];
   if (s.boundCount !== undefined) lines.push(`${s.boundCount} bound state${s.boundCount === 1 ? '' : 's'}  `);
   if (s.center !== null) lines.push(`centre ${fmt(s.center)}${withUnit(r.units.length)}  `);
+  lines.push(...massLines(s.mass, r.units.length));
   const shown = s.energies.slice(0, SYSTEM_LEVELS);
   const q = oscillatorQuantum(s);
   if (q !== null) lines.push(`quantum ħω = ${fmt(q)}${e}  `);
@@ -75,6 +76,18 @@ function systemHover(view: DocView): string[] {
     });
   }
   return lines;
+}
+
+/** Which mass holds where, one line per region between the mass's interfaces. */
+function massLines(mass: NonNullable<AnalysisResult['system']>['mass'], lengthUnit: string | null): string[] {
+  if (!mass) return [];
+  const u = withUnit(lengthUnit);
+  const mu = withUnit(mass.unit);
+  return mass.regions.map((g) => {
+    const where = g.from === null && g.to === null ? 'everywhere' : g.from === null ? `x < ${fmt(g.to!)}${u}` : g.to === null ? `x > ${fmt(g.from)}${u}` : `${fmt(g.from)} < x < ${fmt(g.to)}${u}`;
+    const value = g.min === g.max || Math.abs(g.max - g.min) <= 1e-12 * g.max ? fmt(g.min) : `${fmt(g.min)} to ${fmt(g.max)}`;
+    return `mass ${value}${mu} for ${where}  `;
+  });
 }
 
 function comparisonText(c: Comparison): string {

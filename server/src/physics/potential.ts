@@ -7,6 +7,7 @@ import { unlimitedBudget, type Budget, type StopReason } from './budget';
 import { firstGridSize, scanPotential, evalV } from './potentialScan';
 import { JUMP_ORDER, levelScale, refine, roundingFloor } from './potentialRefine';
 import { emptyBasis, fixSigns, makeBasis } from './potentialView';
+import { fixMassSigns, massBasis, massSetup, type MassProfile, type MassSolution } from './massProfile';
 
 /** A vectorised potential: V at every x of the array, in internal units. */
 export type PotentialFn = (xs: Float64Array) => Float64Array;
@@ -41,6 +42,12 @@ export interface PotentialOptions {
    * depend on the clock: they follow from V, the levels and the options alone.
    */
   budget?: Budget;
+  /**
+   * A mass that depends on x (default none: the constant `mass`). The kinetic operator is then
+   * -(1/2) d/dx (1/m(x)) d/dx, solved in the sines of the mass coordinate (massProfile.ts); the basis has
+   * `masses`, and `mass` stays the file's default.
+   */
+  massProfile?: MassProfile;
 }
 
 /** What V does towards a wall (see `PotentialBasisResult.wallTrend`). */
@@ -52,9 +59,10 @@ export interface PotentialNote {
    * `evaluation`: V gave NaN, -Infinity or the wrong length (no basis built); `input`: bad a, b, mass or
    * levels; `cap`: the grid cap stopped refinement short; `clamped`: +Infinity values were replaced by a
    * wall far above the spectrum; `walls`: levels lie above V at both ends (wall-quantised continuum);
-   * `jumps`: V jumps, so convergence is algebraic.
+   * `jumps`: V jumps, so convergence is algebraic; `mass`: the mass profile is bad or not resolved
+   * (massProfile.ts).
    */
-  kind: 'evaluation' | 'input' | 'cap' | 'clamped' | 'walls' | 'jumps';
+  kind: 'evaluation' | 'input' | 'cap' | 'clamped' | 'walls' | 'jumps' | 'mass';
   message: string;
   /** A position the note is about (first bad x, first jump), if any. */
   at?: number;
@@ -167,8 +175,10 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   const K = Math.floor(levels);
   if (!(K >= 1)) return fail({ kind: 'input', message: 'At least one level must be asked for.' });
   const L = b - a;
-  const scan = scanPotential(V, a, b, o.samples, o.symmetryTolerance);
+  let scan = scanPotential(V, a, b, o.samples, o.symmetryTolerance);
   if ('kind' in scan) return fail(scan);
+  const mp = options.massProfile ? massSetup(options.massProfile, a, b, scan, o.samples, o.symmetryTolerance) : null;
+  if (mp && 'kind' in mp) return fail(mp);
   const { cap, capWhy } = gridCap(o.maxPoints, o.maxWork, scan.symmetric);
   const notes: PotentialNote[] = [];
   if (scan.jumps.length > 0) {
@@ -178,8 +188,13 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
       at: scan.jumps[0].x,
     });
   }
-  const N0 = firstGridSize(scan, L, mass, K, o, cap);
-  const r = refine({ V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy }, N0);
+  if (mp) {
+    notes.push(...mp.notes);
+    scan = mp.scan;
+  }
+  const N0 = mp ? mp.firstSize(K, o, cap) : firstGridSize(scan, L, mass, K, o, cap);
+  const solve = mp ? { solve: (N: number, wall: number) => mp.solve(N, wall, K, V, budget) } : {};
+  const r = refine({ V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy, ...solve }, N0);
   if (!r.sol) return fail({ kind: 'evaluation', message: BAD_GRID });
   const sol = r.sol;
   const count = sol.energies.length;
@@ -206,11 +221,16 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   }
   if (scan.clamped) notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
   // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum.
-  fixSigns(sol);
+  if (mp) notes.push(...mp.check(sol as MassSolution));
+  if (mp) fixMassSigns(sol as MassSolution, options.massProfile!);
+  else fixSigns(sol);
   const walls = wallClassification(V, a, b, sol.energies);
   if (walls.note) notes.push(walls.note);
   const wallTrend = { left: trendTowards(scan.sv, 0, scan.vscale), right: trendTowards(scan.sv, scan.sv.length - 1, scan.vscale) };
-  const basis = makeBasis(sol, a, b, mass, V, scan.symmetric ? 0.5 * (a + b) : null, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
+  const center = scan.symmetric ? 0.5 * (a + b) : null;
+  const basis = mp
+    ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
+    : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   return { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
 }
 

@@ -27,6 +27,8 @@ export interface RefineSetup {
   /** Largest grid allowed (grid cap and work cap), and the words for it. */
   cap: number;
   capWhy: string;
+  /** A solve of N intervals that replaces the sine DVR and Galerkin ones (a position-dependent mass, massProfile.ts). */
+  solve?: (N: number, wall: number) => SineDvrSolution | null;
   /** The last solve's cost on the budget's clock and in counted work (set by `solveAt`; see `wouldOverrun`). */
   lastSolve?: { ms: number; work: number };
 }
@@ -103,6 +105,7 @@ function solveOnce(s: RefineSetup, N: number): SineDvrSolution | null {
   const { a, b, mass, scan } = s;
   const L = b - a;
   const wall = Math.max(scan.vmaxFinite, scan.vmin + (4 * (Math.PI * N) ** 2) / (2 * mass * L * L));
+  if (s.solve) return s.solve(N, wall);
   if (scan.jumps.length > 0) return jumpSolve(s, N, wall);
   const vv = clampedV(s, sineDvrGrid(a, b, N), wall);
   if (!vv) return null;

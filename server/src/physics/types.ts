@@ -14,8 +14,15 @@ export interface Eigenbasis {
   energies: Float64Array;
   /** Estimated absolute error of each energy (numerical systems only). */
   uncertainty?: Float64Array;
-  /** The particle mass (internal units). */
+  /** The particle mass (internal units); where it depends on x, the one inside the well or the file's default. */
   mass: number;
+  /**
+   * Present only when the mass depends on the position (a heterostructure): the mass at every x of xs
+   * (internal units). The kinetic energy is then integral |psi'|^2 / (2 m(x)) dx.
+   */
+  masses?(xs: Float64Array): Float64Array;
+  /** With `masses`: the points where the mass jumps (interfaces), ascending; each is also in `breakpoints`. */
+  massJumps?: number[];
   /** Centre of symmetry of the potential, or null when it has none. */
   center: number | null;
   /** Hard walls (box, potential), or null on the whole line. */
