@@ -180,6 +180,10 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   }
   const N0 = firstGridSize(scan, L, mass, K, o, cap);
   const r = refine({ V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy }, N0);
+  if (!r.sol && r.expired) {
+    // The budget ran out inside the first solve: no levels, and why, as data.
+    return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired };
+  }
   if (!r.sol) return fail({ kind: 'evaluation', message: BAD_GRID });
   const sol = r.sol;
   const count = sol.energies.length;
@@ -206,7 +210,7 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   }
   if (scan.clamped) notes.push({ kind: 'clamped', message: 'The potential is +Infinity in places; those points act as walls.' });
   // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum.
-  fixSigns(sol);
+  fixSigns(sol, budget);
   const walls = wallClassification(V, a, b, sol.energies);
   if (walls.note) notes.push(walls.note);
   const wallTrend = { left: trendTowards(scan.sv, 0, scan.vscale), right: trendTowards(scan.sv, scan.sv.length - 1, scan.vscale) };
