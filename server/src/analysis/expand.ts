@@ -245,7 +245,9 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   if (fast) panels = 32;
   const budget = options.budget;
   let prev: Expanded | null = null;
+  const timed = Number.isFinite(budget.limitMs);
   for (;;) {
+    const t0 = timed ? budget.clock.now() : 0;
     const q = quadratureFor(window, breakpoints, panels);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
@@ -257,6 +259,10 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
     if (prev && agree(prev, cur, levels)) return cur;
     if (panels * 2 > maxPanels) return { ...cur, stopped: (prev !== null || (fast === null && wanted > maxPanels)) ? 'cap' : null };
     if (budget.expired()) return { ...cur, stopped: budget.reason };
+    // The next grid has twice the nodes, so about twice this one's work: when that would end past the
+    // deadline it is not started (the result then says 'time'); a result not stopped has the same grids
+    // on any machine.
+    if (timed && 2 * (budget.clock.now() - t0) > budget.remaining()) return { ...cur, stopped: 'time' };
     prev = cur;
     panels *= 2;
   }
