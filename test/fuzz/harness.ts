@@ -87,6 +87,12 @@ export interface FuzzOptions {
   maxFailures?: number;
   /** Limits of the whole-analysis cases (default `FUZZ_LIMITS`). */
   limits?: AnalyseOptions['limits'];
+  /**
+   * A fresh clock for each whole-analysis case (default: the machine's). A clock of counted work
+   * (`workClock`) makes a run the same on any machine, and each case is held to `REPLAY_OVERSHOOT_MS`
+   * past its limit (see `checkCase`).
+   */
+  clock?: () => Clock;
   /** Shares of the kinds of case, out of 100 (default: 20 parse, 20 static, 47 analyse, 5 + 5 command line, 3 trees). */
   shares?: [CaseKind, number][];
   /**
@@ -587,7 +593,7 @@ export function runFuzz(options: FuzzOptions): FuzzReport {
     cases.forEach((c, i) => {
       if (report.failures.length >= maxFailures) return;
       options.beforeCase?.(c, i);
-      const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS);
+      const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS, c.kind === 'analyse' ? options.clock?.() : undefined);
       report.times.push(ms);
       report.cases++;
       report.byKind[c.kind]++;

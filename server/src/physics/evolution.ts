@@ -228,11 +228,13 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   const a = { re: new Float64Array(K), im: new Float64Array(K) };
   let wK = 0;
   for (let k = 0; k < K; k++) wK += cRe[k] * cRe[k] + cIm[k] * cIm[k];
+  const sp = sparseForms(me, K);
+  const formOps = sp ? 4 * sp.col.length : 4 * K * K;
   for (let it = 0; it < nt; it++) {
     if (budget.expired()) return cut(it);
-    budget.count(4 * K * K + TRIG_OPS * n + (xs ? 2 * K * xs.length : 0));
+    budget.count(formOps + TRIG_OPS * n + (xs ? 2 * K * xs.length : 0));
     survival[it] = phasesAt(basis.energies, cRe, cIm, n, times[it], a) / (total * total);
-    const m = quadraticForms(me, a.re, a.im);
+    const m = sp ? sparseQuadraticForms(sp, a.re, a.im) : quadraticForms(me, a.re, a.im);
     meanX[it] = m.x / wK;
     meanP[it] = m.p / wK;
     if (xs && table && result.density) result.density.push(densityAt(table, a.re, a.im, xs.length, wK));
@@ -261,6 +263,68 @@ function phasesAt(E: Float64Array, cRe: Float64Array, cIm: Float64Array, n: numb
     }
   }
   return sr * sr + si * si;
+}
+
+/**
+ * X and D in compressed rows (the entries where either is nonzero), when at most half of the K^2
+ * entries are: X and D of the oscillator are tridiagonal (ladder operators) and those of a box or any
+ * symmetric system vanish between levels of equal parity, so the quadratic forms of every time cost
+ * 4 nnz instead of 4 K^2. Null when the matrices are dense.
+ */
+interface SparseForms {
+  start: Int32Array;
+  col: Int32Array;
+  x: Float64Array;
+  d: Float64Array;
+}
+
+function sparseForms(me: MatrixElements, K: number): SparseForms | null {
+  let nnz = 0;
+  for (let i = 0; i < K * K; i++) if (me.x[i] !== 0 || me.d[i] !== 0) nnz++;
+  if (nnz > (K * K) / 2) return null;
+  const start = new Int32Array(K + 1);
+  const col = new Int32Array(nnz);
+  const x = new Float64Array(nnz);
+  const d = new Float64Array(nnz);
+  let at = 0;
+  for (let j = 0; j < K; j++) {
+    start[j] = at;
+    for (let k = 0; k < K; k++) {
+      const i = j * K + k;
+      if (me.x[i] === 0 && me.d[i] === 0) continue;
+      col[at] = k;
+      x[at] = me.x[i];
+      d[at] = me.d[i];
+      at++;
+    }
+  }
+  start[K] = at;
+  return { start, col, x, d };
+}
+
+/** The quadratic forms of `quadraticForms` over compressed rows. */
+function sparseQuadraticForms(sp: SparseForms, ar: Float64Array, ai: Float64Array): { x: number; p: number } {
+  const K = ar.length;
+  let mx = 0;
+  let mp = 0;
+  for (let j = 0; j < K; j++) {
+    let xr = 0;
+    let xi = 0;
+    let dr = 0;
+    let di = 0;
+    for (let e = sp.start[j]; e < sp.start[j + 1]; e++) {
+      const k = sp.col[e];
+      const X = sp.x[e];
+      const D = sp.d[e];
+      xr += X * ar[k];
+      xi += X * ai[k];
+      dr += D * ar[k];
+      di += D * ai[k];
+    }
+    mx += ar[j] * xr + ai[j] * xi;
+    mp += ar[j] * di - ai[j] * dr;
+  }
+  return { x: mx, p: mp };
 }
 
 /** <x> W = ar.X ar + ai.X ai and <p> W = ar.D ai - ai.D ar (X symmetric, D antisymmetric). */
