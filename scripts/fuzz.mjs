@@ -8,7 +8,9 @@
 // spawned `dist/cli.js` runs. The harness (test/fuzz/harness.ts) is bundled with esbuild to a temporary
 // file and run in child processes; each child writes the case it is on to a file first, so a case that
 // hangs is caught by the watchdog here and saved like any other failure. Failing cases are saved to
-// test/fixtures/fuzz/ as JSON, and test/fuzz/fuzz.test.ts replays them on every test run.
+// test/fixtures/fuzz/ as JSON, and test/fuzz/fuzz.test.ts replays them on every test run (a case saved for
+// its time, "took N ms", replays as a whole analysis on a clock of counted work under a 30 ms limit: cheap,
+// the same on any machine, and it must stop within a small overshoot of that limit).
 import { build } from 'esbuild';
 import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';

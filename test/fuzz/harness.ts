@@ -28,6 +28,7 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { analyse, analyseStatic, type AnalyseOptions } from '../../server/src/analysis/index';
+import type { Clock } from '../../server/src/physics/budget';
 import type { AnalysisResult } from '../../server/src/analysis/types';
 import { CATALOGUE, type EngineDiagnostic } from '../../server/src/language/catalogue';
 import { parse } from '../../server/src/language/parser';
@@ -86,6 +87,12 @@ export interface FuzzOptions {
   maxFailures?: number;
   /** Limits of the whole-analysis cases (default `FUZZ_LIMITS`). */
   limits?: AnalyseOptions['limits'];
+  /**
+   * A fresh clock for each whole-analysis case (default: the machine's). A clock of counted work
+   * (`workClock`) makes a run the same on any machine, and each case is held to `REPLAY_OVERSHOOT_MS`
+   * past its limit (see `checkCase`).
+   */
+  clock?: () => Clock;
   /** Shares of the kinds of case, out of 100 (default: 20 parse, 20 static, 47 analyse, 5 + 5 command line, 3 trees). */
   shares?: [CaseKind, number][];
   /**
@@ -385,8 +392,28 @@ export function cleanUp(): void {
 /** Whole analyses run under a time limit below the case budget: the engine must stop itself in time. */
 export const FUZZ_LIMITS: NonNullable<AnalyseOptions['limits']> = { maxMillis: 1500 };
 
-/** Runs one case and returns the promises it broke (an empty list when it kept them all) and its time. */
-export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['limits'] = FUZZ_LIMITS): { problems: string[]; ms: number } {
+/**
+ * Replays of saved time overruns run on a clock of counted work (`workClock`: a machine doing one counted
+ * operation per nanosecond, about this engine's speed) under a 30 ms limit, so each costs tens of
+ * milliseconds and never depends on the machine. The promise checked: the analysis stops within
+ * `REPLAY_OVERSHOOT_MS` of counted work past its limit (one poll of the budget, 2^20 operations, plus the
+ * largest single charge, a Householder column of the largest grid, 4 x 2290^2 operations), and reports it.
+ */
+export const REPLAY_MS_PER_OP = 1e-6;
+export const REPLAY_LIMITS: NonNullable<AnalyseOptions['limits']> = { maxMillis: 30 };
+export const REPLAY_OVERSHOOT_MS = 25;
+
+/** True for a saved case that failed by time (took longer than its budget, or hung). */
+export function isTimeCase(c: FuzzCase & { problems?: string[] }): boolean {
+  return (c.problems ?? []).some((p) => /^took \d+ ms|^hung/.test(p));
+}
+
+/**
+ * Runs one case and returns the promises it broke (an empty list when it kept them all) and its time.
+ * With `clock` (whole analyses only), the analysis runs on it and must end within `REPLAY_OVERSHOOT_MS`
+ * of the clock past its limit, with a limits finding when it went past.
+ */
+export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['limits'] = FUZZ_LIMITS, clock?: Clock): { problems: string[]; ms: number } {
   const problems: string[] = [];
   const n = c.text.length;
   const started = performance.now();
@@ -404,7 +431,10 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
         break;
       }
       case 'analyse': {
-        const r = analyse(c.text, { samples: c.samples ?? false, limits });
+        const r = analyse(c.text, { samples: c.samples ?? false, limits, clock });
+        const limit = limits?.maxMillis ?? Infinity;
+        if (clock && r.elapsedMs !== undefined && r.elapsedMs > limit + REPLAY_OVERSHOOT_MS) problems.push(`ran ${r.elapsedMs.toFixed(0)} ms of counted work under a limit of ${limit} ms`);
+        if (clock && r.elapsedMs !== undefined && r.elapsedMs > limit && !r.diagnostics.some((d) => d.code === 'limits')) problems.push('went past the time limit without a limits finding');
         for (const d of r.diagnostics) problems.push(...diagnosticProblems(d, n));
         problems.push(...resultProblems(r));
         if (c.samples && r.samples) {
@@ -563,7 +593,7 @@ export function runFuzz(options: FuzzOptions): FuzzReport {
     cases.forEach((c, i) => {
       if (report.failures.length >= maxFailures) return;
       options.beforeCase?.(c, i);
-      const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS);
+      const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS, c.kind === 'analyse' ? options.clock?.() : undefined);
       report.times.push(ms);
       report.cases++;
       report.byKind[c.kind]++;

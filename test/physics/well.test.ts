@@ -116,6 +116,22 @@ describe('wellBasis eigenfunctions', () => {
     }
   });
 
+  it('keeps full precision in very deep wells (z0 = 1e6 to 1e15): orthonormal, levels n^2 pi^2 / (8 a^2 (1 + 1/z0)^2)', () => {
+    // A deep well's low levels sit within 1/z0 of the angle pi/2, where the old angle form kept only
+    // eps z0 of relative precision (z0 = 1e9: levels 2e-7 from orthogonal, a captured weight above 1).
+    for (const z0 of [1e6, 1e9, 1e15]) {
+      const w = wellBasis((z0 * z0) / 2, 2, 0, 1, { maxLevels: 12 });
+      const q = compositeGaussLegendre(-1.001, 1.001, { breakpoints: w.breakpoints, panels: 60, order: 30 });
+      expect(basisOrthonormalityError(w, q, w.count)).toBeLessThan(1e-12);
+      // Derived in this comment: with w = pi/2 - u the phase equation reads z0 sin w = n pi/2 - w, so
+      // w = (n pi/2)/(z0 + 1) + O(n^3 / z0^3) and z_n = z0 sin w = (n pi/2) z0/(z0 + 1) + O(n^3/z0^2).
+      for (let i = 0; i < w.count; i++) {
+        const z = ((i + 1) * Math.PI) / 2 * (z0 / (z0 + 1));
+        expect(Math.abs(w.energies[i] / ((z * z) / 2) - 1)).toBeLessThan(1e-13);
+      }
+    }
+  });
+
   it('is continuous in value and slope at both edges and positive in the left tail', () => {
     const c = 0.7;
     const w = wellOf(13.3, c);

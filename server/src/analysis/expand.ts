@@ -7,6 +7,7 @@ import type { Eigenbasis, Quadrature } from '../physics/types';
 import type { GridValues } from '../expr/types';
 import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
+import { Stopped } from '../physics/budget';
 import { boxCoefficientsFromSamples } from '../physics/dst';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
@@ -46,6 +47,14 @@ const ORDER = 20;
  * 90 ns an entry). A fixed size, so results never depend on the clock.
  */
 const CHUNK_ENTRIES = 1 << 18;
+
+/**
+ * Counted operations per entry of a table projection (one level at one node): the table's recurrence or
+ * closed form and the weighted sum (measured about 30-110 ns an entry for Hermite functions and 10-20 ns
+ * for the well, against about 1 ns per counted operation of the eigen-solver), so the counted work tracks
+ * the time the projection takes.
+ */
+const TABLE_ENTRY_OPS = 32;
 
 /** From this many box levels on, coefficients come from the sine transform. */
 const DST_LEVELS = 256;
@@ -162,6 +171,17 @@ function quadratureFor(window: [number, number], breakpoints: number[], panels: 
  */
 function projectWithin(basis: Eigenbasis, q: Quadrature, values: GridValues, levels: number, budget: Budget): { re: Float64Array; im: Float64Array } | null {
   const n = q.x.length;
+  if (basis.weightedSums) {
+    // Fused sums in one call (a sine series combines its sums with each level once, so chunks would
+    // repeat that), charged on the budget node by node: it stops within a poll of the deadline.
+    if (budget.expired()) return null;
+    try {
+      return project(basis, q, values.re, values.im, levels, { budget });
+    } catch (err) {
+      if (err instanceof Stopped) return null;
+      throw err;
+    }
+  }
   const chunk = Math.max(64, Math.floor(CHUNK_ENTRIES / Math.max(1, levels)));
   const re = new Float64Array(levels);
   const im = new Float64Array(levels);
@@ -174,7 +194,7 @@ function projectWithin(basis: Eigenbasis, q: Quadrature, values: GridValues, lev
       re[k]! += c.re[k]!;
       im[k]! += c.im[k]!;
     }
-    budget.count(levels * (end - start), 0);
+    budget.count(TABLE_ENTRY_OPS * levels * (end - start), 0);
   }
   return { re, im };
 }
@@ -228,7 +248,9 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   if (fast) panels = 32;
   const budget = options.budget;
   let prev: Expanded | null = null;
+  const timed = Number.isFinite(budget.limitMs);
   for (;;) {
+    const t0 = timed ? budget.clock.now() : 0;
     const q = quadratureFor(window, breakpoints, panels);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
@@ -240,6 +262,10 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
     if (prev && agree(prev, cur, levels)) return cur;
     if (panels * 2 > maxPanels) return { ...cur, stopped: (prev !== null || (fast === null && wanted > maxPanels)) ? 'cap' : null };
     if (budget.expired()) return { ...cur, stopped: budget.reason };
+    // The next grid has twice the nodes, so about twice this one's work: when that would end past the
+    // deadline it is not started (the result then says 'time'); a result not stopped has the same grids
+    // on any machine.
+    if (timed && 2 * (budget.clock.now() - t0) > budget.remaining()) return { ...cur, stopped: 'time' };
     prev = cur;
     panels *= 2;
   }

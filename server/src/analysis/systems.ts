@@ -146,6 +146,8 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
     return null;
   }
+  // Stopped inside the first solve: the analysis reports the time limit (index.ts), not a bad potential.
+  if (solved.basis.count === 0 && (solved.stopped === 'time' || solved.stopped === 'cancelled')) return null;
   if (solved.basis.count === 0) {
     if (solved.notes.some((n) => n.kind === 'mass')) return null;
     const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';

@@ -3,6 +3,7 @@
  */
 import { sineLadder } from './sines';
 import type { Eigenbasis } from './types';
+import { charge } from './budget';
 
 /**
  * The energy eigenbasis of the infinite square well on [a, b] for a particle of mass `mass`
@@ -66,10 +67,12 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
         }
       }
     },
-    weightedSums(xs, wRe, wIm, levels, outRe, outIm) {
+    weightedSums(xs, wRe, wIm, levels, outRe, outIm, budget) {
       // The same rotation as `table`, accumulated straight into the sums: no table is written or read.
       const lv = Math.min(levels, n);
       for (let j = 0; j < xs.length; j++) {
+        // The ladder's rotation and the two sums: about 8 flops a level.
+        charge(budget, 8 * lv);
         const x = xs[j];
         if (!(x >= a && x <= b)) continue;
         sineLadder((Math.PI * (x - a)) / L, lv, S, C);

@@ -18,6 +18,7 @@
  */
 import { sineLadder } from './sines';
 import { symmetricLowest } from './tridiag';
+import { charge, type Budget } from './budget';
 
 /** The interior grid of the sine DVR with N intervals on [a, b]: x_i = a + i (b - a)/N, i = 1..N-1. */
 export function sineDvrGrid(a: number, b: number, intervals: number): Float64Array {
@@ -79,6 +80,12 @@ export interface SineDvrOptions {
   moments?: Float64Array;
   /** With `moments`: the largest |V| they were integrated from (for `normBound`; default: max |v|). */
   potentialBound?: number;
+  /**
+   * Charged with the solve's flops as it goes (the moments, the matrix, every stage of the eigen-solver);
+   * once it runs out the solve throws `Stopped` (budget.ts), for the caller to turn into a stop reason.
+   * Default none.
+   */
+  budget?: Budget;
 }
 
 /**
@@ -100,6 +107,8 @@ export function sineDvrSolve(
   const N = n + 1;
   const L = b - a;
   const want = Math.max(0, Math.min(levels, n));
+  const budget = options.budget;
+  if (!options.moments) charge(budget, 2 * N * N);
   const C = options.moments ?? dvrMoments(v, a, L, options.jumps ?? []);
   const kin = (Math.PI * Math.PI) / (2 * mass * L * L);
   const blocks = parityBlocks(n, want, options.symmetric === true);
@@ -108,8 +117,9 @@ export function sineDvrSolve(
   blocks.forEach((blk, bi) => {
     const m = blk.ks.length;
     if (m === 0 || blk.want === 0) return;
+    charge(budget, m * m);
     const H = blockMatrix(blk.ks, C, kin, slopes ? { slopes, f: wallFactor(L, N) } : null);
-    const eig = symmetricLowest(H, m, blk.want);
+    const eig = symmetricLowest(H, m, blk.want, budget);
     for (let j = 0; j < eig.values.length; j++) {
       found.push({ e: eig.values[j], block: bi, vec: eig.vectors.slice(j * m, (j + 1) * m) });
     }
@@ -311,6 +321,7 @@ export function sineSeriesTable(
  * sum_i w_i phi_j(x_i) = sqrt(2/L) sum_k c_jk S_k (the order of the two sums exchanged). Adds the result
  * for wRe to outRe[j] and for wIm (when given) to outIm[j], j < levels. The cost is
  * (points + levels) x terms instead of points x levels x terms. sin(k theta) as in {@link sineSeriesTable}.
+ * With a budget, charged point by point (and throws `Stopped` once it runs out).
  */
 export function sineSeriesWeightedSums(
   sol: SineDvrSolution,
@@ -320,6 +331,7 @@ export function sineSeriesWeightedSums(
   levels: number,
   outRe: Float64Array,
   outIm: Float64Array,
+  budget?: Budget,
 ): void {
   const n = sol.intervals - 1;
   const L = sol.b - sol.a;
@@ -335,6 +347,8 @@ export function sineSeriesWeightedSums(
   for (let i = 0; i < xs.length; i++) {
     const x = xs[i];
     if (!(x >= sol.a && x <= sol.b)) continue;
+    // The ladder's rotation and the two sums: about 8 flops a term.
+    charge(budget, 8 * kTop);
     sineLadder(kf * (x - sol.a), kTop, ladS, ladC);
     const wr = wRe[i];
     const wi = wIm ? wIm[i] : 0;
@@ -347,6 +361,7 @@ export function sineSeriesWeightedSums(
   for (let j = 0; j < count; j++) {
     const off = j * n - 1;
     const top = sol.terms ? sol.terms[j] : n;
+    charge(budget, top);
     let fr = 0;
     let fi = 0;
     for (let k = 1; k <= top; k++) {
@@ -366,8 +381,9 @@ export function sineSeriesWeightedSums(
  * <s_p|x|s_q> = -8 p q L / (pi^2 (p^2 - q^2)^2) and <s_p|d/dx|s_q> = 4 p q / (L (p^2 - q^2)); both vanish
  * for p != q with p + q even (elementary integrals of u sin sin and sin cos on [0, 1]; derived).
  * Then X = C x C^T and D = C d C^T with C the levels' coefficients. Returns row-major K x K arrays.
+ * With a budget, charged per row (and throws `Stopped` once it runs out).
  */
-export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number): { x: Float64Array; d: Float64Array } {
+export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number, budget?: Budget): { x: Float64Array; d: Float64Array } {
   const n = sol.intervals - 1;
   const L = sol.b - sol.a;
   const K = Math.max(0, Math.min(levels, sol.energies.length));
@@ -383,6 +399,7 @@ export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number): 
   const cx = (-8 * L) / (Math.PI * Math.PI);
   const cd = 4 / L;
   for (let j = 0; j < K; j++) {
+    charge(budget, 2 * top * top);
     const off = j * n - 1;
     for (let q = 1; q <= top; q++) {
       let sx = diag * sol.coefficients[off + q];
@@ -401,6 +418,7 @@ export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number): 
     }
   }
   for (let j = 0; j < K; j++) {
+    charge(budget, 4 * K * top);
     for (let k = 0; k < K; k++) {
       const off = k * n - 1;
       let sx = 0;

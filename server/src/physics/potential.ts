@@ -195,6 +195,10 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   const N0 = mp ? mp.firstSize(K, o, cap) : firstGridSize(scan, L, mass, K, o, cap);
   const solve = mp ? { solve: (N: number, wall: number) => mp.solve(N, wall, K, V, budget) } : {};
   const r = refine({ V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy, ...solve }, N0);
+  if (!r.sol && r.expired) {
+    // The budget ran out inside the first solve: no levels, and why, as data.
+    return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired };
+  }
   if (!r.sol) return fail({ kind: 'evaluation', message: BAD_GRID });
   const sol = r.sol;
   const count = sol.energies.length;
@@ -223,7 +227,7 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   // Sign convention: positive at the first grid point where |phi| exceeds 1e-6 of its maximum.
   if (mp) notes.push(...mp.check(sol as MassSolution));
   if (mp) fixMassSigns(sol as MassSolution, options.massProfile!);
-  else fixSigns(sol);
+  else fixSigns(sol, budget);
   const walls = wallClassification(V, a, b, sol.energies);
   if (walls.note) notes.push(walls.note);
   const wallTrend = { left: trendTowards(scan.sv, 0, scan.vscale), right: trendTowards(scan.sv, scan.sv.length - 1, scan.vscale) };

@@ -5,7 +5,7 @@
  * solve the budget is asked whether it has run out or would run out during that solve (its work at the
  * last solve's measured rate); only then does the climb stop early, and `stopped` says 'time'.
  */
-import type { Budget, StopReason } from './budget';
+import { charge, Stopped, type Budget, type StopReason } from './budget';
 import type { PotentialFn } from './potential';
 import { evalV, type PotentialScan } from './potentialScan';
 import { sineDvrGrid, sineDvrSolve, sineDvrWork, type SineDvrSolution } from './dvr';
@@ -31,6 +31,8 @@ export interface RefineSetup {
   solve?: (N: number, wall: number) => SineDvrSolution | null;
   /** The last solve's cost on the budget's clock and in counted work (set by `solveAt`; see `wouldOverrun`). */
   lastSolve?: { ms: number; work: number };
+  /** Set by `solveAt` when the budget ran out inside a solve (which then returns null). */
+  stoppedBy?: StopReason;
 }
 
 /** The outcome of `refine`. */
@@ -71,12 +73,20 @@ function clampedV(s: RefineSetup, xs: Float64Array, wall: number): Float64Array 
  * One solve with N intervals: the sine DVR for a smooth V; for a V with jumps, a Galerkin solve in the
  * same sine basis whose potential matrix is integrated over panels ending on every jump
  * (interfaces.ts), so each jump is a grid point of the integration and no cell straddles it.
- * Null when V fails on the grid.
+ * Null when V fails on the grid, or when the budget runs out inside the solve (which charges the budget
+ * its flops as it goes, so it stops within a few milliseconds of the deadline): then `s.stoppedBy` says why.
  */
 function solveAt(s: RefineSetup, N: number): SineDvrSolution | null {
   const t0 = s.budget.clock.now();
   const w0 = s.budget.work.ops;
-  const sol = solveOnce(s, N);
+  let sol: SineDvrSolution | null = null;
+  try {
+    sol = solveOnce(s, N);
+  } catch (err) {
+    if (!(err instanceof Stopped)) throw err;
+    s.stoppedBy = err.reason;
+    return null;
+  }
   s.lastSolve = { ms: s.budget.clock.now() - t0, work: s.budget.work.ops - w0 };
   return sol;
 }
@@ -116,8 +126,8 @@ function solveOnce(s: RefineSetup, N: number): SineDvrSolution | null {
       vv[j] = m;
     }
   }
-  s.budget.count(sineDvrWork(N, scan.symmetric), N - 1);
-  const sol = sineDvrSolve(vv, a, b, mass, s.K, { symmetric: scan.symmetric, wallSlopes: scan.slopes });
+  s.budget.count(0, N - 1);
+  const sol = sineDvrSolve(vv, a, b, mass, s.K, { symmetric: scan.symmetric, wallSlopes: scan.slopes, budget: s.budget });
   // Values near the floating-point limit overflow the matrix: report, do not return NaN levels.
   return sol.energies.every(Number.isFinite) ? sol : null;
 }
@@ -127,11 +137,11 @@ function jumpSolve(s: RefineSetup, N: number, wall: number): SineDvrSolution | n
   const grid = interfaceGrid(s.a, s.b, s.scan.jumps.map((j) => j.x), 2 * N);
   const vg = clampedV(s, grid.x, wall);
   if (!vg) return null;
-  s.budget.count(sineDvrWork(N, s.scan.symmetric) + cosineMomentsWork(grid, 2 * N), N - 1 + grid.x.length);
+  charge(s.budget, cosineMomentsWork(grid, 2 * N), N - 1 + grid.x.length);
   const moments = cosineMoments(grid, vg, 2 * N);
   let potentialBound = 0;
   for (let i = 0; i < vg.length; i++) potentialBound = Math.max(potentialBound, Math.abs(vg[i]));
-  const sol = sineDvrSolve(new Float64Array(N - 1), s.a, s.b, s.mass, s.K, { symmetric: s.scan.symmetric, moments, potentialBound });
+  const sol = sineDvrSolve(new Float64Array(N - 1), s.a, s.b, s.mass, s.K, { symmetric: s.scan.symmetric, moments, potentialBound, budget: s.budget });
   return sol.energies.every(Number.isFinite) ? sol : null;
 }
 
@@ -174,7 +184,7 @@ interface Climb {
 export function refine(s: RefineSetup, N0: number): Refined {
   if (s.scan.jumps.length > 0) return jumpClimb(s, N0);
   const first = solveAt(s, N0);
-  if (!first) return { sol: null, diffs: new Float64Array(0), sizes: [N0], capped: false, expired: null, capNote: null };
+  if (!first) return { sol: null, diffs: new Float64Array(0), sizes: [N0], capped: false, expired: s.stoppedBy ?? null, capNote: null };
   const c: Climb = { N: N0, cur: first, diffs: new Float64Array(0), sizes: [N0], capped: N0 >= s.cap, expired: null, capNote: null, failed: false };
   let prev = first;
   let prevWorst: { ratio: number; N: number } | null = null;
@@ -187,6 +197,10 @@ export function refine(s: RefineSetup, N0: number): Refined {
       break;
     }
     const next = solveAt(s, N1);
+    if (!next && s.stoppedBy) {
+      c.expired = s.stoppedBy;
+      break;
+    }
     if (!next) return { ...c, sol: null };
     c.sizes.push(N1);
     const { diffs, worst } = compare(s, prev, next);
@@ -231,7 +245,8 @@ function richardsonStep(s: RefineSetup, c: Climb, p: number, need: number, outOf
   }
   const fin = solveAt(s, Nf);
   if (!fin) {
-    c.failed = true;
+    if (s.stoppedBy) c.expired = s.stoppedBy;
+    else c.failed = true;
     return;
   }
   c.sizes.push(Nf);
@@ -261,7 +276,7 @@ function jumpClimb(s: RefineSetup, N0: number): Refined {
   const sizes = [N0];
   let coarse = solveAt(s, N0);
   const none = { diffs: new Float64Array(0), sizes, capped: false, expired: null, capNote: null };
-  if (!coarse) return { sol: null, ...none };
+  if (!coarse) return { sol: null, ...none, expired: s.stoppedBy ?? null };
   let N = N0;
   let extrapolated: Float64Array | null = null;
   let lastChange: Float64Array | null = null;
@@ -271,6 +286,7 @@ function jumpClimb(s: RefineSetup, N0: number): Refined {
     const N1 = Math.min(s.cap, Math.ceil(N * s.growth));
     if (wouldOverrun(s, N1)) return { ...best, expired: overrunReason(s) };
     const fine = solveAt(s, N1);
+    if (!fine && s.stoppedBy) return { ...best, expired: s.stoppedBy };
     if (!fine) return { ...best, sol: null };
     sizes.push(N1);
     const factor = Math.pow(N1 / N, JUMP_ORDER) - 1;

@@ -5,6 +5,8 @@
 import type { Eigenbasis } from './types';
 import type { PotentialFn } from './potential';
 import { evalV } from './potentialScan';
+import type { Budget } from './budget';
+import { sineLadder } from './sines';
 import { sineDvrGrid, sineSeriesMatrixElements, sineSeriesTable, sineSeriesWeightedSums, type SineDvrSolution } from './dvr';
 
 /** A basis with no levels (bad input or a bad V). */
@@ -58,43 +60,65 @@ export function makeBasis(
       if (!sol) return;
       sineSeriesTable(sol, xs, Math.min(levels, energies.length), out, d1, d2, from);
     },
-    matrixElements(levels: number) {
+    matrixElements(levels: number, budget?: Budget) {
       const K = Math.min(levels, energies.length);
-      return sol ? sineSeriesMatrixElements(sol, K) : { x: new Float64Array(K * K), d: new Float64Array(K * K) };
+      return sol ? sineSeriesMatrixElements(sol, K, budget) : { x: new Float64Array(K * K), d: new Float64Array(K * K) };
     },
-    weightedSums(xs, wRe, wIm, levels, outRe, outIm) {
+    weightedSums(xs, wRe, wIm, levels, outRe, outIm, budget) {
       if (!sol) return;
-      sineSeriesWeightedSums(sol, xs, wRe, wIm, Math.min(levels, energies.length), outRe, outIm);
+      sineSeriesWeightedSums(sol, xs, wRe, wIm, Math.min(levels, energies.length), outRe, outIm, budget);
     },
   };
 }
 
-/** Flips each level so that it is positive at the first grid point where |phi| exceeds ~1e-6 of its maximum. */
-export function fixSigns(sol: SineDvrSolution): void {
+/**
+ * Flips each level so that it is positive at the first grid point where |phi| exceeds ~1e-6 of its
+ * maximum. Each grid point evaluates only the levels not yet settled, each over its own significant
+ * terms (`terms`, of its parity), so the cost is about the sum over levels of (points until settled) x
+ * terms, not points x levels x terms. Its work is counted on `budget` (it never stops: it is cheap).
+ */
+export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
   const count = sol.energies.length;
   const n = sol.intervals - 1;
+  const c = sol.coefficients;
   const threshold = new Float64Array(count);
   const norm = Math.sqrt(2 / (sol.b - sol.a));
   for (let k = 0; k < count; k++) {
     let s = 0;
-    for (let t = 0; t < n; t++) s += Math.abs(sol.coefficients[k * n + t]);
+    for (let t = 0; t < n; t++) s += Math.abs(c[k * n + t]);
     threshold[k] = 1e-6 * norm * s;
   }
-  const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
-  const settled = new Uint8Array(count);
+  budget?.count(count * n);
+  // The unsettled levels, compacted as they settle.
+  const open = Int32Array.from({ length: count }, (_, k) => k);
   let left = count;
-  const one = new Float64Array(1);
-  const vals = new Float64Array(count);
+  const S = new Float64Array(n + 1);
+  const C = new Float64Array(n + 1);
+  const kf = Math.PI / (sol.b - sol.a);
+  const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
   for (let i = 0; i < grid.length && left > 0; i++) {
-    one[0] = grid[i];
-    sineSeriesTable(sol, one, count, vals);
-    for (let k = 0; k < count; k++) {
-      const y = vals[k];
-      if (settled[k] || !(Math.abs(y) > threshold[k])) continue;
-      if (y < 0) for (let t = 0; t < n; t++) sol.coefficients[k * n + t] *= -1;
-      settled[k] = 1;
-      left--;
+    let kTop = 0;
+    for (let r = 0; r < left; r++) kTop = Math.max(kTop, sol.terms[open[r]]);
+    sineLadder(kf * (grid[i] - sol.a), kTop, S, C);
+    let ops = kTop;
+    let kept = 0;
+    for (let r = 0; r < left; r++) {
+      const j = open[r];
+      const p = sol.parity[j];
+      const step = p === 0 ? 1 : 2;
+      const off = j * n - 1;
+      const top = sol.terms[j];
+      let f = 0;
+      for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
+      ops += top;
+      const y = norm * f;
+      if (!(Math.abs(y) > threshold[j])) {
+        open[kept++] = j;
+        continue;
+      }
+      if (y < 0) for (let t = 0; t < n; t++) c[j * n + t] *= -1;
     }
+    left = kept;
+    budget?.count(ops);
   }
 }
-

@@ -2,6 +2,7 @@
  * Projection of a sampled state on an eigenbasis by quadrature.
  */
 import type { Eigenbasis, Quadrature } from './types';
+import type { Budget } from './budget';
 
 /** Options of {@link project}. */
 export interface ProjectOptions {
@@ -12,6 +13,11 @@ export interface ProjectOptions {
    * written level by level and read back (default 2^15, i.e. 256 KiB; at least 64 nodes per chunk).
    */
   cacheTable?: number;
+  /**
+   * Passed to the basis's `weightedSums`, which charges it as it goes and throws `Stopped` (budget.ts)
+   * once it runs out; the table path ignores it (its caller chunks the nodes). Default none.
+   */
+  budget?: Budget;
 }
 
 /**
@@ -44,7 +50,7 @@ export function project(
       if (wi && psiIm) wi[j] = quad.w[j] * psiIm[j];
     }
     const xs = nq === quad.x.length ? quad.x : quad.x.subarray(0, nq);
-    basis.weightedSums(xs, wr, wi, lv, re, im);
+    basis.weightedSums(xs, wr, wi, lv, re, im, options.budget);
     return { re, im };
   }
   const maxTable = Math.max(1, Math.floor(options.maxTable ?? 4194304));

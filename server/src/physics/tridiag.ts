@@ -6,7 +6,12 @@
  * Why this route and not full QL with accumulated rotations: the solver needs only the lowest k of n
  * levels with k much smaller than n; bisection and inverse iteration cost O(n k) on the tridiagonal and
  * O(n^2 k) to map the vectors back, so the O(4/3 n^3) reduction dominates and nothing else grows as n^3.
+ *
+ * Every stage takes an optional budget and charges it its flops as it goes (`charge`: a poll of the
+ * clock every `POLL_OPS`), so a solve of any size stops within a few milliseconds of the deadline by
+ * throwing `Stopped`, which the solver's entry point turns into a stop reason.
  */
+import { charge, type Budget } from './budget';
 
 /** A symmetric tridiagonal matrix: diagonal `d` (length n) and off-diagonal `e` (length n - 1, e[i] = T[i+1][i]). */
 export interface Tridiagonal {
@@ -28,7 +33,7 @@ export interface TridiagonalReduction extends Tridiagonal {
  * (Golub & Van Loan, Matrix Computations, Algorithm 8.3.1). Cost 4/3 n^3 flops: the trailing block is
  * updated as S <- S - v w^T - w v^T with w = p - (beta p.v / 2) v, p = beta S v, on its lower triangle only.
  */
-export function householderTridiagonalize(A: Float64Array, n: number): TridiagonalReduction {
+export function householderTridiagonalize(A: Float64Array, n: number, budget?: Budget): TridiagonalReduction {
   const d = new Float64Array(n);
   const e = new Float64Array(Math.max(0, n - 1));
   const v = new Float64Array(n * n);
@@ -36,6 +41,8 @@ export function householderTridiagonalize(A: Float64Array, n: number): Tridiagon
   const p = new Float64Array(n);
   const x = new Float64Array(n);
   for (let k = 0; k < n - 2; k++) {
+    // p = S v and the rank-2 update: 2 m^2 flops each on the lower triangle of the m x m trailing block.
+    charge(budget, 4 * (n - k - 1) * (n - k - 1));
     // x = A[k+1.., k] (lower triangle: row i, column k).
     let norm2 = 0;
     for (let i = k + 1; i < n; i++) {
@@ -131,7 +138,7 @@ export function gershgorin(t: Tridiagonal): [number, number] {
  * The lowest `k` eigenvalues of T, ascending, by bisection on the Sturm count (Golub & Van Loan 8.4.1),
  * each to about 2 eps max(|lo|, |hi|) + pivmin: the absolute accuracy eps ||T|| any backward-stable method has.
  */
-export function lowestEigenvalues(t: Tridiagonal, k: number): Float64Array {
+export function lowestEigenvalues(t: Tridiagonal, k: number, budget?: Budget): Float64Array {
   const n = t.d.length;
   const m = Math.max(0, Math.min(k, n));
   const out = new Float64Array(m);
@@ -149,6 +156,7 @@ export function lowestEigenvalues(t: Tridiagonal, k: number): Float64Array {
     for (let it = 0; it < 200; it++) {
       const mid = 0.5 * (lo + hi);
       if (hi - lo <= 2 * eps * Math.max(Math.abs(lo), Math.abs(hi)) + pivmin || mid === lo || mid === hi) break;
+      charge(budget, 5 * n);
       const c = sturmCount(t, mid, pivmin);
       if (c > j) hi = mid;
       else lo = mid;
@@ -169,7 +177,7 @@ export function lowestEigenvalues(t: Tridiagonal, k: number): Float64Array {
  * eigenvalues closer than 1e-3 ||T|| are kept orthogonal by Gram-Schmidt within the cluster, as is usual
  * for inverse iteration. Returns the vectors row by row (vector j at [j * n, (j + 1) * n)), unit length.
  */
-export function tridiagonalEigenvectors(t: Tridiagonal, values: Float64Array): Float64Array {
+export function tridiagonalEigenvectors(t: Tridiagonal, values: Float64Array, budget?: Budget): Float64Array {
   const n = t.d.length;
   const m = values.length;
   const out = new Float64Array(m * n);
@@ -191,6 +199,8 @@ export function tridiagonalEigenvectors(t: Tridiagonal, values: Float64Array): F
       b[i] = seed / 2147483648 - 0.5;
     }
     for (let iter = 0; iter < 3; iter++) {
+      // The factorisation and the solve (about 16 n), and 4 n per vector of the cluster.
+      charge(budget, 16 * n + 4 * n * (j - clusterStart));
       solveShifted(lu, b);
       // Orthogonalise within the cluster.
       for (let q = clusterStart; q < j; q++) {
@@ -305,14 +315,19 @@ export interface SymmetricEigen {
  * The lowest `k` eigenpairs of the real symmetric n x n matrix A (row-major; lower triangle read;
  * A is destroyed). Householder tridiagonalisation, bisection, inverse iteration and back-transformation
  * (Golub & Van Loan, Matrix Computations, 4th ed., ch. 8). Eigenvalues to about eps ||A|| absolute.
+ * With a budget, throws `Stopped` (budget.ts) once it runs out.
  */
-export function symmetricLowest(A: Float64Array, n: number, k: number): SymmetricEigen {
+export function symmetricLowest(A: Float64Array, n: number, k: number, budget?: Budget): SymmetricEigen {
   if (n === 1) {
     return { values: Float64Array.of(A[0]), vectors: Float64Array.of(1) };
   }
-  const red = householderTridiagonalize(A, n);
-  const values = lowestEigenvalues(red, k);
-  const vectors = tridiagonalEigenvectors(red, values);
-  for (let j = 0; j < values.length; j++) backTransform(red, vectors.subarray(j * n, (j + 1) * n));
+  const red = householderTridiagonalize(A, n, budget);
+  const values = lowestEigenvalues(red, k, budget);
+  const vectors = tridiagonalEigenvectors(red, values, budget);
+  for (let j = 0; j < values.length; j++) {
+    // 4 flops per entry of each reflector: about 2 n^2 per vector.
+    charge(budget, 2 * n * n);
+    backTransform(red, vectors.subarray(j * n, (j + 1) * n));
+  }
   return { values, vectors };
 }

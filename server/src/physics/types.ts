@@ -2,6 +2,7 @@
  * Contracts of the physics layer. All quantities are in internal units: hbar = 1, the particle mass
  * is `mass`, lengths and energies in the file's units (or natural units).
  */
+import type { Budget } from './budget';
 
 /** The energy eigenbasis of a one-dimensional system. */
 export interface Eigenbasis {
@@ -41,8 +42,9 @@ export interface Eigenbasis {
   /**
    * Optional closed form of the evolution's matrix elements X_jk = <phi_j|x|phi_k> and
    * D_jk = <phi_j|d/dx|phi_k>, j, k < levels, row-major; `matrixElements` in evolution.ts uses it when present.
+   * A costly closed form charges `budget` as it goes and may throw `Stopped` (budget.ts).
    */
-  matrixElements?(levels: number): { x: Float64Array; d: Float64Array };
+  matrixElements?(levels: number, budget?: Budget): { x: Float64Array; d: Float64Array };
   /**
    * Fills out[(k - from) * xs.length + j] with phi_k(xs[j]) for from <= k < levels (and the derivatives
    * when given): the whole table at once, because recurrences make that much cheaper than level by
@@ -53,8 +55,9 @@ export interface Eigenbasis {
   /**
    * Optional fast path of projection: adds sum_j wRe[j] phi_k(xs[j]) to outRe[k] and sum_j wIm[j] phi_k(xs[j])
    * to outIm[k] for k < levels, without building the table (wIm may be null). `project` uses it when present.
+   * It charges `budget` its work node by node and throws `Stopped` (budget.ts) once it runs out.
    */
-  weightedSums?(xs: Float64Array, wRe: Float64Array, wIm: Float64Array | null, levels: number, outRe: Float64Array, outIm: Float64Array): void;
+  weightedSums?(xs: Float64Array, wRe: Float64Array, wIm: Float64Array | null, levels: number, outRe: Float64Array, outIm: Float64Array, budget?: Budget): void;
 }
 
 /** A quadrature rule: nodes and weights. */

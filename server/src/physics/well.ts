@@ -40,41 +40,49 @@ export function wellBoundCount(depth: number, width: number, mass: number): numb
 }
 
 /**
- * Root of level j (1-based) of the well equations. With z = k a inside, w = kappa a outside and the
- * angle u with z = z0 cos u, w = w0 sin u (z0 = a sqrt(2 m_w V0), w0 = a sqrt(2 m_b V0), so that
- * k^2/(2 m_w) + kappa^2/(2 m_b) = V0 holds for every u), the even condition (k/m_w) tan z = kappa/m_b
- * reads tan z = rho tan u and the odd one -(k/m_w) cot z = kappa/m_b reads tan(z - pi/2) = rho tan u,
- * rho = sqrt(m_w/m_b) (derived; rho = 1 is the constant-mass well). On the level's own interval
- * ((j-1) pi/2, j pi/2) both become the phase equation
- *   h(u) = z0 cos u - (j - 1) pi / 2 - atan2(rho sin u, cos u) = 0,   u in [0, pi/2].
- * h decreases strictly (both terms do), h(0) = z0 - (j-1) pi/2 > 0 for a bound level and
- * h(pi/2) = -j pi/2 < 0, so the bracket always holds one root, found by safeguarded Newton. Working in u
- * keeps kappa accurate at the top of the well (z -> z0) and for very shallow wells (u -> 0). The bound
- * count ceil(2 z0/pi) therefore depends on the inside mass only.
+ * Root of level j (1-based) of the well equations, as the pair (cos u, sin u). With z = k a inside and
+ * u the angle with z = z0 cos u, kappa a = z0 sin u, both the even condition tan z = sqrt(z0^2/z^2 - 1)
+ * and the odd one -cot z = sqrt(z0^2/z^2 - 1) become the phase equation
+ *   h(u) = z0 cos u - u - (j - 1) pi / 2 = 0,   u in [0, pi/2],
+ * (z - (j-1) pi/2 = arccos(z/z0) on the level's own interval ((j-1) pi/2, j pi/2)). h decreases
+ * strictly, h(0) = z0 - (j-1) pi/2 > 0 for a bound level and h(pi/2) < 0, so the bracket always
+ * holds one root, found by safeguarded Newton. Working in u keeps kappa accurate at the top of the well
+ * (z -> z0) and for very shallow wells (u -> 0). A root above pi/4 is found in the complement
+ * w = pi/2 - u instead, g(w) = z0 sin w + w - pi/2 - (j - 1) pi/2 = 0 (increasing): in a deep well the
+ * low levels have u within 1/z0 of pi/2, where cos u computed from u keeps only eps/(pi/2 - u) of
+ * relative precision (z0 = 1e9: k to 1e-7, and levels 2e-7 from orthogonal), while sin w keeps all of it.
+ * `rho` is sqrt(m_w/m_b) for a barrier mass m_b (phase term atan2(rho sin u, cos u) in place of u, the
+ * BenDaniel–Duke matching); 1 for one mass. Returns cos u and sin u.
  */
-function levelAngle(z0: number, j: number, rho = 1): number {
+function levelAngle(z0: number, j: number, rho = 1): { cos: number; sin: number } {
   const shift = ((j - 1) * Math.PI) / 2;
+  const quarter = Math.PI / 4;
+  // The phase term u (rho = 1) or atan2(rho sin u, cos u) of a barrier mass (rho = sqrt(m_w/m_b)), in
+  // either angle; rho = 1 keeps u itself, bit for bit.
+  const phaseU = (t: number) => (rho === 1 ? t : Math.atan2(rho * Math.sin(t), Math.cos(t)));
+  const phaseW = (t: number) => (rho === 1 ? 2 * quarter - t : 2 * quarter - Math.atan2(Math.sin(t), rho * Math.cos(t)));
+  const slope = (s: number, c: number) => (rho === 1 ? 1 : rho / (c * c + rho * rho * s * s));
+  // h(pi/4) <= 0: the root lies in [0, pi/4], solve for u; else for w = pi/2 - u in [0, pi/4).
+  const inU = z0 * Math.SQRT1_2 - phaseU(quarter) - shift <= 0;
+  const f = inU ? (t: number) => z0 * Math.cos(t) - phaseU(t) - shift : (t: number) => -(z0 * Math.sin(t) - phaseW(t) - shift);
+  const df = inU ? (t: number) => -z0 * Math.sin(t) - slope(Math.sin(t), Math.cos(t)) : (t: number) => -(z0 * Math.cos(t) + slope(Math.cos(t), Math.sin(t)));
+  const guess = inU ? Math.acos(Math.min(1, (shift + quarter) / z0)) : Math.asin(Math.min(Math.SQRT1_2, (shift + 2 * quarter) / (z0 + 1)));
   let lo = 0;
-  let hi = Math.PI / 2;
-  let u = Math.min(hi, Math.max(lo, Math.acos(Math.min(1, (shift + Math.PI / 4) / z0))));
+  let hi = quarter;
+  let t = Math.min(hi, Math.max(lo, guess));
   for (let it = 0; it < 200; it++) {
-    const su = Math.sin(u);
-    const cu = Math.cos(u);
-    // rho = 1 keeps the constant-mass phase u itself, bit for bit.
-    const phase = rho === 1 ? u : Math.atan2(rho * su, cu);
-    const h = z0 * cu - phase - shift;
-    if (h > 0) lo = u;
-    else hi = u;
-    const dh = -z0 * su - (rho === 1 ? 1 : rho / (cu * cu + rho * rho * su * su));
-    let next = u - h / dh;
+    const h = f(t);
+    if (h > 0) lo = t;
+    else hi = t;
+    let next = t - h / df(t);
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - u) <= 4e-16 * Math.max(1e-300, Math.abs(u)) || hi - lo <= 1e-300) {
-      u = next;
+    if (Math.abs(next - t) <= 4e-16 * Math.max(1e-300, Math.abs(t)) || hi - lo <= 1e-300) {
+      t = next;
       break;
     }
-    u = next;
+    t = next;
   }
-  return u;
+  return inU ? { cos: Math.cos(t), sin: Math.sin(t) } : { cos: Math.sin(t), sin: Math.cos(t) };
 }
 
 /** The finite well's basis, with what only this system has. */
@@ -135,9 +143,9 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
   for (let i = 0; i < n; i++) {
     const j = i + 1;
     const u = levelAngle(z0, j, rho);
-    const z = z0 * Math.cos(u);
+    const z = z0 * u.cos;
     const k = z / a;
-    const kappa = (w0 * Math.sin(u)) / a;
+    const kappa = (w0 * u.sin) / a;
     const even = j % 2 === 1;
     binding[i] = (kappa * kappa) / (2 * mb);
     // Near the top V0 - binding is the accurate form; keep E strictly below V0 even when the
@@ -145,7 +153,11 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
     let E = binding[i] < 0.5 * depth ? depth - binding[i] : (k * k) / (2 * mass);
     if (E >= depth) E = depth * (1 - Number.EPSILON);
     energies[i] = E;
-    const level = wellLevel(z, k, kappa, a, even);
+    // cos z (even) or sin z (odd) at the edge, from z = phase + (j - 1) pi/2: +-cos(phase), with
+    // cos(phase) = cos u / sqrt(cos^2 u + rho^2 sin^2 u) (cos u itself for one mass), whose relative
+    // precision survives where cos z computed from z (near a zero of it in a deep well) loses it.
+    const cosPhase = rho === 1 ? u.cos : u.cos / Math.hypot(u.cos, rho * u.sin);
+    const level = wellLevel(z, k, kappa, a, even, (Math.floor(i / 2) % 2 === 0 ? 1 : -1) * cosPhase);
     levels.push(level);
     // Tail weight beyond distance d outside one edge: edge^2 e^{-2 kappa d} / (2 kappa).
     const d = Math.log(Math.max(1, (level.edge * level.edge) / (2 * kappa * 0.5 * SUPPORT_TAIL))) / (2 * kappa);
@@ -177,16 +189,15 @@ export function wellBasis(depth: number, width: number, center: number, mass: nu
  * One level's constants from its z = k a and kappa: the amplitude A from
  * A^2 [a +- sin(2z)/(2k) + (cos z or sin z)^2/kappa] = 1, signed so the left tail is positive.
  */
-function wellLevel(z: number, k: number, kappa: number, a: number, even: boolean): WellLevel {
+function wellLevel(z: number, k: number, kappa: number, a: number, even: boolean, edgeTrig: number): WellLevel {
   const sz = Math.sin(z);
   const cz = Math.cos(z);
   // sin(2z)/(2k) = sz cz a / z, written so it stays accurate as z -> 0.
   const inner = even ? a + (sz * cz * a) / Math.max(z, 1e-300) : a - (sz * cz * a) / Math.max(z, 1e-300);
-  const edgeTrig = even ? cz : sz;
   const norm = inner + (edgeTrig * edgeTrig) / kappa;
   let amp = 1 / Math.sqrt(norm);
-  // Left-tail value is amp * cz (even) or -amp * sz (odd); make it positive.
-  const leftSign = even ? Math.sign(cz) : -Math.sign(sz);
+  // Left-tail value is amp * cos z (even) or -amp * sin z (odd); make it positive.
+  const leftSign = even ? Math.sign(edgeTrig) : -Math.sign(edgeTrig);
   if (leftSign < 0) amp = -amp;
   return { k, kappa, even, amp, edge: amp * edgeTrig };
 }

@@ -56,12 +56,16 @@ export const UNSAFE_NAMES = new Set([
   'require',
 ]);
 
-/* The private instance: created once, its parser captured, then its dangerous functions replaced.
-   It is built from the parser's factories alone: the sandbox only parses, and creating every mathjs
-   function made up most of the start-up time and of the bundles (docs/performance.md). */
-const instance = create({ parseDependencies }, {});
-export const mathParse: (text: string) => MathNode = instance.parse as unknown as (text: string) => MathNode;
-{
+/* The private instance: created on the first parse (a command that parses nothing, `--help`, never
+   pays for it), its parser captured, then its dangerous functions replaced. It is built from the
+   parser's factories alone: the sandbox only parses, and creating every mathjs function made up most of
+   the start-up time and of the bundles (docs/performance.md). */
+let sealed: { parse: (text: string) => MathNode; readConfig: () => Record<string, unknown> } | null = null;
+
+function privateInstance(): NonNullable<typeof sealed> {
+  if (sealed) return sealed;
+  const instance = create({ parseDependencies }, {});
+  const parse = instance.parse as unknown as (text: string) => MathNode;
   const stubs: Record<string, () => never> = {};
   for (const name of DISABLED_FUNCTIONS) {
     // `config` and `typed` are instance internals that mathjs does not let import replace: `config` is
@@ -72,22 +76,29 @@ export const mathParse: (text: string) => MathNode = instance.parse as unknown a
     };
   }
   instance.import(stubs, { override: true });
+  /* `config` cannot be replaced through import; the instance's own function is swapped for one that only
+     reads, so not even code holding the instance can change the parser's number type. */
+  const readConfig = (instance.config as unknown as (o?: unknown) => Record<string, unknown>).bind(instance);
+  Object.defineProperty(instance, 'config', {
+    value: (options?: unknown) => {
+      if (options !== undefined) throw new Error('Function config is disabled');
+      return readConfig();
+    },
+    writable: false,
+    configurable: false,
+  });
+  sealed = { parse, readConfig };
+  return sealed;
 }
-/* `config` cannot be replaced through import; the instance's own function is swapped for one that only
-   reads, so not even code holding the instance can change the parser's number type. */
-const readConfig = (instance.config as unknown as (o?: unknown) => Record<string, unknown>).bind(instance);
-Object.defineProperty(instance, 'config', {
-  value: (options?: unknown) => {
-    if (options !== undefined) throw new Error('Function config is disabled');
-    return readConfig();
-  },
-  writable: false,
-  configurable: false,
-});
+
+/** Parses with the private instance (made on the first call). */
+export function mathParse(text: string): MathNode {
+  return privateInstance().parse(text);
+}
 
 /** A snapshot of the private instance's configuration (tests check it never changes). */
 export function sandboxConfig(): Record<string, unknown> {
-  return { ...readConfig() };
+  return { ...privateInstance().readConfig() };
 }
 
 /** The parts of a mathjs node this module reads. */
