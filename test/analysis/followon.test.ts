@@ -46,3 +46,14 @@ describe('a let whose value fails', () => {
     }
   });
 });
+
+describe('an expect weight past the bound states of a finite well', () => {
+  it('says the well has no more levels instead of asking for a larger basis', () => {
+    // A 220 meV, 10 nm GaAs-like well (m = 0.067 m_e) holds 2 bound states (the example gaas-well-packet.qstate).
+    const text = 'units nm, meV\nmass 0.067 m_e\nsystem well(depth = 220 meV, width = 10 nm)\nstate gaussian(center = 1.5 nm, width = 1.6 nm)\nexpect weight 1..4 >= 0.9\n';
+    const d = analyse(text).diagnostics.filter((x) => x.code === 'expect');
+    expect(d).toHaveLength(1);
+    expect(d[0]!.message).toMatch(/only 2 bound states/);
+    expect(d[0]!.message).not.toMatch(/basis/);
+  });
+});

@@ -255,7 +255,9 @@ describe('spectrum panel in Chromium', () => {
     await page.click('#tab-time');
     const i0 = await inspect();
     expect(series(i0, 'density-t')).toHaveLength(result.samples!.x.length);
-    expect(series(i0, 'survival')).toHaveLength(result.evolution!.times.length);
+    // The survival is drawn on the engine's own fine time grid (evolution.survivalTimes).
+    expect(series(i0, 'survival')).toHaveLength(result.evolution!.survivalTimes!.length);
+    expect(result.evolution!.survivalTimes!.length).toBeGreaterThan(result.evolution!.times.length);
     const marks = await page.evaluate(() => {
       const o = (window as unknown as { eigenspanPanel: { inspect(): Inspect } }).eigenspanPanel.inspect();
       return o.tab;

@@ -54,7 +54,10 @@ export function checkExpects(model: Model, result: AnalysisResult, out: EngineDi
         if (found < x.to - x.from + 1 && result.levels.length > 0) {
           const last = result.levels[result.levels.length - 1]!.n;
           if (x.to > last) {
-            out.push(warn('expect', span, `${capital(what)} cannot be checked: the expansion stops at level ${last} (raise \`basis\`).`));
+            // A finite well has no levels past its bound states: a larger basis cannot help there.
+            const bound = result.system?.kind === 'well' ? result.system.boundCount : undefined;
+            const why = bound !== undefined && bound <= last ? `the well holds only ${bound} bound state${bound === 1 ? '' : 's'}; the rest of the state is in its continuum` : `the expansion stops at level ${last} (raise \`basis\`)`;
+            out.push(warn('expect', span, `${capital(what)} cannot be checked: ${why}.`));
             break;
           }
         }

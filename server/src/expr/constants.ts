@@ -103,6 +103,8 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['Ha', unit(HARTREE_SI, 'energy', 'hartree (CODATA 2018)')],
   ['hartree', unit(HARTREE_SI, 'energy', 'hartree (CODATA 2018)')],
   ['Ry', unit(RYDBERG_SI, 'energy', 'rydberg, half a hartree')],
+  // The spectroscopists' wavenumber as an energy, E = h c / lambda with 1 / lambda = 1 / cm. Its own name, so a 1/length (`1 / cm`, a `momentum`) is never taken for an energy.
+  ['invcm', unit(H_SI * C_SI * 100, 'energy', 'wavenumber energy h c / (1 cm), the energy of 1 cm^-1')],
   ['s', unit(1, 'time', 'second')],
   ['ms', unit(1e-3, 'time', 'millisecond')],
   ['us', unit(1e-6, 'time', 'microsecond')],
