@@ -212,7 +212,7 @@ function levelsOf(ex: Expanded, basis: Eigenbasis, count: number): { levels: Lev
 }
 
 /** The smallest number of levels whose weights add up to `share`, or null. */
-function levelsFor(weights: Float64Array, share: number): number | null {
+export function levelsFor(weights: Float64Array, share: number): number | null {
   let acc = 0;
   for (let k = 0; k < weights.length; k++) {
     acc += weights[k]!;

@@ -14,6 +14,7 @@ import { makeUnitSystem, createScope, sameDimension } from '../expr/units';
 import { dimensionOf, type ValueKind } from './dimensions';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
+import { mixtureModel, thermalModel, type MixedHooks, type MixtureModel, type ThermalModel } from './mixedModel';
 
 /** A system with its parameters evaluated (internal units). */
 export type SystemModel =
@@ -38,7 +39,9 @@ export type SystemModel =
 export type StateModel =
   | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean }
   | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
-  | { kind: 'gaussian'; center: number; width: number; momentum: number };
+  | { kind: 'gaussian'; center: number; width: number; momentum: number }
+  | ThermalModel
+  | MixtureModel;
 
 /** A checked `expect` line. */
 export type ExpectModel =
@@ -387,7 +390,22 @@ class ModelBuilder {
         }
         return { kind: 'gaussian', center, width, momentum };
       }
+      case 'thermal':
+        return thermalModel(spec, this.mixedHooks(hasSystem));
+      case 'mixture':
+        return mixtureModel(spec, this.mixedHooks(hasSystem));
     }
+  }
+
+  /** The evaluators the mixed states (mixedModel.ts) borrow. */
+  private mixedHooks(hasSystem: boolean): MixedHooks {
+    return {
+      units: this.units,
+      constant: (src, kind, what) => this.constant(src, kind, what),
+      system: (spec) => this.system(spec),
+      state: (spec) => this.state(spec, hasSystem),
+      error: (code, span, message) => this.error(code, span, message),
+    };
   }
 
   private comparison(c: import('../language/ast').Comparison, kind: ValueKind, what: string): ComparisonModel | null {

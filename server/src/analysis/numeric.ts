@@ -17,6 +17,7 @@ import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from '.
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
+import { isMixed, mixedStage } from './mixedStage';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -56,6 +57,7 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   out.push(...checkBasisFacts(built, asked, checks));
   result.system = systemFacts(basis);
   if (!model.state || ctx.budget.expired()) return;
+  if (isMixed(model.state.model)) return mixedStage({ input, built, count: Math.min(asked, basis.count), checks }, result);
   const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
   if (!state) return;
   try {
@@ -84,6 +86,8 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   }
   for (const check of STATE_CHECKS) out.push(...check(m, checks));
   fillResult(m, result);
+  // A pure state: Tr rho^2 = 1 exactly.
+  result.purity = 1;
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out);
   const plotX = plotGrid(m.basis, m.window);
@@ -92,7 +96,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
 }
 
 /** The measured numbers a front end shows. */
-function fillResult(m: StateMeasurements, result: AnalysisResult): void {
+export function fillResult(m: StateMeasurements, result: AnalysisResult): void {
   result.norm = m.norm;
   result.levels = m.levels;
   result.captured = m.captured;
@@ -141,8 +145,8 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
   const cRe = new Float64Array(k);
   const cIm = new Float64Array(k);
   levels.forEach((l, i) => {
-    cRe[i] = l.re;
-    cIm[i] = l.im;
+    cRe[i] = l.re ?? 0;
+    cIm[i] = l.im ?? 0;
   });
   const times = new Float64Array(ev.steps + 1);
   for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
@@ -162,7 +166,7 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
 }
 
 /** 400 points over the walls (or the integration window) for plots. */
-function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
+export function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
   const [a, b] = basis.walls ?? window;
   const n = 400;
   const xs = new Float64Array(n);
@@ -170,7 +174,7 @@ function plotGrid(basis: Eigenbasis, window: [number, number]): Float64Array {
   return xs;
 }
 
-function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[]): SampleResult {
+export function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[]): SampleResult {
   const n = xs.length;
   const v = state.evaluate(xs, 0);
   const s = 1 / Math.sqrt(norm);

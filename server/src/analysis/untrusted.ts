@@ -136,6 +136,7 @@ const ARGUMENTS: Record<string, Record<string, [ValueKind, string]>> = {
     center: ['length', "the oscillator's centre"],
   },
   gaussian: { center: ['length', "the packet's centre"], width: ['length', "the packet's width"], momentum: ['wavenumber', "the packet's momentum"] },
+  thermal: { nbar: ['dimensionless', 'the mean occupation'], temperature: ['temperature', 'the temperature'] },
 };
 
 function argSlots(constructor: string, args: Arg[]): Slot[] {
@@ -167,5 +168,9 @@ function stateSlots(spec: StateSpec, hasSystem: boolean): Slot[] {
       return [{ src: spec.level, kind: 'dimensionless', what: 'the level' }, ...systemSlots(spec.system)];
     case 'gaussian':
       return argSlots('gaussian', spec.args);
+    case 'thermal':
+      return [...argSlots('thermal', spec.args), ...systemSlots(spec.system)];
+    case 'mixture':
+      return spec.parts.flatMap((p) => [{ src: p.weight, kind: 'dimensionless' as const, what: 'the weight' }, ...stateSlots(p.state, hasSystem)]);
   }
 }

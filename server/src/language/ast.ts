@@ -34,7 +34,15 @@ export type SystemSpec =
 export type StateSpec =
   | { kind: 'psi'; span: Span; expr: ExprText }
   | { kind: 'eigen'; span: Span; level: ExprText; system: SystemSpec }
-  | { kind: 'gaussian'; span: Span; keywordSpan: Span; args: Arg[] };
+  | { kind: 'gaussian'; span: Span; keywordSpan: Span; args: Arg[] }
+  | { kind: 'thermal'; span: Span; keywordSpan: Span; args: Arg[]; system: SystemSpec }
+  | { kind: 'mixture'; span: Span; keywordSpan: Span; parts: MixturePart[] };
+
+/** One part of a `mixture(...)`: `WEIGHT: STATE`, where the state is a pure one. */
+export interface MixturePart extends Span {
+  weight: ExprText;
+  state: StateSpec;
+}
 
 /** A comparison at the end of an `expect` line. */
 export type Comparison =

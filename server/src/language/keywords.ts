@@ -83,6 +83,16 @@ export const KEYWORDS: readonly KeywordInfo[] = [
         snippet: 'state eigen(${1:1}) of ${2:box(0, 1)}',
         doc: 'Level N of another system: the state left behind when the potential changes suddenly.',
       },
+      {
+        label: 'state thermal(nbar = NBAR) of SYSTEM',
+        snippet: 'state thermal(${1:nbar = 0.3}) of ${2:oscillator(omega = 1)}',
+        doc: 'A thermal mixture of the levels of another system (nbar for an oscillator, or temperature = T).',
+      },
+      {
+        label: 'state mixture(P1: STATE, P2: STATE)',
+        snippet: 'state mixture(${1:0.5}: ${2:eigen(1) of box(0, 1)}, ${3:0.5}: ${4:eigen(2) of box(0, 1)})',
+        doc: 'A mixed state: pure states with probabilities that add up to 1.',
+      },
     ],
   },
   {
@@ -128,7 +138,7 @@ export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;
 export const SYSTEM_KINDS = ['box', 'well', 'oscillator', 'V'] as const;
 
 /** The state kinds after `state`. */
-export const STATE_KINDS = ['psi', 'eigen', 'gaussian'] as const;
+export const STATE_KINDS = ['psi', 'eigen', 'gaussian', 'thermal', 'mixture'] as const;
 
 /** Words with a fixed meaning inside statements (they split statements, so they cannot be `let` names). */
 export const INNER_WORDS = ['over', 'of', 'to', 'steps'] as const;

@@ -7,6 +7,7 @@ import { STATE_KINDS, SYSTEM_KINDS } from './keywords';
 import { isSpace } from './scanner';
 import { SIGNATURES } from './signatures';
 import { expectXCall, fail, parseCall, unexpected, unknownName, type Ctx } from './parserParts';
+import { parseMixture, parseThermal } from './parseMixed';
 import {
   exprText,
   identEnd,
@@ -52,6 +53,8 @@ export function parseState(ctx: Ctx, from: number, hi: number, anchor: Span): St
     if (system === null) return null;
     return { kind: 'eigen', span: { start: p, end: hi }, level, system };
   }
+  if (kind === 'thermal') return parseThermal(ctx, kindSpan, hi, parseSystem);
+  if (kind === 'mixture') return parseMixture(ctx, kindSpan, hi, parseState);
   unknownName(ctx, kindSpan, kind, STATE_KINDS, `Unknown state '${kind}'; expected psi(x) = ..., gaussian(...) or eigen(N) of a system.`);
   return null;
 }

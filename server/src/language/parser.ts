@@ -23,7 +23,10 @@
  *                                                    split at the last top-level "over" followed by "["
  * state       = "state" ( "psi" "(" "x" ")" "=" EXPR
  *                       | "eigen" "(" EXPR ")" "of" SYSTEM
- *                       | "gaussian" "(" ARGS ")" )
+ *                       | "gaussian" "(" ARGS ")"
+ *                       | "thermal" "(" ARGS ")" "of" SYSTEM
+ *                       | "mixture" "(" PART { "," PART } ")" )      (parseMixed.ts)
+ * PART        = EXPR ":" STATE                       a pure state; split at the first top-level ":" 
  * basis       = "basis" EXPR
  * expect      = "expect" ( "norm" CMP | "parity" ("even" | "odd" | "mixed") | "weight" LEVELS CMP
  *                        | "energy" CMP | "spread" CMP )

@@ -28,8 +28,10 @@ function levelTable(result: AnalysisResult): string[] {
   const unit = result.units.energy;
   const top = [...result.levels].sort((a, b) => b.weight - a.weight || a.n - b.n).slice(0, TOP_LEVELS);
   if (top.length === 0) return [];
-  const rows = top.map((l: LevelResult) => `| ${l.n} | ${fmt(l.energy)} | ${fmt(l.weight)} | ${fmtPhase(l.re, l.im)} |`);
-  return ['', `| n | E_n${unit ? ` (${unit})` : ''} | \\|c_n\\|² | phase |`, '|---:|---:|---:|---:|', ...rows];
+  const rows = top.map((l: LevelResult) => `| ${l.n} | ${fmt(l.energy)} | ${fmt(l.weight)} | ${l.re === null || l.im === null ? '—' : fmtPhase(l.re, l.im)} |`);
+  // A mixed state has populations P_n and no coefficients, so no phases.
+  const mixed = top.some((l) => l.re === null);
+  return ['', `| n | E_n${unit ? ` (${unit})` : ''} | ${mixed ? 'P_n' : '\\|c_n\\|²'} | phase |`, '|---:|---:|---:|---:|', ...rows];
 }
 
 function stateHover(view: DocView): string[] {
