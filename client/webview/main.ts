@@ -114,7 +114,7 @@ function summaryItems(r: PanelResult): [string, string][] {
     ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}`],
     ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : `${formatNumber(r.energy.spread, 4)}${eu}`],
     ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
-    ['norm as written', formatNumber(r.norm, 6)],
+    r.mixture ? ['purity Tr ρ²', formatNumber(r.purity, 6)] : ['norm as written', formatNumber(r.norm, 6)],
     ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
     ['levels for 99.9 %', r.levelsFor999 == null ? `not reached${r.captured == null ? '' : ` (the ${r.levels.length} levels hold ${formatPercent(r.captured)})`}` : String(r.levelsFor999)],
   ];
@@ -192,7 +192,8 @@ function syncControls(r: PanelResult | null): void {
     const st = sampledState(r.samples);
     const part = partialSum(r.samples, r.levels, settings.terms);
     const err = l2Distance(r.samples.x, st.re, st.im, part.re, part.im);
-    setText('terms-out', `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
+    // A mixed state has no wave function to sum.
+    setText('terms-out', r.mixture ? `K = ${part.terms}: a mixed state has no partial sum ψ_K` : `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
   } else setText('terms-out', '');
   syncTime(r);
 }

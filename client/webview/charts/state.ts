@@ -129,7 +129,7 @@ function energySeries(ctx: BuildContext, ehi: number): Option[] {
   const mark = (data: Option[]) => ({ markLine: { silent: true, symbol: 'none', animation: false, label: { show: false }, data } });
   const out = [
     line(ctx, 'potential', 'V(x)', p.potential, pairs(s.x, Float64Array.from(s.potential, (v) => v ?? NaN)), { yAxisIndex: 1, ...mark(walls) }),
-    line(ctx, 'levels', 'levels E_n (length ∝ |c_n|²)', p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi)) }),
+    line(ctx, 'levels', `levels E_n (length ∝ ${result.mixture ? 'P_n' : '|c_n|²'})`, p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi)) }),
   ];
   const mean = result.energy?.mean;
   if (mean !== null && mean !== undefined) {
@@ -142,6 +142,7 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
   const { result, settings, palette: p } = ctx;
   const s = result.samples!;
   const st = sampledState(s);
+  if (s.density) return densitySeries(ctx, st.density);
   const part = partialSum(s, result.levels, settings.terms);
   const series: Option[] = [line(ctx, 'density', '|ψ|²', p.density, pairs(s.x, st.density), { areaStyle: { color: p.density, opacity: 0.15 } }), line(ctx, 're', 'Re ψ', p.real, pairs(s.x, st.re))];
   const arrays: ArrayLike<number>[] = [st.density, st.re, part.re];
@@ -156,6 +157,22 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
   let hi = 0;
   for (const a of arrays) for (let j = 0; j < a.length; j++) ((lo = Math.min(lo, a[j]!)), (hi = Math.max(hi, a[j]!)));
   // Ringing or rounding far below the curve's size (a Gaussian's tail, a partial sum's wiggle) gets no room of its own.
+  return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
+}
+
+/** A mixed state: its density <x|rho|x> (it has no wave function, so no Re/Im psi and no partial sum), and the picked level. */
+function densitySeries(ctx: BuildContext, density: Float64Array): { series: Option[]; range: [number, number] } {
+  const { result, settings, palette: p } = ctx;
+  const s = result.samples!;
+  const series: Option[] = [line(ctx, 'density', 'ρ(x) = ⟨x|ρ|x⟩', p.density, pairs(s.x, density), { areaStyle: { color: p.density, opacity: 0.15 } })];
+  let lo = 0;
+  let hi = 0;
+  for (const v of density) hi = Math.max(hi, v);
+  if (settings.selected !== null && s.phi[settings.selected]) {
+    const phi = Float64Array.from(s.phi[settings.selected]!, (v) => v ?? 0);
+    for (const v of phi) ((lo = Math.min(lo, v)), (hi = Math.max(hi, v)));
+    series.push(line(ctx, 'picked', `φ_${result.levels[settings.selected]?.n ?? settings.selected}`, p.accent, pairs(s.x, phi), { lineStyle: { color: p.accent, width: 1, type: 'dotted' } }));
+  }
   return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
 }
 

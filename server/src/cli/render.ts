@@ -116,7 +116,7 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
     lines.push(`energy mean: ${result.energy.mean === null ? 'diverges' : num(result.energy.mean, 10) + (eu ? ' ' + eu : '')}   spread: ${result.energy.spread === null ? 'diverges' : num(result.energy.spread, 10) + (eu ? ' ' + eu : '')}`);
   }
   if (result.parity) lines.push(`parity: ${result.parity}`);
-  if (result.decay && result.decay.exponent !== null) lines.push(`decay: |c_n| ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
+  if (result.decay && result.decay.exponent !== null) lines.push(`decay: ${result.mixture ? 'sqrt(P_n)' : '|c_n|'} ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
   if (result.evolution) {
     // Times carry the file's time unit; a file with units but no time unit counts time in hbar per its energy unit.
     const timeUnit = result.units.time ? ` ${result.units.time}` : result.units.energy ? ` hbar/${result.units.energy}` : '';

@@ -39,8 +39,15 @@ function stateHover(view: DocView): string[] {
   if (!r) return ['**state**', '', missing(view)];
   const e = withUnit(r.units.energy);
   const lines = ['**state**', ''];
-  lines.push(`norm ∫|ψ|² dx = ${fmt(r.norm)}  `);
-  lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  if (r.mixture) {
+    // A mixed state has populations P_n and no wave function: its purity instead of a norm.
+    const parts = r.mixture.weights.length;
+    lines.push(`mixed state of ${parts} ${r.mixture.kind === 'thermal' ? 'thermal level' : 'part'}${parts === 1 ? '' : 's'}, purity Tr ρ² = ${fmt(r.purity)}  `);
+    lines.push(`captured Σ P_n = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  } else {
+    lines.push(`norm ∫|ψ|² dx = ${fmt(r.norm)}  `);
+    lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  }
   if (r.energy) {
     // The spread is a property of the state (ΔE = sqrt(<H^2> - <H>^2)), not an error bar: its own line.
     lines.push(`energy mean ⟨E⟩ = ${r.energy.mean === null ? 'diverges' : fmt(r.energy.mean) + e}  `);
