@@ -120,7 +120,7 @@ function summaryItems(r: PanelResult): [string, string][] {
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
   if (r.decay && r.decay.classification !== 'unknown') {
-    const law = r.decay.exponent !== null ? `|c_n| ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
+    const law = r.decay.exponent !== null ? `${r.mixture ? '√P_n' : '|c_n|'} ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
     items.push(['decay', `${law} (${r.decay.classification})`]);
   }
   return items;

@@ -199,7 +199,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     },
     xAxis: { ...axisStyle(p), ...valueAxis(xr, p.foreground), name: `x${unitSuffix(lu)}`, nameLocation: 'middle', nameGap },
     yAxis: [
-      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
+      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: result.samples!.density ? 'ρ(x)' : 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
       { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `E, V${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
     ],
     series,
