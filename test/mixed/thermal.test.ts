@@ -204,6 +204,16 @@ describe('findings of mixed states', () => {
     expect(r.mixture!.omitted).toBeCloseTo(0.75 ** 20, 12);
   });
 
+  it('a mixture of more than 200 parts is refused before anything is projected', () => {
+    const parts = Array.from({ length: 201 }, () => '1: eigen(1) of box(0, 1)').join(', ');
+    const text = `system box(0, 1)\nstate mixture(${parts})\n`;
+    const r = analyse(text);
+    const d = r.diagnostics.find((x) => x.code === 'limits')!;
+    expect(text.slice(d.start, d.end)).toBe('mixture');
+    expect(r.levels).toEqual([]);
+    expect(r.work!.ops).toBe(0);
+  });
+
   it('a well hot enough to reach its top is a continuum finding', () => {
     const text = 'system well(depth = 10, width = 2)\nstate thermal(temperature = 5) of well(depth = 10, width = 2)\n';
     const r = analyse(text);

@@ -12,6 +12,9 @@ import type { StateModel, SystemModel } from './model';
 import type { ValueKind } from './dimensions';
 import { fmt } from './findings';
 
+/** The most parts a mixed state may have: each is projected like a pure state, and the purity costs their number squared. */
+export const MAX_PARTS = 200;
+
 /** What the model builder lends this module. */
 export interface MixedHooks {
   units: UnitSystem;
@@ -59,6 +62,10 @@ export function thermalModel(spec: Extract<StateSpec, { kind: 'thermal' }>, h: M
 
 /** `mixture(W1: STATE, ...)`: every weight a finite non-negative number, at least one positive. */
 export function mixtureModel(spec: Extract<StateSpec, { kind: 'mixture' }>, h: MixedHooks): MixtureModel | null {
+  if (spec.parts.length > MAX_PARTS) {
+    h.error('limits', spec.keywordSpan, `A mixture may have at most ${MAX_PARTS} parts; this one has ${spec.parts.length}.`);
+    return null;
+  }
   const parts: MixtureModel['parts'] = [];
   let ok = true;
   for (const part of spec.parts) {

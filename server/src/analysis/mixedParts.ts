@@ -9,7 +9,7 @@ import type { EngineDiagnostic } from '../language/catalogue';
 import type { Span } from '../language/ast';
 import type { Eigenbasis } from '../physics/types';
 import { boltzmannWeights, occupationLevels, occupationWeights, type ThermalWeights } from '../physics/thermal';
-import type { MixtureModel, ThermalModel } from './mixedModel';
+import { MAX_PARTS, type MixtureModel, type ThermalModel } from './mixedModel';
 import { buildBasis, buildState, eigenState, type BuildOptions, type StateFunction } from './systems';
 import { TOL } from './measure';
 import { fmt, pct, plural, warn } from './findings';
@@ -17,7 +17,7 @@ import { fmt, pct, plural, warn } from './findings';
 /** The share of a thermal sum's weight below which the levels beyond are left out. */
 export const THERMAL_CUT = 1e-12;
 /** The most levels a thermal sum takes (each is projected like a pure state). */
-export const MAX_THERMAL_PARTS = 200;
+export const MAX_THERMAL_PARTS = MAX_PARTS;
 
 /** One pure part of a mixed state. */
 export interface MixedPart {
