@@ -53,7 +53,7 @@ export function thermalModel(spec: Extract<StateSpec, { kind: 'thermal' }>, h: M
     return null;
   }
   if (n && system.kind !== 'oscillator') {
-    h.error('evaluation', n, `nbar is the mean occupation of an oscillator; for a ${system.kind === 'potential' ? 'numerical potential' : system.kind} give temperature = T.`);
+    h.error('evaluation', n, `'nbar' is the mean occupation of an oscillator; for a ${system.kind === 'potential' ? 'numerical potential' : system.kind} give temperature = T.`);
     return null;
   }
   const kT = n ? null : h.units.mode === 'physical' ? toInternal(KB_SI, DIM.entropy, h.units) * value : value;
