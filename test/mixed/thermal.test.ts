@@ -183,6 +183,18 @@ describe('thermal states at a temperature', () => {
     expect(Math.abs(r.purity! - 1 / (2 * nbar + 1))).toBeLessThan(1e-10);
   });
 
+  it('a numerical potential at T: V = x^2/2 between far walls has the oscillator occupation', () => {
+    // hbar = m = omega = 1, kT = 0.8: nbar = 1 / (e^(1/0.8) - 1) (Bose-Einstein, common practice); the walls at
+    // +-12 change the low levels by far less than the tolerance (the Gaussian tails there are below e^-100).
+    const r = analyse('system oscillator(omega = 1)\nstate thermal(temperature = 0.8) of V(x) = x^2 / 2 over [-12, 12]\n');
+    expect(errors(r)).toEqual([]);
+    const nbar = 1 / Math.expm1(1 / 0.8);
+    const w = r.mixture!.weights;
+    for (let k = 0; k < 8; k++) expect(Math.abs(w[k]! - nbar ** k / (nbar + 1) ** (k + 1)), `k = ${k}`).toBeLessThan(1e-7);
+    for (let k = 0; k < 8; k++) expect(Math.abs(r.levels[k]!.weight - w[k]!), `n = ${k}`).toBeLessThan(1e-7);
+    expect(Math.abs(r.purity! - 1 / (2 * nbar + 1))).toBeLessThan(1e-7);
+  });
+
   it('a box at T: weights exp(-(E_n - E_1)/kT) with E_n proportional to n^2', () => {
     // Box on [0, 1], hbar = m = 1: E_n = n^2 pi^2 / 2 (any textbook); kT = 40 in natural units.
     const r = analyse('system box(0, 1)\nstate thermal(temperature = 40) of box(0, 1)\n');
