@@ -127,7 +127,8 @@ function combineNeeded(parts: readonly MeasuredPart[]): number | null {
   let need = 0;
   for (const p of parts) {
     if (p.m.needed === null) {
-      if (p.m.captured < 1 - 1e-6) return null;
+      // A part lighter than the floor was not searched (mixedStage.ts); a heavier one that found no basis decides.
+      if (p.m.captured < 1 - 1e-6 && p.weight > 1e-6) return null;
       continue;
     }
     need = Math.max(need, p.m.needed);

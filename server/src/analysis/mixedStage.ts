@@ -16,7 +16,7 @@ import { evolve, revivalTime } from '../physics/evolution';
 import { timeToDisplay } from '../expr/units';
 import type { Model } from './model';
 import type { BuiltBasis } from './systems';
-import { measureState } from './measure';
+import { measureState, TOL } from './measure';
 import { STATE_CHECKS, stopFinding, type CheckContext } from './checks';
 import { checkExpects } from './expects';
 import { fillResult, plotGrid, samples, type NumericInput } from './numeric';
@@ -44,7 +44,8 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   const measured: MeasuredPart[] = [];
   for (const part of mp.parts) {
     if (ctx.budget.expired()) return;
-    const m = measureState({ model, built: s.built, count: s.count, state: part.state, ctx });
+    // A part lighter than TOL cannot move the mixture's capture past the floor alone: no search of its own for a larger basis.
+    const m = measureState({ model, built: s.built, count: s.count, state: part.state, ctx, searchNeeded: part.weight > TOL });
     if ('stop' in m) {
       out.push(stopFinding(m, { ...checks, stateSpan: part.span }));
       return;
