@@ -55,7 +55,7 @@ export function parseState(ctx: Ctx, from: number, hi: number, anchor: Span): St
   }
   if (kind === 'thermal') return parseThermal(ctx, kindSpan, hi, parseSystem);
   if (kind === 'mixture') return parseMixture(ctx, kindSpan, hi, parseState);
-  unknownName(ctx, kindSpan, kind, STATE_KINDS, `Unknown state '${kind}'; expected psi(x) = ..., gaussian(...) or eigen(N) of a system.`);
+  unknownName(ctx, kindSpan, kind, STATE_KINDS, `Unknown state '${kind}'; expected psi(x) = ..., gaussian(...), eigen(N) of a system, thermal(...) of a system or mixture(...).`);
   return null;
 }
 
