@@ -89,7 +89,7 @@ export function morseExact(count: number): Float64Array {
   return Float64Array.from({ length: count }, (_, n) => w * (n + 0.5) - (alpha * alpha * (n + 0.5) ** 2) / (2 * mass));
 }
 
-type Levels = { n: number; re: number; im: number }[];
+type Levels = { n: number; re: number | null; im: number | null }[];
 
 /** max |c_n - ref_n| over the levels the analysis returned (n counted from `first`). */
 function levelError(levels: Levels, first: number, refRe: Float64Array, refIm: Float64Array | null): number {
@@ -97,7 +97,7 @@ function levelError(levels: Levels, first: number, refRe: Float64Array, refIm: F
   for (const l of levels) {
     const k = l.n - first;
     if (k < 0 || k >= refRe.length) continue;
-    worst = Math.max(worst, Math.hypot(l.re - refRe[k]!, l.im - (refIm ? refIm[k]! : 0)));
+    worst = Math.max(worst, Math.hypot((l.re ?? NaN) - refRe[k]!, (l.im ?? NaN) - (refIm ? refIm[k]! : 0)));
   }
   return worst;
 }

@@ -121,14 +121,14 @@ function summaryItems(r: PanelResult): [string, string][] {
     ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}${inQuanta(r, r.energy.mean)}`],
     ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : `${formatNumber(r.energy.spread, 4)}${eu}${inQuanta(r, r.energy.spread)}`],
     ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
-    ['norm as written', formatNumber(r.norm, 6)],
+    r.mixture ? ['purity Tr ρ²', formatNumber(r.purity, 6)] : ['norm as written', formatNumber(r.norm, 6)],
     ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
     ['levels for 99.9 %', r.levelsFor999 == null ? `not reached${r.captured == null ? '' : ` (the ${r.levels.length} levels hold ${formatPercent(r.captured)})`}` : String(r.levelsFor999)],
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
   if (typeof r.meanQuantumNumber === 'number') items.push(['⟨n⟩', formatNumber(r.meanQuantumNumber, 5)]);
   if (r.decay && r.decay.classification !== 'unknown') {
-    const law = r.decay.exponent !== null ? `|c_n| ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
+    const law = r.decay.exponent !== null ? `${r.mixture ? '√P_n' : '|c_n|'} ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
     items.push(['decay', `${law} (${r.decay.classification})`]);
   }
   return items;
@@ -200,7 +200,8 @@ function syncControls(r: PanelResult | null): void {
     const st = sampledState(r.samples);
     const part = partialSum(r.samples, r.levels, settings.terms);
     const err = l2Distance(r.samples.x, st.re, st.im, part.re, part.im);
-    setText('terms-out', `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
+    // A mixed state has no wave function to sum.
+    setText('terms-out', r.mixture ? `K = ${part.terms}: a mixed state has no partial sum ψ_K` : `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
   } else setText('terms-out', '');
   syncTime(r);
 }

@@ -25,6 +25,8 @@ export function sampledState(samples: Samples): { re: Float64Array; im: Float64A
   const im = Float64Array.from(samples.im, (v) => v ?? 0);
   const density = new Float64Array(n);
   for (let j = 0; j < n; j++) density[j] = re[j]! * re[j]! + im[j]! * im[j]!;
+  // A mixed state sends its density <x|rho|x> (and no wave function: re and im are 0).
+  if (samples.density) for (let j = 0; j < n; j++) density[j] = samples.density[j] ?? 0;
   return { re, im, density };
 }
 

@@ -10,8 +10,8 @@ import { SIGNATURES, type ParamKind, type Signature } from '../../server/src/lan
 
 const UNITS = 'units nm, meV, ps\n';
 /** A value of each kind in the file's units, and one of another dimension. */
-const RIGHT: Record<ParamKind, string> = { length: '1 nm', energy: '50 meV', angularFrequency: '2 / ps', frequency: '1 THz', wavenumber: '1 / nm', dimensionless: '2', mass: '0.09 m_e' };
-const WRONG: Record<ParamKind, string> = { length: '7 meV', energy: '7 nm', angularFrequency: '7 nm', frequency: '7 nm', wavenumber: '7 meV', dimensionless: '7 nm', mass: '7 nm' };
+const RIGHT: Record<ParamKind, string> = { length: '1 nm', energy: '50 meV', angularFrequency: '2 / ps', frequency: '1 THz', wavenumber: '1 / nm', dimensionless: '2', mass: '0.09 m_e', temperature: '300 K' };
+const WRONG: Record<ParamKind, string> = { length: '7 meV', energy: '7 nm', angularFrequency: '7 nm', frequency: '7 nm', wavenumber: '7 meV', dimensionless: '7 nm', mass: '7 nm', temperature: '7 nm' };
 
 /** A call of `sig` with its required parameters, one of each `oneOf` group, and `tested` set to `value`. */
 function call(sig: Signature, tested: string, value: string): string {
@@ -24,7 +24,9 @@ function call(sig: Signature, tested: string, value: string): string {
 }
 
 function fileWith(sig: Signature, c: string): string {
-  return sig.context === 'system' ? `${UNITS}system ${c}\n` : `${UNITS}system box(-5 nm, 5 nm)\nstate ${c}\n`;
+  // A thermal state names the system it is in equilibrium with.
+  const of = sig.name === 'thermal' ? ' of oscillator(omega = 2 / ps)' : '';
+  return sig.context === 'system' ? `${UNITS}system ${c}\n` : `${UNITS}system box(-5 nm, 5 nm)\nstate ${c}${of}\n`;
 }
 
 const cases = Object.values(SIGNATURES).flatMap((sig) => sig.params.map((p) => ({ sig, p })));

@@ -22,9 +22,9 @@ describe('infinite square well', () => {
     near(weightOf(r, 1), 0.998555014364018, 1e-12);
     for (const l of r.levels) {
       const exact = l.n % 2 === 1 ? (8 * Math.sqrt(15)) / (l.n * PI) ** 3 : 0;
-      expect(Math.abs(l.re - exact)).toBeLessThan(1e-12);
-      expect(Math.abs(l.im)).toBeLessThan(1e-14);
-      if (l.n % 2 === 0) expect(Math.abs(l.re)).toBeLessThanOrEqual(1e-14); // parity zeros
+      expect(Math.abs(l.re! - exact)).toBeLessThan(1e-12);
+      expect(Math.abs(l.im!)).toBeLessThan(1e-14);
+      if (l.n % 2 === 0) expect(Math.abs(l.re!)).toBeLessThanOrEqual(1e-14); // parity zeros
     }
     const E1 = PI ** 2 / 2;
     near(r.energy?.mean, (10 / PI ** 2) * E1, 1e-10);

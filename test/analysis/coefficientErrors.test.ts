@@ -70,7 +70,7 @@ describe('coefficient uncertainties of numerical systems', () => {
       for (let j = 0; j < q.x.length; j++) c += q.w[j]! * psi(q.x[j]!) * exact[n]!.phi(q.x[j]!);
       const lv = r.levels[n]!;
       expect(lv.coefficientUncertainty).toBeDefined();
-      expect(Math.abs(lv.re - c)).toBeLessThanOrEqual(lv.coefficientUncertainty!);
+      expect(Math.abs(lv.re! - c)).toBeLessThanOrEqual(lv.coefficientUncertainty!);
       expect(lv.coefficientUncertainty!).toBeLessThan(1e-6);
       expect(Math.abs(lv.energy - exact[n]!.E)).toBeLessThanOrEqual(lv.uncertainty!);
     }

@@ -39,7 +39,7 @@ function run(system: string, data: string, extra = 'basis 12'): AnalysisResult {
 function maxError(r: AnalysisResult, exact: (n: number) => number): number {
   expect(r.levels.length).toBeGreaterThanOrEqual(10);
   let e = 0;
-  for (const l of r.levels.slice(0, 10)) e = Math.max(e, Math.hypot(l.re - exact(l.n), l.im));
+  for (const l of r.levels.slice(0, 10)) e = Math.max(e, Math.hypot(l.re! - exact(l.n), l.im!));
   return e;
 }
 
@@ -114,8 +114,8 @@ describe('convergence to closed-form coefficients', () => {
     const a = run(osc, rows.join('\n'));
     const b = run(osc, rows2.join('\n'));
     for (let n = 0; n < 10; n++) {
-      expect(a.levels[n]!.re).toBeCloseTo(b.levels[n]!.re, 9);
-      expect(a.levels[n]!.im).toBeCloseTo(b.levels[n]!.im, 9);
+      expect(a.levels[n]!.re!).toBeCloseTo(b.levels[n]!.re!, 9);
+      expect(a.levels[n]!.im!).toBeCloseTo(b.levels[n]!.im!, 9);
     }
     // A Gaussian pushed by momentum k: <H> = (k^2 + 1) / 2 for the oscillator's ground-state width (closed form, common practice).
     expect(a.energy!.mean!).toBeCloseTo((k * k + 1) / 2, 4);
@@ -239,7 +239,7 @@ describe('how the samples fit the system', () => {
     const a = run(nm, table(sine, 0, 1, 64));
     const b = run(nm, table((x) => sine(x / 10) / Math.sqrt(10), 0, 10, 64, 'x [angstrom], re'));
     expect(a.levels[0]!.re).toBeCloseTo(1, 8);
-    expect(b.levels[0]!.re).toBeCloseTo(a.levels[0]!.re, 10);
+    expect(b.levels[0]!.re!).toBeCloseTo(a.levels[0]!.re!, 10);
     expect(b.norm!).toBeCloseTo(a.norm!, 10);
   });
 });

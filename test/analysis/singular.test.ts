@@ -81,7 +81,7 @@ describe('integrable spikes', () => {
     };
     for (const n of [1, 2, 3, 5, 8]) {
       const l = r.levels.find((v) => v.n === n)!;
-      expect(Math.abs(l.re - coefficient(n))).toBeLessThan(1e-7);
+      expect(Math.abs(l.re! - coefficient(n))).toBeLessThan(1e-7);
     }
     expect(ranges(r, 'convergence')).toContainEqual(formula('box(0, 1)', 'x^-0.4'));
     expect(r.singularity).toMatchObject({ x: 0, integrable: true });

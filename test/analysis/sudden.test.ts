@@ -19,8 +19,8 @@ describe('numerical potentials reproduce the analytic systems', () => {
       expect(Math.abs(lvNum.energy - (k + 0.5))).toBeLessThan(1e-9);
       expect(Math.abs(lvNum.weight - Math.exp(-0.5) * 0.5 ** k / f)).toBeLessThan(1e-9);
       // The sign conventions differ (FORMAT: oscillator positive for large x, V(x) positive at the left).
-      expect(Math.abs(Math.abs(lvNum.re) - Math.abs(lvExact.re))).toBeLessThan(1e-9);
-      expect(lvNum.re * lvExact.re * (-1) ** k).toBeGreaterThanOrEqual(0);
+      expect(Math.abs(Math.abs(lvNum.re!) - Math.abs(lvExact.re!))).toBeLessThan(1e-9);
+      expect(lvNum.re! * lvExact.re! * (-1) ** k).toBeGreaterThanOrEqual(0);
     }
   });
 

@@ -43,7 +43,7 @@ describe('dimension analysis (physical mode, units nm, meV)', () => {
     for (const [text, d] of cases) {
       const r = check(text, s);
       expect(r.found, text).toEqual([]);
-      expect(r.dimension, text).toEqual(d.map((v) => v + 0));
+      expect(r.dimension, text).toEqual(d.map((v) => v! + 0));
     }
   });
 

@@ -265,6 +265,11 @@ function arbState(physical: boolean, L: string, E: string): fc.Arbitrary<string>
     ),
     fc.tuple(fc.constantFrom('0', '1', '2', '3', '-1', '4.5', '1e9'), arbSystem(physical, L, E)).map(([n, s]) => `eigen(${n}) of ${s}`),
     fc.tuple(len, len, fc.option(k)).map(([c, w, m]) => `gaussian(center = ${c}, width = ${w}${m ? `, momentum = ${m}` : ''})`),
+    // Mixed states, with occupations and temperatures low enough that a thermal sum stays short.
+    fc.tuple(fc.constantFrom('nbar = 0', 'nbar = 0.3', 'nbar = -1', 'nbar = 1e-300', 'temperature = 0', `temperature = ${physical ? '1e-3 K' : '0.01'}`, 'temperature = 1 nm'), arbSystem(physical, L, E)).map(
+      ([a, s]) => `thermal(${a}) of ${s}`,
+    ),
+    fc.tuple(fc.constantFrom('0.5', '1', '-0.1', '0', '1e308'), arbSystem(physical, L, E)).map(([w, s]) => `mixture(${w}: eigen(1) of ${s}, 0.5: psi(x) = 1)`),
   );
 }
 
@@ -346,7 +351,8 @@ export function resultProblems(r: AnalysisResult): string[] {
   let sum = 0;
   for (const l of r.levels) {
     if (!Number.isFinite(l.energy)) p.push(`level ${l.n} has energy ${l.energy}`);
-    if (!Number.isFinite(l.re) || !Number.isFinite(l.im)) p.push(`level ${l.n} has coefficient ${l.re} + ${l.im} i`);
+    // A mixed state has populations only: its re and im are null (docs/format.md), and only then.
+    if (r.mixture ? l.re !== null || l.im !== null : !Number.isFinite(l.re) || !Number.isFinite(l.im)) p.push(`level ${l.n} has coefficient ${l.re} + ${l.im} i`);
     if (!(l.weight >= 0 && l.weight <= 1 + 1e-6)) p.push(`level ${l.n} has weight ${l.weight}`);
     sum += l.weight;
   }

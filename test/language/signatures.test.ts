@@ -23,6 +23,7 @@ describe('SIGNATURES', () => {
       ['well', ['depth:energy!', 'width:length!', 'center:length=0', 'barrier_mass:mass']],
       ['oscillator', ['omega:angularFrequency', 'frequency:frequency', 'quantum:energy', 'center:length=0']],
       ['gaussian', ['center:length!', 'width:length!', 'momentum:wavenumber=0']],
+      ['thermal', ['nbar:dimensionless', 'temperature:temperature']],
     ]);
     expect(SIGNATURES.oscillator.oneOf).toEqual([['omega', 'frequency', 'quantum']]);
     for (const s of Object.values(SIGNATURES)) {

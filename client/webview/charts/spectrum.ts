@@ -97,7 +97,9 @@ function spectrumTooltip(ctx: BuildContext, cum: Float64Array): Option {
         ['n', String(l.n)],
         ['E_n', `${formatNumber(l.energy)}${e ? ` ${e}` : ''}`],
       ];
-      if (!resolved(l, total)) rows.push(['|c_n|²', `below ${formatNumber(WEIGHT_FLOOR)} of the total (numerical zero)`]);
+      if (!resolved(l, total)) rows.push([l.re === null ? 'P_n' : '|c_n|²', `below ${formatNumber(WEIGHT_FLOOR)} of the total (numerical zero)`]);
+      // A mixed state has populations, no coefficients (re and im are null): no modulus or phase.
+      else if (l.re === null || l.im === null) rows.push(['P_n', formatNumber(l.weight)]);
       else rows.push(['|c_n|', formatNumber(Math.hypot(re, im))], ['phase', phaseText(re, im)], ['|c_n|²', formatNumber(l.weight)]);
       rows.push(['sum to n', formatNumber(cum[params.dataIndex])]);
       return ctx.tooltip(rows);
@@ -122,7 +124,7 @@ function spectrumXAxis(ctx: BuildContext): Option {
 
 function spectrumYAxes(ctx: BuildContext, shown: (number | null)[], decades: DecadeAxis | null): Option[] {
   const { palette: p } = ctx;
-  const name = { name: '|c_n|²', nameTextStyle: { color: p.foreground, align: 'left' } };
+  const name = { name: ctx.result.mixture ? 'P_n' : '|c_n|²', nameTextStyle: { color: p.foreground, align: 'left' } };
   let weights: Option;
   if (decades) {
     weights = { ...axisStyle(p), ...name, type: 'value', min: 0, max: decades.top - decades.floor, interval: decades.step, axisLabel: { color: p.foreground, formatter: (v: number) => decadeLabel(Math.round(v + decades.floor)) } };

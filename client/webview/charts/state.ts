@@ -129,7 +129,7 @@ function energySeries(ctx: BuildContext, ehi: number): Option[] {
   const mark = (data: Option[]) => ({ markLine: { silent: true, symbol: 'none', animation: false, label: { show: false }, data } });
   const out = [
     line(ctx, 'potential', 'V(x)', p.potential, pairs(s.x, Float64Array.from(s.potential, (v) => v ?? NaN)), { yAxisIndex: 1, ...mark(walls) }),
-    line(ctx, 'levels', 'levels E_n (length ∝ |c_n|²)', p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi)) }),
+    line(ctx, 'levels', `levels E_n (length ∝ ${result.mixture ? 'P_n' : '|c_n|²'})`, p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi)) }),
   ];
   const mean = result.energy?.mean;
   if (mean !== null && mean !== undefined) {
@@ -142,6 +142,7 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
   const { result, settings, palette: p } = ctx;
   const s = result.samples!;
   const st = sampledState(s);
+  if (s.density) return densitySeries(ctx, st.density);
   const part = partialSum(s, result.levels, settings.terms);
   const series: Option[] = [line(ctx, 'density', '|ψ|²', p.density, pairs(s.x, st.density), { areaStyle: { color: p.density, opacity: 0.15 } }), line(ctx, 're', 'Re ψ', p.real, pairs(s.x, st.re))];
   const arrays: ArrayLike<number>[] = [st.density, st.re, part.re];
@@ -202,6 +203,22 @@ function massSeries(ctx: BuildContext): { series: Option[]; axis: Option | null 
   return { series: [series], axis: { type: 'value', show: false, min: 0, max: top > 0 ? 1.25 * top : 1 } };
 }
 
+/** A mixed state: its density <x|rho|x> (it has no wave function, so no Re/Im psi and no partial sum), and the picked level. */
+function densitySeries(ctx: BuildContext, density: Float64Array): { series: Option[]; range: [number, number] } {
+  const { result, settings, palette: p } = ctx;
+  const s = result.samples!;
+  const series: Option[] = [line(ctx, 'density', 'ρ(x) = ⟨x|ρ|x⟩', p.density, pairs(s.x, density), { areaStyle: { color: p.density, opacity: 0.15 } })];
+  let lo = 0;
+  let hi = 0;
+  for (const v of density) hi = Math.max(hi, v);
+  if (settings.selected !== null && s.phi[settings.selected]) {
+    const phi = Float64Array.from(s.phi[settings.selected]!, (v) => v ?? 0);
+    for (const v of phi) ((lo = Math.min(lo, v)), (hi = Math.max(hi, v)));
+    series.push(line(ctx, 'picked', `φ_${result.levels[settings.selected]?.n ?? settings.selected}`, p.accent, pairs(s.x, phi), { lineStyle: { color: p.accent, width: 1, type: 'dotted' } }));
+  }
+  return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
+}
+
 /** The state view's chart option and whether its two vertical axes share their zero. */
 export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean } {
   const { result, palette: p } = ctx;
@@ -226,7 +243,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     },
     xAxis: { ...axisStyle(p), ...valueAxis(xr, p.foreground), name: `x${unitSuffix(lu)}`, nameLocation: 'middle', nameGap },
     yAxis: [
-      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
+      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: result.samples!.density ? 'ρ(x)' : 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
       { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `E, V${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
       ...(mass.axis ? [mass.axis] : []),
     ],

@@ -45,7 +45,7 @@ function topSeries(ctx: BuildContext, i: number): Option {
   const x = result.samples?.x ?? [];
   const dens = ev.density?.[i];
   return dens
-    ? { id: 'density-t', name: '|ψ(x,t)|²', type: 'line', showSymbol: false, xAxisIndex: 0, yAxisIndex: 0, areaStyle: { color: p.density, opacity: 0.2 }, lineStyle: { color: p.density, width: p.lineWidth }, itemStyle: { color: p.density }, data: dens.map((v, j) => [x[j], v]) }
+    ? { id: 'density-t', name: result.mixture ? 'ρ(x,t)' : '|ψ(x,t)|²', type: 'line', showSymbol: false, xAxisIndex: 0, yAxisIndex: 0, areaStyle: { color: p.density, opacity: 0.2 }, lineStyle: { color: p.density, width: p.lineWidth }, itemStyle: { color: p.density }, data: dens.map((v, j) => [x[j], v]) }
     : { id: 'meanx-t', name: '⟨x⟩(t)', type: 'line', showSymbol: false, xAxisIndex: 0, yAxisIndex: 0, lineStyle: { color: p.real, width: p.lineWidth }, itemStyle: { color: p.real }, data: ev.times.map((tt, j) => [tt, ev.meanX[j]]) };
 }
 
@@ -59,7 +59,7 @@ function survivalSeries(ctx: BuildContext, t: number): Option[] {
   const ev = result.evolution!;
   const tu = result.units.time ? ` ${result.units.time}` : '';
   const out: Option[] = [
-    { id: 'survival', name: 'survival |⟨ψ(0)|ψ(t)⟩|²', type: 'line', showSymbol: false, xAxisIndex: 1, yAxisIndex: 1, lineStyle: { color: p.cumulative, width: p.lineWidth }, itemStyle: { color: p.cumulative }, data: survivalCurve(ev) },
+    { id: 'survival', name: result.mixture ? 'survival Σ p_k |⟨ψ_k|ψ_k(t)⟩|²' : 'survival |⟨ψ(0)|ψ(t)⟩|²', type: 'line', showSymbol: false, xAxisIndex: 1, yAxisIndex: 1, lineStyle: { color: p.cumulative, width: p.lineWidth }, itemStyle: { color: p.cumulative }, data: survivalCurve(ev) },
     markSeries('now', `t = ${formatNumber(t, 4)}${tu}`, p.accent, t, 'solid', p.lineWidth),
   ];
   if (ev.revival !== null) out.push(markSeries('revival', `revival at ${formatNumber(ev.revival, 4)}${tu}`, p.cumulative, ev.revival, 'dashed', p.lineWidth));

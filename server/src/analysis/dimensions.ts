@@ -13,7 +13,8 @@ export type ValueKind =
   | 'angularFrequency'
   | 'frequency'
   | 'wavenumber'
-  | 'dimensionless';
+  | 'dimensionless'
+  | 'temperature';
 
 const TABLE: Record<ValueKind, Dimension> = {
   length: [1, 0, 0, 0],
@@ -24,6 +25,7 @@ const TABLE: Record<ValueKind, Dimension> = {
   frequency: [0, 0, -1, 0],
   wavenumber: [-1, 0, 0, 0],
   dimensionless: [0, 0, 0, 0],
+  temperature: [0, 0, 0, 0, 1],
 };
 
 /** The dimensionless dimension. */

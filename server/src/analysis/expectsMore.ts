@@ -60,8 +60,9 @@ export function checkMore(x: MoreExpect, model: Model, result: AnalysisResult, d
 
 /** The normalised coefficients of the levels, or null without them. */
 function coefficients(dyn: ExpectDynamics | null): { re: Float64Array; im: Float64Array } | null {
-  if (!dyn || dyn.levels.length === 0) return null;
-  const re = Float64Array.from(dyn.levels, (l) => l.re);
-  const im = Float64Array.from(dyn.levels, (l) => l.im);
+  // A mixed state has no coefficients (re and im are null): the forms that need them cannot be judged.
+  if (!dyn || dyn.levels.length === 0 || dyn.levels[0]!.re === null) return null;
+  const re = Float64Array.from(dyn.levels, (l) => l.re ?? NaN);
+  const im = Float64Array.from(dyn.levels, (l) => l.im ?? NaN);
   return { re, im };
 }

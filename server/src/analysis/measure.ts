@@ -108,6 +108,8 @@ export interface MeasureInput {
   count: number;
   state: StateFunction;
   ctx: ComputeContext;
+  /** Search for the levels that would capture all but TOL when the capture falls short (default true; a light part of a mixture skips it). */
+  searchNeeded?: boolean;
 }
 
 /** Measures the state; a `Stop` when it cannot be expanded. Throws `BadValue` where the state is not finite. */
@@ -152,7 +154,7 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (basis.kind === 'well') m.continuum = Math.max(0, 1 - m.captured);
   // A spike's coefficients fall off algebraically and its grids never settle: no basis within the cap
   // captures all but TOL, and the search would only spend the budget on grids that cannot agree.
-  else if (m.captured < 1 - TOL && !singular && !beyondCap(levels.length, 1 - m.captured, energy.decay, ctx.limits.maxBasis)) {
+  else if (input.searchNeeded !== false && m.captured < 1 - TOL && !singular && !beyondCap(levels.length, 1 - m.captured, energy.decay, ctx.limits.maxBasis)) {
     m.needed = levelsNeeded({ state: projected, basis, window, model: input.model, ctx });
   }
   return m;
@@ -240,7 +242,7 @@ function hardWalls(model: Model, built: BuiltBasis): [boolean, boolean] {
 }
 
 /** The smallest number of levels whose weights add up to `share`, or null. */
-function levelsFor(weights: Float64Array, share: number): number | null {
+export function levelsFor(weights: Float64Array, share: number): number | null {
   let acc = 0;
   for (let k = 0; k < weights.length; k++) {
     acc += weights[k]!;

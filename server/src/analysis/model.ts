@@ -18,6 +18,7 @@ import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
 import { gaussianFactors } from './narrow';
 import { NODES_PER_SAMPLE, samplesModel } from './samples';
+import { mixtureModel, thermalModel, type MixedHooks } from './mixedModel';
 
 import type { ComparisonModel, ExpectModel, Model, ModelOptions, StateModel, SystemModel } from './modelTypes';
 export type { ComparisonModel, ExpectModel, Model, ModelOptions, StateModel, SystemModel } from './modelTypes';
@@ -377,7 +378,22 @@ class ModelBuilder {
         this.push(found);
         return m;
       }
+      case 'thermal':
+        return thermalModel(spec, this.mixedHooks(hasSystem));
+      case 'mixture':
+        return mixtureModel(spec, this.mixedHooks(hasSystem));
     }
+  }
+
+  /** The evaluators the mixed states (mixedModel.ts) borrow. */
+  private mixedHooks(hasSystem: boolean): MixedHooks {
+    return {
+      units: this.units,
+      constant: (src, kind, what) => this.constant(src, kind, what),
+      system: (spec) => this.system(spec),
+      state: (spec) => this.state(spec, hasSystem),
+      error: (code, span, message) => this.error(code, span, message),
+    };
   }
 
   private comparison(c: import('../language/ast').Comparison, kind: ValueKind | null, what: string): ComparisonModel | null {

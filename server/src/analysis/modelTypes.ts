@@ -5,6 +5,7 @@ import type { ExprText, Span, Statement } from '../language/ast';
 import type { Complex, CompiledFunction, Dimension, UnitSystem } from '../expr/types';
 import type { NarrowPeak } from './narrow';
 import type { SamplesModel } from './samples';
+import type { MixtureModel, ThermalModel } from './mixedModel';
 import type { DataFile } from './options';
 
 /** A system with its parameters evaluated (internal units). */
@@ -36,7 +37,9 @@ export type StateModel =
   | { kind: 'psi'; fn: CompiledFunction; expr: ExprText; usesPhi: boolean; dimension?: Dimension; peaks?: NarrowPeak[] }
   | { kind: 'eigen'; level: number; levelSpan: Span; system: SystemModel }
   | { kind: 'gaussian'; center: number; width: number; momentum: number }
-  | SamplesModel;
+  | SamplesModel
+  | ThermalModel
+  | MixtureModel;
 
 /** A checked `expect` line. */
 export type ExpectModel =

@@ -22,6 +22,7 @@ import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
 import { resolvedCount, samplePoints } from './samplesState';
 import { massRegions, massSamples } from './massView';
+import { isMixed, mixedStage } from './mixedStage';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -65,6 +66,7 @@ export function numericStage(input: NumericInput, result: AnalysisResult): void 
   const massFacts = massRegions(basis, model.units);
   if (massFacts) result.system.mass = massFacts;
   if (!model.state || ctx.budget.expired()) return;
+  if (isMixed(model.state.model)) return mixedStage({ input, built, count: Math.min(asked, basis.count), checks }, result);
   const state = buildState(model.state.model, basis, model.mass, out, { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget });
   if (!state) return;
   // A sampled state is expanded only on the levels its samples resolve.
@@ -98,6 +100,8 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   for (const check of STATE_CHECKS) out.push(...check(m, checks));
   fillResult(m, result);
   if (m.basis.kind === 'oscillator') result.meanQuantumNumber = meanQuantumNumber(result.system, result.energy?.mean);
+  // A pure state: Tr rho^2 = 1 exactly.
+  result.purity = 1;
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out, { basis: m.basis, levels: m.levels, budget: ctx.budget });
   const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
@@ -109,7 +113,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
 }
 
 /** The measured numbers a front end shows. */
-function fillResult(m: StateMeasurements, result: AnalysisResult): void {
+export function fillResult(m: StateMeasurements, result: AnalysisResult): void {
   result.norm = m.norm;
   result.levels = m.levels;
   result.captured = m.captured;
@@ -158,8 +162,8 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
   const cRe = new Float64Array(k);
   const cIm = new Float64Array(k);
   levels.forEach((l, i) => {
-    cRe[i] = l.re;
-    cIm[i] = l.im;
+    cRe[i] = l.re ?? 0;
+    cIm[i] = l.im ?? 0;
   });
   const times = new Float64Array(ev.steps + 1);
   for (let j = 0; j <= ev.steps; j++) times[j] = (ev.to * j) / ev.steps;
@@ -180,14 +184,14 @@ function evolution(model: Model, basis: Eigenbasis, levels: LevelResult[], densi
 }
 
 /** `n` points (400 for the panel) over the walls (or the integration window) for plots. */
-function plotGrid(basis: Eigenbasis, window: [number, number], n: number): Float64Array {
+export function plotGrid(basis: Eigenbasis, window: [number, number], n: number): Float64Array {
   const [a, b] = basis.walls ?? window;
   const xs = new Float64Array(n);
   for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
   return xs;
 }
 
-function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[], maxLevels: number): SampleResult {
+export function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[], maxLevels: number): SampleResult {
   const n = xs.length;
   const v = state.evaluate(xs, 0);
   const s = 1 / Math.sqrt(norm);

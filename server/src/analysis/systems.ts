@@ -348,6 +348,10 @@ export function buildState(
       };
       return f;
     }
+    case 'thermal':
+    case 'mixture':
+      // A mixed state is no single function: mixed.ts builds and measures its pure parts one by one.
+      return null;
   }
 }
 

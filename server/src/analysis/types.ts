@@ -13,9 +13,9 @@ export interface LevelResult {
   energy: number;
   /** Estimated absolute error of the energy (numerical systems only). */
   uncertainty?: number;
-  /** c_n = <phi_n|psi> for the normalised state. */
-  re: number;
-  im: number;
+  /** c_n = <phi_n|psi> for the normalised state; null for a mixed state, whose coefficients have no meaning. */
+  re: number | null;
+  im: number | null;
   /** |c_n|^2. */
   weight: number;
   /** Estimated absolute error of c_n (numerical systems: twice its change between the solver's last two grids). */
@@ -68,6 +68,8 @@ export interface SampleResult {
   mass?: number[];
   interfaces?: number[];
   massUnit?: string | null;
+  /** A mixed state: its density <x|rho|x> on x (then `re` and `im` are all 0: a mixture has no wave function). */
+  density?: number[];
 }
 
 /** Everything known about a file after analysis. */
@@ -94,6 +96,13 @@ export interface AnalysisResult {
   norm: number | null;
   /** Sum of weights over the levels computed. */
   captured: number | null;
+  /**
+   * Tr rho^2 of the state: 1 for a pure state, below 1 for a mixture (mixed.ts says how it is computed).
+   * Optional: absent where no state was measured.
+   */
+  purity?: number;
+  /** A mixed state's parts: their probabilities (normalised, in the order written or of the levels) and the thermal weight left out. */
+  mixture?: { kind: 'thermal' | 'mixture'; weights: number[]; omitted: number };
   energy: { mean: number | null; spread: number | null } | null;
   parity: 'even' | 'odd' | 'mixed' | null;
   /** Finite well only: 1 - sum of bound-state weights. */

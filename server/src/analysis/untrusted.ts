@@ -189,5 +189,9 @@ function stateSlots(spec: StateSpec, hasSystem: boolean): Slot[] {
     case 'samples':
       // A path, not an expression: nothing to check, and an untrusted workspace reads no data file.
       return [];
+    case 'thermal':
+      return [...argSlots('thermal', spec.args), ...systemSlots(spec.system)];
+    case 'mixture':
+      return spec.parts.flatMap((p) => [{ src: p.weight, kind: 'dimensionless' as const, what: 'the weight' }, ...stateSlots(p.state, hasSystem)]);
   }
 }

@@ -30,8 +30,9 @@ export function exportGrid(points: number, maxBasis: number): { points: number; 
 export function renderSamplesCsv(result: AnalysisResult, file: string): string | null {
   const s = result.samples;
   if (!s || result.levels.length === 0) return null;
-  const used = Math.min(s.phi.length, result.levels.length);
   const length = result.units.length ?? 'natural units';
+  if (result.mixture) return mixtureCsv(result, file, length);
+  const used = Math.min(s.phi.length, result.levels.length);
   const rows = [
     `# eigenspan expand ${file} --samples: the normalised state and its expansion on ${s.x.length} points`,
     `# x in ${length}; psi in ${result.units.length ? `${length}^-1/2` : 'natural units'}; expansion over ${used} of ${result.levels.length} levels, captured weight ${String(result.captured)}`,
@@ -42,10 +43,26 @@ export function renderSamplesCsv(result: AnalysisResult, file: string): string |
     let ei = 0;
     for (let k = 0; k < used; k++) {
       const p = s.phi[k]![j]!;
-      er += result.levels[k]!.re * p;
-      ei += result.levels[k]!.im * p;
+      er += (result.levels[k]!.re ?? 0) * p;
+      ei += (result.levels[k]!.im ?? 0) * p;
     }
     rows.push([s.x[j]!, s.re[j]!, s.im[j]!, er, ei].map((v) => String(v)).join(','));
   }
+  return rows.join('\n') + '\n';
+}
+
+/**
+ * A mixed state has no wave function: the export is its density <x|rho|x> = sum_k p_k |psi_k(x)|^2 on
+ * the grid. No expansion column: the populations alone leave out rho's off-diagonal part in the new basis.
+ */
+function mixtureCsv(result: AnalysisResult, file: string, length: string): string | null {
+  const s = result.samples!;
+  if (!s.density || s.density.length !== s.x.length) return null;
+  const rows = [
+    `# eigenspan expand ${file} --samples: the density of the mixed state on ${s.x.length} points (purity ${String(result.purity)})`,
+    `# x in ${length}; density in ${result.units.length ? `${length}^-1` : 'natural units'}`,
+    'x,density',
+  ];
+  for (let j = 0; j < s.x.length; j++) rows.push(`${String(s.x[j]!)},${String(s.density[j]!)}`);
   return rows.join('\n') + '\n';
 }

@@ -46,12 +46,14 @@ export function toJson(result: AnalysisResult, text: string): Record<string, unk
   const lines = lineTable(text);
   const out: Record<string, unknown> = {
     levels: result.levels.map((l) => {
-      const o: Record<string, number> = { n: l.n, energy: l.energy, re: l.re, im: l.im, weight: l.weight };
+      const o: Record<string, number | null> = { n: l.n, energy: l.energy, re: l.re, im: l.im, weight: l.weight };
       if (l.uncertainty !== undefined) o.uncertainty = l.uncertainty;
       return o;
     }),
     norm: result.norm,
     captured: result.captured,
+    ...(result.purity !== undefined ? { purity: result.purity } : {}),
+    ...(result.mixture ? { mixture: result.mixture } : {}),
     energy: result.energy ?? { mean: null, spread: null },
     parity: result.parity,
   };
@@ -83,7 +85,8 @@ export function renderJson(result: AnalysisResult, text: string): string {
 export function renderCsv(result: AnalysisResult, bare = false): string {
   const unit = result.units.energy === null ? 'natural units (hbar = 1, mass = 1)' : result.units.energy;
   const rows = bare ? ['n,energy,re,im,weight'] : [`# energy in ${unit}`, 'n,energy,re,im,weight'];
-  for (const l of result.levels) rows.push([l.n, l.energy, l.re, l.im, l.weight].map((v) => String(v)).join(','));
+  // A mixed state has no coefficients: its re and im cells are empty.
+  for (const l of result.levels) rows.push([l.n, l.energy, l.re, l.im, l.weight].map((v) => (v === null ? '' : String(v))).join(','));
   return rows.join('\n') + '\n';
 }
 
@@ -104,13 +107,16 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
     const shown = top.slice(0, 12);
     // An oscillator's energies also in its quantum hbar omega, where they read n + 1/2.
     const inQ = (e: number): string => (quantum === null ? '' : `  ${num(e / quantum, 8).padStart(16)}`);
-    lines.push(`  ${'n'.padStart(4)}  ${('E_n' + (eu ? ` [${eu}]` : '')).padStart(16)}${quantum === null ? '' : `  ${'E_n [hbar omega]'.padStart(16)}`}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${'|c_n|^2'.padStart(13)}`);
+    lines.push(`  ${'n'.padStart(4)}  ${('E_n' + (eu ? ` [${eu}]` : '')).padStart(16)}${quantum === null ? '' : `  ${'E_n [hbar omega]'.padStart(16)}`}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${(result.mixture ? 'P_n' : '|c_n|^2').padStart(13)}`);
     for (const l of shown) {
       lines.push(`  ${String(l.n).padStart(4)}  ${num(l.energy, 8).padStart(16)}${inQ(l.energy)}  ${num(l.re).padStart(13)}  ${num(l.im).padStart(13)}  ${num(l.weight).padStart(13)}`);
     }
     if (top.length > shown.length) lines.push(`  ... ${top.length - shown.length} more levels with weight above 1e-12 (of ${result.levels.length} computed)`);
   }
-  if (result.norm !== null) lines.push(`norm (as written): ${num(result.norm, 10)}`);
+  if (result.norm !== null && !result.mixture) lines.push(`norm (as written): ${num(result.norm, 10)}`);
+  if (result.mixture && result.purity !== undefined) {
+    lines.push(`mixed state: ${result.mixture.weights.length} ${result.mixture.kind === 'thermal' ? 'thermal levels' : 'parts'}, purity Tr rho^2 = ${num(result.purity, 10)}`);
+  }
   if (result.captured !== null) lines.push(`captured weight: ${num(result.captured, 10)}${result.levelsFor999 !== null ? `   (99.9% within ${result.levelsFor999} levels)` : ''}`);
   if (result.continuum !== undefined) lines.push(`continuum weight: ${num(result.continuum, 6)}`);
   if (result.energy) {
@@ -119,7 +125,7 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   }
   if (typeof result.meanQuantumNumber === 'number') lines.push(`mean quantum number <n>: ${num(result.meanQuantumNumber, 8)}`);
   if (result.parity) lines.push(`parity: ${result.parity}`);
-  if (result.decay && result.decay.exponent !== null) lines.push(`decay: |c_n| ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
+  if (result.decay && result.decay.exponent !== null) lines.push(`decay: ${result.mixture ? 'sqrt(P_n)' : '|c_n|'} ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
   if (result.evolution) {
     // Times carry the file's time unit; a file with units but no time unit counts time in hbar per its energy unit.
     const timeUnit = result.units.time ? ` ${result.units.time}` : result.units.energy ? ` hbar/${result.units.energy}` : '';

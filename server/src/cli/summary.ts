@@ -26,6 +26,8 @@ export function renderSummary(result: AnalysisResult): string {
   lines.push(`energy mean: ${value(f.mean, unit)}`);
   lines.push(`energy spread: ${value(f.spread, unit)}`);
   lines.push(`parity: ${f.parity ?? 'none'}`);
+  // A mixed state only (pure states keep their summary unchanged): Tr rho^2, rounded like a weight.
+  if (result.mixture && result.purity !== undefined) lines.push(`purity: ${result.purity.toFixed(WEIGHT_DECIMALS)}`);
   for (const k of f.findings) lines.push(`finding: ${k}`);
   return lines.join('\n') + '\n';
 }

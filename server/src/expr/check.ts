@@ -20,8 +20,11 @@ const FUNCTION_NAMES = BUILTINS.map((f) => f.name);
 /** 'any' marks a literal zero, which fits every dimension. */
 type D = Dimension | 'any' | null;
 
-const scale = (d: Dimension, p: number): Dimension => [d[0] * p, d[1] * p, d[2] * p, d[3] * p];
-const plus = (a: Dimension, b: Dimension, sign: number): Dimension => [a[0] + sign * b[0], a[1] + sign * b[1], a[2] + sign * b[2], a[3] + sign * b[3]];
+/** The temperature exponent is carried only when it is not 0, so dimensions without one keep four entries. */
+const withTemperature = (d: [number, number, number, number], t: number): Dimension => (t === 0 ? d : [...d, t]);
+const scale = (d: Dimension, p: number): Dimension => withTemperature([d[0] * p, d[1] * p, d[2] * p, d[3] * p], (d[4] ?? 0) * p);
+const plus = (a: Dimension, b: Dimension, sign: number): Dimension =>
+  withTemperature([a[0] + sign * b[0], a[1] + sign * b[1], a[2] + sign * b[2], a[3] + sign * b[3]], (a[4] ?? 0) + sign * (b[4] ?? 0));
 const concrete = (d: Dimension | 'any'): Dimension => (d === 'any' ? DIM.none : d);
 
 /** Every name an expression could have meant, for "did you mean". */

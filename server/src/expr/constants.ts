@@ -15,6 +15,9 @@ export const DIM = {
   energy: [2, 1, -2, 0] as Dimension,
   frequency: [0, 0, -1, 0] as Dimension,
   action: [2, 1, -1, 0] as Dimension,
+  temperature: [0, 0, 0, 0, 1] as Dimension,
+  /** Energy per temperature (the Boltzmann constant's). */
+  entropy: [2, 1, -2, 0, -1] as Dimension,
 } as const;
 
 /*
@@ -25,6 +28,8 @@ export const DIM = {
 
 /** Planck constant in J s (exact, a defining constant of the SI). */
 export const H_SI = 6.62607015e-34;
+/** Speed of light in vacuum, m/s (exact, SI 2019), for the wavenumber energy unit. */
+const SPEED_OF_LIGHT_SI = 299792458;
 /** Elementary charge in C (exact, a defining constant of the SI). */
 export const QE_SI = 1.602176634e-19;
 /** Reduced Planck constant h/(2 pi) in J s: exact, since h is (1.054571817646...e-34). */
@@ -47,6 +52,8 @@ export const A0_SI = 5.29177210903e-11;
 export const HARTREE_SI = 4.3597447222071e-18;
 /** Rydberg energy R_inf h c in J: half a hartree by definition. */
 export const RYDBERG_SI = HARTREE_SI / 2;
+/** Boltzmann constant in J/K (exact, a defining constant of the SI since 2019; CODATA 2018). */
+export const KB_SI = 1.380649e-23;
 
 /** Value and unit of a constant for a doc line, with 13 significant digits, e.g. "1.054571817646e-34 J s". */
 function docValue(si: number, unit: string): string {
@@ -54,7 +61,7 @@ function docValue(si: number, unit: string): string {
 }
 
 /** What a unit measures; `kind` decides where it may appear on a `units` line. */
-export type UnitKind = 'length' | 'energy' | 'time' | 'frequency' | 'mass';
+export type UnitKind = 'length' | 'energy' | 'time' | 'frequency' | 'mass' | 'temperature';
 
 /** One entry of the unit table. */
 export interface UnitInfo {
@@ -68,7 +75,7 @@ export interface UnitInfo {
 
 function unit(si: number, kind: UnitKind, doc: string): UnitInfo {
   const dimension =
-    kind === 'length' ? DIM.length : kind === 'energy' ? DIM.energy : kind === 'time' ? DIM.time : kind === 'mass' ? DIM.mass : DIM.frequency;
+    kind === 'length' ? DIM.length : kind === 'energy' ? DIM.energy : kind === 'time' ? DIM.time : kind === 'mass' ? DIM.mass : kind === 'temperature' ? DIM.temperature : DIM.frequency;
   return { si, dimension, kind, doc };
 }
 
@@ -104,7 +111,7 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['hartree', unit(HARTREE_SI, 'energy', 'hartree (CODATA 2018)')],
   ['Ry', unit(RYDBERG_SI, 'energy', 'rydberg, half a hartree')],
   // The spectroscopists' wavenumber as an energy, E = h c / lambda with 1 / lambda = 1 / cm. Its own name, so a 1/length (`1 / cm`, a `momentum`) is never taken for an energy.
-  ['invcm', unit(H_SI * C_SI * 100, 'energy', 'wavenumber energy h c / (1 cm), the energy of 1 cm^-1')],
+  ['invcm', unit(H_SI * SPEED_OF_LIGHT_SI * 100, 'energy', 'wavenumber energy h c / (1 cm), the energy of 1 cm^-1')],
   ['s', unit(1, 'time', 'second')],
   ['ms', unit(1e-3, 'time', 'millisecond')],
   ['us', unit(1e-6, 'time', 'microsecond')],
@@ -124,6 +131,7 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['m_e', unit(ME_SI, 'mass', 'electron mass (CODATA 2018)')],
   ['m_p', unit(MP_SI, 'mass', 'proton mass (CODATA 2018)')],
   ['u', unit(U_SI, 'mass', 'atomic mass constant (CODATA 2018)')],
+  ['K', unit(1, 'temperature', 'kelvin (temperatures, e.g. of a thermal state)')],
 ]);
 
 /** A named physical constant (not a unit: it never appears on a `units` line). */
@@ -142,6 +150,7 @@ export const CONSTANTS: ReadonlyMap<string, ConstantInfo> = new Map<string, Cons
   ['hbar', { si: HBAR_SI, dimension: DIM.action, doc: `reduced Planck constant h/(2 pi), ${docValue(HBAR_SI, 'J s')}... (exact)` }],
   ['h', { si: H_SI, dimension: DIM.action, doc: `Planck constant, ${docValue(H_SI, 'J s')} (exact)` }],
   ['q_e', { si: QE_SI, dimension: DIM.charge, doc: `elementary charge, ${docValue(QE_SI, 'C')} (exact)` }],
+  ['k_B', { si: KB_SI, dimension: DIM.entropy, doc: `Boltzmann constant, ${docValue(KB_SI, 'J/K')} (exact)` }],
 ]);
 
 /** Dimensionless built-in names, available in both modes: Euler's number, pi and the imaginary unit. */

@@ -25,10 +25,11 @@ export type Expr =
   | { type: 'conditional'; test: Expr; then: Expr; otherwise: Expr; start: number; end: number };
 
 /**
- * A physical dimension as integer (or half-integer) exponents of length, mass, time and charge.
+ * A physical dimension as integer (or half-integer) exponents of length, mass, time and charge, and
+ * optionally temperature (absent means 0, so the four-exponent literals stay valid).
  * Dimensionless is [0, 0, 0, 0].
  */
-export type Dimension = readonly [number, number, number, number];
+export type Dimension = readonly [number, number, number, number, number?];
 
 /** A complex number. */
 export interface Complex {

@@ -82,7 +82,8 @@ export function makeUnitSystem(units: { name: string; span: Span }[] | null): Pr
 
 /**
  * SI value of one internal unit of dimension `dim`: L^a * M^b * T^c * Q^d with T = hbar/E,
- * M = hbar^2/(E L^2) and Q = the elementary charge. 1 in natural mode.
+ * M = hbar^2/(E L^2) and Q = the elementary charge; the internal unit of temperature is the kelvin
+ * itself (so k_B is E-per-kelvin inside). 1 in natural mode.
  */
 export function internalUnitSI(dim: Dimension, u: UnitSystem): number {
   if (u.mode === 'natural') return 1;
@@ -152,7 +153,7 @@ export function physicalNames(): string[] {
 /** True when two dimensions are equal (exponents compared to 1e-9 so halves and thirds compare cleanly). */
 export function sameDimension(a: Dimension, b: Dimension): boolean {
   for (let k = 0; k < 4; k++) if (Math.abs(a[k]! - b[k]!) > 1e-9) return false;
-  return true;
+  return Math.abs((a[4] ?? 0) - (b[4] ?? 0)) <= 1e-9;
 }
 
 /** True for the dimensionless [0, 0, 0, 0]. */
@@ -185,17 +186,20 @@ function product(parts: [string, number][]): string {
 export function formatDimension(dim: Dimension): string {
   if (isDimensionless(dim)) return 'dimensionless';
   const [l, m, t, q] = dim;
+  const th = dim[4] ?? 0;
   const massParts: [string, number][] = [
     ['length', l],
     ['mass', m],
     ['time', t],
     ['charge', q],
+    ['temperature', th],
   ];
   const energyParts: [string, number][] = [
     ['energy', m],
     ['length', l - 2 * m],
     ['time', t + 2 * m],
     ['charge', q],
+    ['temperature', th],
   ];
   const count = (ps: [string, number][]) => ps.filter(([, p]) => Math.abs(p) > 1e-9).length;
   return product(count(energyParts) < count(massParts) ? energyParts : massParts);

@@ -58,7 +58,15 @@ export type StateSpec =
   | { kind: 'eigen'; span: Span; level: ExprText; system: SystemSpec }
   | { kind: 'gaussian'; span: Span; keywordSpan: Span; args: Arg[] }
   /** `samples("PATH")`: a table of samples in a data file; `pathSpan` covers the quoted path, quotes included. */
-  | { kind: 'samples'; span: Span; keywordSpan: Span; path: string; pathSpan: Span };
+  | { kind: 'samples'; span: Span; keywordSpan: Span; path: string; pathSpan: Span }
+  | { kind: 'thermal'; span: Span; keywordSpan: Span; args: Arg[]; system: SystemSpec }
+  | { kind: 'mixture'; span: Span; keywordSpan: Span; parts: MixturePart[] };
+
+/** One part of a `mixture(...)`: `WEIGHT: STATE`, where the state is a pure one. */
+export interface MixturePart extends Span {
+  weight: ExprText;
+  state: StateSpec;
+}
 
 /** A comparison at the end of an `expect` line. */
 export type Comparison =

@@ -88,6 +88,16 @@ export const KEYWORDS: readonly KeywordInfo[] = [
         snippet: 'state samples("${1:data/psi.csv}")',
         doc: 'Samples of psi in a data file beside this one (columns x, re, im or x, abs, phase), interpolated by a cubic spline.',
       },
+      {
+        label: 'state thermal(nbar = NBAR) of SYSTEM',
+        snippet: 'state thermal(${1:nbar = 0.3}) of ${2:oscillator(omega = 1)}',
+        doc: 'A thermal mixture of the levels of another system (nbar for an oscillator, or temperature = T).',
+      },
+      {
+        label: 'state mixture(P1: STATE, P2: STATE)',
+        snippet: 'state mixture(${1:0.5}: ${2:eigen(1) of box(0, 1)}, ${3:0.5}: ${4:eigen(2) of box(0, 1)})',
+        doc: 'A mixed state: pure states with probabilities that add up to 1.',
+      },
     ],
   },
   {
@@ -150,7 +160,7 @@ export const PARITY_VALUES = ['even', 'odd', 'mixed'] as const;
 export const SYSTEM_KINDS = ['box', 'well', 'oscillator', 'V'] as const;
 
 /** The state kinds after `state`. */
-export const STATE_KINDS = ['psi', 'eigen', 'gaussian', 'samples'] as const;
+export const STATE_KINDS = ['psi', 'eigen', 'gaussian', 'samples', 'thermal', 'mixture'] as const;
 
 /** Words with a fixed meaning inside statements (they split statements, so they cannot be `let` names). */
 export const INNER_WORDS = ['over', 'of', 'to', 'steps'] as const;

@@ -8,6 +8,7 @@ import { isSpace } from './scanner';
 import { SIGNATURES } from './signatures';
 import { parseSamples } from './parseSamples';
 import { expectXCall, fail, parseCall, unexpected, unknownName, type Ctx } from './parserParts';
+import { parseMixture, parseThermal } from './parseMixed';
 import {
   exprText,
   identEnd,
@@ -54,7 +55,9 @@ export function parseState(ctx: Ctx, from: number, hi: number, anchor: Span): St
     if (system === null) return null;
     return { kind: 'eigen', span: { start: p, end: hi }, level, system };
   }
-  unknownName(ctx, kindSpan, kind, STATE_KINDS, `Unknown state '${kind}'; expected psi(x) = ..., gaussian(...) or eigen(N) of a system.`);
+  if (kind === 'thermal') return parseThermal(ctx, kindSpan, hi, parseSystem);
+  if (kind === 'mixture') return parseMixture(ctx, kindSpan, hi, parseState);
+  unknownName(ctx, kindSpan, kind, STATE_KINDS, `Unknown state '${kind}'; expected psi(x) = ..., gaussian(...), eigen(N) of a system, thermal(...) of a system or mixture(...).`);
   return null;
 }
 

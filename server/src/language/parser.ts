@@ -25,7 +25,10 @@
  *                                                    WALL: "hard" | "open" (one for both ends, or left, right)
  * state       = "state" ( "psi" "(" "x" ")" "=" EXPR
  *                       | "eigen" "(" EXPR ")" "of" SYSTEM
- *                       | "gaussian" "(" ARGS ")" )
+ *                       | "gaussian" "(" ARGS ")"
+ *                       | "thermal" "(" ARGS ")" "of" SYSTEM
+ *                       | "mixture" "(" PART { "," PART } ")" )      (parseMixed.ts)
+ * PART        = EXPR ":" STATE                       a pure state; split at the first top-level ":" 
  * basis       = "basis" EXPR
  * expect      = "expect" ( "norm" CMP | "parity" ("even" | "odd" | "mixed") | "weight" LEVELS CMP
  *                        | "energy" CMP | "spread" CMP | "level" LEVEL "energy" CMP

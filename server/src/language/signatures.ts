@@ -9,7 +9,7 @@ import { diagnostic, type EngineDiagnostic } from './catalogue';
 import { suggest } from './suggest';
 
 /** The physical kind of a parameter's value (what the unit checker expects in physical mode; a kind of analysis/dimensions.ts). */
-export type ParamKind = 'length' | 'energy' | 'angularFrequency' | 'frequency' | 'wavenumber' | 'dimensionless' | 'mass';
+export type ParamKind = 'length' | 'energy' | 'angularFrequency' | 'frequency' | 'wavenumber' | 'dimensionless' | 'mass' | 'temperature';
 
 /** One parameter of a constructor. */
 export interface ParamSpec {
@@ -26,7 +26,7 @@ export interface ParamSpec {
 }
 
 /** The constructors that take an argument list. */
-export type ConstructorName = 'box' | 'well' | 'oscillator' | 'gaussian';
+export type ConstructorName = 'box' | 'well' | 'oscillator' | 'gaussian' | 'thermal';
 
 /** A constructor's signature. */
 export interface Signature {
@@ -98,6 +98,17 @@ export const SIGNATURES: Readonly<Record<ConstructorName, Signature>> = {
     ],
     oneOf: [],
     doc: 'Normalised Gaussian packet exp(-(x - X0)^2 / (4 S^2) + i K x).',
+  },
+  thermal: {
+    name: 'thermal',
+    context: 'state',
+    positional: false,
+    params: [
+      { name: 'nbar', required: false, kind: 'dimensionless', what: 'the mean occupation', doc: 'Mean occupation number of an oscillator: p_k = nbar^k / (nbar + 1)^(k + 1).' },
+      { name: 'temperature', required: false, kind: 'temperature', what: 'the temperature', doc: 'Temperature T of the Boltzmann weights exp(-E_k / (k_B T)) (in kelvin; k_B T in energy units in a file without units).' },
+    ],
+    oneOf: [['nbar', 'temperature']],
+    doc: 'Thermal (Gibbs) mixture of the levels of the system after `of`, written like a `system` line; it assumes that system was in equilibrium.',
   },
 };
 

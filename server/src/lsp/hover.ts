@@ -29,8 +29,10 @@ function levelTable(result: AnalysisResult): string[] {
   const unit = result.units.energy;
   const top = [...result.levels].sort((a, b) => b.weight - a.weight || a.n - b.n).slice(0, TOP_LEVELS);
   if (top.length === 0) return [];
-  const rows = top.map((l: LevelResult) => `| ${l.n} | ${fmt(l.energy)} | ${fmt(l.weight)} | ${fmtPhase(l.re, l.im)} |`);
-  return ['', `| n | E_n${unit ? ` (${unit})` : ''} | \\|c_n\\|² | phase |`, '|---:|---:|---:|---:|', ...rows];
+  const rows = top.map((l: LevelResult) => `| ${l.n} | ${fmt(l.energy)} | ${fmt(l.weight)} | ${l.re === null || l.im === null ? '—' : fmtPhase(l.re, l.im)} |`);
+  // A mixed state has populations P_n and no coefficients, so no phases.
+  const mixed = top.some((l) => l.re === null);
+  return ['', `| n | E_n${unit ? ` (${unit})` : ''} | ${mixed ? 'P_n' : '\\|c_n\\|²'} | phase |`, '|---:|---:|---:|---:|', ...rows];
 }
 
 function stateHover(view: DocView): string[] {
@@ -38,8 +40,15 @@ function stateHover(view: DocView): string[] {
   if (!r) return ['**state**', '', missing(view)];
   const e = withUnit(r.units.energy);
   const lines = ['**state**', ''];
-  lines.push(`norm ∫|ψ|² dx = ${fmt(r.norm)}  `);
-  lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  if (r.mixture) {
+    // A mixed state has populations P_n and no wave function: its purity instead of a norm.
+    const parts = r.mixture.weights.length;
+    lines.push(`mixed state of ${parts} ${r.mixture.kind === 'thermal' ? 'thermal level' : 'part'}${parts === 1 ? '' : 's'}, purity Tr ρ² = ${fmt(r.purity)}  `);
+    lines.push(`captured Σ P_n = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  } else {
+    lines.push(`norm ∫|ψ|² dx = ${fmt(r.norm)}  `);
+    lines.push(`captured Σ|c_n|² = ${fmt(r.captured)} over ${r.levels.length} levels  `);
+  }
   if (r.energy) {
     // The spread is a property of the state (ΔE = sqrt(<H^2> - <H>^2)), not an error bar: its own line.
     // An oscillator's energies also in its quantum ħω (display only).

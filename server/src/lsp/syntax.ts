@@ -28,6 +28,16 @@ function systemTexts(sys: SystemSpec, out: ExprText[]): void {
   else argTexts(sys.args, out);
 }
 
+/** The expression texts of `thermal(...) of SYSTEM` and of each part of `mixture(...)`. */
+function mixedTexts(spec: Extract<Statement, { kind: 'state' }>['state'], out: ExprText[]): void {
+  if (spec.kind === 'thermal') {
+    argTexts(spec.args, out);
+    systemTexts(spec.system, out);
+  } else if (spec.kind === 'mixture') {
+    for (const part of spec.parts) out.push(part.weight, ...statementExprTexts({ kind: 'state', span: part, keywordSpan: part, state: part.state }));
+  }
+}
+
 function comparisonTexts(c: Comparison, out: ExprText[]): void {
   out.push(c.value);
   if (c.kind === 'tolerance') out.push(c.tolerance);
@@ -49,10 +59,10 @@ export function statementExprTexts(s: Statement): ExprText[] {
       if (s.state.kind === 'psi') out.push(s.state.expr);
       else if (s.state.kind === 'gaussian') argTexts(s.state.args, out);
       else if (s.state.kind === 'samples') break;
-      else {
+      else if (s.state.kind === 'eigen') {
         out.push(s.state.level);
         systemTexts(s.state.system, out);
-      }
+      } else mixedTexts(s.state, out);
       break;
     case 'expect': {
       const e = s.expectation;

@@ -157,18 +157,7 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
 export function potentialBasis(V: PotentialFn, a: number, b: number, mass: number, levels: number, options: PotentialOptions = {}): PotentialBasisResult {
   const o = { ...DEFAULTS, ...options };
   const budget = options.budget ?? unlimitedBudget();
-  const fail = (note: PotentialNote): PotentialBasisResult => ({
-    basis: emptyBasis(a, b, mass, V),
-    points: 0,
-    unresolved: levels >= 1 ? 1 : null,
-    wallLevels: [],
-    wallEnds: [],
-    wallOnly: [],
-    wallTrend: { left: 'levels', right: 'levels' },
-    notes: [note],
-    sizes: [],
-    stopped: null,
-  });
+  const fail = (note: PotentialNote): PotentialBasisResult => failedBasis(V, a, b, mass, levels, note);
   if (!(Number.isFinite(a) && Number.isFinite(b) && b > a) || !(mass > 0 && Number.isFinite(mass))) {
     return fail({ kind: 'input', message: 'The interval must have finite ends a < b and the mass must be positive.' });
   }
@@ -236,6 +225,22 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   return { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
+}
+
+/** The result of a solve that could not start or finish its first grid: an empty basis and why. */
+function failedBasis(V: PotentialFn, a: number, b: number, mass: number, levels: number, note: PotentialNote): PotentialBasisResult {
+  return {
+    basis: emptyBasis(a, b, mass, V),
+    points: 0,
+    unresolved: levels >= 1 ? 1 : null,
+    wallLevels: [],
+    wallEnds: [],
+    wallOnly: [],
+    wallTrend: { left: 'levels', right: 'levels' },
+    notes: [note],
+    sizes: [],
+    stopped: null,
+  };
 }
 
 /**
