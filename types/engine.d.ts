@@ -45,10 +45,14 @@ export interface EngineFinding {
 export interface EngineLevel {
   n: number;
   energy: number;
-  re: number;
-  im: number;
+  /** c_n of the normalised state; null for a mixed state (thermal, mixture), whose coefficients have no meaning. */
+  re: number | null;
+  im: number | null;
+  /** |c_n|^2, or the population P_n of a mixed state. */
   weight: number;
   uncertainty?: number;
+  /** Numerical systems: the uncertainty of re and im (twice their change between the solver's last two grids). */
+  coefficientUncertainty?: number;
 }
 
 /** The result of `analyse`: the fields of `eigenspan expand --json`. */
@@ -67,10 +71,27 @@ export interface EngineResult {
     uncertainties?: number[];
     boundCount?: number;
     center: number | null;
+    /** A mass that depends on x: the regions between its interfaces, with the smallest and largest mass in each (m_e in a physical file). */
+    mass?: { regions: { from: number | null; to: number | null; min: number; max: number }[]; unit: string | null };
   } | null;
   decay: { exponent: number | null; classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown'; at: number | null } | null;
   levelsFor999: number | null;
-  evolution?: { times: number[]; meanX: number[]; meanP: number[]; survival: number[]; revival: number | null };
+  evolution?: {
+    times: number[];
+    meanX: number[];
+    meanP: number[];
+    survival: number[];
+    revival: number | null;
+    /** The survival probability on its own fine time grid, independent of the evolve steps. */
+    survivalTimes?: number[];
+    survivalFine?: number[];
+  };
+  /** Tr rho^2: 1 for a pure state. */
+  purity?: number;
+  /** Mixed states only: the parts' probabilities as used and the share of a thermal sum left out. */
+  mixture?: { kind: 'thermal' | 'mixture'; weights: number[]; omitted: number };
+  /** Oscillators only: the mean quantum number <n>; null when the energy mean diverges. */
+  meanQuantumNumber?: number | null;
 }
 
 /** The default caps. */

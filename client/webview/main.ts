@@ -119,7 +119,7 @@ function summaryItems(r: PanelResult): [string, string][] {
   const about = c === null || c === undefined ? '' : ` about x = ${formatNumber(c)}${r.units.length ? ` ${r.units.length}` : ''}`;
   const items: [string, string][] = [
     ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}${inQuanta(r, r.energy.mean)}`],
-    ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : `${formatNumber(r.energy.spread, 4)}${eu}${inQuanta(r, r.energy.spread)}`],
+    ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : spreadText(r.energy.spread, r.energy.mean, eu, inQuanta(r, r.energy.spread))],
     ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
     r.mixture ? ['purity Tr ρ²', formatNumber(r.purity, 6)] : ['norm as written', formatNumber(r.norm, 6)],
     ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
@@ -436,3 +436,9 @@ new ResizeObserver(() => {
 show({ views: false, empty: true });
 syncControls(null);
 vscode.postMessage({ type: 'ready' });
+
+/** The energy spread, with a spread below the rounding of the mean (an eigenstate's, about 1e-14 of it) shown as 0: that is noise, not data. */
+function spreadText(spread: number, mean: number | null, eu: string, quanta: string): string {
+  if (mean !== null && Math.abs(spread) <= 1e-12 * Math.abs(mean)) return `0${eu} (below 1e-12 of ⟨E⟩)`;
+  return `${formatNumber(spread, 4)}${eu}${quanta}`;
+}

@@ -228,8 +228,8 @@ describe('reuse of the eigenbasis', () => {
     const one = work('c from -0.5 to 0.5 steps 10', 1);
     const eleven = work('c from -0.5 to 0.5 steps 10', 11);
     const changing = work('k from 1 to 2 steps 10', 11);
-    // Ten more points cost a fifth of what ten more solves do, and less than one more solve in all.
-    expect(eleven - one).toBeLessThan((changing - one) / 5);
-    expect(eleven).toBeLessThan(2 * one);
+    // Ten more points cost less than half of what ten more solves do: each point projects the state
+    // (on the solver's last two grids, for the coefficients' uncertainty) but solves nothing.
+    expect(eleven - one).toBeLessThan((changing - one) / 2);
   });
 });

@@ -116,13 +116,16 @@ function declaredPaths(shape: Shape, path: string): string[] {
   }
 }
 
-/** Setups that between them show every field: hard walls with an evolution, a finite well, an oscillator, a numerical potential, a failed file. */
+/** Setups that between them show every field: hard walls with an evolution, a finite well, an oscillator, a numerical potential, a failed file, a thermal mixture, a mass that depends on x. */
 const SETUPS = [
   'system box(0, 1)\nstate psi(x) = sqrt(30) x * (1 - x)\nbasis 10\nevolve to 1 steps 5\nexpect energy 4 +- 0.1\n',
   'units nm, meV\nsystem well(depth = 300 meV, width = 2 nm)\nstate gaussian(center = 0 nm, width = 0.5 nm)\n',
   'system oscillator(omega = 1)\nstate gaussian(center = 1, width = 0.8, momentum = 0.5)\nbasis 20\n',
   'system V(x) = x^4 / 4 over [-5, 5]\nstate psi(x) = exp(-x^2)\nbasis 8\n',
+  'system V(x) = x < 0.5 ? 0 : 20 over [0, 1]\nstate psi(x) = sin(pi x)^2\nbasis 4\n',
   'system box(0, 1)\nstate psi(x) = y\n',
+  'system oscillator(omega = 1)\nstate thermal(nbar = 0.5) of oscillator(omega = 1, center = 1)\nbasis 20\n',
+  'system V(x) = abs(x) < 1 ? 0 : 5 over [-4, 4] with mass(x) = abs(x) < 1 ? 1 : 1.5\nstate psi(x) = exp(-x^2)\nbasis 3\n',
 ];
 
 let engine: typeof Declared;

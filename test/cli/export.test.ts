@@ -50,4 +50,20 @@ describe('expand --samples', () => {
     expect(run(dir, 'expand', 'p.qstate', '--samples', 'x.csv', '--out', 'x.csv').status).toBe(2);
     expect(run(dir, 'expand', 'p.qstate', '--samples', 'y.csv', '--points', '1').status).toBe(2);
   });
+
+  it('writes the density of a mixed state, which has no wave function', () => {
+    // rho = 0.25 |phi_1><phi_1| + 0.75 |phi_2><phi_2| in the box (0, 1): its density is
+    // 0.25 * 2 sin^2(pi x) + 0.75 * 2 sin^2(2 pi x) (the box levels, closed form).
+    const dir = tempDir('eigenspan-export-');
+    writeFileSync(join(dir, 'm.qstate'), 'system box(0, 1)\nstate mixture(0.25: eigen(1) of box(0, 1), 0.75: eigen(2) of box(0, 1))\n');
+    const r = run(dir, 'expand', 'm.qstate', '--samples', 'm.csv', '--points', '101');
+    expect(r.status, r.stderr).toBe(0);
+    const lines = readFileSync(join(dir, 'm.csv'), 'utf8').trim().split('\n');
+    expect(lines[2]).toBe('x,density');
+    const rows = lines.slice(3).map((l) => l.split(',').map(Number));
+    expect(rows).toHaveLength(101);
+    for (const [x, d] of rows as number[][]) {
+      expect(d).toBeCloseTo(0.5 * Math.sin(Math.PI * x!) ** 2 + 1.5 * Math.sin(2 * Math.PI * x!) ** 2, 10);
+    }
+  });
 });

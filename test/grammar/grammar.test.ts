@@ -138,6 +138,13 @@ describe('qstate grammar', () => {
       ['mass', 'entity.name.function.mass.qstate'],
       ['?', 'keyword.operator.ternary.qstate'],
     ]);
+    check('system V(x) = x^2 / 2 over [0, 8] walls hard open', [
+      ['walls', 'keyword.other.walls.qstate'],
+      ['hard', 'constant.language.wall.qstate'],
+      ['open', 'constant.language.wall.qstate'],
+    ]);
+    check('expect revival 2 +- 0.1', [['revival', 'keyword.other.expectation.qstate']]);
+    check('expect level 2 energy 4.5 +- 0.1', [['level', 'keyword.other.expectation.qstate']]);
   });
 
   it('scopes the state forms and functions', () => {

@@ -254,6 +254,8 @@ describe('numbers and labels', () => {
     await post(page, messageFor(src, ++version, 'file:///ws/eigen-well.qstate'));
     const s = await text('#summary');
     expect(s).toMatch(/continuum 0 \(below 1e-12\)/);
+    // An eigenstate's spread is zero to rounding (about 1e-14 of its energy): shown as 0.
+    expect(s).toMatch(/ΔE 0 meV \(below 1e-12 of ⟨E⟩\)/);
     expect(s).not.toMatch(/e-1[3-9]/);
     // The tooltip of the ground level: phase 0, not "0 π".
     await openTab(page, 'spectrum');

@@ -318,7 +318,10 @@ function energyOf(m: {
   const g = gridEnergy(basis, ex.q, ex.values, ex.norm);
   let mean: number | null = g.mean;
   // ||(H - <H>) psi|| keeps the digits sqrt(<H^2> - <H>^2) cancels: an eigenstate's spread is ~1e-14, not 1e-7.
-  let spread: number | null = Math.sqrt(Math.max(0, gridVariance(basis, ex.q, ex.values, ex.norm, g.mean)));
+  // A mass that depends on x has its own <H^2> (physics/massEnergy.ts: not finite across a jump of m for a state whose psi'/m jumps).
+  const variance = basis.masses ? g.meanSquare - g.mean * g.mean : gridVariance(basis, ex.q, ex.values, ex.norm, g.mean);
+  let spread: number | null = Math.sqrt(Math.max(0, variance));
+  if (!Number.isFinite(variance)) spread = null;
   // Levels the solver could not resolve say nothing about the state's smoothness.
   const unresolved = m.built.unresolved;
   const resolved = unresolved ? Math.max(0, Math.min(count, unresolved - basis.firstLabel)) : count;

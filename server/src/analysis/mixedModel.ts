@@ -11,6 +11,7 @@ import { toInternal } from '../expr/units';
 import type { StateModel, SystemModel } from './model';
 import type { ValueKind } from './dimensions';
 import { fmt } from './findings';
+import { paramOf } from '../language/signatures';
 
 /** The most parts a mixed state may have: each is projected like a pure state, and the purity costs their number squared. */
 export const MAX_PARTS = 200;
@@ -46,7 +47,7 @@ export function thermalModel(spec: Extract<StateSpec, { kind: 'thermal' }>, h: M
   const system = h.system(spec.system);
   const given = n ?? t;
   if (!given) return null;
-  const value = n ? h.constant(n.value, 'dimensionless', 'the mean occupation nbar') : h.constant(t!.value, 'temperature', 'the temperature');
+  const value = n ? h.constant(n.value, 'dimensionless', paramOf('thermal', 'nbar')!.what) : h.constant(t!.value, 'temperature', paramOf('thermal', 'temperature')!.what);
   if (value === null || system === null) return null;
   if (!(value >= 0) || !Number.isFinite(value)) {
     h.error('evaluation', given.value, `${n ? 'The mean occupation nbar' : 'The temperature'} must be zero or positive and finite, not ${fmt(value)}.`);

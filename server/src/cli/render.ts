@@ -48,6 +48,7 @@ export function toJson(result: AnalysisResult, text: string): Record<string, unk
     levels: result.levels.map((l) => {
       const o: Record<string, number | null> = { n: l.n, energy: l.energy, re: l.re, im: l.im, weight: l.weight };
       if (l.uncertainty !== undefined) o.uncertainty = l.uncertainty;
+      if (l.coefficientUncertainty !== undefined) o.coefficientUncertainty = l.coefficientUncertainty;
       return o;
     }),
     norm: result.norm,

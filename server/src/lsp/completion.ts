@@ -81,6 +81,8 @@ function keywordFits(view: DocView, keyword: string, at: number): boolean {
   if (KEYWORD_TABLE.find((k) => k.keyword === keyword)?.once && others.some((s) => s.kind === keyword)) return false;
   if (keyword === 'units') return !others.some((s) => s.start < at);
   if (keyword === 'mass') return !others.some((s) => s.start < at && (s.kind === 'system' || s.kind === 'state'));
+  // A sweep varies a `let`: without one there is nothing to sweep.
+  if (keyword === 'sweep') return others.some((s) => s.kind === 'let' && s.start < at);
   return true;
 }
 
@@ -106,7 +108,9 @@ export function completeAt(view: DocView, offset: number, options: CompletionOpt
   if (/^system\s+[A-Za-z]*$/.test(head) || /^state\s+eigen\b.*\bof\s+[A-Za-z]*$/.test(head)) return constructors('system', units, options);
   if (/^state\s+[A-Za-z]*$/.test(head)) return constructors('state', units, options);
   if (/^units\b/.test(head)) return UNIT_NAMES.filter((u) => u.kind === 'length' || u.kind === 'energy' || u.kind === 'time').map((u) => item(u.name, CompletionItemKind.Unit, `${u.kind}: ${u.doc}`, null, options));
-  if (/^expect\s+[a-z]*$/.test(head)) return EXPECT_KINDS.map((k) => item(k.name, CompletionItemKind.Keyword, k.doc, templateFor('expect', k.name, units, k.snippet), options));
+  // 'expect window' judges a sweep: offered only in a file with a `sweep` line.
+  const swept = view.file.statements.some((st) => st.kind === 'sweep');
+  if (/^expect\s+[a-z]*$/.test(head)) return EXPECT_KINDS.filter((k) => swept || k.name !== 'window').map((k) => item(k.name, CompletionItemKind.Keyword, k.doc, templateFor('expect', k.name, units, k.snippet), options));
   if (/^expect\s+parity\s+[a-z]*$/.test(head)) return PARITIES.map((p) => item(p, CompletionItemKind.EnumMember, `parity ${p}`, null, options));
   if (/^evolve\s+[a-z]*$/.test(head)) return [item('to', CompletionItemKind.Keyword, 'The time to evolve up to, then the number of steps.', evolveRest(units), options)];
   const names = expressionNames(view, start, head, options);

@@ -56,6 +56,8 @@ const CONSTRUCTOR_TEMPLATES: Record<string, Template> = {
   oscillator: (u) => (u ? `oscillator(quantum = \${1:1 ${u.energy}})` : 'oscillator(${1|omega,frequency,quantum|} = ${2:1})'),
   V: (u) => (u ? `V(x) = \${1:1 ${u.energy} * (x / ${u.length})^2} over [\${2:-5 ${u.length}}, \${3:5 ${u.length}}]` : 'V(x) = ${1:x^2 / 2} over [${2:-5}, ${3:5}]'),
   psi: (u) => `psi(x) = \${1:x * (${len(u, '1')} - x)}`,
+  thermal: (u) => (u ? `thermal(temperature = \${1:300 K}) of \${2:oscillator(quantum = 1 ${u.energy})}` : 'thermal(nbar = ${1:0.3}) of ${2:oscillator(omega = 1)}'),
+  mixture: (u) => `mixture(\${1:0.5}: \${2:eigen(1) of box(${len(u, '0')}, ${len(u, '1')})}, \${3:0.5}: \${4:eigen(2) of box(${len(u, '0')}, ${len(u, '1')})})`,
   gaussian: (u) => `gaussian(center = \${1:${len(u, '0')}}, width = \${2:${len(u, '1')}}, momentum = \${3:${u ? `0 / ${u.length}` : '0'}})`,
   eigen: (u) => `eigen(\${1:1}) of \${2:box(${len(u, '0')}, ${len(u, '1')})}`,
 };
@@ -67,6 +69,11 @@ const EXPECT_TEMPLATES: Record<string, Template> = {
   weight: () => 'weight ${1:1}..${2:20} >= ${3:0.999}',
   energy: (u) => `energy \${1:${en(u, '1')}} +- \${2:${en(u, '0.01')}}`,
   spread: (u) => `spread \${1:${en(u, '1')}} +- \${2:${en(u, '0.01')}}`,
+  level: (u) => `level \${1:1} energy \${2:${en(u, '1')}} +- \${3:${en(u, '0.01')}}`,
+  continuum: () => 'continuum <= ${1:1e-3}',
+  revival: (u) => `revival \${1:${u ? `1 ${u.time}` : '1'}} +- \${2:${u ? `0.1 ${u.time}` : '0.1'}}`,
+  mean: (u) => `mean x(\${1:${u ? `0 ${u.time}` : '0'}}) \${2:${len(u, '0')}} +- \${3:${len(u, '0.1')}}`,
+  window: (u) => `window covers \${1:${len(u, '1')}}..\${2:${len(u, '2')}}`,
 };
 
 const TABLES = { keyword: KEYWORD_TEMPLATES, constructor: CONSTRUCTOR_TEMPLATES, expect: EXPECT_TEMPLATES } as const;
