@@ -6,7 +6,7 @@
  */
 import * as echarts from 'echarts/core';
 import { BarChart, LineChart } from 'echarts/charts';
-import { GridComponent, TooltipComponent, LegendComponent, MarkLineComponent } from 'echarts/components';
+import { GridComponent, TooltipComponent, LegendComponent, MarkAreaComponent, MarkLineComponent } from 'echarts/components';
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
@@ -17,7 +17,7 @@ import { continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalida
 import { l2Distance, partialSum, sampledState } from './physics';
 import { axisLabels, drawnTexts, itemLayouts, yPixel } from './inspect';
 
-echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, CanvasRenderer, SVGRenderer]);
+echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, MarkAreaComponent, CanvasRenderer, SVGRenderer]);
 
 interface WebviewApi {
   postMessage(msg: unknown): void;

@@ -136,6 +136,19 @@ describe('eigenspan plot --view state and time', () => {
     // Step 10 of 40 steps to 100 fs is t = 25 fs.
     expect(texts(svgOf(PARABOLA_NM, ['--view', 'time', '--step', '10']))).toContain('t = 25 fs');
   });
+
+  it('draws a sweep: the quantities against the swept value, the design window and the located flips', () => {
+    // The ground state of the box (0, 1) released into (0, L): |c_1|^2 = 32/(9 pi^2) = 0.36 at L = 2
+    // (CHECKS.md, the suddenly widened well), and 1 at L = 1; the expect line holds for the narrow boxes only.
+    const sweep = 'let L = 1.2\nsystem box(0, L)\nstate eigen(1) of box(0, 1)\nbasis 20\nsweep L from 1 to 2 steps 10\nexpect weight 1 >= 0.5\n';
+    const all = svgOf(sweep, ['--view', 'sweep']);
+    expect(texts(all)).toEqual(expect.arrayContaining(['captured weight', 'P(1)', 'L', 'weight', 'design window']));
+    expect(texts(all).some((t) => /^line 6 fails$/.test(t))).toBe(true);
+    // Two parameters make a map, which is not drawn yet: said, as a usage error.
+    const map = run(['plot', file('map.qstate', `let a = 1\n${sweep}sweep a from 1 to 2 steps 2\n`), '--view', 'sweep']);
+    expect(map.code).toBe(2);
+    expect(map.err).toContain('not drawn yet');
+  });
 });
 
 describe('eigenspan plot files and refusals', () => {

@@ -13,6 +13,7 @@ export { decadeAxis, niceAxis, niceBound, niceCeil, tickFormatter } from './scal
 export { effectiveScale, spectrumOption, termsShown } from './spectrum';
 export { energyWindow, stateAxes, stateOption } from './state';
 export { survivalCurve, timeOption } from './time';
+export { sweepView, type SweepDescription } from './sweep';
 export * from './facts';
 export { DEFAULT_SIZE, legendRows, type ChartSize } from './layout';
 

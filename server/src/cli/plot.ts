@@ -105,9 +105,8 @@ function asPanelResult(result: AnalysisResult): PanelResult {
 }
 
 /** Refuses, with a usage error, a sweep view of a file that has no sweep. */
-function assertSweep(result: AnalysisResult, file: string): never {
-  const has = result.file?.statements.some((s) => (s.kind as string) === 'sweep') ?? false;
-  throw new UsageError(has ? `the sweep of '${file}' cannot be drawn by this version of eigenspan` : `'${file}' has no sweep, so it has no sweep view; try --view spectrum, state or time`);
+function assertSweep(result: AnalysisResult, file: string): asserts result is AnalysisResult & { sweep: NonNullable<AnalysisResult['sweep']> } {
+  if (!result.sweep) throw new UsageError(`'${file}' has no sweep, so it has no sweep view; try --view spectrum, state or time`);
 }
 
 /** Runs `eigenspan plot`; returns the exit code (1 when the file has errors, as `expand`). */
@@ -121,9 +120,12 @@ export function plot(args: string[], io: Io): number {
   const text = readText(o.file, o.limits.maxFileBytes);
   const samples = o.view === 'state' || o.view === 'time';
   const result = analyseFile(o.file, text, { defaultBasis: o.basis, limits: o.limits, samples });
-  if (o.view === 'sweep') assertSweep(result, shown);
-  const panel = asPanelResult(result);
   const failed = result.diagnostics.some((d) => d.severity === 'error');
+  if (o.view === 'sweep') {
+    assertSweep(result, shown);
+    return emit(o, r.drawSweep(result.sweep, result.units.energy, { width: o.width, height: o.height, theme: o.theme }), shown, io, failed);
+  }
+  const panel = asPanelResult(result);
   if (invalidates(panel)) {
     // The panel shows the problems instead of plots in this case; so does the command line.
     if (!failed) throw new UsageError(`nothing to plot: '${shown}' gives no levels (it needs a system and a state)`);
@@ -133,6 +135,12 @@ export function plot(args: string[], io: Io): number {
     return 1;
   }
   const picture = r.drawView(panel, { view: o.view, width: o.width, height: o.height, theme: o.theme, scale: o.scale, axis: o.axis, terms: o.terms, step: o.step });
+  return emit(o, picture, shown, io, failed);
+}
+
+/** Writes a drawn picture where the options say; returns the exit code. */
+function emit(o: PlotOptions, picture: Render.Picture, shown: string, io: Io, failed: boolean): number {
+  const r = renderer();
   if (picture.svg === null) throw new UsageError(`no ${o.view} view for '${shown}': ${picture.empty ?? 'nothing to plot'}`);
   for (const n of picture.notes) io.err(`note: ${n}\n`);
   if (o.png !== null) {

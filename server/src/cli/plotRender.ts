@@ -9,15 +9,16 @@
  */
 import * as echarts from 'echarts/core';
 import { BarChart, LineChart } from 'echarts/charts';
-import { GridComponent, LegendComponent, MarkLineComponent, TooltipComponent } from 'echarts/components';
+import { GridComponent, LegendComponent, MarkAreaComponent, MarkLineComponent, TooltipComponent } from 'echarts/components';
 import { SVGRenderer } from 'echarts/renderers';
 import type { PanelResult } from '../../../client/src/messages';
-import { DEFAULT_SETTINGS, describeView, type TooltipRows, type ViewSettings } from '../../../client/webview/charts';
+import { DEFAULT_SETTINGS, describeView, sweepView, type Option, type TooltipRows, type ViewSettings } from '../../../client/webview/charts';
+import type { SweepResult } from '../analysis/sweep/types';
 import { readPalette, type ThemeKind } from '../../../client/webview/theme';
 import { PICTURE_FONT, PICTURE_FONTS, textWidth } from './plotFont';
 
 // The chart and component types the panel registers (client/webview/main.ts), with the SVG renderer only.
-echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, SVGRenderer]);
+echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, MarkAreaComponent, SVGRenderer]);
 
 /** What to draw: the view, its settings beyond the panel's defaults, the picture's size and theme. */
 export interface PictureRequest {
@@ -59,6 +60,18 @@ export function drawView(result: PanelResult, request: PictureRequest): Picture 
   };
   const size = { width: request.width, height: request.height };
   const view = describeView({ result, settings, palette, tooltip: plainTooltip, size });
+  return render(view, size);
+}
+
+/** Draws the sweep view of a sweep result (the panel's builder, client/webview/charts/sweep.ts). */
+export function drawSweep(sweep: SweepResult, energyUnit: string | null, request: Omit<PictureRequest, 'view'>): Picture {
+  const palette = { ...readPalette(() => '', request.theme), fontFamily: PICTURE_FONTS };
+  const size = { width: request.width, height: request.height };
+  return render(sweepView(sweep, palette, size, energyUnit), size);
+}
+
+/** One chart option as SVG with ECharts' server-side renderer. */
+function render(view: { option: Option | null; notes: string[]; empty: string | null }, size: { width: number; height: number }): Picture {
   if (!view.option) return { svg: null, notes: view.notes, empty: view.empty };
   const chart = echarts.init(null, null, { renderer: 'svg', ssr: true, width: size.width, height: size.height });
   try {
