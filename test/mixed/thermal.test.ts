@@ -59,7 +59,7 @@ describe('a thermal oscillator state displaced by d', () => {
   it('P_0..P_3 for nbar = 0.5, alpha = 1 are the CHECKS values', () => {
     const r = analyse(file('0.5', 'sqrt(2)'));
     expect(errors(r)).toEqual([]);
-    // /work/shared/CHECKS.md, "Mixed states": summed to k = 120 in 40-digit arithmetic.
+    // The published check values for mixed states (thermal nbar = 0.5 displaced by alpha = 1): summed to k = 120 in 40-digit arithmetic.
     const published = [0.342278079355061, 0.266216283942825, 0.17325186732787, 0.1021982559757];
     published.forEach((p, n) => expect(Math.abs(r.levels[n]!.weight - p)).toBeLessThan(1e-10));
     // P_0 = e^(-|alpha|^2 / (nbar + 1)) / (nbar + 1) (same source).

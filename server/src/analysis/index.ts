@@ -6,6 +6,7 @@
  * units) run on every keystroke; `analyse` adds the numerics under one budget. Both are pure and never
  * throw.
  */
+import { emptyResult } from './emptyResult';
 import type { AnalysisResult } from './types';
 import type { EngineDiagnostic } from '../language/catalogue';
 import type { QFile } from '../language/ast';
@@ -71,25 +72,6 @@ export function analyseStatic(text: string, options: AnalyseOptions = {}): { fil
   } catch (err) {
     return { file: { text, statements: [] }, diagnostics: [internalError(err, text)] };
   }
-}
-
-function emptyResult(file: QFile | null, diagnostics: EngineDiagnostic[]): AnalysisResult {
-  return {
-    file,
-    diagnostics,
-    units: { length: null, energy: null, time: null },
-    system: null,
-    levels: [],
-    norm: null,
-    captured: null,
-    energy: null,
-    parity: null,
-    decay: null,
-    levelsFor999: null,
-    evolution: null,
-    samples: null,
-    elapsedMs: 0,
-  };
 }
 
 /**

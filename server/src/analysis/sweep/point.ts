@@ -5,6 +5,7 @@
  * `(A) * ((B) / (A)) ^ (t)` for a logarithmic sweep), so units and dimensions are checked exactly as
  * for the let itself. The range uses only names defined before the let (plan.ts checks it).
  */
+import { emptyResult } from '../emptyResult';
 import type { ExprText, QFile, Statement } from '../../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../../language/catalogue';
 import type { AnalysisResult } from '../types';
@@ -60,26 +61,6 @@ function fileAt(s: SweepSetting, ts: readonly number[]): QFile {
   return { ...s.file, statements };
 }
 
-/** An empty result for one point (the fields `numericStage` fills). */
-function blankResult(file: QFile): AnalysisResult {
-  return {
-    file,
-    diagnostics: [],
-    units: { length: null, energy: null, time: null },
-    system: null,
-    levels: [],
-    norm: null,
-    captured: null,
-    energy: null,
-    parity: null,
-    decay: null,
-    levelsFor999: null,
-    evolution: null,
-    samples: null,
-    elapsedMs: 0,
-  };
-}
-
 /**
  * Analyses the setup at fractions `ts` of the axes (one per axis), at grid index `index`. Never
  * throws: an error becomes an invalid point.
@@ -91,8 +72,7 @@ export function evaluatePoint(s: SweepSetting, ts: readonly number[], index: num
   const values = letValues(model);
   const at = s.axes.map((axis) => values.find((v) => v.name === axis.spec.name)?.re ?? NaN);
   const point: SweepPoint = { index, at, valid: true, problem: null, findings: [], levels: [], captured: null, continuum: null, mean: null, spread: null, bound: null, expects: [] };
-  const result = blankResult(file);
-  result.diagnostics = diags;
+  const result = emptyResult(file, diags);
   if (model.ok) {
     try {
       // Evolution is not part of a sweep's numbers.
