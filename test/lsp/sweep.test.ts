@@ -97,7 +97,8 @@ describe('eigenspan/sweep', () => {
     // 5001 points of a numerical solve each cannot finish in 100 ms.
     expect(r.sweep.stopped).toBe('time');
     expect(r.sweep.finished).toBeLessThan(r.sweep.total);
-    const lim = r.diagnostics.filter((d) => d.code === 'limits');
+    // The sweep's own finding, once; on a loaded machine the let's own analysis may add a limits finding of its own.
+    const lim = r.diagnostics.filter((d) => d.code === 'limits' && / of \d+ points/.test(d.message));
     expect(lim).toHaveLength(1);
     expect(lim[0]!.message).toContain(`finished ${r.sweep.finished} of ${r.sweep.total} points`);
   });
