@@ -127,7 +127,7 @@ describe('let values and formatting', () => {
   });
   it('reads settings defensively', () => {
     expect(readSettings(undefined)).toEqual(DEFAULT_SETTINGS);
-    expect(readSettings({ debounceMs: 250, timeBudgetMs: 'x', defaultBasis: 80.4 })).toEqual({ debounceMs: 250, timeBudgetMs: 2000, defaultBasis: 80, limits: {}, limitProblems: [], sweepTimeLimitMs: 60000 });
+    expect(readSettings({ debounceMs: 250, timeBudgetMs: 'x', defaultBasis: 80.4 })).toEqual({ debounceMs: 250, timeBudgetMs: 2000, defaultBasis: 80, limits: {}, limitProblems: [], sweepTimeLimitMs: 60000, sweepInBackground: true });
     expect(readSettings({ debounceMs: -5 }).debounceMs).toBe(100);
     // Limits: whole numbers inside their ranges are kept; others keep the default and are named.
     const s = readSettings({ limits: { maxBasis: 8000, maxNesting: 5000, maxGridPoints: '65536', maxStatements: 12.5, constructor: 1, maxMillis: 1 } });

@@ -67,3 +67,22 @@ describe('the plain number settings in package.json', () => {
     expect(readSettings({ [name]: hi + 1 })[name]).toBe(DEFAULT_SETTINGS[name]);
   });
 });
+
+describe('the switch settings in package.json', () => {
+  // The boolean settings the server reads: type and default as the server applies them.
+  const switches = ['sweepInBackground'] as const;
+
+  it('are every boolean setting', () => {
+    const booleans = Object.entries(properties)
+      .filter(([, p]) => p.type === 'boolean')
+      .map(([k]) => k.slice('eigenspan.'.length));
+    expect(booleans.sort()).toEqual([...switches].sort());
+  });
+
+  it.each(switches)('%s: default as the server applies it; true and false kept, anything else falls back', (name) => {
+    expect(properties[`eigenspan.${name}`]!.default).toBe(DEFAULT_SETTINGS[name]);
+    expect(readSettings({ [name]: true })[name]).toBe(true);
+    expect(readSettings({ [name]: false })[name]).toBe(false);
+    for (const v of ['false', 0, null, {}]) expect(readSettings({ [name]: v })[name]).toBe(DEFAULT_SETTINGS[name]);
+  });
+});

@@ -11,6 +11,7 @@
 import { CodeLensRefreshRequest, type CancellationToken, type Connection, type TextDocuments } from 'vscode-languageserver';
 import type { TextDocument } from 'vscode-languageserver-textdocument';
 import { analyseStatic } from '../analysis/index';
+import { mergeSweepFindings } from '../analysis/sweep/merge';
 import type { AnalysisResult } from '../analysis/types';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import type { QFile } from '../language/ast';
@@ -56,6 +57,8 @@ export interface StoreOptions {
   scheduler: () => AnalysisScheduler;
   log: (message: string) => void;
   logError: (message: string) => void;
+  /** The findings of the current revision's finished design sweep (lsp/sweepRuns.ts), merged into what is published. */
+  sweepFindings?: (st: DocState) => EngineDiagnostic[] | null;
 }
 
 /** A result without its plot data (samples and the density frames of the evolution). */
@@ -105,7 +108,7 @@ export class DocumentStore {
       text: st.text,
       lines: st.lines,
       file: st.file,
-      diagnostics: st.full?.diagnostics ?? st.staticDiagnostics,
+      diagnostics: this.best(st),
       result: st.full?.result ?? null,
       evaluate: this.o.session.evaluate,
     };
@@ -113,8 +116,19 @@ export class DocumentStore {
 
   /** The best diagnostics of the current text, as LSP diagnostics. */
   lspDiagnostics(st: DocState): ReturnType<typeof toLspDiagnostics> {
-    const best = toLspDiagnostics(st.lines, st.version, st.full?.diagnostics ?? st.staticDiagnostics);
+    const best = toLspDiagnostics(st.lines, st.version, this.best(st));
     return st.full || !st.carried?.length ? best : withCarried(best, toCarriedLspDiagnostics(st.lines, st.carried));
+  }
+
+  /** The findings of the current text: the full analysis's (with its sweep's, once both are in), else the quick stage's. */
+  private best(st: DocState): EngineDiagnostic[] {
+    const sweep = st.full ? this.o.sweepFindings?.(st) : null;
+    return st.full ? (sweep ? mergeSweepFindings(st.full.diagnostics, sweep) : st.full.diagnostics) : st.staticDiagnostics;
+  }
+
+  /** Publishes the current findings of `st` again (its sweep ended). */
+  republish(st: DocState): void {
+    this.publish(st);
   }
 
   private runStatic(text: string): { file: QFile; diagnostics: EngineDiagnostic[] } {

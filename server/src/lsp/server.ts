@@ -10,6 +10,7 @@ import { Session } from './session';
 import { DocumentStore } from './documents';
 import { registerHandlers } from './handlers';
 import { registerSweep } from './sweep';
+import { SweepRuns } from './sweepRuns';
 import { DataFiles } from './dataWatch';
 
 /** Options of `startServer`. */
@@ -32,11 +33,18 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     get samples() {
       return session.samples;
     },
-    onOutcome: (uri, revision, outcome) => store.onOutcome(uri, revision, outcome),
+    onOutcome: (uri, revision, outcome) => {
+      store.onOutcome(uri, revision, outcome);
+      // A full analysis that ended (also by its time budget) may start the document's background sweep.
+      if (outcome.kind !== 'crashed' && store.get(uri)?.revision === revision) sweeps?.analysed(uri);
+    },
     data: (uri, text) => dataFiles.read(uri, text),
   });
   const dataFiles = new DataFiles({ connection, session, changed: (uris) => store.reanalyse(uris), logError });
-  const store = new DocumentStore({ connection, session, scheduler: () => scheduler, log, logError });
+  const sweeps: SweepRuns | null = options.sweepWorkerPath
+    ? new SweepRuns({ connection, session, store: (): DocumentStore => store, workerPath: options.sweepWorkerPath, data: (uri, text) => dataFiles.read(uri, text), log })
+    : null;
+  const store: DocumentStore = new DocumentStore({ connection, session, scheduler: () => scheduler, log, logError, sweepFindings: (st) => sweeps?.findings(st) ?? null });
 
   /** Reads the settings; a change of what results depend on analyses every document again (not on the first read). */
   async function loadSettings(raw: unknown, first: boolean): Promise<void> {
@@ -64,14 +72,26 @@ export function startServer(connection: Connection, options: ServerOptions): voi
     if (on === session.evaluate) return;
     session.evaluate = on;
     log(`evaluation ${on ? 'on' : 'off'}`);
+    if (!on) sweeps?.forgetAll();
     store.trustChanged();
   });
-  connection.onShutdown(() => scheduler.dispose());
+  connection.onShutdown(() => {
+    scheduler.dispose();
+    sweeps?.forgetAll();
+  });
 
   registerHandlers(connection, store, session, logError);
-  if (options.sweepWorkerPath) registerSweep(connection, store, session, options.sweepWorkerPath);
+  if (sweeps) registerSweep(connection, store, session, sweeps);
   const documents = new TextDocuments(TextDocument);
   store.listen(documents);
+  if (sweeps) {
+    // After the store took the new text: a run of the old text stops; a remembered analysis counts as ended.
+    documents.onDidChangeContent((e) => {
+      sweeps.changed(e.document.uri);
+      if (store.get(e.document.uri)?.full) sweeps.analysed(e.document.uri);
+    });
+    documents.onDidClose((e) => sweeps.forget(e.document.uri));
+  }
   documents.onDidClose((e) => dataFiles.forget(e.document.uri));
   documents.listen(connection);
   connection.listen();

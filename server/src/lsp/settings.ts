@@ -18,10 +18,12 @@ export interface Settings {
   limitProblems: string[];
   /** Time for a whole design sweep (`eigenspan/sweep`, lsp/sweep.ts), separate from the per-analysis budget (default 60000 ms). */
   sweepTimeLimitMs: number;
+  /** Run a document's design sweep after each full analysis of a text with a valid sweep line (lsp/sweepRuns.ts; default true). */
+  sweepInBackground: boolean;
 }
 
 /** The defaults, used when the client cannot answer `workspace/configuration`. */
-export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40, limits: Object.freeze({}), limitProblems: [], sweepTimeLimitMs: DEFAULT_SWEEP_MILLIS });
+export const DEFAULT_SETTINGS: Settings = Object.freeze({ debounceMs: 100, timeBudgetMs: 2000, defaultBasis: 40, limits: Object.freeze({}), limitProblems: [], sweepTimeLimitMs: DEFAULT_SWEEP_MILLIS, sweepInBackground: true });
 
 /**
  * The accepted range of each plain number setting, the same as `minimum` and `maximum` in package.json
@@ -51,6 +53,7 @@ export function readSettings(raw: unknown): Settings {
     timeBudgetMs: num(o.timeBudgetMs, DEFAULT_SETTINGS.timeBudgetMs, SETTING_RANGES.timeBudgetMs),
     defaultBasis: Math.round(num(o.defaultBasis, DEFAULT_SETTINGS.defaultBasis, SETTING_RANGES.defaultBasis)),
     sweepTimeLimitMs: Math.round(num(o.sweepTimeLimitMs, DEFAULT_SETTINGS.sweepTimeLimitMs, SETTING_RANGES.sweepTimeLimitMs)),
+    sweepInBackground: typeof o.sweepInBackground === 'boolean' ? o.sweepInBackground : DEFAULT_SETTINGS.sweepInBackground,
     ...(() => {
       const { limits, problems } = readLimits(o.limits);
       return { limits, limitProblems: problems };

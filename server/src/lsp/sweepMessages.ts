@@ -10,8 +10,12 @@
  * `sweep.stopped` is `cancelled`. Answer: `{ uri, version, sweep, diagnostics }` (the sweep's own
  * findings as LSP diagnostics), or `{ uri, version, sweep: null, diagnostics: [] }` when the document has
  * no valid sweep; an untrusted workspace gets an error (nothing is evaluated there).
+ * A request for a revision whose sweep (background or requested earlier) is going or done attaches to
+ * that run (its progress, its points, its answer) instead of starting another (sweepRuns.ts); only a run
+ * the user cancelled, or one whose worker failed, starts again.
  */
 import type { Limits } from '../analysis/index';
+import type { DataFile } from '../analysis/options';
 import type { EngineDiagnostic } from '../language/catalogue';
 import type { SweepPoint, SweepResult } from '../analysis/sweep/index';
 
@@ -21,6 +25,25 @@ export const SWEEP_REQUEST = 'eigenspan/sweep';
  * `{ uri, version, finished, total, point }` with `point` a `SweepPoint` (analysis/sweep/types.ts).
  */
 export const SWEEP_POINT_NOTIFICATION = 'eigenspan/sweepPoint';
+
+/**
+ * Sent when a document's sweep ends (finished, cut by its time limit, or cancelled by the user; not when
+ * an edit superseded it): `{ uri, version, sweep }`, `sweep` null when the text has no valid sweep.
+ * The document's diagnostics for that version are published again with the sweep's findings merged in.
+ */
+export const SWEEP_RESULT_NOTIFICATION = 'eigenspan/sweepResult';
+
+export interface SweepResultParams {
+  uri: string;
+  version: number;
+  sweep: SweepResult | null;
+}
+
+/** What one sweep found: its result and its findings (engine diagnostics of the text it ran on). */
+export interface SweepOutcome {
+  result: SweepResult;
+  diagnostics: EngineDiagnostic[];
+}
 
 export interface SweepParams {
   textDocument: { uri: string };
@@ -35,9 +58,11 @@ export interface SweepJobData {
   maxMillis: number;
   /** An Int32Array view of a SharedArrayBuffer; element 0 becomes 1 to cancel. */
   cancel: Int32Array;
+  /** The data files the text names (`samples("PATH")`), read by the server as for its analysis. */
+  data?: [string, DataFile][];
 }
 
 export type SweepWorkerMessage =
   | { type: 'point'; finished: number; total: number; point: SweepPoint }
-  | { type: 'done'; outcome: { result: SweepResult; diagnostics: EngineDiagnostic[] } | null }
+  | { type: 'done'; outcome: SweepOutcome | null }
   | { type: 'failed'; message: string };

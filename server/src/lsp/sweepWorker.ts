@@ -14,7 +14,7 @@ function post(m: SweepWorkerMessage): void {
 const job = workerData as SweepJobData;
 const cancelled = (): boolean => Atomics.load(job.cancel, 0) !== 0;
 try {
-  const r = runSweep(job.text, { defaultBasis: job.defaultBasis, limits: job.limits }, { maxMillis: job.maxMillis, cancelled, onPoint: (finished, total, point) => post({ type: 'point', finished, total, point }) });
+  const r = runSweep(job.text, { defaultBasis: job.defaultBasis, limits: job.limits, data: new Map(job.data ?? []) }, { maxMillis: job.maxMillis, cancelled, onPoint: (finished, total, point) => post({ type: 'point', finished, total, point }) });
   post({ type: 'done', outcome: r });
 } catch (e) {
   post({ type: 'failed', message: e instanceof Error ? e.message : String(e) });

@@ -29,10 +29,12 @@ import { evaluatePoint, type PointOutcome, type SweepSetting } from './point';
 import { locateAll } from './locate';
 import { sweepFindings, type FindingInput } from './report';
 import { displayOf, unitOf } from './display';
+import { mergeSweepFindings } from './merge';
 import type { SweepAxis, SweepPoint, SweepResult } from './types';
 
 export type { SweepAxis, SweepExpect, SweepLocated, SweepPoint, SweepResult, SweepWindow } from './types';
 export type { PointOutcome } from './point';
+export { mergeSweepFindings } from './merge';
 
 /** Default time limit of a whole sweep, in milliseconds. */
 export const DEFAULT_SWEEP_MILLIS = 60_000;
@@ -71,6 +73,9 @@ function modelOptions(options: AnalyseOptions): ModelOptions {
     maxEvolveSteps: limits.maxEvolveSteps,
     maxExpressionLength: limits.maxExpressionLength,
     maxNesting: limits.maxNesting,
+    // Every point of a samples state reads the data files the front end handed in, as `analyse` does.
+    data: options.data ?? new Map(),
+    maxGridPoints: limits.maxGridPoints,
   };
 }
 
@@ -185,7 +190,7 @@ export function analyseWithSweep(text: string, options: AnalyseOptions = {}, swe
 /** Adds a sweep's result and findings to an analysis result. */
 export function mergeSweep(result: AnalysisResult, s: { result: SweepResult; diagnostics: EngineDiagnostic[] }): AnalysisResult {
   result.sweep = s.result;
-  result.diagnostics = sortDiagnostics([...result.diagnostics, ...s.diagnostics]);
+  result.diagnostics = mergeSweepFindings(result.diagnostics, s.diagnostics);
   return result;
 }
 
