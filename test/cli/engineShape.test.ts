@@ -21,7 +21,7 @@ type Shape =
   | { kind: 'object'; props: Map<string, { optional: boolean; type: Shape }> }
   | { kind: 'array'; of: Shape }
   | { kind: 'union'; of: Shape[] }
-  | { kind: 'number' | 'string' | 'null' }
+  | { kind: 'number' | 'string' | 'null' | 'boolean' }
   | { kind: 'literal'; value: string | number };
 
 /** Reads interface `name` of the declaration file, following the file's own interfaces and aliases. */
@@ -43,6 +43,9 @@ function declaredShape(name: string): Shape {
   function shapeOf(t: ts.TypeNode): Shape {
     if (t.kind === ts.SyntaxKind.NumberKeyword) return { kind: 'number' };
     if (t.kind === ts.SyntaxKind.StringKeyword) return { kind: 'string' };
+    if (t.kind === ts.SyntaxKind.BooleanKeyword) return { kind: 'boolean' };
+    // A tuple as JSON is an array of its element types.
+    if (ts.isTupleTypeNode(t)) return { kind: 'array', of: { kind: 'union', of: t.elements.map((e) => shapeOf(ts.isNamedTupleMember(e) ? e.type : e)) } };
     if (ts.isLiteralTypeNode(t)) {
       if (t.literal.kind === ts.SyntaxKind.NullKeyword) return { kind: 'null' };
       if (ts.isStringLiteral(t.literal)) return { kind: 'literal', value: t.literal.text };
@@ -67,6 +70,8 @@ function check(value: unknown, shape: Shape, path: string, seen: Set<string>): s
       return typeof value === 'number' ? [] : [`${path} is ${JSON.stringify(value)}, declared a number`];
     case 'string':
       return typeof value === 'string' ? [] : [`${path} is ${JSON.stringify(value)}, declared a string`];
+    case 'boolean':
+      return typeof value === 'boolean' ? [] : [`${path} is ${JSON.stringify(value)}, declared a boolean`];
     case 'null':
       return value === null ? [] : [`${path} is not null`];
     case 'literal':
@@ -116,7 +121,7 @@ function declaredPaths(shape: Shape, path: string): string[] {
   }
 }
 
-/** Setups that between them show every field: hard walls with an evolution, a finite well, an oscillator, a numerical potential, a failed file, a thermal mixture, a mass that depends on x. */
+/** Setups that between them show every field: hard walls with an evolution, a finite well, an oscillator, a numerical potential, a failed file, a thermal mixture, a mass that depends on x, a sweep. */
 const SETUPS = [
   'system box(0, 1)\nstate psi(x) = sqrt(30) x * (1 - x)\nbasis 10\nevolve to 1 steps 5\nexpect energy 4 +- 0.1\n',
   'units nm, meV\nsystem well(depth = 300 meV, width = 2 nm)\nstate gaussian(center = 0 nm, width = 0.5 nm)\n',
@@ -126,6 +131,8 @@ const SETUPS = [
   'system box(0, 1)\nstate psi(x) = y\n',
   'system oscillator(omega = 1)\nstate thermal(nbar = 0.5) of oscillator(omega = 1, center = 1)\nbasis 20\n',
   'system V(x) = abs(x) < 1 ? 0 : 5 over [-4, 4] with mass(x) = abs(x) < 1 ? 1 : 1.5\nstate psi(x) = exp(-x^2)\nbasis 3\n',
+  // A sweep with bound-level steps, an expect flip and a design window.
+  'let D = 5\nsystem well(depth = D, width = 2)\nstate gaussian(center = 0, width = 0.5)\nexpect weight 1 >= 0.95\nsweep D from 1 to 12 steps 7\nexpect window covers 2..12\n',
 ];
 
 let engine: typeof Declared;

@@ -26,7 +26,7 @@ import { analyse } from '../index';
 import type { AnalysisResult } from '../types';
 import { checkSweeps, type PlannedWindow } from './plan';
 import { evaluatePoint, type PointOutcome, type SweepSetting } from './point';
-import { locateAll } from './locate';
+import { locateAll, partialWindows } from './locate';
 import { sweepFindings, type FindingInput } from './report';
 import { displayOf, unitOf } from './display';
 import { mergeSweepFindings } from './merge';
@@ -134,7 +134,8 @@ export function runPoints(job: SweepJob, indices: readonly number[], budget: Bud
  * others). `stopped` says why points are missing.
  */
 export function finishSweep(job: SweepJob, outcomes: (PointOutcome | null)[], budget: Budget, stopped: 'time' | 'cancelled' | null): { result: SweepResult; diagnostics: EngineDiagnostic[] } {
-  const located = stopped === null ? locateAll(job, outcomes, budget) : { located: [], windows: [], probes: 0, cut: false };
+  // A sweep stopped short keeps a design window over the points that finished (marked partial).
+  const located = stopped === null ? locateAll(job, outcomes, budget) : { located: [], windows: partialWindows(job, outcomes), probes: 0, cut: false };
   const cut = stopped ?? (located.cut ? (budget.reason ?? 'time') : null);
   const axes: SweepAxis[] = job.setting.axes.map((a, k) => axisOf(job, k, a.steps));
   const result: SweepResult = {

@@ -96,11 +96,28 @@ function locateRow(job: SweepJob, line: (PointOutcome | null)[], row: number | n
       flips[i]!.push({ e, closed: c, up: !va });
     });
   }
-  found.windows.push(...windowsOf(line, flips, row));
+  found.windows.push(...windowsOf(line, flips, row, false));
+}
+
+/**
+ * The windows of a sweep that stopped short: over the points that finished, row by row, with ends at
+ * points (nothing is refined: the budget is spent) and marked partial; a point not reached ends a window.
+ */
+export function partialWindows(job: SweepJob, outcomes: (PointOutcome | null)[]): SweepWindow[] {
+  const axes = job.setting.axes;
+  const n0 = axes[0]!.steps + 1;
+  const rows = axes.length > 1 ? axes[1]!.steps + 1 : 1;
+  const out: SweepWindow[] = [];
+  for (let j = 0; j < rows; j++) {
+    const row = axes.length > 1 ? displayOf(job, 1)(axisValue(job, 1, j / axes[1]!.steps)) : null;
+    const line = Array.from({ length: n0 }, (_, i) => outcomes[i + n0 * j] ?? null);
+    out.push(...windowsOf(line, line.map(() => []), row, true));
+  }
+  return out;
 }
 
 /** The runs of points where every expect holds, with ends moved to the located flips. */
-function windowsOf(line: (PointOutcome | null)[], flips: Flip[][], row: number | null): SweepWindow[] {
+function windowsOf(line: (PointOutcome | null)[], flips: Flip[][], row: number | null, partial: boolean): SweepWindow[] {
   const out: SweepWindow[] = [];
   let start: { v: number; edge: boolean } | null = null;
   for (let i = 0; i < line.length; i++) {
@@ -118,7 +135,7 @@ function windowsOf(line: (PointOutcome | null)[], flips: Flip[][], row: number |
       const end = first ? first.closed.lo.out.point.at[0]! : p!.point.at[0]!;
       const edge = i + 1 === line.length;
       const lowFirst = start!.v <= end;
-      out.push({ from: lowFirst ? start!.v : end, to: lowFirst ? end : start!.v, fromEdge: lowFirst ? start!.edge : edge, toEdge: lowFirst ? edge : start!.edge, row });
+      out.push({ from: lowFirst ? start!.v : end, to: lowFirst ? end : start!.v, fromEdge: lowFirst ? start!.edge : edge, toEdge: lowFirst ? edge : start!.edge, row, partial });
       start = null;
     }
   }

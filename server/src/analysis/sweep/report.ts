@@ -96,13 +96,25 @@ function stopFindings(input: FindingInput): EngineDiagnostic[] {
     return { axis: a, steps };
   });
   const offer = fixes.map((f) => `steps ${f.steps}${axes.length > 1 ? ` for '${f.axis.spec.name}'` : ''}`).join(' and ');
-  const text = `The sweep finished ${result.finished} of ${plural(result.total, 'point')} within its time limit of ${input.limitMs} ms; the results are partial. A coarser step (${offer}) would fit.${SWEEP_HINT}`;
+  const text = `The sweep finished ${result.finished} of ${plural(result.total, 'point')} within its time limit of ${input.limitMs} ms; the results are partial${partialWindowText(input)}. A coarser step (${offer}) would fit.${SWEEP_HINT}`;
   return [
     diagnostic('limits', at.start, at.end, text, {
       severity: 'warning',
       fixes: fixes.map((f) => replaceFix(`Sweep '${f.axis.spec.name}' in ${f.steps} steps`, f.axis.spec.steps, String(f.steps))),
     }),
   ];
+}
+
+/** `; over the points that finished, every expect holds for ...` (nothing without expect lines). */
+function partialWindowText(input: FindingInput): string {
+  const { job, result } = input;
+  if (job.setting.expects.length === 0) return '';
+  const unit = result.axes[0]!.unit;
+  const at = (w: SweepWindow): string => `${withUnit(w.from, unit)}..${withUnit(w.to, unit)}${w.row === null ? '' : ` at ${result.axes[1]!.name} = ${withUnit(w.row, result.axes[1]!.unit)}`}`;
+  const ws = result.windows;
+  if (ws.length === 0) return '; no finished point satisfies every expect';
+  const listed = ws.slice(0, LISTED).map(at).join(', ') + (ws.length > LISTED ? ` and ${ws.length - LISTED} more` : '');
+  return `; over the points that finished, every expect holds for ${result.axes[0]!.name} = ${listed}`;
 }
 
 const SWEEP_HINT = ' The sweep time limit is the editor setting `eigenspan.sweepTimeLimitMs` and `--sweep-time-limit MS` on the command line.';
@@ -117,13 +129,15 @@ function windowFindings(input: FindingInput): EngineDiagnostic[] {
     const [a, b] = [show(w.from), show(w.to)];
     const range = `${withUnit(a, unit)}..${withUnit(b, unit)}`;
     const span = w.stmt.span;
-    if (result.stopped !== null) {
-      out.push(diagnostic('expect', span.start, span.end, `Expected the design window to cover ${range}, but the sweep stopped after ${result.finished} of ${result.total} points, so it cannot be judged.`));
-      continue;
-    }
     const rows = result.axes.length > 1 ? result.axes[1]!.values : [null];
     const missing = rows.filter((row) => !result.windows.some((x) => x.row === row && covers(x, a, b)));
     if (missing.length === 0) continue;
+    // Stopped short: a window of finished points that covers the range settles it, and so does a
+    // finished point inside the range where some expect fails; otherwise it cannot be judged.
+    if (result.stopped !== null && !failsInside(result, a, b)) {
+      out.push(diagnostic('expect', span.start, span.end, `Expected the design window to cover ${range}, but the sweep stopped after ${result.finished} of ${result.total} points, so it cannot be judged.`));
+      continue;
+    }
     const row = missing[0]!;
     const mine = result.windows.filter((x) => x.row === row);
     const where = row === null ? '' : ` at ${result.axes[1]!.name} = ${withUnit(row, result.axes[1]!.unit)}${missing.length > 1 ? ` (and ${missing.length - 1} more values)` : ''}`;
@@ -131,6 +145,11 @@ function windowFindings(input: FindingInput): EngineDiagnostic[] {
     out.push(diagnostic('expect', span.start, span.end, `Expected the design window to cover ${range}${where}; ${have}.`));
   }
   return out;
+}
+
+/** A finished point with its first swept value in [a, b] where the setup is invalid or an expect fails. */
+function failsInside(r: SweepResult, a: number, b: number): boolean {
+  return r.points.some((p) => p !== null && p.at[0]! >= a && p.at[0]! <= b && !(p.valid && p.expects.every(Boolean)));
 }
 
 function covers(w: SweepWindow, a: number, b: number): boolean {
