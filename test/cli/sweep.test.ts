@@ -66,6 +66,27 @@ describe('eigenspan sweep', () => {
     [1, 4, 9, 16].forEach((k2, i) => expect(Math.abs(steps[i] - (k2 * Math.PI ** 2) / 8) / steps[i]).toBeLessThan(1e-8));
   });
 
+  it('hands the data files of a samples state to its worker threads: the same JSON as in one thread', () => {
+    // The oscillator's quantum is swept, so the system changes and the points go to threads; the state is
+    // a table of samples of the oscillator's ground state, exp(-x^2 / 2) in natural units (any text).
+    const rows = ['x, re', ...Array.from({ length: 81 }, (_, i) => {
+      const x = -8 + 0.2 * i;
+      return `${x.toFixed(4)}, ${Math.exp(-(x * x) / 2).toPrecision(12)}`;
+    })];
+    writeFileSync(join(dir, 'ground.csv'), rows.join('\n') + '\n');
+    const p = file('sampled.qstate', 'let w = 1\nsystem oscillator(omega = w)\nstate samples("ground.csv")\nbasis 20\nexpect weight 0 >= 0.99\nsweep w from 0.5 to 2 steps 6\n');
+    const threaded = run(['sweep', p, '--json']);
+    const single = run(['sweep', p, '--json', '--threads', '1']);
+    expect(threaded.code).toBe(0);
+    expect(threaded.out).toBe(single.out);
+    const j = JSON.parse(threaded.out);
+    expect(j.sweep.systemFixed).toBe(false);
+    expect(j.sweep.points.every((q: { valid: boolean }) => q.valid)).toBe(true);
+    // At w = 1 (the third point) the samples are the ground state itself: |c_0|^2 = 1 to the sampling's accuracy.
+    expect(j.sweep.points[2].levels[0].weight).toBeGreaterThan(0.9999);
+    expect(j.diagnostics.filter((d: { code: string }) => d.code === 'data')).toEqual([]);
+  });
+
   it('prints the table with the located changes and the design window', () => {
     const r = run(['sweep', file('well.qstate', WELL)]);
     expect(r.code).toBe(0);

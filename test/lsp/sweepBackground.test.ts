@@ -8,6 +8,10 @@
  */
 import { afterEach, describe, expect, it } from 'vitest';
 import { WorkDoneProgress, type PublishDiagnosticsParams } from 'vscode-languageserver-protocol/node';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { CAPABILITIES, startClient, type TestClient } from './client';
 
 interface Progress {
@@ -169,5 +173,22 @@ describe('background sweeps', () => {
     const answer = (await r.c.connection.sendRequest('eigenspan/sweep', { textDocument: { uri } })) as { sweep: { finished: number } };
     expect(answer.sweep.finished).toBe(8);
     expect(r.c.logs.filter((l) => / started /.test(l))).toEqual(['sweep of file:///well.qstate (version 1) started on request']);
+  });
+
+  it("hands the document's data files to the sweep worker", async () => {
+    // Samples of the oscillator's ground state exp(-x^2 / 2) (natural units, any text), swept over omega.
+    const dir = mkdtempSync(join(tmpdir(), 'eigenspan-lsp-sweep-'));
+    const rows = ['x, re', ...Array.from({ length: 81 }, (_, i) => `${(-8 + 0.2 * i).toFixed(4)}, ${Math.exp(-((-8 + 0.2 * i) ** 2) / 2).toPrecision(12)}`)];
+    writeFileSync(join(dir, 'ground.csv'), rows.join('\n') + '\n');
+    const text = 'let w = 1\nsystem oscillator(omega = w)\nstate samples("ground.csv")\nbasis 20\nsweep w from 0.5 to 2 steps 6\n';
+    const uri = pathToFileURL(join(dir, 'sampled.qstate')).href;
+    writeFileSync(join(dir, 'sampled.qstate'), text);
+    const r = await recorder({});
+    r.c.open(uri, text);
+    const end = await r.result(1);
+    const points = (end.sweep as unknown as { points: { valid: boolean; levels: { weight: number }[] }[] }).points;
+    expect(points.every((p) => p.valid)).toBe(true);
+    // At omega = 1 (the third point) the samples are the ground state itself: |c_0|^2 = 1 to the sampling's accuracy.
+    expect(points[2]!.levels[0]!.weight).toBeGreaterThan(0.9999);
   });
 });

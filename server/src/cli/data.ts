@@ -55,6 +55,11 @@ export function readDataFiles(path: string, text: string, policy: DataPolicy): M
   return out;
 }
 
+/** The data files the `.qstate` file at `path` names, under this run's policy (`--no-data`). */
+export function dataOf(path: string, text: string): Map<string, DataFile> {
+  return readDataFiles(path, text, { refuse: refuseAll });
+}
+
 /** `analyseBounded` of the `.qstate` file at `path` with the data files it names. */
 export function analyseFile(path: string, text: string, options: AnalyseOptions = {}, sweep: SweepOptions = {}): AnalysisResult {
   return analyseBounded(text, { ...options, data: readDataFiles(path, text, { refuse: refuseAll }) }, sweep);

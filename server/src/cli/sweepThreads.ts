@@ -14,12 +14,14 @@ import { createBudget } from '../physics/budget';
 import { finishSweep, mergeSweep, prepareSweep, runPoints, type PointOutcome } from '../analysis/sweep/index';
 import { withQuickStage } from '../language/meter';
 import type { Io } from './options';
+import { dataOf } from './data';
 import { parseSweepArgs, sweepCommand, sweepInput, sweepOutput } from './sweep';
 
 /** What a worker is given. */
 interface Task {
   text: string;
-  options: Pick<AnalyseOptions, 'defaultBasis' | 'limits'>;
+  /** With the data files the main thread read (`samples("PATH")`), so every thread sees the same text. */
+  options: Pick<AnalyseOptions, 'defaultBasis' | 'limits' | 'data'>;
   indices: number[];
   limitMs: number;
 }
@@ -43,7 +45,7 @@ export function serveSweepWorker(): boolean {
 export async function sweepCommandThreaded(args: string[], io: Io, script: string): Promise<number> {
   const a = parseSweepArgs(args);
   const text = sweepInput(a);
-  const options: Task['options'] = { defaultBasis: a.basis, limits: a.limits };
+  const options: Task['options'] = { defaultBasis: a.basis, limits: a.limits, data: dataOf(a.file, text) };
   const job = prepareSweep(text, options);
   if (job === null || job.systemFixed || a.threads < 2 || job.total < 2) return sweepCommand(args, io);
   const result = withQuickStage({ textLength: text.length }, () => analyse(text, options));
