@@ -87,6 +87,22 @@ describe('eigenspan sweep', () => {
     expect(j.diagnostics.filter((d: { code: string }) => d.code === 'data')).toEqual([]);
   });
 
+  it('demo prints a short sweep summary for a file with a sweep, and none for one without', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'eigenspan-demo-'));
+    writeFileSync(join(folder, 'a-well.qstate'), WELL);
+    writeFileSync(join(folder, 'b-box.qstate'), 'system box(0, 1)\nstate psi(x) = sqrt(30) x * (1 - x)\nbasis 10\n');
+    const r = run(['demo', folder]);
+    expect(r.code).toBe(0);
+    const [well, box] = r.out.split(/^== /m).filter((x) => x.length > 0);
+    expect(well).toContain('sweep of D: 1 to 20 in 9 steps (linear)\n10 of 10 points;');
+    // The bound-level steps at k^2 pi^2 / 8, k = 1..4 (derived above): 1.2337, 4.9348, 11.103, 19.739.
+    const steps = [...well!.matchAll(/bound levels (\d) -> (\d) at D = ([\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2]), Number(m[3])]);
+    expect(steps.map(([a, b]) => [a, b])).toEqual([[1, 2], [2, 3], [3, 4], [4, 5]]);
+    steps.forEach(([, , at], i) => expect(Math.abs(at! - ((i + 1) ** 2 * Math.PI ** 2) / 8) / at!).toBeLessThan(1e-7));
+    expect(well).toMatch(/design window \(every expect line holds\):\n  D from /);
+    expect(box).not.toContain('sweep of');
+  });
+
   it('prints the table with the located changes and the design window', () => {
     const r = run(['sweep', file('well.qstate', WELL)]);
     expect(r.code).toBe(0);

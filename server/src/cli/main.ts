@@ -26,6 +26,7 @@ import { DEFAULT_TOLERANCE } from './diff';
 import { diff, summary } from './vcs';
 import { sweepCommand } from './sweep';
 import { serveSweepWorker, sweepCommandThreaded } from './sweepThreads';
+import { renderSweepSummary } from './sweepRender';
 import { PLOT_DEFAULT_SIZE, PLOT_SIZE_RANGE, plot } from './plot';
 
 const USAGE = `Usage:
@@ -81,7 +82,8 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
                  number or energy) and the levels K of the partial sum, as in the panel
       --step S   the evolve step the time view shows |psi(x,t)|^2 at (default 0, t = 0)
   eigenspan demo [FOLDER]
-      Analyse every .qstate file in FOLDER (default examples) and print each one's table.
+      Analyse every .qstate file in FOLDER (default examples) and print each one's table
+      (and, for a file with a sweep, a short summary: its points, located changes and window).
   eigenspan sweep FILE [--table | --csv | --csv-bare | --json] [--basis N] [--out PATH [--force]]
                   [--time-limit MS] [--sweep-time-limit MS] [--limit NAME=N]... [--threads N]
       Run the sweep of FILE (its sweep lines) and print one line a point: bound levels,
@@ -216,6 +218,7 @@ function demo(args: string[], io: Io): number {
     const text = readText(f);
     const result = analyseFile(f, text);
     io.out(renderTable(result, text, escapeText(relative(process.cwd(), f) || f)));
+    if (result.sweep) io.out(renderSweepSummary(result.sweep));
     io.out('\n');
     if (result.diagnostics.some((d) => d.severity === 'error')) failed = true;
   }

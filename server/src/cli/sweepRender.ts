@@ -64,11 +64,24 @@ function rowText(s: SweepResult, row: number | null): string {
   return row === null ? '' : ` (${s.axes[1]!.name} = ${withUnit(row, s.axes[1]!.unit)})`;
 }
 
-function locatedLines(s: SweepResult): string[] {
+/** `eigenspan demo`: the sweep in a few lines (its axes, the points finished, the located changes and the design window). */
+export function renderSweepSummary(s: SweepResult): string {
+  return [...head(s), ...locatedLines(s, SUMMARY_LINES), ...windowLines(s, SUMMARY_LINES)].join('\n') + '\n';
+}
+
+/** Located places and windows listed by the demo's summary at most. */
+const SUMMARY_LINES = 6;
+
+/** `  ... and N more` when `all` is longer than `max`. */
+function more(all: number, max: number): string[] {
+  return all > max ? [`  ... and ${all - max} more`] : [];
+}
+
+function locatedLines(s: SweepResult, max = Infinity): string[] {
   if (s.located.length === 0) return ['located between points: nothing (no bound level appears and no expect line flips)'];
   const a = s.axes[0]!;
   const out = ['located between points:'];
-  for (const l of s.located) {
+  for (const l of s.located.slice(0, max)) {
     const where = `${a.name} = ${withUnit(l.at, a.unit)} (between ${num(l.bracket[0], 15)} and ${num(l.bracket[1], 15)})${rowText(s, l.row)}`;
     if (l.kind === 'bound') out.push(`  bound levels ${l.before} -> ${l.after} at ${where}`);
     else {
@@ -76,16 +89,18 @@ function locatedLines(s: SweepResult): string[] {
       out.push(`  line ${x.line} (${x.text}) ${l.after === 1 ? 'starts' : 'stops'} holding at ${where}`);
     }
   }
-  return out;
+  return [...out, ...more(s.located.length, max)];
 }
 
-function windowLines(s: SweepResult): string[] {
+function windowLines(s: SweepResult, max = Infinity): string[] {
   if (s.expects.length === 0) return ['design window: no expect lines to judge'];
-  if (s.windows.length === 0) return ['design window: empty (no swept value satisfies every expect line)'];
+  const part = s.stopped === null ? '' : ', over the points that finished';
+  if (s.windows.length === 0) return [`design window: empty (no swept value satisfies every expect line${part})`];
   const a = s.axes[0]!;
   return [
-    'design window (every expect line holds):',
-    ...s.windows.map((w) => `  ${a.name} from ${withUnit(w.from, a.unit)}${w.fromEdge ? " (the sweep's end)" : ''} to ${withUnit(w.to, a.unit)}${w.toEdge ? " (the sweep's end)" : ''}${rowText(s, w.row)}`),
+    `design window (every expect line holds${part}):`,
+    ...s.windows.slice(0, max).map((w) => `  ${a.name} from ${withUnit(w.from, a.unit)}${w.fromEdge ? " (the sweep's end)" : ''} to ${withUnit(w.to, a.unit)}${w.toEdge ? " (the sweep's end)" : ''}${rowText(s, w.row)}`),
+    ...more(s.windows.length, max),
   ];
 }
 
