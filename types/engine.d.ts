@@ -161,19 +161,22 @@ export interface EngineSweepExpect {
 }
 
 /**
- * A place along the first axis located by refinement between two neighbouring points: where the bound
- * count changes (`kind` `bound`, `before` and `after` the counts on either side in the direction of
- * the sweep) or where an `expect` line starts or stops holding (`kind` `expect`, `expect` its index,
- * `before`/`after` 1 for holds and 0 for fails). `at` is the middle of the final bracket `[lo, hi]`.
+ * A place located by refinement between two neighbouring points along one axis (`axis`: 0 the first,
+ * 1 the second of a map, the other axis fixed): where the bound count changes (`kind` `bound`, `before`
+ * and `after` the counts on either side in the direction of the sweep) or where an `expect` line starts
+ * or stops holding (`kind` `expect`, `expect` its index, `before`/`after` 1 for holds and 0 for fails).
+ * `at` is the middle of the final bracket `[lo, hi]`, values of the axis refined.
  */
 export interface EngineSweepLocated {
   kind: 'bound' | 'expect';
+  /** The axis refined along: 0 (the first sweep line) or 1 (the second, in a map). */
+  axis: 0 | 1;
   expect?: number;
   at: number;
   bracket: [number, number];
   before: number;
   after: number;
-  /** In a two-parameter sweep: the second axis's value of the row it was found in; null in one parameter. */
+  /** In a map: the other axis's value where it was found (the second's for `axis` 0, the first's for `axis` 1); null in one parameter. */
   row: number | null;
 }
 
@@ -202,7 +205,7 @@ export interface EngineSweep {
    */
   points: (EngineSweepPoint | null)[];
   expects: EngineSweepExpect[];
-  /** Where bound counts change and `expect` lines flip, along the first axis (each row in a map). */
+  /** Where bound counts change and `expect` lines flip: along the first axis (each row in a map), then in a map along the second (each column). */
   located: EngineSweepLocated[];
   /** The design window: the sub-ranges of the first axis where every ordinary `expect` holds (every row in a map). */
   windows: EngineSweepWindow[];

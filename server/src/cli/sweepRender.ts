@@ -60,8 +60,9 @@ export function renderSweepTable(result: AnalysisResult, text: string, file: str
   return lines.join('\n') + '\n';
 }
 
-function rowText(s: SweepResult, row: number | null): string {
-  return row === null ? '' : ` (${s.axes[1]!.name} = ${withUnit(row, s.axes[1]!.unit)})`;
+/** ` (other = value)`: in a map, the value of the axis held fixed (`other`, default the second). */
+function rowText(s: SweepResult, row: number | null, other = 1): string {
+  return row === null ? '' : ` (${s.axes[other]!.name} = ${withUnit(row, s.axes[other]!.unit)})`;
 }
 
 /** `eigenspan demo`: the sweep in a few lines (its axes, the points finished, the located changes and the design window). */
@@ -79,10 +80,10 @@ function more(all: number, max: number): string[] {
 
 function locatedLines(s: SweepResult, max = Infinity): string[] {
   if (s.located.length === 0) return ['located between points: nothing (no bound level appears and no expect line flips)'];
-  const a = s.axes[0]!;
   const out = ['located between points:'];
   for (const l of s.located.slice(0, max)) {
-    const where = `${a.name} = ${withUnit(l.at, a.unit)} (between ${num(l.bracket[0], 15)} and ${num(l.bracket[1], 15)})${rowText(s, l.row)}`;
+    const a = s.axes[l.axis]!;
+    const where = `${a.name} = ${withUnit(l.at, a.unit)} (between ${num(l.bracket[0], 15)} and ${num(l.bracket[1], 15)})${rowText(s, l.row, 1 - l.axis)}`;
     if (l.kind === 'bound') out.push(`  bound levels ${l.before} -> ${l.after} at ${where}`);
     else {
       const x = s.expects[l.expect!]!;

@@ -1,6 +1,6 @@
 /**
- * Between the finished points of each row of the first axis: the located bound-count steps and
- * `expect` flips (refine.ts), and the design window, the sub-ranges where every ordinary `expect` holds,
+ * Between the finished points of each row of the first axis (and, in a map, of each column of the
+ * second): the located bound-count steps and `expect` flips (refine.ts), and the design window, the sub-ranges where every ordinary `expect` holds,
  * with ends at the located flips (on the side where they still hold).
  */
 import type { Budget } from '../../physics/budget';
@@ -50,8 +50,47 @@ export function locateAll(job: SweepJob, outcomes: (PointOutcome | null)[], budg
     const line = Array.from({ length: n0 }, (_, i) => outcomes[i + n0 * j] ?? null);
     locateRow(job, line, row, probe, budget, found);
   }
+  if (axes.length > 1) locateColumns(job, outcomes, budget, found);
   if (budget.reason !== null) found.cut = true;
   return found;
+}
+
+/**
+ * A map's second axis: in every column (the first axis's value fixed) the bound-count steps and expect
+ * flips between neighbouring points, located along the second axis (`axis` 1, `row` the first axis's value).
+ */
+function locateColumns(job: SweepJob, outcomes: (PointOutcome | null)[], budget: Budget, found: Located): void {
+  const [a0, a1] = [job.setting.axes[0]!, job.setting.axes[1]!];
+  const n0 = a0.steps + 1;
+  for (let i = 0; i < n0; i++) {
+    const t0 = i / a0.steps;
+    const col = displayOf(job, 0)(axisValue(job, 0, t0));
+    const probe = (t: number, systemOnly = false): PointOutcome | null => {
+      if (found.probes >= MAX_PROBES || budget.expired()) {
+        found.cut = true;
+        return null;
+      }
+      found.probes++;
+      const out = evaluatePoint(job.setting, [t0, t], [], budget, systemOnly);
+      return out.complete ? out : null;
+    };
+    for (let j = 0; j < a1.steps; j++) {
+      const a = outcomes[i + n0 * j] ?? null;
+      const b = outcomes[i + n0 * (j + 1)] ?? null;
+      if (!usable(a) || !usable(b)) continue;
+      const lo: Probe = { t: j / a1.steps, out: a };
+      const hi: Probe = { t: (j + 1) / a1.steps, out: b };
+      for (const c of boundSteps(lo, hi, probe, budget, 1)) {
+        const [x, y] = span(c, 1);
+        found.located.push({ kind: 'bound', axis: 1, at: 0.5 * (x + y), bracket: [x, y], before: c.lo.out.point.bound!, after: c.hi.out.point.bound!, row: col });
+      }
+      a.point.expects.forEach((va, e) => {
+        if (va === b.point.expects[e]) return;
+        const [x, y] = span(expectFlip(e, lo, hi, probe, budget, 1), 1);
+        found.located.push({ kind: 'expect', axis: 1, expect: e, at: 0.5 * (x + y), bracket: [x, y], before: va ? 1 : 0, after: va ? 0 : 1, row: col });
+      });
+    }
+  }
 }
 
 function axisValue(job: SweepJob, k: number, t: number): number {
@@ -67,9 +106,9 @@ function holds(p: PointOutcome | null): boolean {
   return usable(p) && p.point.expects.every(Boolean);
 }
 
-function span(c: Closed): [number, number] {
-  const a = c.lo.out.point.at[0]!;
-  const b = c.hi.out.point.at[0]!;
+function span(c: Closed, axis = 0): [number, number] {
+  const a = c.lo.out.point.at[axis]!;
+  const b = c.hi.out.point.at[axis]!;
   return a <= b ? [a, b] : [b, a];
 }
 
@@ -86,13 +125,13 @@ function locateRow(job: SweepJob, line: (PointOutcome | null)[], row: number | n
     const hi: Probe = { t: (i + 1) / steps, out: b };
     for (const c of boundSteps(lo, hi, probe, budget)) {
       const [x, y] = span(c);
-      found.located.push({ kind: 'bound', at: 0.5 * (x + y), bracket: [x, y], before: c.lo.out.point.bound!, after: c.hi.out.point.bound!, row });
+      found.located.push({ kind: 'bound', axis: 0, at: 0.5 * (x + y), bracket: [x, y], before: c.lo.out.point.bound!, after: c.hi.out.point.bound!, row });
     }
     a.point.expects.forEach((va, e) => {
       if (va === b.point.expects[e]) return;
       const c = expectFlip(e, lo, hi, probe, budget);
       const [x, y] = span(c);
-      found.located.push({ kind: 'expect', expect: e, at: 0.5 * (x + y), bracket: [x, y], before: va ? 1 : 0, after: va ? 0 : 1, row });
+      found.located.push({ kind: 'expect', axis: 0, expect: e, at: 0.5 * (x + y), bracket: [x, y], before: va ? 1 : 0, after: va ? 0 : 1, row });
       flips[i]!.push({ e, closed: c, up: !va });
     });
   }

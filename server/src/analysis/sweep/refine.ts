@@ -1,5 +1,5 @@
 /**
- * Refinement between neighbouring sweep points along the first axis: where the bound-level count
+ * Refinement between neighbouring sweep points along one axis (`axis`, 0 the first; the other fixed): where the bound-level count
  * steps (bisection on the count, each step of a multiple jump found on its own) and where an `expect`
  * line starts or stops holding (regula falsi in the Illinois form on the expect's signed margin, with a
  * bisection every third step, so the bracket shrinks from both sides; plain bisection on the verdict
@@ -17,7 +17,7 @@ export const REFINE_RELATIVE = 1e-13;
 /** Probes per bracket at most. */
 export const MAX_ITERATIONS = 80;
 
-/** A point analysed at fraction t of the first axis (the other axes fixed). */
+/** A point analysed at fraction t of the axis refined (the other axis fixed). */
 export interface Probe {
   t: number;
   out: PointOutcome;
@@ -30,15 +30,16 @@ export interface Closed {
 }
 
 /**
- * Runs one point at fraction t of the first axis; null when the budget or the probe allowance ran out.
+ * Runs one point at fraction t of the axis refined; null when the budget or the probe allowance ran out.
  * With `systemOnly` only the system is solved (the bound count needs no state, and a level just
  * appearing reaches so far out that projecting a state on it would need an unbounded grid).
  */
 export type Prober = (t: number, systemOnly?: boolean) => PointOutcome | null;
 
-function narrow(lo: Probe, hi: Probe): boolean {
-  const a = lo.out.point.at[0]!;
-  const b = hi.out.point.at[0]!;
+/** True when the bracket is closed along `axis` (the axis being refined). */
+function narrow(lo: Probe, hi: Probe, axis: number): boolean {
+  const a = lo.out.point.at[axis]!;
+  const b = hi.out.point.at[axis]!;
   const mid = 0.5 * (lo.t + hi.t);
   return Math.abs(b - a) <= REFINE_RELATIVE * Math.max(Math.abs(a), Math.abs(b)) || mid <= Math.min(lo.t, hi.t) || mid >= Math.max(lo.t, hi.t);
 }
@@ -52,24 +53,24 @@ function usable(p: PointOutcome | null): p is PointOutcome {
  * Every place between `lo` and `hi` where the bound count changes, each as its closed bracket.
  * A jump of several levels in one interval is split until each bracket holds one change.
  */
-export function boundSteps(lo: Probe, hi: Probe, probe: Prober, budget: Budget, depth = 0): Closed[] {
+export function boundSteps(lo: Probe, hi: Probe, probe: Prober, budget: Budget, axis = 0, depth = 0): Closed[] {
   const a = lo.out.point.bound;
   const b = hi.out.point.bound;
   if (a === null || b === null || a === b) return [];
-  if (narrow(lo, hi) || depth >= MAX_ITERATIONS || budget.expired()) return [{ lo, hi }];
+  if (narrow(lo, hi, axis) || depth >= MAX_ITERATIONS || budget.expired()) return [{ lo, hi }];
   const t = 0.5 * (lo.t + hi.t);
   const out = probe(t, true);
   if (!usable(out) || out.point.bound === null) return [{ lo, hi }];
   const mid: Probe = { t, out };
-  return [...boundSteps(lo, mid, probe, budget, depth + 1), ...boundSteps(mid, hi, probe, budget, depth + 1)];
+  return [...boundSteps(lo, mid, probe, budget, axis, depth + 1), ...boundSteps(mid, hi, probe, budget, axis, depth + 1)];
 }
 
 /** Where expect `e` flips between `lo` and `hi` (their verdicts differ). */
-export function expectFlip(e: number, lo: Probe, hi: Probe, probe: Prober, budget: Budget): Closed {
+export function expectFlip(e: number, lo: Probe, hi: Probe, probe: Prober, budget: Budget, axis = 0): Closed {
   let [a, b] = [lo, hi];
   let [ma, mb] = [a.out.margins[e] ?? null, b.out.margins[e] ?? null];
   let side = 0;
-  for (let k = 0; k < MAX_ITERATIONS && !narrow(a, b) && !budget.expired(); k++) {
+  for (let k = 0; k < MAX_ITERATIONS && !narrow(a, b, axis) && !budget.expired(); k++) {
     let t = 0.5 * (a.t + b.t);
     const numeric = ma !== null && mb !== null && Number.isFinite(ma) && Number.isFinite(mb) && ma !== mb && k % 3 !== 2;
     if (numeric) {
