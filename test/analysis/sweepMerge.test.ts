@@ -18,6 +18,13 @@ describe('mergeSweepFindings', () => {
     expect(mergeSweepFindings([other], [cut])).toEqual([other, cut]);
   });
 
+  it("makes the sweep's own limits findings one", () => {
+    const atPoints = diagnostic('limits', 40, 50, 'The grid cap was met at 2 of 3 points.', { severity: 'warning' });
+    const m = mergeSweepFindings([other], [cut, atPoints]);
+    expect(m.map((d) => d.code)).toEqual(['boundary', 'limits']);
+    expect(m[1]!.message).toBe('The sweep finished 3 of 9 points. The grid cap was met at 2 of 3 points.');
+  });
+
   it('makes one finding on the sweep line naming both, the worse severity and both fixes, the coarser step first', () => {
     const m = mergeSweepFindings([own, other], [cut]);
     expect(m.map((d) => d.code)).toEqual(['boundary', 'limits']);

@@ -5,7 +5,7 @@
  * `$/cancelRequest` or the progress's `window/workDoneProgress/cancel`.
  */
 import { ResponseError, type CancellationToken, type Connection } from 'vscode-languageserver';
-import { SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
+import { mergeSweepFindings, SWEEP_MILLIS_RANGE } from '../analysis/sweep/index';
 import type { DocumentStore } from './documents';
 import type { Session } from './session';
 import { toLspDiagnostics } from './diagnostics';
@@ -32,6 +32,7 @@ export function registerSweep(connection: Connection, store: DocumentStore, sess
     sub.dispose();
     if (end.failed !== null) throw new ResponseError(-32603, `eigenspan/sweep failed: ${end.failed}`);
     if (end.outcome === null) return { uri, version, sweep: null, diagnostics: [] };
-    return { uri, version, sweep: end.outcome.result, diagnostics: toLspDiagnostics(lines, version, end.outcome.diagnostics) };
+    // The sweep's own limits findings as one, as they are published.
+    return { uri, version, sweep: end.outcome.result, diagnostics: toLspDiagnostics(lines, version, mergeSweepFindings([], end.outcome.diagnostics)) };
   });
 }

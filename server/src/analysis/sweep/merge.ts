@@ -1,8 +1,8 @@
 /**
- * A file's findings with its sweep's: one list, with at most one `limits` finding. When the sweep was
- * cut short (or cancelled) and the analysis of the file's own values hit a limit too, the two become one
- * finding on the sweep line naming both, with the fixes of both (the coarser step first), so a reader
- * sees one sentence about limits and not two competing ones.
+ * A file's findings with its sweep's: one list, with at most one `limits` finding from the sweep on.
+ * When the sweep has several (cut short, and limits met at some points) or the analysis of the file's
+ * own values hit a limit too, they become one finding on the sweep line naming each, with the fixes of
+ * all (the coarser step first), so a reader sees one finding about limits and not competing ones.
  */
 import { diagnostic, type EngineDiagnostic, type Severity } from '../../language/catalogue';
 import { sortDiagnostics } from '../front';
@@ -13,11 +13,11 @@ const RANK: Record<Severity, number> = { info: 0, warning: 1, error: 2 };
 export function mergeSweepFindings(analysis: readonly EngineDiagnostic[], sweep: readonly EngineDiagnostic[]): EngineDiagnostic[] {
   const own = sweep.filter((d) => d.code === 'limits');
   const theirs = analysis.filter((d) => d.code === 'limits');
-  if (own.length === 0 || theirs.length === 0) return sortDiagnostics([...analysis, ...sweep]);
+  if (own.length === 0 || own.length + theirs.length < 2) return sortDiagnostics([...analysis, ...sweep]);
   const head = own[0]!;
   const severity = [...own, ...theirs].map((d) => d.severity).reduce((a, b) => (RANK[b] > RANK[a] ? b : a));
-  const also = theirs.map((d) => d.message).join(' ');
-  const message = `${own.map((d) => d.message).join(' ')} The analysis of the file's own values also hit a limit: ${also}`;
+  const also = theirs.length === 0 ? '' : ` The analysis of the file's own values also hit a limit: ${theirs.map((d) => d.message).join(' ')}`;
+  const message = `${own.map((d) => d.message).join(' ')}${also}`;
   const fixes = [...own, ...theirs].flatMap((d) => d.fixes ?? []);
   const merged = diagnostic('limits', head.start, head.end, message, { severity, fixes: fixes.length > 0 ? fixes : undefined });
   return sortDiagnostics([...analysis.filter((d) => d.code !== 'limits'), ...sweep.filter((d) => d.code !== 'limits'), merged]);

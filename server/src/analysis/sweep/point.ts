@@ -73,6 +73,7 @@ export function evaluatePoint(s: SweepSetting, ts: readonly number[], index: num
   const at = s.axes.map((axis) => values.find((v) => v.name === axis.spec.name)?.re ?? NaN);
   const point: SweepPoint = { index, at, valid: true, problem: null, findings: [], levels: [], captured: null, continuum: null, mean: null, spread: null, bound: null, expects: [] };
   const result = emptyResult(file, diags);
+  const t0 = budget.clock.now();
   if (model.ok) {
     try {
       // Evolution is not part of a sweep's numbers.
@@ -82,7 +83,10 @@ export function evaluatePoint(s: SweepSetting, ts: readonly number[], index: num
       result.diagnostics.push(f ?? diagnostic('evaluation', 0, 0, `The analysis stopped on an internal error (${String(err)}).`, { severity: 'error' }));
     }
   }
-  const complete = budget.reason === null;
+  // A stage may also stop short of the deadline because its next step would end past it (the grid
+  // refinement does): a limits finding from a point that used more than half the time left is that.
+  const late = result.diagnostics.some((d) => d.code === 'limits') && 2 * (budget.clock.now() - t0) > budget.remaining();
+  const complete = budget.reason === null && !late;
   const errors = result.diagnostics.filter((d) => d.severity === 'error' && d.code !== 'expect');
   if (errors.length > 0) {
     point.valid = false;
