@@ -47,7 +47,8 @@ export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize,
   const [lo, hi] = [Math.min(axis.from, axis.to), Math.max(axis.from, axis.to)];
   const grid = { left: 64, right: plan.axes.length > 1 ? 72 : 24, top: plotTop(series.map((q) => String(q.name)), size, p), bottom: Math.round(p.fontSize * 3.4) };
   // The marks ride on the first series: the design window shaded, and the located places as vertical lines.
-  if (series[0]) Object.assign(series[0], { markArea: windowArea(sweep, p), markLine: locatedLines(sweep, p, { lo, hi, log: logX, left: grid.left, width: size.width - grid.left - grid.right }) });
+  const frame: XFrame = { lo, hi, log: logX, left: grid.left, width: size.width - grid.left - grid.right };
+  if (series[0]) Object.assign(series[0], { markArea: windowArea(sweep, p, frame), markLine: locatedLines(sweep, p, frame) });
   const option: Option = {
     ...baseOption(p),
     tooltip: pointTooltip(sweep, energyUnit, tooltip, p),
@@ -71,11 +72,27 @@ function valueAxis(kind: QuantityAxis, lines: ReturnType<typeof quantityPlan>['l
   return { type: 'value', name, min: r.min, max: r.max, ...style };
 }
 
-/** The design window as shaded bands (labelled at the bottom, out of the way of the located lines' labels). */
-function windowArea(sweep: SweepResult, p: Palette): Option | undefined {
-  const bands = sweep.windows.filter((w) => w.row === null).map((w) => [{ xAxis: w.from }, { xAxis: w.to }]);
+/** The words on each design-window band. */
+const WINDOW_LABEL = 'design window';
+
+/**
+ * The design window as shaded bands, labelled at the bottom (out of the way of the located lines'
+ * labels): centred in a band wide enough for the words, else from the band's left edge rightwards,
+ * so the words never run out over the axis labels.
+ */
+function windowArea(sweep: SweepResult, p: Palette, frame: XFrame): Option | undefined {
+  const wide = (from: number, to: number) => Math.abs(xPixel(frame, to) - xPixel(frame, from)) >= WINDOW_LABEL.length * 0.6 * p.fontSize + 8;
+  const bands = sweep.windows
+    .filter((w) => w.row === null)
+    .map((w) => [{ xAxis: w.from, label: { position: wide(w.from, w.to) ? 'insideBottom' : 'insideBottomLeft' } }, { xAxis: w.to }]);
   if (bands.length === 0) return undefined;
-  return { silent: true, itemStyle: { color: p.accent, opacity: 0.12 }, label: { show: true, position: 'insideBottom', color: p.muted, formatter: 'design window' }, data: bands };
+  return { silent: true, itemStyle: { color: p.accent, opacity: 0.12 }, label: { show: true, position: 'insideBottom', color: p.muted, formatter: WINDOW_LABEL }, data: bands };
+}
+
+/** Where value x lies across the plot, in pixels from the chart's left. */
+function xPixel(frame: XFrame, x: number): number {
+  const f = frame.log ? Math.log(x / frame.lo) / Math.log(frame.hi / frame.lo) : (x - frame.lo) / (frame.hi - frame.lo || 1);
+  return frame.left + f * frame.width;
 }
 
 /** Where the plot area lies, to tell which located lines sit close on screen. */
@@ -97,15 +114,11 @@ const LABEL_PLACES = ['insideEndTop', 'insideEndBottom', 'insideMiddleTop', 'ins
  */
 export function locatedLines(sweep: SweepResult, p: Palette, frame: XFrame): Option | undefined {
   const marks = sweep.located.filter((l) => l.row === null).sort((a, b) => a.at - b.at);
-  const px = (x: number) => {
-    const f = frame.log ? Math.log(x / frame.lo) / Math.log(frame.hi / frame.lo) : (x - frame.lo) / (frame.hi - frame.lo || 1);
-    return frame.left + f * frame.width;
-  };
   const near = 2 * p.fontSize + 4;
   let group = 0;
   let last = -Infinity;
   const data = marks.map((l) => {
-    const x = px(l.at);
+    const x = xPixel(frame, l.at);
     group = x - last < near ? group + 1 : 0;
     last = x;
     return {
