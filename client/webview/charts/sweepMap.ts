@@ -65,6 +65,8 @@ export function sweepMap(sweep: SweepResult, p: Palette, size: ChartSize, energy
   const span = niceAxis(Math.min(...values), Math.max(...values));
   const [lo, hi] = weight ? [Math.max(0, span.min), Math.min(1, span.max)] : [span.min, span.max];
   const unit = weight || line.id === 'bound' ? null : energyUnit;
+  // Enough digits that the two ends of the scale differ in print (3 at least).
+  const digits = Math.min(12, Math.max(3, Math.ceil(Math.log10(Math.max(Math.abs(lo), Math.abs(hi)) / Math.max(hi - lo, 1e-300))) + 2));
   const name = `${line.name}${unitSuffix(unit)}`;
   const edgeName = 'design window edge';
   const series: Option[] = [cellSeries(name), ...contourSeries(sweep, p, edgeName), ...stepSeries(sweep, p)];
@@ -74,7 +76,8 @@ export function sweepMap(sweep: SweepResult, p: Palette, size: ChartSize, energy
   const option: Option = {
     ...baseOption(p),
     tooltip: pointTooltip(sweep, energyUnit, o.tooltip, p),
-    legend: { ...legendFor(series, p), data: legendNames },
+    // The map's legend icon in the scale's middle colour (left to itself it takes the scale's gradient object).
+    legend: { ...legendFor(series, p), data: legendNames.map((n) => (n === name ? { name: n, itemStyle: { color: p.even } } : n)) },
     grid: { left: 64, right: 84, top, bottom },
     xAxis: axisOption(ax, ex, logX, p, 'middle', 28),
     yAxis: axisOption(ay, ey, logY, p, 'middle', 46),
@@ -91,9 +94,9 @@ export function sweepMap(sweep: SweepResult, p: Palette, size: ChartSize, energy
       itemWidth: 14,
       itemHeight: Math.max(60, size.height - top - bottom - 2.5 * p.fontSize - 16),
       // The ends of the scale; the legend above names the quantity.
-      text: [formatNumber(hi === lo ? lo + 1 : hi, 3), formatNumber(lo, 3)],
+      text: [formatNumber(hi === lo ? lo + 1 : hi, digits), formatNumber(lo, digits)],
       textGap: 6,
-      formatter: (v: number) => formatNumber(v, 3),
+      formatter: (v: number) => formatNumber(v, digits),
       textStyle: { color: p.foreground },
       inRange: { color: mapColours(p) },
     },
