@@ -66,6 +66,8 @@ let sized: Partial<Record<Tab, string>> = {};
 let timer: number | null = null;
 /** The document's sweep and the sweep point picked for the state view. */
 const sweepTab = new SweepTab();
+/** The quantity the sweep view draws (the chosen one when the sweep has it). */
+let shownQuantity: SweepQuantity = 'overview';
 
 const charts: Record<Tab, echarts.ECharts> = {
   spectrum: echarts.init($('chart-spectrum'), undefined, { renderer: 'canvas' }),
@@ -232,7 +234,7 @@ function syncTime(r: PanelResult | null): void {
 function draw(file: PanelResult, tab: Tab): void {
   const r = drawnResult(file, tab);
   const el = $(`chart-${tab}`);
-  const view = describeView({ result: r, settings, palette, tooltip, size: { width: el.clientWidth || 800, height: el.clientHeight || 440 } });
+  const view = describeView({ result: r, settings: { ...settings, sweepQuantity: shownQuantity }, palette, tooltip, size: { width: el.clientWidth || 800, height: el.clientHeight || 440 } });
   const notes = $(`notes-${tab}`);
   notes.replaceChildren(...view.notes.map((n) => Object.assign(document.createElement('p'), { textContent: n })));
   notes.hidden = view.notes.length === 0;
@@ -436,7 +438,8 @@ function syncSweepControls(): void {
   const sweep = sweepTab.sweepFor(current?.uri ?? null) ?? current?.result.sweep ?? null;
   $('tab-sweep').hidden = sweep === null;
   if (sweep === null && settings.tab === 'sweep') settings.tab = 'spectrum';
-  settings.sweepQuantity = syncQuantities($('sweep-quantity') as HTMLSelectElement, sweep, settings.sweepQuantity);
+  // The user's choice is kept; a quantity this sweep lacks is drawn as the nearest one it has.
+  shownQuantity = syncQuantities($('sweep-quantity') as HTMLSelectElement, sweep, settings.sweepQuantity);
   setText('sweep-status', sweepStatus(sweepTab, sweep, current?.version ?? null));
   const picked = sweepTab.picked && sweepTab.picked.uri === current?.uri ? sweepTab.picked : null;
   $('state-point').hidden = picked === null;

@@ -7,7 +7,7 @@
 import type { SweepPoint, SweepResult } from '../../server/src/analysis/sweep/types';
 import type { PanelResult, SweepHostMessage } from '../src/messages';
 import { addPoint, liveResult, startLive, type LiveSweep } from '../src/liveSweep';
-import { availableQuantities, QUANTITY_LABELS, type SweepQuantity } from './charts/sweepQuantity';
+import { availableQuantities, quantityLabel, type SweepQuantity } from './charts/sweepQuantity';
 import { valueText } from './charts/sweepQuantity';
 
 /** The point shown in the state view instead of the file's own values. */
@@ -99,12 +99,14 @@ export class SweepTab {
 
 /** Fills the quantity chooser with the quantities the sweep has numbers for; returns the one shown. */
 export function syncQuantities(select: HTMLSelectElement, sweep: SweepResult | null, chosen: SweepQuantity): SweepQuantity {
-  const have = sweep ? availableQuantities(sweep) : ['overview' as const];
-  const now = Array.from(select.options, (o) => o.value).join(',');
-  if (now !== have.join(',')) {
-    select.replaceChildren(...have.map((q) => Object.assign(document.createElement('option'), { value: q, textContent: QUANTITY_LABELS[q] })));
+  const have: SweepQuantity[] = sweep ? availableQuantities(sweep) : ['overview'];
+  const dims = sweep?.axes.length ?? 1;
+  const labels = have.map((q) => quantityLabel(q, dims));
+  if (Array.from(select.options, (o) => o.textContent).join('|') !== labels.join('|')) {
+    select.replaceChildren(...have.map((q, k) => Object.assign(document.createElement('option'), { value: q, textContent: labels[k] })));
   }
-  const shown = have.includes(chosen) ? chosen : 'overview';
+  // A map has no overview: it shows the captured weight instead (the overview's first line).
+  const shown = have.includes(chosen) ? chosen : chosen === 'overview' && have.includes('captured') ? 'captured' : have[0]!;
   select.value = shown;
   return shown;
 }

@@ -46,10 +46,20 @@ export interface QuantityPlan {
 /** The valid points that were computed. */
 export const validPoints = (sweep: SweepResult): SweepPoint[] => sweep.points.filter((p): p is SweepPoint => p !== null && p.valid);
 
-/** The quantities this sweep has numbers for (the continuum only for a finite well, the count only where it is known). */
+/** What a map shows of a quantity: one number a point, the first of its lines. */
+const MAP_LABELS: Partial<Record<SweepQuantity, string>> = { populations: 'population of the lowest level', energies: 'energy of the lowest level', energy: 'energy mean ⟨E⟩' };
+
+/** The chooser's words for a quantity of a sweep of `dims` parameters. */
+export const quantityLabel = (q: SweepQuantity, dims: number): string => (dims === 2 ? (MAP_LABELS[q] ?? QUANTITY_LABELS[q]) : QUANTITY_LABELS[q]);
+
+/**
+ * The quantities this sweep has numbers for (the continuum only for a finite well, the count only
+ * where it is known); a map has no overview (it maps one number a point).
+ */
 export function availableQuantities(sweep: SweepResult): SweepQuantity[] {
   const pts = validPoints(sweep);
-  return SWEEP_QUANTITIES.filter((q) => (q === 'continuum' ? pts.some((p) => p.continuum !== null) : q === 'bound' ? pts.some((p) => p.bound !== null) : true));
+  const have = (q: SweepQuantity) => (q === 'continuum' ? pts.some((p) => p.continuum !== null) : q === 'bound' ? pts.some((p) => p.bound !== null) : !(q === 'overview' && sweep.axes.length === 2));
+  return SWEEP_QUANTITIES.filter(have);
 }
 
 /** The labels n of the lowest `count` levels any point reports. */
