@@ -93,6 +93,19 @@ describe('a sweep while its points arrive', () => {
     expect(r.stopped).toBeNull();
   });
 
+  it('places the points of a map as they arrive, the second axis too', () => {
+    const boxes = runSweep(BOXES, {}, { maxMillis: 120_000 })!.result;
+    const live = startLive(sweepFrame(BOXES, []), boxes.total);
+    // The first row and a half (the first axis runs fastest).
+    for (let k = 0; k < 17; k++) addPoint(live, boxes.points[k]!, k + 1, boxes.total);
+    const r = liveResult(live)!;
+    expect(r.axes.map((a) => a.values.length)).toEqual([11, 5]);
+    // 0.5 to 1 in 4 steps (the sweep line's own numbers), from the two rows seen.
+    r.axes[1]!.values.forEach((v, k) => expect(v).toBeCloseTo(0.5 + k / 8, 12));
+    expect(r.points.slice(0, 17).every((p) => p !== null)).toBe(true);
+    expect(r.points.slice(17).every((p) => p === null)).toBe(true);
+  });
+
   it('keeps the latest version in the host store and forwards each point', () => {
     const store = new SweepStore();
     const sent: string[] = [];

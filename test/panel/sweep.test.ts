@@ -143,6 +143,38 @@ describe('the sweep view in Chromium', () => {
     expect(errors).toEqual([]);
   });
 
+  it('picks a cell of the map on click', async () => {
+    const k = map.points.findIndex((q) => q !== null && q.valid && q.index[0] === 3 && q.index[1] === 2);
+    const cell = (await series()).find((s) => s.id === 'map')!.data.findIndex((d) => d[2] === k);
+    const at = (await pixelOf('map', cell))!;
+    await page.mouse.click(at.x, at.y);
+    const picks = (await posted()).filter((m) => m.type === 'pickPoint');
+    expect(picks[picks.length - 1]!.at).toEqual(map.points[k]!.at);
+  });
+
+  it('moves the labels of close located lines apart', async () => {
+    // Four places within 0.15 nm of one another: closer on screen than two text heights at either width.
+    const close: SweepResult = {
+      ...gate,
+      located: [
+        { kind: 'bound', at: 5, bracket: [5, 5], before: 1, after: 2, row: null },
+        { kind: 'expect', expect: 0, at: 5.05, bracket: [5.05, 5.05], before: 1, after: 0, row: null },
+        { kind: 'expect', expect: 0, at: 5.1, bracket: [5.1, 5.1], before: 0, after: 1, row: null },
+        { kind: 'bound', at: 5.15, bracket: [5.15, 5.15], before: 2, after: 3, row: null },
+      ],
+    };
+    for (const width of [480, 1400]) {
+      const p = await openPanel(browser, server.origin, width, 760, errors);
+      await post(p, gateMessage);
+      await post(p, { type: 'sweep', uri: GATE_URI, version: 1, sweep: close });
+      await p.click('#tab-sweep');
+      const texts = await panel(p, 'texts');
+      expect(texts.map((t) => t.text)).toEqual(expect.arrayContaining(['bound 1 → 2', 'line 11 fails', 'line 11 holds', 'bound 2 → 3']));
+      expect(overlaps(texts), `width ${width}`).toEqual([]);
+      await p.close();
+    }
+  });
+
   it('keeps every text clear of the others in each theme at 480 px and wide', async () => {
     for (const width of [480, 1400]) {
       const p = await openPanel(browser, server.origin, width, 760, errors);
