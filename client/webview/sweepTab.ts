@@ -131,5 +131,5 @@ export function pickedText(picked: PickedPoint, own: PanelResult | null): string
     .map((n) => own?.values?.find((v) => v.name === n))
     .filter((v): v is NonNullable<typeof v> => v !== undefined)
     .map((v) => `${v.name} = ${valueText(v.re, v.unit)}`);
-  return `Showing the sweep point ${picked.label}${file.length > 0 ? ` (the file has ${file.join(', ')})` : ''}.`;
+  return `Showing the sweep point ${picked.label}${file.length > 0 ? ` (the file has ${file.join(', ')}; the figures above are the file's)` : ''}.`;
 }

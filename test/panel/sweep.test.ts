@@ -16,7 +16,7 @@ import type { SweepResult } from '../../server/src/analysis/sweep/types';
 import { sweepFrame } from '../../client/src/sweepFrame';
 import { pointRows } from '../../client/webview/charts/sweepQuantity';
 import { formatNumber } from '../../server/src/shared/numbers';
-import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import { artifacts, bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
 import { messageFor, openPanel, overlaps, panel, post } from './driver';
 
 const GATE_TEXT = readFileSync('examples/gate-widened-well.qstate', 'utf8');
@@ -122,9 +122,11 @@ describe('the sweep view in Chromium', () => {
     await post(page, { type: 'pointResult', uri: GATE_URI, at: [5], result: answer, reason: null });
     expect((await panel(page, 'inspect')).tab).toBe('state');
     expect(await page.isVisible('#state-point')).toBe(true);
-    expect(await page.textContent('#state-point-text')).toBe('Showing the sweep point width = 5 nm (the file has width = 4 nm).');
+    expect(await page.textContent('#state-point-text')).toBe("Showing the sweep point width = 5 nm (the file has width = 4 nm; the figures above are the file's).");
     const potential = () => series().then((s) => s.find((q) => q.id === 'potential')!.data.map((d) => d[1]));
     expect(await potential()).toEqual(answer.samples.potential);
+    // For a reader of the test run: the state view on the point (ignored folder).
+    await page.screenshot({ path: `${artifacts()}/sweep-point-state.png` });
     await page.click('#state-point-back');
     expect(await page.isHidden('#state-point')).toBe(true);
     expect(await potential()).toEqual((gateMessage.result as { samples: { potential: number[] } }).samples.potential);
