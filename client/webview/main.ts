@@ -68,6 +68,8 @@ let timer: number | null = null;
 const sweepTab = new SweepTab();
 /** The quantity the sweep view draws (the chosen one when the sweep has it). */
 let shownQuantity: SweepQuantity = 'overview';
+/** A reload left the panel on the sweep view: it returns there when the sweep arrives (the result comes first). */
+let backToSweep = settings.tab === 'sweep';
 
 const charts: Record<Tab, echarts.ECharts> = {
   spectrum: echarts.init($('chart-spectrum'), undefined, { renderer: 'canvas' }),
@@ -340,6 +342,7 @@ window.addEventListener('message', (e: MessageEvent) => onMessage(e.data));
 
 function selectTab(t: Tab): void {
   settings.tab = t;
+  backToSweep = false;
   save();
   render();
 }
@@ -437,6 +440,7 @@ function drawnResult(file: PanelResult, tab: Tab): PanelResult {
 function syncSweepControls(): void {
   const sweep = sweepTab.sweepFor(current?.uri ?? null) ?? current?.result.sweep ?? null;
   $('tab-sweep').hidden = sweep === null;
+  if (sweep !== null && backToSweep) ((settings.tab = 'sweep'), (backToSweep = false));
   if (sweep === null && settings.tab === 'sweep') settings.tab = 'spectrum';
   // The user's choice is kept; a quantity this sweep lacks is drawn as the nearest one it has.
   shownQuantity = syncQuantities($('sweep-quantity') as HTMLSelectElement, sweep, settings.sweepQuantity);

@@ -144,6 +144,11 @@ describe('eigenspan plot --view state and time', () => {
     const all = svgOf(sweep, ['--view', 'sweep']);
     expect(texts(all)).toEqual(expect.arrayContaining(['captured weight', 'P(1)', 'L', 'weight', 'design window']));
     expect(texts(all).some((t) => /^line 6 fails$/.test(t))).toBe(true);
+    // --quantity picks the lines: the level energies on an energy axis, or the bound count (every level of a box is bound, so none is counted).
+    const energies = texts(svgOf(sweep, ['--view', 'sweep', '--quantity', 'energies']));
+    expect(energies).toEqual(expect.arrayContaining(['E(1)', 'E(2)', 'energy']));
+    expect(energies).not.toContain('captured weight');
+    expect(texts(svgOf(sweep, ['--view', 'sweep', '--quantity', 'energy']))).toEqual(expect.arrayContaining(['⟨E⟩', '⟨E⟩ + ΔE', 'ΔE']));
   });
 
   it('draws a two-parameter sweep as a map: cells for every point, the colour scale, the design window\'s outline, axes named with units', () => {

@@ -177,6 +177,21 @@ describe('the sweep view in Chromium', () => {
     }
   });
 
+  it('returns to the sweep view after a reload once the sweep arrives again', async () => {
+    const p = await openPanel(browser, server.origin, 900, 700, errors);
+    await post(p, gateMessage);
+    await post(p, { type: 'sweep', uri: GATE_URI, version: 1, sweep: gate });
+    await p.click('#tab-sweep');
+    await p.reload();
+    await p.waitForFunction(() => ((window as unknown as { __posted?: unknown[] }).__posted ?? []).length > 0);
+    // The host sends the result first, then the sweep (client/src/panel.ts): the result alone shows the spectrum.
+    await post(p, gateMessage);
+    expect((await panel(p, 'inspect')).tab).toBe('spectrum');
+    await post(p, { type: 'sweep', uri: GATE_URI, version: 1, sweep: gate });
+    expect((await panel(p, 'inspect')).tab).toBe('sweep');
+    await p.close();
+  });
+
   it('keeps every text clear of the others in each theme at 480 px and wide', async () => {
     for (const width of [480, 1400]) {
       const p = await openPanel(browser, server.origin, width, 760, errors);
