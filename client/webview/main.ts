@@ -289,6 +289,16 @@ function render(): void {
   document.body.dataset.version = String(current.version);
 }
 
+let renderFrame: number | null = null;
+/** Draws on the next frame (once, however often it is asked for before then). */
+function renderSoon(): void {
+  if (renderFrame !== null) return;
+  renderFrame = requestAnimationFrame(() => {
+    renderFrame = null;
+    render();
+  });
+}
+
 function stopPlaying(): void {
   if (timer !== null) window.clearInterval(timer);
   timer = null;
@@ -333,7 +343,9 @@ function onMessage(data: unknown): void {
       if (sweepTab.handle(msg)) {
         // A picked point's result opens the state view on it.
         if (msg.type === 'pointResult' && msg.result) settings.tab = 'state';
-        render();
+        // Points may arrive by the thousand: they are drawn once a frame, however many came.
+        if (msg.type === 'sweepPoint') renderSoon();
+        else render();
       }
   }
 }

@@ -32,8 +32,10 @@ export class SweepTab {
   version = -1;
   private live: LiveSweep | null = null;
   private final: SweepResult | null = null;
-  /** The latest provisional result of the running sweep (rebuilt when a point arrives). */
+  /** The sweep as last built: the finished one, or the running one's provisional result. */
   private drawn: SweepResult | null = null;
+  /** Points arrived since `drawn` was built (it is rebuilt when next asked for, once per draw however many arrived). */
+  private dirty = false;
   picked: PickedPoint | null = null;
   /** The values asked of the host and not yet answered. */
   pending: number[] | null = null;
@@ -42,7 +44,9 @@ export class SweepTab {
 
   /** The sweep to draw for document `uri`, or null. */
   sweepFor(uri: string | null): SweepResult | null {
-    return uri !== null && uri === this.uri ? this.drawn : null;
+    if (uri === null || uri !== this.uri) return null;
+    if (this.dirty && this.live) ((this.drawn = liveResult(this.live)), (this.dirty = false));
+    return this.drawn;
   }
 
   /** Forgets everything (another document, or none). */
@@ -50,6 +54,7 @@ export class SweepTab {
     this.uri = uri;
     this.version = -1;
     this.live = this.final = this.drawn = null;
+    this.dirty = false;
     this.picked = null;
     this.pending = null;
     this.failed = null;
@@ -68,12 +73,13 @@ export class SweepTab {
         if (msg.sweep && msg.sweep.stopped === null && msg.sweep.finished < msg.sweep.total) ((this.live = liveOf(msg.sweep)), (this.final = null));
         else ((this.live = null), (this.final = msg.sweep));
         this.drawn = this.live ? liveResult(this.live) : this.final;
+        this.dirty = false;
         return true;
       case 'sweepPoint':
         if (msg.version < this.version) return false;
         if (msg.version > this.version || !this.live) ((this.version = msg.version), (this.live = startLive(msg.frame, msg.total)), (this.final = null));
         addPoint(this.live, msg.point, msg.finished, msg.total);
-        this.drawn = liveResult(this.live);
+        this.dirty = true;
         return true;
       case 'pointResult':
         if (!this.pending || msg.at.some((v, k) => v !== this.pending![k])) return false;
@@ -86,13 +92,13 @@ export class SweepTab {
 
   /** The point at index `k` of the drawn sweep, when it is a valid point. */
   pointAt(k: number): SweepPoint | null {
-    const p = this.drawn?.points[k];
+    const p = this.sweepFor(this.uri)?.points[k];
     return p && p.valid ? p : null;
   }
 
   /** `width = 6 nm` for the values of the drawn sweep's axes. */
   label(at: number[]): string {
-    const axes = this.drawn?.axes ?? [];
+    const axes = this.sweepFor(this.uri)?.axes ?? [];
     return at.map((v, k) => `${axes[k]?.name ?? `axis ${k + 1}`} = ${valueText(v, axes[k]?.unit ?? null)}`).join(', ');
   }
 }

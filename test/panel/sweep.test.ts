@@ -94,6 +94,23 @@ describe('the sweep view in Chromium', () => {
     expect(errors).toEqual([]);
   });
 
+  it('draws a burst of points once a frame, not once a point (counted)', async () => {
+    // A new version's sweep, running with one point, so the status can only read 19 of 19 again after the burst.
+    const started = { ...gate, points: gate.points.map((q, k) => (k === 0 ? q : null)), finished: 1, located: [], windows: [] };
+    await post(page, { type: 'sweep', uri: GATE_URI, version: 2, sweep: started });
+    expect(await page.textContent('#sweep-status')).toContain('running: 1 of 19 points');
+    const before = (await panel(page, 'inspect')).renders;
+    const burst = Array.from({ length: 200 }, (_, k) => ({ ...pointMessage(k % gate.total, gate.total), version: 2 }));
+    // The burst, then the finished sweep of the same version, which is drawn at once when it arrives.
+    await page.evaluate((msgs) => msgs.forEach((m) => window.postMessage(m, '*')), [...burst, { type: 'sweep', uri: GATE_URI, version: 2, sweep: gate }]);
+    await page.waitForFunction(() => /^19 of 19 points/.test(document.getElementById('sweep-status')?.textContent ?? ''));
+    const drawn = (await panel(page, 'inspect')).renders - before;
+    // Each of the 201 messages drawn on its own would make 201 draws; a frame's worth of points makes one.
+    expect(drawn).toBeGreaterThanOrEqual(1);
+    expect(drawn).toBeLessThan(100);
+    expect((await series()).find((s) => s.id === 'captured')!.data).toHaveLength(19);
+  });
+
   it('shows the full result of a point on hover, in the panel number format with units', async () => {
     const at = (await pixelOf('captured', 3))!;
     await page.mouse.move(at.x, at.y);
