@@ -249,7 +249,7 @@ function draw(file: PanelResult, tab: Tab): void {
     const size = `${el.clientWidth}x${el.clientHeight}`;
     if (sized[tab] !== size) ((sized[tab] = size), charts[tab].resize());
     // The first draw builds everything; later ones replace only what changes, which ECharts does far faster.
-    if (lastOption[tab]) charts[tab].setOption(option, { replaceMerge: ['series', 'xAxis', 'yAxis', 'grid'], lazyUpdate: false, silent: true });
+    if (lastOption[tab]) charts[tab].setOption(option, { replaceMerge: ['series', 'xAxis', 'yAxis', 'grid', 'visualMap'], lazyUpdate: false, silent: true });
     else charts[tab].setOption(option, { notMerge: true, lazyUpdate: false, silent: true });
     lastOption[tab] = option;
   } else {
@@ -506,7 +506,8 @@ new ResizeObserver(() => {
   inspect() {
     const tab = settings.tab;
     const opt = charts[tab].getOption() as { series?: { id?: string; data?: unknown[] }[]; backgroundColor?: unknown } | undefined;
-    const series = (opt?.series ?? []).map((s) => ({ id: String(s.id ?? ''), data: s.data ?? [] }));
+    // A redraw with fewer series leaves empty places in ECharts' option arrays (replaceMerge keeps the indices).
+    const series = (opt?.series ?? []).filter((s) => s !== null && s !== undefined).map((s) => ({ id: String(s.id ?? ''), data: s.data ?? [] }));
     return { tab, settings: { ...settings }, renders, lastRenderMs, version: current?.version ?? null, background: opt?.backgroundColor ?? null, palette: { ...palette }, series };
   },
   texts: () => drawnTexts(charts[settings.tab]),
@@ -517,10 +518,9 @@ new ResizeObserver(() => {
   pixelOf: (id: string, dataIndex: number) => {
     const chart = charts[settings.tab];
     const opt = chart.getOption() as { series?: { id?: string; data?: unknown[][] }[] };
-    const k = (opt.series ?? []).findIndex((q) => q.id === id);
-    const d = opt.series?.[k]?.data?.[dataIndex];
-    if (k < 0 || !d) return null;
-    const [x, y] = chart.convertToPixel({ seriesIndex: k }, [Number(d[0]), Number(d[1])]) as number[];
+    const d = (opt.series ?? []).find((q) => q && q.id === id)?.data?.[dataIndex];
+    if (!d) return null;
+    const [x, y] = chart.convertToPixel({ seriesId: id }, [Number(d[0]), Number(d[1])]) as number[];
     const box = $(`chart-${settings.tab}`).getBoundingClientRect();
     return { x: box.left + x!, y: box.top + y! };
   },

@@ -212,7 +212,8 @@ describe('the sweep view in Chromium', () => {
   it('keeps every text clear of the others in each theme at 480 px and wide', async () => {
     for (const width of [480, 1400]) {
       const p = await openPanel(browser, server.origin, width, 760, errors);
-      for (const [text, uri, sweep] of [[GATE_TEXT, GATE_URI, gate], [MAP_TEXT, MAP_URI, map]] as const) {
+      // The map, then the lines on the same chart: the map's colour scale must not stay behind.
+      for (const [text, uri, sweep] of [[MAP_TEXT, MAP_URI, map], [GATE_TEXT, GATE_URI, gate]] as const) {
         await post(p, messageFor(text, 1, uri));
         await post(p, { type: 'sweep', uri, version: 1, sweep });
         await p.click('#tab-sweep');
@@ -221,6 +222,9 @@ describe('the sweep view in Chromium', () => {
           const info = await panel(p, 'inspect');
           expect(info.palette.kind).toBe(kind);
           expect(overlaps(await panel(p, 'texts')), `${uri} ${kind} ${width}`).toEqual([]);
+          // The scale's end labels are drawn only with the map.
+          const scaleEnds = (await panel(p, 'texts')).filter((t) => t.text === '0.3').length;
+          expect(scaleEnds > 0, `${uri} scale`).toBe(uri === MAP_URI);
         }
       }
       await p.close();

@@ -56,6 +56,8 @@ export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize,
     grid,
     xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: lo, max: hi, ...axisStyle(p) },
     yAxis: plan.axes.map((kind, k) => valueAxis(kind, plan.lines.filter((l) => l.axis === k), pts, energyUnit, p, k)),
+    // No colour scale: in the panel this removes a map's scale when the same chart draws lines next.
+    visualMap: [],
     series,
   };
   return { option, notes: sweepNotes(sweep), empty: null };
