@@ -169,6 +169,14 @@ describe('the sweep view in Chromium', () => {
     await page.mouse.click(at.x, at.y);
     const picks = (await posted()).filter((m) => m.type === 'pickPoint');
     expect(picks[picks.length - 1]!.at).toEqual(map.points[k]!.at);
+    // Hovering the cell shows the point's full result, both swept values with their units.
+    await page.mouse.move(at.x + 1, at.y + 1);
+    await page.waitForSelector('table.tip', { state: 'visible' });
+    const tip = (await page.textContent('table.tip')) ?? '';
+    const [w, o] = map.points[k]!.at;
+    expect(tip).toContain(`width${formatNumber(w, 6)} nm`);
+    expect(tip).toContain(`offset${formatNumber(o, 6)} meV`);
+    for (const [key, v] of pointRows(map, map.points[k]!, 'meV')) expect(tip).toContain(`${key}${v}`);
   });
 
   it('moves the labels of close located lines apart', async () => {
