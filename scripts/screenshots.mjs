@@ -1,8 +1,10 @@
 #!/usr/bin/env node
 // Renders the spectrum panel in headless Chromium with real engine results and saves PNGs.
-//   node scripts/screenshots.mjs                 the README's three pictures into docs/screenshots/
+//   node scripts/screenshots.mjs                 the README's pictures into docs/screenshots/ (the three
+//                                                views, and the sweep view of a one- and a two-parameter sweep)
 //   node scripts/screenshots.mjs --all --out DIR every view of every example, in the light, dark and
-//                                                high-contrast themes, at 480 px and 1400 px wide
+//                                                high-contrast themes, at 480 px and 1400 px wide (the sweep
+//                                                view for the examples with a sweep line)
 // Needs `npm run build` first (it serves dist/webview, the very files the extension ships) and
 // Debian's chromium. The page is the extension's own HTML (buildPanelHtml) with a stand-in for the
 // webview API, as in the browser tests (test/panel/harness.ts).
@@ -35,6 +37,8 @@ const README = [
   { name: 'panel-spectrum.png', file: 'examples/plucked-box.qstate', tab: 'spectrum' },
   { name: 'panel-state.png', file: 'examples/plucked-box.qstate', tab: 'state', terms: 6 },
   { name: 'panel-time.png', file: 'examples/gaas-well-packet.qstate', tab: 'time', time: 40 },
+  { name: 'panel-sweep.png', file: 'examples/gate-widened-well.qstate', tab: 'sweep' },
+  { name: 'panel-sweep-map.png', file: 'examples/well-growth-map.qstate', tab: 'sweep' },
 ];
 
 /** Bundles the engine's analysis and the panel's HTML builder for this script (they are TypeScript). */
@@ -42,7 +46,7 @@ async function engine() {
   const dir = mkdtempSync(join(tmpdir(), 'eigenspan-shots-'));
   const file = join(dir, 'engine.mjs');
   await build({
-    stdin: { contents: "export { analyse } from './server/src/analysis/index';\nexport { buildPanelHtml, makeNonce } from './client/src/panelHtml';\n", resolveDir: process.cwd(), loader: 'ts' },
+    stdin: { contents: "export { analyse } from './server/src/analysis/index';\nexport { runSweep } from './server/src/analysis/sweep/index';\nexport { buildPanelHtml, makeNonce } from './client/src/panelHtml';\n", resolveDir: process.cwd(), loader: 'ts' },
     bundle: true,
     platform: 'node',
     format: 'esm',
@@ -135,20 +139,39 @@ function resultFor(analyse, path) {
   return { result: JSON.parse(a.json), lines: a.lines };
 }
 
-async function shoot(page, analyse, shot, path, version) {
+const swept = new Map();
+/** The sweep of an example (as the language server sends it when the sweep ends), run once per run; null without one. */
+function sweepFor(runSweep, path) {
+  if (!swept.has(path)) swept.set(path, JSON.stringify(runSweep(readFileSync(path, 'utf8'), {}, { maxMillis: 600000 })?.result ?? null));
+  return JSON.parse(swept.get(path));
+}
+
+async function shoot(page, engine, shot, path, version) {
+  const { analyse, runSweep } = engine;
   const { result, lines } = resultFor(analyse, shot.file);
   const name = shot.file.slice(shot.file.lastIndexOf('/') + 1);
-  await page.click(`#tab-${shot.tab}`);
-  await post(page, { type: 'result', uri: `file:///ws/${name}`, version, fileName: name, result, diagnosticLines: lines });
+  const uri = `file:///ws/${name}`;
+  // The sweep tab appears once the file's sweep has arrived; the others can be opened first.
+  if (shot.tab !== 'sweep') await page.click(`#tab-${shot.tab}`);
+  await post(page, { type: 'result', uri, version, fileName: name, result, diagnosticLines: lines });
+  if (shot.tab === 'sweep') {
+    await post(page, { type: 'sweep', uri, version, sweep: sweepFor(runSweep, shot.file) });
+    await page.click('#tab-sweep');
+    await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
+  }
   const set = async (id, v) => page.$eval(`#${id}`, (el, x) => ((el.value = String(x)), el.dispatchEvent(new Event('input'))), v);
   if (shot.terms) await set('terms', shot.terms);
   if (shot.time && result.evolution) await set('time', Math.min(shot.time, result.evolution.times.length - 1));
   await page.screenshot({ path });
 }
 
+/** The views of an example: the three, and the sweep view when it has a sweep line. */
+const tabsOf = (path) => ['spectrum', 'state', 'time', ...(/^\s*sweep\s/m.test(readFileSync(path, 'utf8')) ? ['sweep'] : [])];
+
 if (!existsSync(CHROMIUM)) throw new Error(`Chromium is needed at ${CHROMIUM} (apt-get install chromium)`);
 if (!existsSync('dist/webview/panel.js')) throw new Error('dist/webview/panel.js is missing: run npm run build first');
-const { analyse, buildPanelHtml, makeNonce } = await engine();
+const bundled = await engine();
+const { buildPanelHtml, makeNonce } = bundled;
 const server = await serve(buildPanelHtml, makeNonce);
 const browser = await chromium.launch({ executablePath: CHROMIUM, headless: true, args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking'] });
 mkdirSync(out, { recursive: true });
@@ -166,11 +189,11 @@ try {
     await applyTheme(page, theme);
     await page.waitForFunction(() => (window.__posted ?? []).length > 0);
     const shots = all
-      ? readdirSync('examples').filter((f) => f.endsWith('.qstate') && f.includes(only)).sort().flatMap((f) => ['spectrum', 'state', 'time'].map((tab) => ({ file: `examples/${f}`, tab, time: 40, name: `${f.replace(/\.qstate$/, '')}-${tab}-${theme}-${width}.png` })))
+      ? readdirSync('examples').filter((f) => f.endsWith('.qstate') && f.includes(only)).sort().flatMap((f) => tabsOf(`examples/${f}`).map((tab) => ({ file: `examples/${f}`, tab, time: 40, name: `${f.replace(/\.qstate$/, '')}-${tab}-${theme}-${width}.png` })))
       : README;
     for (const shot of shots) {
       const path = join(out, shot.name);
-      await shoot(page, analyse, shot, path, ++version);
+      await shoot(page, bundled, shot, path, ++version);
       written.push(path);
     }
     if (errors.length) throw new Error(`page errors: ${errors.join('; ')}`);

@@ -10,6 +10,9 @@ import type { VscodeApi } from './host';
 import { PANEL_VIEW_TYPE, plotScaleSetting, SpectrumPanelController } from './panel';
 import { RestartPolicy } from './restart';
 import { ResultStore } from './results';
+import { SweepStore } from './sweeps';
+import { sweepFrame } from './sweepFrame';
+import { SWEEP_POINT_NOTIFICATION, SWEEP_POINT_RESULT_REQUEST, SWEEP_RESULT_NOTIFICATION } from '../../server/src/lsp/sweepMessages';
 import { StatusController } from './status';
 import { forwardTrust, initializationOptions } from './trust';
 
@@ -18,6 +21,9 @@ let client: LanguageClient | undefined;
 export async function activate(context: vscode.ExtensionContext): Promise<void> {
   const api: VscodeApi = vscode;
   const store = new ResultStore();
+  const sweeps = new SweepStore();
+  // A running sweep's points carry only values: the document's sweep lines name its axes.
+  const frame = (uri: string) => sweepFrame(vscode.workspace.textDocuments.find((d) => d.uri.toString() === uri)?.getText() ?? '', store.get(uri)?.result.values);
   const module = context.asAbsolutePath('dist/server.js');
   const serverOptions: ServerOptions = {
     run: { module, transport: TransportKind.ipc },
@@ -44,10 +50,14 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
     store,
     plotScale: () => plotScaleSetting(config().inspect('plotScale')),
     trusted: () => vscode.workspace.isTrusted,
+    sweeps,
+    pointResult: (uri, at) => client?.sendRequest(SWEEP_POINT_RESULT_REQUEST, { textDocument: { uri }, at }) ?? Promise.resolve(null),
   });
   const status = new StatusController(api, store, COMMANDS.showPanel);
   context.subscriptions.push(
     client.onNotification(RESULT_NOTIFICATION, (params: unknown) => void store.set(params)),
+    client.onNotification(SWEEP_POINT_NOTIFICATION, (params: unknown) => void sweeps.point(params, frame)),
+    client.onNotification(SWEEP_RESULT_NOTIFICATION, (params: unknown) => void sweeps.result(params)),
     vscode.window.registerWebviewPanelSerializer(PANEL_VIEW_TYPE, { deserializeWebviewPanel: async (p) => panel.restore(p) }),
     vscode.commands.registerCommand(COMMANDS.showPanel, () => panel.show()),
     vscode.commands.registerCommand(COMMANDS.exportCoefficients, () => exportCoefficients(api, store)),

@@ -4,6 +4,8 @@
  * dropped (the checks return null) rather than half-used. Pure; shared by the extension and the panel.
  */
 import type { HostToPanel, PanelSettingsMessage, PanelToHost } from '../../server/src/protocol';
+import type { SweepPoint, SweepResult } from '../../server/src/analysis/sweep/types';
+import { isSweepFrame, isSweepPoint, isSweepResult, type SweepFrame } from './liveSweep';
 
 /** The result payload the panel draws (the analysis without its syntax tree). */
 export type PanelResult = Extract<HostToPanel, { type: 'result' }>['result'];
@@ -11,8 +13,21 @@ export type PanelResult = Extract<HostToPanel, { type: 'result' }>['result'];
 /** Host to panel: the `eigenspan.plotScale` setting, or 'auto' when the user has not set it (the protocol's message). */
 export type PanelSettings = PanelSettingsMessage;
 
+/**
+ * Host to panel, for the sweep view: a document's sweep (running, finished or gone: null), one point
+ * as it arrives (with the frame of its sweep, read off the document), and one point's full result
+ * for the state view (null with the reason when it could not be had).
+ */
+export type SweepHostMessage =
+  | { type: 'sweep'; uri: string; version: number; sweep: SweepResult | null }
+  | { type: 'sweepPoint'; uri: string; version: number; finished: number; total: number; point: SweepPoint; frame: SweepFrame }
+  | { type: 'pointResult'; uri: string; at: number[]; result: PanelResult | null; reason: string | null };
+
 /** Every message the host may send to the panel. */
-export type HostMessage = HostToPanel | PanelSettings;
+export type HostMessage = HostToPanel | PanelSettings | SweepHostMessage;
+
+/** Every message the panel may send to the host: the protocol's, and the pick of a sweep point for the state view. */
+export type PanelMessage = PanelToHost | { type: 'pickPoint'; at: number[] };
 
 type Obj = Record<string, unknown>;
 
@@ -90,7 +105,7 @@ export function isPanelResult(v: unknown): v is PanelResult {
   if (!isOptNum(v.continuum) || !isOptNum(v.meanQuantumNumber)) return false;
   const d = v.decay;
   if (d !== null && !(isObj(d) && isNum(d.exponent) && isStr(d.classification) && DECAY.has(d.classification) && isNum(d.at))) return false;
-  return isEvolution(v.evolution) && isSamples(v.samples);
+  return isEvolution(v.evolution) && isSamples(v.samples) && (v.sweep === undefined || isSweepResult(v.sweep));
 }
 
 /**
@@ -117,6 +132,28 @@ export function parseHostMessage(v: unknown): HostMessage | null {
     case 'settings':
       return v.plotScale === 'linear' || v.plotScale === 'log' || v.plotScale === 'auto' ? { type: 'settings', plotScale: v.plotScale } : null;
     default:
+      return parseSweepMessage(v);
+  }
+}
+
+/** The sweep messages of `SweepHostMessage`, checked like the others. */
+function parseSweepMessage(v: Obj): SweepHostMessage | null {
+  if (!isStr(v.uri)) return null;
+  const version = typeof v.version === 'number' && Number.isInteger(v.version) ? v.version : null;
+  switch (v.type) {
+    case 'sweep':
+      return version !== null && (v.sweep === null || isSweepResult(v.sweep)) ? { type: 'sweep', uri: v.uri, version, sweep: v.sweep } : null;
+    case 'sweepPoint': {
+      const counts = typeof v.finished === 'number' && typeof v.total === 'number' && v.finished >= 0 && v.total >= 1;
+      if (version === null || !counts || !isSweepPoint(v.point) || !isSweepFrame(v.frame)) return null;
+      return { type: 'sweepPoint', uri: v.uri, version, finished: v.finished as number, total: v.total as number, point: v.point, frame: v.frame };
+    }
+    case 'pointResult': {
+      const at = Array.isArray(v.at) && v.at.length <= 2 && v.at.every((x) => typeof x === 'number' && Number.isFinite(x));
+      if (!at || !(v.result === null || isPanelResult(v.result)) || !(v.reason === null || isStr(v.reason))) return null;
+      return { type: 'pointResult', uri: v.uri, at: v.at as number[], result: v.result as PanelResult | null, reason: v.reason };
+    }
+    default:
       return null;
   }
 }
@@ -127,7 +164,7 @@ export const MAX_EXPORT_CHARS = 32 * 1024 * 1024;
 /**
  * Checks a message arriving in the extension host from the panel. Returns it typed, or null.
  */
-export function parsePanelMessage(v: unknown): PanelToHost | null {
+export function parsePanelMessage(v: unknown): PanelMessage | null {
   if (!isObj(v) || !isStr(v.type)) return null;
   switch (v.type) {
     case 'ready':
@@ -141,6 +178,8 @@ export function parsePanelMessage(v: unknown): PanelToHost | null {
     }
     case 'reveal':
       return typeof v.line === 'number' && Number.isInteger(v.line) && v.line >= 0 ? { type: 'reveal', line: v.line } : null;
+    case 'pickPoint':
+      return Array.isArray(v.at) && v.at.length >= 1 && v.at.length <= 2 && v.at.every((x) => typeof x === 'number' && Number.isFinite(x)) ? { type: 'pickPoint', at: v.at as number[] } : null;
     default:
       return null;
   }

@@ -9,6 +9,8 @@ import { parsePanelMessage } from './messages';
 import { buildPanelHtml, makeNonce } from './panelHtml';
 import { baseName, LANGUAGE_ID, stem, type VscodeApi } from './host';
 import type { ResultStore } from './results';
+import type { SweepStore } from './sweeps';
+import { isPanelResult } from './messages';
 import { dataUrlBytes, saveWithDialog, type SaveOutcome } from './save';
 
 /** The webview panel type, also named in package.json's activation events. */
@@ -26,6 +28,10 @@ export interface PanelDeps {
   trusted: () => boolean;
   /** Nonce source (default `makeNonce`). */
   nonce?: () => string;
+  /** The documents' sweeps, forwarded to the panel's sweep view (none: the view gets no sweep). */
+  sweeps?: SweepStore;
+  /** Asks the server for one sweep point's full result (`eigenspan/sweepPointResult`), for the state view. */
+  pointResult?: (uri: string, at: number[]) => Promise<unknown>;
 }
 
 /** Maps VS Code's colour theme kind (1 light, 2 dark, 3 high contrast, 4 high contrast light) to the panel's. */
@@ -57,6 +63,7 @@ export class SpectrumPanelController {
 
   constructor(private readonly deps: PanelDeps) {
     this.disposables.push({ dispose: deps.store.onChange((u) => u === this.uri && this.push()) });
+    if (deps.sweeps) this.disposables.push({ dispose: deps.sweeps.onMessage((u, m) => u === this.uri && this.deps.trusted() && this.post(m)) });
   }
 
   /** The folder the webview may load from: dist/webview and nothing else. */
@@ -152,6 +159,24 @@ export class SpectrumPanelController {
     if (!stored) return this.post({ type: 'empty', reason: `Waiting for the first analysis of ${name}…` });
     const lines = doc ? stored.result.diagnostics.map((d) => doc.positionAt(d.start).line) : undefined;
     this.post({ type: 'result', uri: stored.uri, version: stored.version, fileName: name, result: stored.result, ...(lines ? { diagnosticLines: lines } : {}) });
+    const sweep = this.deps.sweeps?.snapshot(this.uri);
+    if (sweep) this.post(sweep);
+  }
+
+  /** Asks for a sweep point's full result and hands it to the panel's state view (or says why there is none). */
+  private async pick(at: number[]): Promise<void> {
+    const uri = this.uri;
+    if (!uri || !this.deps.pointResult || !this.deps.trusted()) return;
+    let answer: unknown = null;
+    let reason: string | null = null;
+    try {
+      answer = await this.deps.pointResult(uri, at);
+    } catch (e) {
+      reason = `the language server could not analyse it (${e instanceof Error ? e.message : String(e)})`;
+    }
+    if (answer !== null && !isPanelResult(answer)) ((answer = null), (reason = 'the language server sent a result the panel cannot read'));
+    if (answer === null) reason ??= 'the point is no longer on the sweep, or its analysis did not finish within the time budget';
+    if (uri === this.uri) this.post({ type: 'pointResult', uri, at, result: answer as Extract<HostMessage, { type: 'pointResult' }>['result'], reason });
   }
 
   /** Handles one message from the panel; malformed ones are dropped. */
@@ -183,6 +208,8 @@ export class SpectrumPanelController {
         if (this.lastExport.kind === 'failed') void api.window.showErrorMessage(`Could not save the plot: ${this.lastExport.message}`);
         return;
       }
+      case 'pickPoint':
+        return this.pick(msg.at);
     }
   }
 

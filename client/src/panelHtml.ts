@@ -51,6 +51,25 @@ export function panelCsp(webviewBase: string, nonce: string): string {
   ].join('; ');
 }
 
+/** The sweep view (its tab is shown when the file has a sweep): the quantity chooser, a status line and the chart. */
+const SWEEP_VIEW = `  <section id="view-sweep" class="view" role="tabpanel" aria-labelledby="tab-sweep">
+    <div class="controls">
+      <label>Show <select id="sweep-quantity"><option value="overview">captured weight, lowest populations, ⟨E⟩</option></select></label>
+      <output id="sweep-status" aria-live="polite"></output>
+    </div>
+    <div id="notes-sweep" class="notes" hidden></div>
+    <p id="empty-sweep" class="empty" hidden></p>
+    <div id="chart-sweep" class="chart"></div>
+  </section>
+`;
+
+/** The state view's banner when it shows a sweep point instead of the file's own values. */
+const POINT_BANNER = `    <div id="state-point" class="point-banner" role="status" hidden>
+      <span id="state-point-text"></span>
+      <button type="button" id="state-point-back">Back to the file's own value</button>
+    </div>
+`;
+
 /** The full HTML document of the panel. Nothing from the analysed file is written into it. */
 export function buildPanelHtml(options: PanelHtmlOptions): string {
   const base = options.webviewBase.replace(/\/+$/, '');
@@ -75,6 +94,7 @@ export function buildPanelHtml(options: PanelHtmlOptions): string {
     <button type="button" role="tab" id="tab-spectrum" data-tab="spectrum" aria-controls="view-spectrum">Spectrum</button>
     <button type="button" role="tab" id="tab-state" data-tab="state" aria-controls="view-state">State</button>
     <button type="button" role="tab" id="tab-time" data-tab="time" aria-controls="view-time">Time</button>
+    <button type="button" role="tab" id="tab-sweep" data-tab="sweep" aria-controls="view-sweep" hidden>Sweep</button>
   </nav>
   <span class="tools">
     <button type="button" id="export-png" title="Save the current plot as a PNG image">PNG</button>
@@ -101,7 +121,7 @@ export function buildPanelHtml(options: PanelHtmlOptions): string {
     <div id="chart-spectrum" class="chart"></div>
   </section>
   <section id="view-state" class="view" role="tabpanel" aria-labelledby="tab-state">
-    <div class="controls">
+${POINT_BANNER}    <div class="controls">
       <label for="terms">Terms K</label>
       <input type="range" id="terms" min="1" max="1" step="1" value="1">
       <output id="terms-out" for="terms"></output>
@@ -120,7 +140,7 @@ export function buildPanelHtml(options: PanelHtmlOptions): string {
     <p id="empty-time" class="empty" hidden></p>
     <div id="chart-time" class="chart"></div>
   </section>
-</main>
+${SWEEP_VIEW}</main>
 ${scripts}
 </body>
 </html>

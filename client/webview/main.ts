@@ -5,8 +5,8 @@
  * file is only ever set with textContent.
  */
 import * as echarts from 'echarts/core';
-import { BarChart, LineChart } from 'echarts/charts';
-import { GridComponent, TooltipComponent, LegendComponent, MarkAreaComponent, MarkLineComponent } from 'echarts/components';
+import { BarChart, CustomChart, LineChart, ScatterChart } from 'echarts/charts';
+import { GridComponent, TooltipComponent, LegendComponent, MarkAreaComponent, MarkLineComponent, VisualMapContinuousComponent } from 'echarts/components';
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
@@ -16,8 +16,10 @@ import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
 import { continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, partialSum, sampledState } from './physics';
 import { axisLabels, drawnTexts, itemLayouts, yPixel } from './inspect';
+import { pickedText, SweepTab, sweepStatus, syncQuantities } from './sweepTab';
+import { SWEEP_QUANTITIES, type SweepQuantity } from './charts/sweepQuantity';
 
-echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, MarkAreaComponent, CanvasRenderer, SVGRenderer]);
+echarts.use([BarChart, LineChart, ScatterChart, CustomChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, MarkAreaComponent, VisualMapContinuousComponent, CanvasRenderer, SVGRenderer]);
 
 interface WebviewApi {
   postMessage(msg: unknown): void;
@@ -27,7 +29,7 @@ interface WebviewApi {
 declare function acquireVsCodeApi(): WebviewApi;
 
 type Tab = ViewSettings['tab'];
-const TABS: Tab[] = ['spectrum', 'state', 'time'];
+const TABS: Tab[] = ['spectrum', 'state', 'time', 'sweep'];
 const vscode = acquireVsCodeApi();
 const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
 
@@ -42,6 +44,7 @@ function restore(saved: unknown): { settings: ViewSettings; scaleChosen: boolean
     if (o.axis === 'n' || o.axis === 'energy') s.axis = o.axis;
     if (Number.isInteger(o.terms) && (o.terms as number) >= 1) s.terms = o.terms as number;
     if (Number.isInteger(o.timeIndex) && (o.timeIndex as number) >= 0) s.timeIndex = o.timeIndex as number;
+    if (SWEEP_QUANTITIES.includes(o.sweepQuantity as SweepQuantity)) s.sweepQuantity = o.sweepQuantity as SweepQuantity;
   }
   return { settings: s, scaleChosen };
 }
@@ -61,11 +64,18 @@ let lastRenderMs = 0;
 let messageAt: number | null = null;
 let sized: Partial<Record<Tab, string>> = {};
 let timer: number | null = null;
+/** The document's sweep and the sweep point picked for the state view. */
+const sweepTab = new SweepTab();
+/** The quantity the sweep view draws (the chosen one when the sweep has it). */
+let shownQuantity: SweepQuantity = 'overview';
+/** A reload left the panel on the sweep view: it returns there when the sweep arrives (the result comes first). */
+let backToSweep = settings.tab === 'sweep';
 
 const charts: Record<Tab, echarts.ECharts> = {
   spectrum: echarts.init($('chart-spectrum'), undefined, { renderer: 'canvas' }),
   state: echarts.init($('chart-state'), undefined, { renderer: 'canvas' }),
   time: echarts.init($('chart-time'), undefined, { renderer: 'canvas' }),
+  sweep: echarts.init($('chart-sweep'), undefined, { renderer: 'canvas' }),
 };
 const lastOption: Partial<Record<Tab, Record<string, unknown>>> = {};
 
@@ -183,6 +193,7 @@ function findings(msg: ResultMessage | null): void {
 }
 
 function syncControls(r: PanelResult | null): void {
+  syncSweepControls();
   for (const t of TABS) {
     const on = t === settings.tab;
     $(`tab-${t}`).setAttribute('aria-selected', String(on));
@@ -222,9 +233,10 @@ function syncTime(r: PanelResult | null): void {
 }
 
 /** Draws one view's description into its chart, notes and empty-state text. */
-function draw(r: PanelResult, tab: Tab): void {
+function draw(file: PanelResult, tab: Tab): void {
+  const r = drawnResult(file, tab);
   const el = $(`chart-${tab}`);
-  const view = describeView({ result: r, settings, palette, tooltip, size: { width: el.clientWidth || 800, height: el.clientHeight || 440 } });
+  const view = describeView({ result: r, settings: { ...settings, sweepQuantity: shownQuantity }, palette, tooltip, size: { width: el.clientWidth || 800, height: el.clientHeight || 440 } });
   const notes = $(`notes-${tab}`);
   notes.replaceChildren(...view.notes.map((n) => Object.assign(document.createElement('p'), { textContent: n })));
   notes.hidden = view.notes.length === 0;
@@ -237,7 +249,7 @@ function draw(r: PanelResult, tab: Tab): void {
     const size = `${el.clientWidth}x${el.clientHeight}`;
     if (sized[tab] !== size) ((sized[tab] = size), charts[tab].resize());
     // The first draw builds everything; later ones replace only what changes, which ECharts does far faster.
-    if (lastOption[tab]) charts[tab].setOption(option, { replaceMerge: ['series', 'xAxis', 'yAxis', 'grid'], lazyUpdate: false, silent: true });
+    if (lastOption[tab]) charts[tab].setOption(option, { replaceMerge: ['series', 'xAxis', 'yAxis', 'grid', 'visualMap'], lazyUpdate: false, silent: true });
     else charts[tab].setOption(option, { notMerge: true, lazyUpdate: false, silent: true });
     lastOption[tab] = option;
   } else {
@@ -253,7 +265,7 @@ function render(): void {
   // While the file has invalidating errors, the last good result (if any, of the same file) is drawn dimmed.
   const stale = current !== null && current !== lastGood && lastGood !== null && lastGood.uri === current.uri;
   const shown = stale ? lastGood : current;
-  const r = shown?.result ?? null;
+  const r = shown ? drawnResult(shown.result, settings.tab) : null;
   syncControls(r);
   if (!current || !r) return;
   setText('file-name', current.fileName);
@@ -277,6 +289,16 @@ function render(): void {
   document.body.dataset.version = String(current.version);
 }
 
+let renderFrame: number | null = null;
+/** Draws on the next frame (once, however often it is asked for before then). */
+function renderSoon(): void {
+  if (renderFrame !== null) return;
+  renderFrame = requestAnimationFrame(() => {
+    renderFrame = null;
+    render();
+  });
+}
+
 function stopPlaying(): void {
   if (timer !== null) window.clearInterval(timer);
   timer = null;
@@ -292,12 +314,16 @@ function onMessage(data: unknown): void {
     case 'result':
       if (current && current.uri === msg.uri && msg.version < current.version) return;
       if (!current || current.uri !== msg.uri) ((settings.selected = null), (lastGood = null));
+      if (sweepTab.uri !== msg.uri) sweepTab.reset(msg.uri);
+      // A new version of the file: the picked point belongs to the old text.
+      else if (current && msg.version > current.version) sweepTab.picked = null;
       current = msg;
       render();
       break;
     case 'empty':
       current = null;
       lastGood = null;
+      sweepTab.reset(null);
       stopPlaying();
       setText('empty-reason', msg.reason);
       setText('file-name', 'no file');
@@ -313,6 +339,14 @@ function onMessage(data: unknown): void {
     case 'settings':
       if (!scaleChosen) ((settings.scale = msg.plotScale), render());
       break;
+    default:
+      if (sweepTab.handle(msg)) {
+        // A picked point's result opens the state view on it.
+        if (msg.type === 'pointResult' && msg.result) settings.tab = 'state';
+        // Points may arrive by the thousand: they are drawn once a frame, however many came.
+        if (msg.type === 'sweepPoint') renderSoon();
+        else render();
+      }
   }
 }
 
@@ -320,6 +354,7 @@ window.addEventListener('message', (e: MessageEvent) => onMessage(e.data));
 
 function selectTab(t: Tab): void {
   settings.tab = t;
+  backToSweep = false;
   save();
   render();
 }
@@ -329,7 +364,8 @@ for (const t of TABS) {
   $(`tab-${t}`).addEventListener('keydown', (e) => {
     const step = e.key === 'ArrowRight' ? 1 : e.key === 'ArrowLeft' ? -1 : 0;
     if (!step) return;
-    const next = TABS[(TABS.indexOf(t) + step + TABS.length) % TABS.length]!;
+    const open = TABS.filter((x) => !$(`tab-${x}`).hidden);
+    const next = open[(open.indexOf(t) + step + open.length) % open.length]!;
     selectTab(next);
     $(`tab-${next}`).focus();
   });
@@ -380,6 +416,52 @@ charts.spectrum.on('click', (params: unknown) => {
   render();
 });
 
+// Picking a sweep point shows its state: the host asks the server for the point's full result.
+charts.sweep.on('click', (params: unknown) => {
+  const data = (params as { data?: unknown }).data;
+  const point = Array.isArray(data) ? sweepTab.pointAt(Number(data[2])) : null;
+  if (!point) return;
+  sweepTab.pending = point.at;
+  sweepTab.failed = null;
+  vscode.postMessage({ type: 'pickPoint', at: point.at });
+  render();
+});
+$('sweep-quantity').addEventListener('change', (e) => {
+  const v = (e.target as HTMLSelectElement).value as SweepQuantity;
+  settings.sweepQuantity = SWEEP_QUANTITIES.includes(v) ? v : 'overview';
+  save();
+  render();
+});
+$('state-point-back').addEventListener('click', () => {
+  sweepTab.picked = null;
+  render();
+});
+
+/** The result a view draws: the state view a picked sweep point's, the sweep view the file's with its sweep as it stands. */
+function drawnResult(file: PanelResult, tab: Tab): PanelResult {
+  const uri = current?.uri ?? null;
+  if (tab === 'state' && sweepTab.picked && sweepTab.picked.uri === uri) return sweepTab.picked.result;
+  if (tab === 'sweep') {
+    const sweep = sweepTab.sweepFor(uri) ?? file.sweep;
+    return sweep ? { ...file, sweep } : file;
+  }
+  return file;
+}
+
+/** The sweep tab (shown when the file has a sweep), its chooser and status, and the state view's banner for a picked point. */
+function syncSweepControls(): void {
+  const sweep = sweepTab.sweepFor(current?.uri ?? null) ?? current?.result.sweep ?? null;
+  $('tab-sweep').hidden = sweep === null;
+  if (sweep !== null && backToSweep) ((settings.tab = 'sweep'), (backToSweep = false));
+  if (sweep === null && settings.tab === 'sweep') settings.tab = 'spectrum';
+  // The user's choice is kept; a quantity this sweep lacks is drawn as the nearest one it has.
+  shownQuantity = syncQuantities($('sweep-quantity') as HTMLSelectElement, sweep, settings.sweepQuantity);
+  setText('sweep-status', sweepStatus(sweepTab, sweep, current?.version ?? null));
+  const picked = sweepTab.picked && sweepTab.picked.uri === current?.uri ? sweepTab.picked : null;
+  $('state-point').hidden = picked === null;
+  setText('state-point-text', picked ? pickedText(picked, current?.result ?? null) : '');
+}
+
 function exportPlot(format: 'png' | 'svg'): void {
   const tab = settings.tab;
   const option = lastOption[tab];
@@ -424,13 +506,24 @@ new ResizeObserver(() => {
   inspect() {
     const tab = settings.tab;
     const opt = charts[tab].getOption() as { series?: { id?: string; data?: unknown[] }[]; backgroundColor?: unknown } | undefined;
-    const series = (opt?.series ?? []).map((s) => ({ id: String(s.id ?? ''), data: s.data ?? [] }));
+    // A redraw with fewer series leaves empty places in ECharts' option arrays (replaceMerge keeps the indices).
+    const series = (opt?.series ?? []).filter((s) => s !== null && s !== undefined).map((s) => ({ id: String(s.id ?? ''), data: s.data ?? [] }));
     return { tab, settings: { ...settings }, renders, lastRenderMs, version: current?.version ?? null, background: opt?.backgroundColor ?? null, palette: { ...palette }, series };
   },
   texts: () => drawnTexts(charts[settings.tab]),
   axisLabels: () => axisLabels(charts[settings.tab]),
   itemLayouts: (id: string) => itemLayouts(charts[settings.tab], id),
   yPixel: (index: number, value: number) => yPixel(charts[settings.tab], index, value),
+  /** Where datum `dataIndex` of series `id` lies, in page pixels (its first two values as x and y). */
+  pixelOf: (id: string, dataIndex: number) => {
+    const chart = charts[settings.tab];
+    const opt = chart.getOption() as { series?: { id?: string; data?: unknown[][] }[] };
+    const d = (opt.series ?? []).find((q) => q && q.id === id)?.data?.[dataIndex];
+    if (!d) return null;
+    const [x, y] = chart.convertToPixel({ seriesId: id }, [Number(d[0]), Number(d[1])]) as number[];
+    const box = $(`chart-${settings.tab}`).getBoundingClientRect();
+    return { x: box.left + x!, y: box.top + y! };
+  },
 };
 
 show({ views: false, empty: true });

@@ -47,7 +47,7 @@ function elements(e: XmlElement): XmlElement[] {
 
 /** The SVG's tree; its one style sheet (hover rules in a CDATA section, which the test reader does not take) is set aside. */
 function parseSvg(svg: string): XmlElement {
-  return parseXml(svg.replace(/<style\s*><!\[CDATA\[[^\]]*\]\]>\s*<\/style>/, ''));
+  return parseXml(svg.replace(/<style\s*><!\[CDATA\[[\s\S]*?\]\]>\s*<\/style>/, ''));
 }
 
 let files = 0;
@@ -144,10 +144,32 @@ describe('eigenspan plot --view state and time', () => {
     const all = svgOf(sweep, ['--view', 'sweep']);
     expect(texts(all)).toEqual(expect.arrayContaining(['captured weight', 'P(1)', 'L', 'weight', 'design window']));
     expect(texts(all).some((t) => /^line 6 fails$/.test(t))).toBe(true);
-    // Two parameters make a map, which is not drawn yet: said, as a usage error.
-    const map = run(['plot', file('map.qstate', `let a = 1\n${sweep}sweep a from 1 to 2 steps 2\n`), '--view', 'sweep']);
-    expect(map.code).toBe(2);
-    expect(map.err).toContain('not drawn yet');
+    // --quantity picks the lines: the level energies on an energy axis, or the bound count (every level of a box is bound, so none is counted).
+    const energies = texts(svgOf(sweep, ['--view', 'sweep', '--quantity', 'energies']));
+    expect(energies).toEqual(expect.arrayContaining(['E(1)', 'E(2)', 'energy']));
+    expect(energies).not.toContain('captured weight');
+    expect(texts(svgOf(sweep, ['--view', 'sweep', '--quantity', 'energy']))).toEqual(expect.arrayContaining(['⟨E⟩', '⟨E⟩ + ΔE', 'ΔE']));
+  });
+
+  it('draws a two-parameter sweep as a map: cells for every point, the colour scale, the design window\'s outline, axes named with units', () => {
+    // The ground state of the box (0, a) released into the box (0, L), both swept (lengths in nm): the
+    // expect line holds where the old box fills enough of the new one.
+    const text = 'units nm, meV\nlet L = 1.2 nm\nlet a = 1 nm\nsystem box(0 nm, L)\nstate eigen(1) of box(0 nm, a)\nbasis 20\nexpect weight 1 >= 0.5\nsweep L from 1 nm to 2 nm steps 10\nsweep a from 0.5 nm to 1 nm steps 4 log\n';
+    const all = svgOf(text, ['--view', 'sweep', '--quantity', 'populations']);
+    // One cell a point (11 x 5), each filled and outlined in its own colour of the scale.
+    const cells = all.filter((e) => e.name === 'path' && e.attrs['stroke-width'] === '0.6' && e.attrs.fill === e.attrs.stroke && e.attrs.fill !== 'none');
+    expect(cells).toHaveLength(55);
+    expect(new Set(cells.map((c) => c.attrs.fill)).size).toBeGreaterThan(5);
+    // The legend names the mapped quantity (the lowest population) and the outline; the scale's two ends are printed.
+    expect(texts(all)).toEqual(expect.arrayContaining(['P(1)', 'design window edge', 'L (nm)', 'a (nm)']));
+    // The outline: a polyline in the text colour (light theme fallback) over a halo in the background colour.
+    const outline = all.filter((e) => e.name === 'path' && e.attrs.fill === 'none' && e.attrs.stroke === '#1f1f1f' && e.attrs['stroke-width'] === '2');
+    expect(outline.length).toBeGreaterThan(0);
+    expect((outline[0]!.attrs.d ?? '').split('L').length).toBeGreaterThan(4);
+    // A logarithmic sweep gets a logarithmic axis: its ticks are powers of 2 over a span under three decades.
+    expect(texts(all)).toEqual(expect.arrayContaining(['0.5', '1']));
+    // An unknown quantity is a usage error.
+    expect(run(['plot', file('mapq.qstate', text), '--view', 'sweep', '--quantity', 'colour']).code).toBe(2);
   });
 });
 

@@ -3,6 +3,8 @@ import { SpectrumPanelController, PANEL_VIEW_TYPE, plotScaleSetting, themeKindNa
 import { ResultStore } from '../../client/src/results';
 import { makeVscode, makeDocument, FakeUri, type FakePanel } from './vscode-stub';
 import { parabolaResult } from './fixtures';
+import { SweepStore } from '../../client/src/sweeps';
+import { sweepFrame } from '../../client/src/sweepFrame';
 
 function setup(options: { trusted?: boolean } = {}) {
   const vs = makeVscode();
@@ -182,5 +184,70 @@ describe('the plot scale setting', () => {
     expect(plotScaleSetting({ globalValue: 'log' })).toBe('log');
     expect(plotScaleSetting({ globalValue: 'log', workspaceValue: 'linear' })).toBe('linear');
     expect(plotScaleSetting({ globalValue: 'cubic' })).toBe('auto');
+  });
+});
+
+describe('the panel and the sweep view', () => {
+  // A box whose width is swept; the points are the engine's own (see test/client/sweep.test.ts for their checks).
+  const TEXT = 'let L = 1.2\nsystem box(0, L)\nstate eigen(1) of box(0, 1)\nbasis 20\nsweep L from 1 to 2 steps 2\n';
+  const point = (i: number) => ({ index: [i], at: [1 + i / 2], valid: true, problem: null, findings: [], levels: [{ n: 1, energy: 4.9, weight: 0.5 }], captured: 0.9, continuum: null, mean: 5, spread: 1, bound: null, expects: [] });
+
+  function sweepSetup(answer: (at: number[]) => Promise<unknown>) {
+    const vs = makeVscode();
+    vs.state.isTrusted = true;
+    const store = new ResultStore();
+    const sweeps = new SweepStore();
+    const asked: number[][] = [];
+    const ctl = new SpectrumPanelController({
+      api: vs.api,
+      extensionUri: FakeUri.file('/ext') as never,
+      store,
+      plotScale: () => 'auto',
+      trusted: () => vs.state.isTrusted,
+      sweeps,
+      pointResult: (_uri, at) => (asked.push(at), answer(at)),
+    });
+    const doc = makeDocument('/ws/box.qstate', TEXT);
+    vs.openEditor(doc);
+    ctl.show();
+    const p = vs.panels[0]!;
+    store.set({ uri: doc.uri.toString(), version: 1, result: parabolaResult(4) });
+    ready(p);
+    return { vs, sweeps, ctl, doc, p, asked };
+  }
+
+  it('forwards each sweep point with its frame, and the sweep so far to a panel that opens late', () => {
+    const { sweeps, ctl, doc, p } = sweepSetup(async () => null);
+    const uri = doc.uri.toString();
+    const frame = () => sweepFrame(TEXT, [{ name: 'L', unit: null }]);
+    sweeps.point({ uri, version: 1, finished: 1, total: 3, point: point(0) }, frame);
+    const sent = p.posted.filter((m) => (m as { type: string }).type === 'sweepPoint') as { frame: { axes: { name: string; steps: number }[] } }[];
+    expect(sent).toHaveLength(1);
+    expect(sent[0]!.frame.axes).toEqual([{ name: 'L', unit: null, steps: 2, spacing: 'linear' }]);
+    // Another document's points are not forwarded.
+    sweeps.point({ uri: 'file:///ws/other.qstate', version: 1, finished: 1, total: 3, point: point(0) }, frame);
+    expect(p.posted.filter((m) => (m as { type: string }).type === 'sweepPoint')).toHaveLength(1);
+    // A reload (ready again) gets the result and then the sweep as it stands.
+    p.received.fire({ type: 'ready' });
+    const last = p.posted[p.posted.length - 1] as { type: string; sweep: { finished: number; points: unknown[] } };
+    expect(last.type).toBe('sweep');
+    expect(last.sweep.finished).toBe(1);
+    expect(last.sweep.points).toHaveLength(3);
+    ctl.dispose();
+  });
+
+  it('asks the server for a picked point and hands its result, or why there is none, to the panel', async () => {
+    const { p, asked, doc, ctl } = sweepSetup(async (at) => (at[0] === 1.5 ? parabolaResult(6) : null));
+    // The panel's messages as they arrive from the webview (receive resolves once each is handled).
+    await ctl.receive({ type: 'pickPoint', at: [1.5] });
+    await ctl.receive({ type: 'pickPoint', at: [9] });
+    await ctl.receive({ type: 'pickPoint', at: ['x'] });
+    expect(asked).toEqual([[1.5], [9]]);
+    const answers = p.posted.filter((m) => (m as { type: string }).type === 'pointResult') as { uri: string; at: number[]; result: { levels: unknown[] } | null; reason: string | null }[];
+    expect(answers.map((a) => [a.uri, a.at])).toEqual([[doc.uri.toString(), [1.5]], [doc.uri.toString(), [9]]]);
+    expect(answers[0]!.result!.levels).toHaveLength(6);
+    expect(answers[0]!.reason).toBeNull();
+    expect(answers[1]!.result).toBeNull();
+    expect(answers[1]!.reason).toContain('no longer on the sweep');
   });
 });

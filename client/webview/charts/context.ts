@@ -4,11 +4,12 @@
  */
 import type { PanelResult } from '../../src/messages';
 import type { Palette } from '../theme';
+import type { SweepQuantity } from './sweepQuantity';
 import { legendOption, type ChartSize } from './layout';
 
 /** What the user has chosen in the panel; kept across reloads. */
 export interface ViewSettings {
-  tab: 'spectrum' | 'state' | 'time';
+  tab: 'spectrum' | 'state' | 'time' | 'sweep';
   /** Vertical scale of the spectrum; 'auto' takes the natural one for the result (see `naturalScale`). */
   scale: 'auto' | 'linear' | 'log';
   axis: 'n' | 'energy';
@@ -18,10 +19,12 @@ export interface ViewSettings {
   selected: number | null;
   /** Index into evolution.times. */
   timeIndex: number;
+  /** What the sweep view draws (sweepQuantity.ts). */
+  sweepQuantity: SweepQuantity;
 }
 
 /** Defaults of `ViewSettings`. */
-export const DEFAULT_SETTINGS: ViewSettings = { tab: 'spectrum', scale: 'auto', axis: 'n', terms: 10, selected: null, timeIndex: 0 };
+export const DEFAULT_SETTINGS: ViewSettings = { tab: 'spectrum', scale: 'auto', axis: 'n', terms: 10, selected: null, timeIndex: 0, sweepQuantity: 'overview' };
 
 /** Rows of label/value text shown in a tooltip. */
 export type TooltipRows = [string, string][];

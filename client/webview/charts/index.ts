@@ -7,13 +7,17 @@ import type { BuildContext, Option } from './context';
 import { spectrumNotes, spectrumOption } from './spectrum';
 import { stateChart, stateNotes } from './state';
 import { evolveHint, timeNotes, timeOption } from './time';
+import { sweepView } from './sweep';
 
 export { DEFAULT_SETTINGS, type BuildContext, type Option, type TooltipRows, type ViewSettings } from './context';
 export { decadeAxis, niceAxis, niceBound, niceCeil, tickFormatter } from './scale';
 export { effectiveScale, spectrumOption, termsShown } from './spectrum';
 export { energyWindow, stateAxes, stateOption } from './state';
 export { survivalCurve, timeOption } from './time';
-export { sweepView, type SweepDescription } from './sweep';
+export { locatedLines, sweepView, type SweepDescription, type SweepViewOptions } from './sweep';
+export { availableQuantities, plainRows, pointRows, QUANTITY_LABELS, SWEEP_QUANTITIES, type SweepQuantity } from './sweepQuantity';
+export { cellEdges, mapColours } from './sweepMap';
+export { windowContour, type Polyline } from './contour';
 export * from './facts';
 export { DEFAULT_SIZE, legendRows, type ChartSize } from './layout';
 
@@ -40,5 +44,8 @@ export function describeView(ctx: BuildContext): ViewDescription {
     case 'time':
       if (!r.evolution || r.evolution.times.length === 0) return { option: null, notes: [], empty: evolveHint(r) };
       return { option: timeOption(ctx), notes: timeNotes(r), empty: null };
+    case 'sweep':
+      if (!r.sweep) return { option: null, notes: [], empty: 'This file has no sweep yet: a `sweep NAME from A to B steps K` line varies a let, and the sweep appears here as its points finish.' };
+      return sweepView(r.sweep, ctx.palette, ctx.size ?? { width: 800, height: 440 }, r.units.energy, { quantity: ctx.settings.sweepQuantity, tooltip: ctx.tooltip });
   }
 }

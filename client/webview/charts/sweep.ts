@@ -1,116 +1,133 @@
 /**
- * The sweep view: chosen quantities against the swept parameter, from a sweep result alone (the
- * `sweep` field of `expand --json`, analysis/sweep/types.ts). Lines for the captured weight and the
- * populations of the lowest levels (left axis, 0 to 1) and the energy mean (right axis); the design
- * window shaded; the places where the bound-level count steps or an `expect` line flips, located by
- * the engine between points, marked as vertical lines. Pure: no DOM, so the command line draws it too.
- *
- * A two-parameter map is not drawn yet: the description then says so instead of a plot.
+ * The sweep view: the chosen quantity against the swept parameter, from a sweep result alone (the
+ * `sweep` field of `expand --json`, analysis/sweep/types.ts, or the points arrived so far). Lines of
+ * the quantity (sweepQuantity.ts; the overview draws the captured weight and the lowest populations on
+ * the left axis, 0 to 1, and the energy mean on the right); the design window shaded; the places where
+ * the bound-level count steps or an `expect` line flips, located by the engine between points, marked
+ * as vertical lines whose labels move aside when they sit close. Every point carries its index into
+ * `sweep.points` (the third value of its datum), so hovering shows the point's full result and the
+ * panel can pick it. Two swept parameters give a map (sweepMap.ts). Pure: no DOM, so the command line
+ * draws it too.
  */
-import type { SweepResult } from '../../../server/src/analysis/sweep/types';
+import type { SweepPoint, SweepResult } from '../../../server/src/analysis/sweep/types';
 import type { Palette } from '../theme';
 import { axisStyle, baseOption, unitSuffix, type Option } from './context';
 import { legendFor, plotTop, type ChartSize } from './layout';
 import { niceAxis } from './scale';
+import { plainRows, pointTooltip, quantityAxisName, quantityPlan, sweepNotes, validPoints, type QuantityAxis, type SweepDescription, type SweepViewOptions } from './sweepQuantity';
 
-/** The sweep view's chart option, notes and, without a plot, why. */
-export interface SweepDescription {
-  option: Option | null;
-  notes: string[];
-  empty: string | null;
-}
-
-/** How many of the lowest levels get a population line. */
-const LEVEL_LINES = 3;
+export type { SweepDescription, SweepViewOptions } from './sweepQuantity';
+import { sweepMap } from './sweepMap';
 
 /** The sweep view of `sweep` (see the header). */
-export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize, energyUnit: string | null): SweepDescription {
-  if (sweep.axes.length !== 1) {
-    return { option: null, notes: [], empty: 'This sweep varies two parameters; its map is not drawn yet. Use `eigenspan sweep FILE --csv` for its numbers.' };
-  }
+export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize, energyUnit: string | null, options: SweepViewOptions = {}): SweepDescription {
+  const quantity = options.quantity ?? 'overview';
+  const tooltip = options.tooltip ?? plainRows;
+  if (sweep.axes.length === 2) return sweepMap(sweep, palette, size, energyUnit, { quantity, tooltip });
   const axis = sweep.axes[0]!;
-  const pts = sweep.points.filter((p): p is NonNullable<typeof p> => p !== null && p.valid);
-  if (pts.length === 0) return { option: null, notes: [], empty: 'No point of the sweep could be analysed; see the findings on the sweep line.' };
+  const pts = validPoints(sweep);
+  if (pts.length === 0) return { option: null, notes: sweepNotes(sweep), empty: sweep.finished === 0 ? 'No point of the sweep has finished yet.' : 'No point of the sweep could be analysed; see the findings on the sweep line.' };
   const p = palette;
-  const xy = (f: (q: (typeof pts)[number]) => number | null) => pts.map((q) => [q.at[0]!, f(q)]);
-  const labels = [...new Set(pts.flatMap((q) => q.levels.slice(0, LEVEL_LINES).map((l) => l.n)))].sort((a, b) => a - b).slice(0, LEVEL_LINES);
-  const colours = [p.real, p.imag, p.partial];
-  const series: Option[] = [
-    {
-      id: 'captured',
-      name: 'captured weight',
-      type: 'line',
-      showSymbol: true,
-      symbolSize: 4,
-      data: xy((q) => q.captured),
-      lineStyle: { color: p.density, width: p.lineWidth },
-      itemStyle: { color: p.density },
-      markArea: windowArea(sweep, p),
-      markLine: locatedLines(sweep, p),
-    },
-    ...labels.map((n, k) => ({
-      id: `P${n}`,
-      name: `P(${n})`,
-      type: 'line',
-      showSymbol: false,
-      data: xy((q) => q.levels.find((l) => l.n === n)?.weight ?? null),
-      lineStyle: { color: colours[k % colours.length], width: p.lineWidth },
-      itemStyle: { color: colours[k % colours.length] },
-    })),
-    {
-      id: 'mean',
-      name: '⟨E⟩',
-      type: 'line',
-      yAxisIndex: 1,
-      showSymbol: false,
-      data: xy((q) => q.mean),
-      lineStyle: { color: p.foreground, width: 1, type: 'dashed' },
-      itemStyle: { color: p.foreground },
-    },
-  ];
-  const means = pts.map((q) => q.mean).filter((v): v is number => v !== null && Number.isFinite(v));
-  const energyAxis = means.length > 0 ? niceAxis(Math.min(...means), Math.max(...means)) : { min: 0, max: 1 };
+  const plan = quantityPlan(quantity, sweep, p);
+  const indexed = sweep.points.map((q, k) => [q, k] as const).filter((e): e is readonly [SweepPoint, number] => e[0] !== null && e[0].valid);
+  const series: Option[] = plan.lines.map((l, k) => ({
+    id: l.id,
+    name: l.name,
+    type: 'line',
+    yAxisIndex: l.axis,
+    showSymbol: true,
+    symbolSize: k === 0 ? 6 : 4,
+    step: l.id === 'bound' ? 'middle' : undefined,
+    data: indexed.map(([q, i]) => [q.at[0]!, l.value(q), i]),
+    lineStyle: { color: l.colour, width: l.dashed ? 1 : p.lineWidth, type: l.dashed ? 'dashed' : 'solid' },
+    itemStyle: { color: l.colour },
+    emphasis: { focus: 'none', scale: 1.8 },
+  }));
   const logX = axis.spacing === 'log' && axis.from > 0 && axis.to > 0;
-  const top = plotTop(series.map((q) => String(q.name)), size, p);
+  const [lo, hi] = [Math.min(axis.from, axis.to), Math.max(axis.from, axis.to)];
+  const grid = { left: 64, right: plan.axes.length > 1 ? 72 : 24, top: plotTop(series.map((q) => String(q.name)), size, p), bottom: Math.round(p.fontSize * 3.4) };
+  // The marks ride on the first series: the design window shaded, and the located places as vertical lines.
+  const frame: XFrame = { lo, hi, log: logX, left: grid.left, width: size.width - grid.left - grid.right };
+  if (series[0]) Object.assign(series[0], { markArea: windowArea(sweep, p, frame), markLine: locatedLines(sweep, p, frame) });
   const option: Option = {
     ...baseOption(p),
+    tooltip: pointTooltip(sweep, energyUnit, tooltip, p),
     legend: legendFor(series, p),
-    grid: { left: 64, right: 72, top, bottom: Math.round(p.fontSize * 3.4) },
-    xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: Math.min(axis.from, axis.to), max: Math.max(axis.from, axis.to), ...axisStyle(p) },
-    yAxis: [
-      { type: 'value', name: 'weight', min: 0, max: 1, ...axisStyle(p) },
-      { type: 'value', name: `⟨E⟩${unitSuffix(energyUnit)}`, min: energyAxis.min, max: energyAxis.max, ...axisStyle(p), splitLine: { show: false } },
-    ],
+    grid,
+    xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: lo, max: hi, ...axisStyle(p) },
+    yAxis: plan.axes.map((kind, k) => valueAxis(kind, plan.lines.filter((l) => l.axis === k), pts, energyUnit, p, k)),
+    // No colour scale: in the panel this removes a map's scale when the same chart draws lines next.
+    visualMap: [],
     series,
   };
   return { option, notes: sweepNotes(sweep), empty: null };
 }
 
-/** The design window as shaded bands over the captured-weight series. */
-function windowArea(sweep: SweepResult, p: Palette): Option | undefined {
-  const bands = sweep.windows.filter((w) => w.row === null).map((w) => [{ xAxis: w.from }, { xAxis: w.to }]);
-  if (bands.length === 0) return undefined;
-  return { silent: true, itemStyle: { color: p.accent, opacity: 0.12 }, label: { show: true, position: 'insideTop', color: p.muted, formatter: 'design window' }, data: bands };
+/** One value axis: weights from 0 to 1, energies over a nice range of the values drawn, counts in whole steps. */
+function valueAxis(kind: QuantityAxis, lines: ReturnType<typeof quantityPlan>['lines'], pts: SweepPoint[], energyUnit: string | null, p: Palette, k: number): Option {
+  const values = lines.flatMap((l) => pts.map(l.value)).filter((v): v is number => v !== null && Number.isFinite(v));
+  const style = { ...axisStyle(p), ...(k > 0 ? { splitLine: { show: false } } : {}) };
+  const name = quantityAxisName(kind, energyUnit, kind === 'energy' && lines.length === 1 ? [lines[0]!.name] : []);
+  if (kind === 'weight') return { type: 'value', name, min: 0, max: 1, ...style };
+  if (kind === 'count') return { type: 'value', name, min: 0, max: Math.max(1, ...values) + 1, minInterval: 1, ...style };
+  const r = values.length > 0 ? niceAxis(Math.min(...values), Math.max(...values)) : { min: 0, max: 1 };
+  return { type: 'value', name, min: r.min, max: r.max, ...style };
 }
 
-/** Vertical lines where the bound count steps (solid) or an expect line flips (dashed). */
-function locatedLines(sweep: SweepResult, p: Palette): Option | undefined {
-  const data = sweep.located
-    .filter((l) => l.row === null)
-    .map((l) => ({
+/** The words on each design-window band. */
+const WINDOW_LABEL = 'design window';
+
+/**
+ * The design window as shaded bands, labelled at the bottom (out of the way of the located lines'
+ * labels): centred in a band wide enough for the words, else from the band's left edge rightwards,
+ * so the words never run out over the axis labels.
+ */
+function windowArea(sweep: SweepResult, p: Palette, frame: XFrame): Option | undefined {
+  const wide = (from: number, to: number) => Math.abs(xPixel(frame, to) - xPixel(frame, from)) >= WINDOW_LABEL.length * 0.6 * p.fontSize + 8;
+  const bands = sweep.windows
+    .filter((w) => w.row === null)
+    .map((w) => [{ xAxis: w.from, label: { position: wide(w.from, w.to) ? 'insideBottom' : 'insideBottomLeft' } }, { xAxis: w.to }]);
+  if (bands.length === 0) return undefined;
+  return { silent: true, itemStyle: { color: p.accent, opacity: 0.12 }, label: { show: true, position: 'insideBottom', color: p.muted, formatter: WINDOW_LABEL }, data: bands };
+}
+
+/** Where value x lies across the plot, in pixels from the chart's left. */
+function xPixel(frame: XFrame, x: number): number {
+  const f = frame.log ? Math.log(x / frame.lo) / Math.log(frame.hi / frame.lo) : (x - frame.lo) / (frame.hi - frame.lo || 1);
+  return frame.left + f * frame.width;
+}
+
+/** Where the plot area lies, to tell which located lines sit close on screen. */
+interface XFrame {
+  lo: number;
+  hi: number;
+  log: boolean;
+  left: number;
+  width: number;
+}
+
+/** Label places along a vertical line, in the order close neighbours take them: left and right of the line at its top, then lower down. */
+const LABEL_PLACES = ['insideEndTop', 'insideEndBottom', 'insideMiddleTop', 'insideMiddleBottom', 'insideStartTop', 'insideStartBottom'] as const;
+
+/**
+ * Vertical lines where the bound count steps (solid) or an expect line flips (dashed). Their labels
+ * run along the lines; lines closer on screen than two text heights form a group whose members take
+ * the places of `LABEL_PLACES` in turn, so no two labels are drawn over each other.
+ */
+export function locatedLines(sweep: SweepResult, p: Palette, frame: XFrame): Option | undefined {
+  const marks = sweep.located.filter((l) => l.row === null).sort((a, b) => a.at - b.at);
+  const near = 2 * p.fontSize + 4;
+  let group = 0;
+  let last = -Infinity;
+  const data = marks.map((l) => {
+    const x = xPixel(frame, l.at);
+    group = x - last < near ? group + 1 : 0;
+    last = x;
+    return {
       xAxis: l.at,
       lineStyle: { color: p.muted, width: 1, type: l.kind === 'bound' ? 'solid' : 'dashed' },
-      label: { show: true, position: 'insideEndTop', color: p.muted, formatter: l.kind === 'bound' ? `bound ${l.before} → ${l.after}` : `line ${sweep.expects[l.expect ?? 0]?.line ?? '?'} ${l.after ? 'holds' : 'fails'}` },
-    }));
+      label: { show: true, position: LABEL_PLACES[group % LABEL_PLACES.length], color: p.muted, formatter: l.kind === 'bound' ? `bound ${l.before} → ${l.after}` : `line ${sweep.expects[l.expect ?? 0]?.line ?? '?'} ${l.after ? 'holds' : 'fails'}` },
+    };
+  });
   return data.length === 0 ? undefined : { silent: true, symbol: 'none', animation: false, data };
-}
-
-/** What the view leaves out or where it stopped. */
-function sweepNotes(sweep: SweepResult): string[] {
-  const notes: string[] = [];
-  if (sweep.stopped !== null) notes.push(`The sweep stopped (${sweep.stopped}) after ${sweep.finished} of ${sweep.total} points; the curves end there.`);
-  const invalid = sweep.points.filter((q) => q !== null && !q.valid).length;
-  if (invalid > 0) notes.push(`${invalid} point(s) where the setup is invalid are left out.`);
-  if (sweep.expects.length > 0 && sweep.windows.length === 0) notes.push('No swept value satisfies every expect line: there is no design window.');
-  return notes;
 }

@@ -69,7 +69,7 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
   eigenspan plot FILE [--view spectrum|state|time|sweep] [--svg PATH] [--png PATH] [--force]
                  [--width W] [--height H] [--theme light|dark] [--scale auto|linear|log]
                  [--axis n|energy] [--terms K] [--step S] [--basis N] [--time-limit MS]
-                 [--limit NAME=N]...
+                 [--limit NAME=N]... [--quantity Q]
       Draw one of the panel's views as a picture, without a browser: the spectrum (default),
       the state, the time evolution, or the sweep of a file with a sweep. The panel's notes on
       the view go to standard error. Without --svg or --png the SVG goes to standard output.
@@ -81,6 +81,8 @@ ${Object.entries(LIMIT_RANGES).map(([k, [lo, hi]]) => `                 ${k.padE
       --scale, --axis, --terms  the spectrum's vertical scale, its horizontal axis (level
                  number or energy) and the levels K of the partial sum, as in the panel
       --step S   the evolve step the time view shows |psi(x,t)|^2 at (default 0, t = 0)
+      --quantity Q  what the sweep view draws: overview (default), captured, continuum,
+                 populations, energies, energy or bound; two sweep lines give a map of it
   eigenspan demo [FOLDER]
       Analyse every .qstate file in FOLDER (default examples) and print each one's table
       (and, for a file with a sweep, a short summary: its points, located changes and window).

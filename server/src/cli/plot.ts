@@ -20,6 +20,7 @@ import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { readText } from './readtext';
 import { renderDiagnostic } from './render';
 import type * as Render from './plotRender';
+import { SWEEP_QUANTITIES, type SweepQuantity } from '../../../client/webview/charts/sweepQuantity';
 
 /** The views `--view` takes: the panel's three, and the sweep of a `sweep` statement. */
 export const PLOT_VIEWS = ['spectrum', 'state', 'time', 'sweep'] as const;
@@ -47,6 +48,8 @@ export interface PlotOptions {
   step: number;
   basis: number | undefined;
   limits: Partial<Limits>;
+  /** What the sweep view draws (`--quantity`, default the overview). */
+  quantity: SweepQuantity;
 }
 
 function oneOf<T extends string>(option: string, value: string | undefined, allowed: readonly T[]): T {
@@ -64,7 +67,7 @@ function wholeNumber(option: string, value: string | undefined, [lo, hi]: readon
 export function plotOptions(args: string[]): PlotOptions {
   const o: Omit<PlotOptions, 'file'> & { file: string | null } = {
     file: null, view: 'spectrum', svg: null, png: null, force: false, ...PLOT_DEFAULT_SIZE,
-    theme: 'light', scale: 'auto', axis: 'n', terms: undefined, step: 0, basis: undefined, limits: {},
+    theme: 'light', scale: 'auto', axis: 'n', terms: undefined, step: 0, basis: undefined, limits: {}, quantity: 'overview',
   };
   for (let i = 0; i < args.length; i++) {
     const a = args[i]!;
@@ -79,6 +82,7 @@ export function plotOptions(args: string[]): PlotOptions {
     else if (a === '--axis') o.axis = oneOf(a, args[++i], ['n', 'energy'] as const);
     else if (a === '--terms') o.terms = wholeNumber(a, args[++i], [1, 100_000]);
     else if (a === '--step') o.step = wholeNumber(a, args[++i], [0, 1_000_000]);
+    else if (a === '--quantity') o.quantity = oneOf(a, args[++i], SWEEP_QUANTITIES);
     else if (a === '--basis') o.basis = wholeNumber(a, args[++i], [1, 100_000]);
     else if (a === '--time-limit') o.limits.maxMillis = timeLimit(args[++i]);
     else if (a === '--limit') limitOption(args[++i], o.limits);
@@ -123,7 +127,7 @@ export function plot(args: string[], io: Io): number {
   const failed = result.diagnostics.some((d) => d.severity === 'error');
   if (o.view === 'sweep') {
     assertSweep(result, shown);
-    return emit(o, r.drawSweep(result.sweep, result.units.energy, { width: o.width, height: o.height, theme: o.theme }), shown, io, failed);
+    return emit(o, r.drawSweep(result.sweep, result.units.energy, { width: o.width, height: o.height, theme: o.theme, quantity: o.quantity }), shown, io, failed);
   }
   const panel = asPanelResult(result);
   if (invalidates(panel)) {

@@ -8,17 +8,17 @@
  * `expand` and `check` never parse it.
  */
 import * as echarts from 'echarts/core';
-import { BarChart, LineChart } from 'echarts/charts';
-import { GridComponent, LegendComponent, MarkAreaComponent, MarkLineComponent, TooltipComponent } from 'echarts/components';
+import { BarChart, CustomChart, LineChart, ScatterChart } from 'echarts/charts';
+import { GridComponent, LegendComponent, MarkAreaComponent, MarkLineComponent, TooltipComponent, VisualMapContinuousComponent } from 'echarts/components';
 import { SVGRenderer } from 'echarts/renderers';
 import type { PanelResult } from '../../../client/src/messages';
-import { DEFAULT_SETTINGS, describeView, sweepView, type Option, type TooltipRows, type ViewSettings } from '../../../client/webview/charts';
+import { DEFAULT_SETTINGS, describeView, plainRows, sweepView, type Option, type SweepQuantity, type ViewSettings } from '../../../client/webview/charts';
 import type { SweepResult } from '../analysis/sweep/types';
 import { readPalette, type ThemeKind } from '../../../client/webview/theme';
 import { PICTURE_FONT, PICTURE_FONTS, textWidth } from './plotFont';
 
 // The chart and component types the panel registers (client/webview/main.ts), with the SVG renderer only.
-echarts.use([BarChart, LineChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, MarkAreaComponent, SVGRenderer]);
+echarts.use([BarChart, LineChart, ScatterChart, CustomChart, GridComponent, TooltipComponent, LegendComponent, MarkLineComponent, MarkAreaComponent, VisualMapContinuousComponent, SVGRenderer]);
 
 /** What to draw: the view, its settings beyond the panel's defaults, the picture's size and theme. */
 export interface PictureRequest {
@@ -31,6 +31,8 @@ export interface PictureRequest {
   terms?: number;
   /** Index into the evolution's times for the time view (default 0). */
   step?: number;
+  /** What the sweep view draws (default the overview). */
+  quantity?: SweepQuantity;
 }
 
 /** One view drawn: the SVG text (null when the view has nothing to plot), the panel's notes, or why it is empty. */
@@ -44,7 +46,7 @@ export interface Picture {
 echarts.setPlatformAPI({ measureText: (text: string, font?: string) => ({ width: textWidth(text, font) }) });
 
 /** Tooltips are not drawn in a picture; the rows become plain text like the tests' builder. */
-const plainTooltip = (rows: TooltipRows) => rows.map((r) => r.join(': ')).join('\n');
+const plainTooltip = plainRows;
 
 /** Draws `request.view` of `result` as SVG with the panel's chart option. */
 export function drawView(result: PanelResult, request: PictureRequest): Picture {
@@ -63,11 +65,11 @@ export function drawView(result: PanelResult, request: PictureRequest): Picture 
   return render(view, size);
 }
 
-/** Draws the sweep view of a sweep result (the panel's builder, client/webview/charts/sweep.ts). */
+/** Draws the sweep view of a sweep result (the panel's builder, client/webview/charts/sweep.ts; a map for two parameters). */
 export function drawSweep(sweep: SweepResult, energyUnit: string | null, request: Omit<PictureRequest, 'view'>): Picture {
   const palette = { ...readPalette(() => '', request.theme), fontFamily: PICTURE_FONTS };
   const size = { width: request.width, height: request.height };
-  return render(sweepView(sweep, palette, size, energyUnit), size);
+  return render(sweepView(sweep, palette, size, energyUnit, { quantity: request.quantity, tooltip: plainTooltip }), size);
 }
 
 /** One chart option as SVG with ECharts' server-side renderer. */

@@ -21,6 +21,7 @@ import { signatureAt } from './signature';
 import { quickFixes } from './actions';
 import { lensesFor, letHints } from './lens';
 import { definitionAt, documentSymbols, prepareRenameAt, referencesAt, renameAt } from './symbols';
+import { registerSweepDetail } from './sweepDetail';
 
 type Handler<P, R> = (params: P, token: CancellationToken) => Promise<R | ResponseError<void>>;
 
@@ -102,4 +103,5 @@ export function registerHandlers(connection: Connection, store: DocumentStore, s
     if (r instanceof ResponseError) throw r;
     return r;
   });
+  registerSweepDetail(connection, store, session, logError);
 }
