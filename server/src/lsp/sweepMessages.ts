@@ -68,12 +68,6 @@ export type SweepWorkerMessage =
   | { type: 'failed'; message: string };
 
 /**
- * Server to client when a document's sweep ends (finished, cut by its budget or cancelled; not when
- * superseded by an edit): `{ uri, version, sweep }` with `sweep` a `SweepResult` or null (PROTO.md).
- */
-export const SWEEP_RESULT_NOTIFICATION = 'eigenspan/sweepResult';
-
-/**
  * Request `eigenspan/sweepPointResult` (lsp/sweepDetail.ts), client to server: the full analysis of the
  * document's current text with the swept `let` lines set to the values `at` (one per sweep axis, in the
  * file's units as `SweepPoint.at`), the same result object `eigenspan/result` carries, or null (no
