@@ -18,17 +18,22 @@ const common = {
   logLevel: 'warning',
 };
 
-// The command line loads its drawing half (server/src/cli/plotRender.ts, with the chart library) only for
-// `plot`: in dist/cli.js the require of './plotRender' stays a require of dist/plot.js beside it.
-const plotApart = {
-  name: 'plot-apart',
+// The command line loads some halves only for the commands that need them: its drawing half
+// (server/src/cli/plotRender.ts, with the chart library) for `plot`, and check's report writers
+// (server/src/cli/reports.ts: SARIF, JUnit) for `check --sarif/--junit`. In dist/cli.js each require of
+// these stays a require of its own bundle beside it (dist/plot.js, dist/reports.js). The other commands'
+// code stays in dist/cli.js, evaluated on first require (server/src/cli/main.ts).
+const APART = { './plotRender': './plot.js', './reports': './reports.js' };
+const cliApart = {
+  name: 'cli-apart',
   setup(b) {
-    b.onResolve({ filter: /^\.\/plotRender$/ }, () => ({ path: './plot.js', external: true }));
+    b.onResolve({ filter: /^\.\/(plotRender|reports)$/ }, (args) => ({ path: APART[args.path], external: true }));
   },
 };
 
 const entries = [
-  { in: 'server/src/cli/main.ts', out: 'dist/cli.js', banner: '#!/usr/bin/env node', plugins: [plotApart] },
+  { in: 'server/src/cli/main.ts', out: 'dist/cli.js', banner: '#!/usr/bin/env node', plugins: [cliApart] },
+  { in: 'server/src/cli/reports.ts', out: 'dist/reports.js' },
   // ECharts' development warnings (console output that would bypass the escaping) are off; the rasteriser is a native package.
   { in: 'server/src/cli/plotRender.ts', out: 'dist/plot.js', external: ['@resvg/resvg-js'], defines: { 'process.env.NODE_ENV': '"production"' } },
   { in: 'server/src/api/engine.ts', out: 'dist/engine.js' },
