@@ -3,7 +3,8 @@
 // built with EIGENSPAN_TEST_BUILD on, whose worker carries the test hooks (server/src/lsp/testHooks.ts)
 // the fault and scheduling tests use. Everywhere else the define is false and the hooks are dead code.
 import { build } from 'esbuild';
-import { copyFileSync, existsSync, mkdirSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { copyFileSync, existsSync, mkdirSync, rmSync } from 'node:fs';
 
 const production = process.argv.includes('--production');
 mkdirSync('dist', { recursive: true });
@@ -21,8 +22,9 @@ const common = {
 // The command line loads some halves only for the commands that need them: its drawing half
 // (server/src/cli/plotRender.ts, with the chart library) for `plot`, and check's report writers
 // (server/src/cli/reports.ts: SARIF, JUnit) for `check --sarif/--junit`. In dist/cli.js each require of
-// these stays a require of its own bundle beside it (dist/plot.js, dist/reports.js). The other commands'
-// code stays in dist/cli.js, evaluated on first require (server/src/cli/main.ts).
+// these stays a require of its own bundle beside it (dist/plot.js, dist/reports.js). The rest is one bundle,
+// dist/cli-main.js: requiring command modules lazily inside it would wrap the engine and all of mathjs in
+// lazy initialisers and defeat tree shaking (measured: 767 -> 2,175 KiB).
 const APART = { './plotRender': './plot.js', './reports': './reports.js' };
 const cliApart = {
   name: 'cli-apart',
@@ -32,7 +34,9 @@ const cliApart = {
 };
 
 const entries = [
-  { in: 'server/src/cli/main.ts', out: 'dist/cli.js', banner: '#!/usr/bin/env node', plugins: [cliApart] },
+  // The bin is a small loader (server/src/cli/loader.ts) that runs dist/cli-main.js through V8's code cache.
+  { in: 'server/src/cli/loader.ts', out: 'dist/cli.js', banner: '#!/usr/bin/env node' },
+  { in: 'server/src/cli/main.ts', out: 'dist/cli-main.js', plugins: [cliApart] },
   { in: 'server/src/cli/reports.ts', out: 'dist/reports.js' },
   // ECharts' development warnings (console output that would bypass the escaping) are off; the rasteriser is a native package.
   { in: 'server/src/cli/plotRender.ts', out: 'dist/plot.js', external: ['@resvg/resvg-js'], defines: { 'process.env.NODE_ENV': '"production"' } },
@@ -65,6 +69,11 @@ await Promise.all(
       }),
     ),
 );
+
+// The command line's code cache, from one run of the fresh bundle on a few examples (scripts/train-cli-cache.cjs).
+rmSync('dist/cli-main.cache', { force: true });
+const trained = spawnSync(process.execPath, ['scripts/train-cli-cache.cjs'], { stdio: 'inherit' });
+if (trained.status !== 0) console.warn('build: no code cache for the command line (scripts/train-cli-cache.cjs failed); it still runs, compiling as usual');
 
 if (existsSync('client/webview/main.ts')) {
   await build({

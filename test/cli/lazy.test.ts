@@ -2,7 +2,8 @@
  * What a fresh command-line process loads, counted (never timed): a preload records every module request
  * the process makes. `expand` loads its one bundle and built-in modules only; the drawing half
  * (dist/plot.js) and check's report writers (dist/reports.js) load only for the commands that need them;
- * and the parser part of mathjs is all of mathjs in the bundle (docs/performance.md, start-up).
+ * the parser part of mathjs is all of mathjs in the bundle; and the build's code cache of the bundle is
+ * one this node accepts (docs/performance.md, start-up).
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
@@ -13,6 +14,8 @@ import { join } from 'node:path';
 
 const ROOT = join(__dirname, '..', '..');
 const CLI = join(ROOT, 'dist', 'cli.js');
+/** The bundle the bin (a loader, server/src/cli/loader.ts) runs through V8's code cache. */
+const MAIN = join(ROOT, 'dist', 'cli-main.js');
 /** The parabola state x(1 - x) in a box (closed-form coefficients; a file every command accepts). */
 const PARABOLA = 'system box(0, 1)\nstate psi(x) = sqrt(30) x * (1 - x)\nbasis 10\n';
 
@@ -45,8 +48,10 @@ const builtin = (req: string) => req.startsWith('node:') || builtinModules.inclu
 
 describe('a fresh process loads only what its command needs', () => {
   it('expand loads its own bundle and built-in modules, nothing else', () => {
+    // The loader compiles dist/cli-main.js itself (node:vm), so the one file module is the bin.
     const mods = loaded(['expand', src, '--json']);
     expect(mods.filter((m) => !builtin(m))).toEqual([CLI]);
+    expect(mods).toContain('node:vm');
   });
 
   it('check loads the report writers only when a report is asked for', () => {
@@ -66,9 +71,21 @@ describe('a fresh process loads only what its command needs', () => {
 
   it('carries only the parser part of mathjs in the command line bundle', () => {
     // esbuild names each bundled input in a comment (development build); the full mathjs pulls in these.
-    const text = readFileSync(CLI, 'utf8');
+    const text = readFileSync(MAIN, 'utf8');
     const full = ['decimal.js', 'complex.js', 'fraction.js', 'seedrandom', 'mathjs/lib/esm/function/arithmetic/', 'mathjs/lib/esm/function/matrix/', 'mathjs/lib/esm/type/matrix/'];
     for (const lib of full) expect(text).not.toContain(`// node_modules/${lib}`);
     expect(text).toContain('node_modules/mathjs/lib/esm/expression/parse.js');
+  });
+
+  it('ships a code cache of the bundle that this node accepts', () => {
+    // The loader's own check: V8 refuses a cache made from other source or by another version (Node's vm docs).
+    const probe = `const { Script } = require('node:vm'); const { wrap } = require('node:module'); const fs = require('node:fs');
+const s = new Script(wrap(fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8')), { filename: ${JSON.stringify(MAIN)}, cachedData: fs.readFileSync(${JSON.stringify(MAIN.replace(/\.js$/, '.cache'))}) });
+process.stdout.write(String(s.cachedDataRejected));`;
+    const r = spawnSync(process.execPath, ['-e', probe], { encoding: 'utf8' });
+    expect(r.stdout, r.stderr).toBe('false');
+    // Against other source the same cache is refused, so a stale cache cannot run old code.
+    const stale = probe.replace(`fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8')`, `fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8') + ';0'`);
+    expect(spawnSync(process.execPath, ['-e', stale], { encoding: 'utf8' }).stdout).toBe('true');
   });
 });
