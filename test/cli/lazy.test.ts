@@ -1,7 +1,8 @@
 /**
  * What a fresh command-line process loads, counted (never timed): a preload records every module request
  * the process makes. `expand` loads its one bundle and built-in modules only; the drawing half
- * (dist/plot.js) and check's report writers (dist/reports.js) load only for the commands that need them;
+ * (dist/plot.js), check's report writers (dist/reports.js) and git's process runner (node:child_process)
+ * load only for the commands that need them;
  * the parser part of mathjs is all of mathjs in the bundle; and the build's code cache of the bundle is
  * one this node accepts (docs/performance.md, start-up).
  */
@@ -52,6 +53,9 @@ describe('a fresh process loads only what its command needs', () => {
     const mods = loaded(['expand', src, '--json']);
     expect(mods.filter((m) => !builtin(m))).toEqual([CLI]);
     expect(mods).toContain('node:vm');
+    // git's process runner (node:child_process, with node:net behind it) is for `diff --rev` only.
+    expect(mods).not.toContain('node:child_process');
+    expect(loaded(['check', src])).not.toContain('node:child_process');
   });
 
   it('check loads the report writers only when a report is asked for', () => {
