@@ -19,7 +19,7 @@ interface Series {
   job: string;
   /** What N counts. */
   size: string;
-  sizes: { quick: number[]; full: number[] };
+  sizes: { tiny: number[]; quick: number[]; full: number[] };
   /** The best known algorithm for the job and its exponent in N. */
   best: { p: number; how: string };
   /** Runs the job at size N; returns the worst error against the closed form and a note. */
@@ -70,7 +70,7 @@ const SERIES: Series[] = [
     id: 'box-packet',
     job: 'box, smooth packet, N coefficients through analyse()',
     size: 'levels N',
-    sizes: { quick: [100, 200, 400, 800], full: [100, 200, 400, 800, 1600, 3200] },
+    sizes: { tiny: [20, 40], quick: [100, 200, 400, 800], full: [100, 200, 400, 800, 1600, 3200] },
     best: { p: 1, how: 'sine transform of O(N) samples, N log N' },
     run: (n) => {
       const ref = boxPacketReference(n);
@@ -82,7 +82,7 @@ const SERIES: Series[] = [
     id: 'box-kink',
     job: 'box, kinked triangle, N coefficients through analyse()',
     size: 'levels N',
-    sizes: { quick: [100, 200, 400, 800], full: [125, 250, 500, 1000, 2000] },
+    sizes: { tiny: [20, 40], quick: [100, 200, 400, 800], full: [125, 250, 500, 1000, 2000] },
     best: { p: 1, how: 'sine transform per smooth piece with endpoint corrections, N log N' },
     run: (n) => {
       const ref = kinkReference(n);
@@ -94,7 +94,7 @@ const SERIES: Series[] = [
     id: 'oscillator',
     job: `oscillator, coherent state d = ${COHERENT_D}, N coefficients through analyse()`,
     size: 'levels N',
-    sizes: { quick: [50, 100, 200, 400], full: [50, 100, 200, 400, 800, 1600] },
+    sizes: { tiny: [20, 40], quick: [50, 100, 200, 400], full: [50, 100, 200, 400, 800, 1600] },
     best: { p: 1, how: 'Hermite recurrence on the state\'s fixed support, nodes x N' },
     run: (n) => {
       const ref = coherentReference(n, COHERENT_D / Math.SQRT2);
@@ -106,7 +106,7 @@ const SERIES: Series[] = [
     id: 'potential',
     job: 'V(x) = x^2 (m = 1/2), lowest N levels, walls at 1.2 sqrt(2N + 1) + 5',
     size: 'levels N',
-    sizes: { quick: [25, 50, 100, 200], full: [25, 50, 100, 200, 400, 800] },
+    sizes: { tiny: [5, 10], quick: [25, 50, 100, 200], full: [25, 50, 100, 200, 400, 800] },
     best: { p: 3, how: 'dense symmetric eigensolve of a grid of O(N) points' },
     run: (n) => {
       const wall = 1.2 * Math.sqrt(2 * n + 1) + 5;
@@ -124,7 +124,7 @@ const SERIES: Series[] = [
     id: 'evolution-oscillator',
     job: 'evolution, oscillator, N levels x 200 times (<x>, <p>, survival), coherent state of mean level N/2',
     size: 'levels N',
-    sizes: { quick: [100, 200, 400, 800], full: [100, 200, 400, 800, 1600] },
+    sizes: { tiny: [20, 40], quick: [100, 200, 400, 800], full: [100, 200, 400, 800, 1600] },
     best: { p: 1, how: 'tridiagonal X and D (ladder operators), N x times' },
     // d = sqrt(N): |alpha|^2 = N/2, so every one of the N levels carries a nonzero weight and is kept.
     run: (n) => evolution(oscillatorBasis(1, 0, 1, n), n, coherentReference(n, Math.sqrt(n / 2)), new Float64Array(n), Math.sqrt(n)),
@@ -133,7 +133,7 @@ const SERIES: Series[] = [
     id: 'evolution-box',
     job: 'evolution, box, N levels x 200 times (<x>, <p>, survival), the kinked triangle (every level populated)',
     size: 'levels N',
-    sizes: { quick: [50, 100, 200, 400], full: [50, 100, 200, 400, 800] },
+    sizes: { tiny: [20, 40], quick: [50, 100, 200, 400], full: [50, 100, 200, 400, 800] },
     best: { p: 2, how: 'dense X and D (half zero by parity), N^2 x times' },
     run: (n) => evolution(boxBasis(0, 1, 1, n), n, kinkReference(n), new Float64Array(n), null),
   },
@@ -157,6 +157,8 @@ function evolution(basis: ReturnType<typeof boxBasis>, n: number, re: Float64Arr
 
 export interface ScalingOptions {
   quick?: boolean;
+  /** Two tiny sizes a series, for the smoke test (test/bench/scaling.test.ts). */
+  tiny?: boolean;
   reps?: number;
   only?: string[];
   log?: (line: string) => void;
@@ -169,7 +171,7 @@ export function runScaling(options: ScalingOptions = {}): ScalingSeries[] {
   for (const s of SERIES) {
     if (options.only && !options.only.includes(s.id)) continue;
     const points: ScalingPoint[] = [];
-    for (const n of options.quick ? s.sizes.quick : s.sizes.full) {
+    for (const n of options.tiny ? s.sizes.tiny : options.quick ? s.sizes.quick : s.sizes.full) {
       const job = s.run(n);
       const { timing, result } = measure(job, { reps, warmup: 1 });
       points.push({ n, timing, error: result.error, note: result.note });
