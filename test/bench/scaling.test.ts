@@ -22,7 +22,7 @@ describe('scaling table (tiny sizes)', () => {
 
   it('prints each series and the exponents beside the best known algorithm', () => {
     const text = formatScaling(['header'], series);
-    for (const s of series) expect(text).toContain(`| ${s.id} | ${s.p.toFixed(2)} | ${s.best.how} | ${s.best.p} |`);
+    for (const s of series) expect(text).toContain(`| ${s.id} | ${s.p.toFixed(2)} | ${s.pLarge.toFixed(2)} | ${s.best.how} | ${s.best.p} |`);
     expect(text).toContain('| N | 20 | 40 |');
   });
 });
