@@ -4,7 +4,9 @@
 // the fault and scheduling tests use. Everywhere else the define is false and the hooks are dead code.
 import { build } from 'esbuild';
 import { spawnSync } from 'node:child_process';
-import { copyFileSync, existsSync, mkdirSync, rmSync } from 'node:fs';
+import { createHash } from 'node:crypto';
+import { copyFileSync, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 
 const production = process.argv.includes('--production');
 mkdirSync('dist', { recursive: true });
@@ -71,7 +73,14 @@ await Promise.all(
 );
 
 // The command line's code cache, from one run of the fresh bundle on a few examples (scripts/train-cli-cache.cjs).
-rmSync('dist/cli-main.cache', { force: true });
+// V8 checks a cache against the source's length only, so the bundle ends with a build id (a hash of its
+// text) and the cache is named by it (dist/cli-main.ID.cache): the loader never pairs a bundle with the
+// cache of another build. Old caches are removed first.
+for (const f of readdirSync('dist')) if (/^cli-main(\.[0-9a-f]+)?\.cache$/.test(f)) rmSync(join('dist', f), { force: true });
+if (existsSync('dist/cli-main.js')) {
+  const text = readFileSync('dist/cli-main.js', 'utf8');
+  writeFileSync('dist/cli-main.js', `${text}\n// eigenspan-build ${createHash('sha256').update(text).digest('hex').slice(0, 16)}\n`);
+}
 const trained = spawnSync(process.execPath, ['scripts/train-cli-cache.cjs'], { stdio: 'inherit' });
 if (trained.status !== 0) console.warn('build: no code cache for the command line (scripts/train-cli-cache.cjs failed); it still runs, compiling as usual');
 

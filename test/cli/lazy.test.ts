@@ -81,15 +81,19 @@ describe('a fresh process loads only what its command needs', () => {
     expect(text).toContain('node_modules/mathjs/lib/esm/expression/parse.js');
   });
 
-  it('ships a code cache of the bundle that this node accepts', () => {
-    // The loader's own check: V8 refuses a cache made from other source or by another version (Node's vm docs).
-    const probe = `const { Script } = require('node:vm'); const { wrap } = require('node:module'); const fs = require('node:fs');
-const s = new Script(wrap(fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8')), { filename: ${JSON.stringify(MAIN)}, cachedData: fs.readFileSync(${JSON.stringify(MAIN.replace(/\.js$/, '.cache'))}) });
+  it('ships a code cache of the bundle, named by the bundle\'s build id, that this node accepts', () => {
+    // The loader's pairing: the bundle ends with its build id, the cache is dist/cli-main.ID.cache.
+    const id = /\/\/ eigenspan-build ([0-9a-f]+)\s*$/.exec(readFileSync(MAIN, 'utf8'))?.[1];
+    expect(id).toMatch(/^[0-9a-f]{16}$/);
+    const cache = join(ROOT, 'dist', `cli-main.${id}.cache`);
+    expect(existsSync(cache)).toBe(true);
+    // V8's own check (Node's vm docs: cachedDataRejected): this node accepts the cache for this source.
+    const probe = (tail: string) => `const { Script } = require('node:vm'); const { wrap } = require('node:module'); const fs = require('node:fs');
+const s = new Script(wrap(fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8')${tail}), { filename: ${JSON.stringify(MAIN)}, cachedData: fs.readFileSync(${JSON.stringify(cache)}) });
 process.stdout.write(String(s.cachedDataRejected));`;
-    const r = spawnSync(process.execPath, ['-e', probe], { encoding: 'utf8' });
+    const r = spawnSync(process.execPath, ['-e', probe('')], { encoding: 'utf8' });
     expect(r.stdout, r.stderr).toBe('false');
-    // Against other source the same cache is refused, so a stale cache cannot run old code.
-    const stale = probe.replace(`fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8')`, `fs.readFileSync(${JSON.stringify(MAIN)}, 'utf8') + ';0'`);
-    expect(spawnSync(process.execPath, ['-e', stale], { encoding: 'utf8' }).stdout).toBe('true');
+    // V8 compares only the source's length: longer source is refused, which is why the build id pairs them.
+    expect(spawnSync(process.execPath, ['-e', probe(" + ';0'")], { encoding: 'utf8' }).stdout).toBe('true');
   });
 });
