@@ -90,9 +90,14 @@ function processRows(): SideBySide[] {
   const out: SideBySide[] = [];
   const bare = startRow();
   if (bare) out.push(bare);
+  const jobs = JSON.parse(spawnSync(python, [join(pyDir, 'examples.py'), '--jobs'], { encoding: 'utf8', env: pythonEnv() }).stdout) as string[];
   for (const name of readdirSync(dir).filter((f) => f.endsWith('.qstate')).sort()) {
     const id = `process:${name.replace(/\.qstate$/, '')}`;
     if (only && !only.includes(id) && !only.includes('process')) continue;
+    if (!jobs.includes(name.replace(/\.qstate$/, ''))) {
+      log(`${id}: not timed (bench/python/examples.py has no job for it)`);
+      continue;
+    }
     const file = join('examples', name);
     const runNode = () => spawnSync(process.execPath, [cli, 'expand', file, '--json'], { cwd: root, encoding: 'utf8', maxBuffer: 1 << 28 });
     const runPy = () => spawnSync(python, [join(pyDir, 'examples.py'), file], { cwd: root, encoding: 'utf8', env: pythonEnv(), maxBuffer: 1 << 28 });

@@ -83,7 +83,7 @@ export function benchColdStart(root: string, example: string, reps: number): Row
 
 /** Bytes of each bundle, and how much of the CLI and server bundles mathjs takes (esbuild metafile). */
 export function bundleRows(root: string): Row {
-  const files = ['dist/extension.js', 'dist/server.js', 'dist/worker.js', 'dist/webview/panel.js', 'dist/cli.js'];
+  const files = ['dist/extension.js', 'dist/server.js', 'dist/worker.js', 'dist/webview/panel.js', 'dist/cli.js', 'dist/cli-main.js'];
   const notes: string[] = [];
   for (const f of files) {
     const p = join(root, f);

@@ -17,8 +17,7 @@ import { analyseFile } from './data';
 import { assertWritable, outPathOption, writeOutput } from './outfile';
 import { analysedRecord, refusedRecord, type FileRecord } from './records';
 import { renderDiagnostic } from './render';
-import { renderJunit } from './junit';
-import { renderSarif } from './sarif';
+import type * as Reports from './reports';
 
 /** The `.qstate` files under `targets` and the entries refused on the way. */
 export function findQstateFiles(targets: readonly string[]): { files: string[]; refused: Refusal[] } {
@@ -126,8 +125,10 @@ export function check(args: string[], io: Io, progress: (s: string) => void): nu
     checkFile(io, tally, f, limits, sweep);
   });
   if (showProgress) progress('\r\x1b[K');
-  if (reports.sarif !== undefined) writeOutput(reports.sarif, renderSarif(tally.records), force);
-  if (reports.junit !== undefined) writeOutput(reports.junit, renderJunit(tally.records), force);
+  // The writers are a bundle of their own (dist/reports.js), loaded only when a report is asked for.
+  const writers = reports.sarif !== undefined || reports.junit !== undefined ? (require('./reports') as typeof Reports) : null;
+  if (writers && reports.sarif !== undefined) writeOutput(reports.sarif, writers.renderSarif(tally.records), force);
+  if (writers && reports.junit !== undefined) writeOutput(reports.junit, writers.renderJunit(tally.records), force);
   io.err(summaryLine(tally) + '\n');
   return tally.errors > 0 ? 1 : 0;
 }

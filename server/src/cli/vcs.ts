@@ -7,7 +7,6 @@
  *
  * `--tolerance T` (diff) and `--time-limit`, `--limit` (both) as for `expand`.
  */
-import { execFileSync } from 'node:child_process';
 import { basename, dirname } from 'node:path';
 import { DEFAULT_LIMITS, type Limits } from '../analysis/index';
 import type { AnalysisResult } from '../analysis/types';
@@ -49,6 +48,8 @@ export function summary(args: string[], io: Io): number {
 export function readAtRevision(file: string, rev: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): string {
   if (rev === '' || rev.startsWith('-') || /[\0\s:]/.test(rev)) throw new UsageError(`'${escapeText(rev)}' is not a revision`);
   try {
+    // Loaded here, not at start: node:child_process (and node:net behind it) costs every fresh process.
+    const { execFileSync } = require('node:child_process') as typeof import('node:child_process');
     return execFileSync('git', ['show', `${rev}:./${basename(file)}`], {
       cwd: dirname(file),
       encoding: 'utf8',
