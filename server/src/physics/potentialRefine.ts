@@ -76,12 +76,12 @@ function clampedV(s: RefineSetup, xs: Float64Array, wall: number): Float64Array 
  * Null when V fails on the grid, or when the budget runs out inside the solve (which charges the budget
  * its flops as it goes, so it stops within a few milliseconds of the deadline): then `s.stoppedBy` says why.
  */
-function solveAt(s: RefineSetup, N: number): SineDvrSolution | null {
+function solveAt(s: RefineSetup, N: number, valuesOnly = false): SineDvrSolution | null {
   const t0 = s.budget.clock.now();
   const w0 = s.budget.work.ops;
   let sol: SineDvrSolution | null = null;
   try {
-    sol = solveOnce(s, N);
+    sol = solveOnce(s, N, valuesOnly);
   } catch (err) {
     if (!(err instanceof Stopped)) throw err;
     s.stoppedBy = err.reason;
@@ -111,7 +111,7 @@ function overrunReason(s: RefineSetup): StopReason {
   return s.budget.reason ?? 'time';
 }
 
-function solveOnce(s: RefineSetup, N: number): SineDvrSolution | null {
+function solveOnce(s: RefineSetup, N: number, valuesOnly: boolean): SineDvrSolution | null {
   const { a, b, mass, scan } = s;
   const L = b - a;
   const wall = Math.max(scan.vmaxFinite, scan.vmin + (4 * (Math.PI * N) ** 2) / (2 * mass * L * L));
@@ -127,7 +127,7 @@ function solveOnce(s: RefineSetup, N: number): SineDvrSolution | null {
     }
   }
   s.budget.count(0, N - 1);
-  const sol = sineDvrSolve(vv, a, b, mass, s.K, { symmetric: scan.symmetric, wallSlopes: scan.slopes, budget: s.budget });
+  const sol = sineDvrSolve(vv, a, b, mass, s.K, { symmetric: scan.symmetric, wallSlopes: scan.slopes, budget: s.budget, valuesOnly });
   // Values near the floating-point limit overflow the matrix: report, do not return NaN levels.
   return sol.energies.every(Number.isFinite) ? sol : null;
 }
@@ -185,7 +185,12 @@ export function refine(s: RefineSetup, N0: number): Refined {
   if (s.scan.jumps.length > 0) return jumpClimb(s, N0);
   const first = solveAt(s, N0);
   if (!first) return { sol: null, diffs: new Float64Array(0), sizes: [N0], capped: false, expired: s.stoppedBy ?? null, capNote: null };
-  const c: Climb = { N: N0, cur: first, diffs: new Float64Array(0), sizes: [N0], capped: N0 >= s.cap, expired: null, capNote: null, failed: false };
+  const sizes = [N0];
+  if (N0 >= DOWNWARD_FROM && !s.solve) {
+    const down = downwardCheck(s, first, N0, sizes);
+    if (down) return down;
+  }
+  const c: Climb = { N: N0, cur: first, diffs: new Float64Array(0), sizes, capped: N0 >= s.cap, expired: null, capNote: null, failed: false };
   let prev = first;
   let prevWorst: { ratio: number; N: number } | null = null;
   let prevOrder: number | null = null;
@@ -229,6 +234,37 @@ export function refine(s: RefineSetup, N0: number): Refined {
     prev = next;
   }
   return c.failed ? { ...c, sol: null } : { ...c, sol: c.cur };
+}
+
+/** First grids from this size on are checked against a coarser grid first (`downwardCheck`). */
+export const DOWNWARD_FROM = 1024;
+
+/** The coarser grid of `downwardCheck`: the first size over this ratio. */
+export const CHECK_RATIO = 1.15;
+
+/**
+ * For a large first grid N0 (at least `DOWNWARD_FROM` intervals: many levels), the check grid is the
+ * coarser Nc = N0 / `CHECK_RATIO`, solved for its energies only, instead of the finer 1.5 N0 with its
+ * eigenvectors (3.4 times the first solve's cost). The first grid is returned with each level's
+ * uncertainty |E(N0) - E(Nc)|, the same two-size estimate the climb states for its finer grid and safe
+ * under the same condition: |E(N0) - E(Nc)| >= |err(Nc)| - |err(N0)| >= |err(N0)| once the error at
+ * least halves from Nc to N0, which the exponential convergence of a smooth V gives for a step of 15%
+ * of a grid of 1,024 or more (the first grid has 2.5 points per shortest wavelength of the top level,
+ * the check grid 2.2, both above the sampling limit of 2), and floored as always at double precision's
+ * own limit (`roundingFloor`); checked against closed forms in test/physics/largeGrids.test.ts.
+ * Returns the result when every level meets the tolerance this way or the budget stops the check;
+ * null when the climb must go on upward from N0 (then Nc stays in `sizes`, ahead of N0).
+ */
+function downwardCheck(s: RefineSetup, first: SineDvrSolution, N0: number, sizes: number[]): Refined | null {
+  const Nc = Math.max(8, Math.ceil(N0 / CHECK_RATIO));
+  const stop = (reason: StopReason): Refined => ({ sol: first, diffs: new Float64Array(0), sizes: [...sizes], capped: false, expired: reason, capNote: null });
+  if (wouldOverrun(s, Nc)) return stop(overrunReason(s));
+  const check = solveAt(s, Nc, true);
+  if (!check) return s.stoppedBy ? stop(s.stoppedBy) : null;
+  sizes.unshift(Nc);
+  const { diffs, worst } = compare(s, check, first);
+  if (worst <= 1) return { sol: first, diffs, sizes, capped: false, expired: null, capNote: null };
+  return null;
 }
 
 /** The last solve of an algebraic climb at the predicted size, with Richardson's uncertainty. */

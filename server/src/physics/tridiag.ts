@@ -485,16 +485,18 @@ export interface SymmetricEigen {
  * The lowest `k` eigenpairs of the real symmetric n x n matrix A (row-major; lower triangle read;
  * A is destroyed). Householder tridiagonalisation, bisection, inverse iteration and back-transformation
  * (Golub & Van Loan, Matrix Computations, 4th ed., ch. 8). Eigenvalues to about eps ||A|| absolute.
- * With a budget, throws `Stopped` (budget.ts) once it runs out.
+ * With a budget, throws `Stopped` (budget.ts) once it runs out. With `vectors` false only the values
+ * are computed (`vectors` is then empty): a check grid whose functions are never used.
  */
-export function symmetricLowest(A: Float64Array, n: number, k: number, budget?: Budget): SymmetricEigen {
+export function symmetricLowest(A: Float64Array, n: number, k: number, budget?: Budget, vectors = true): SymmetricEigen {
   if (n === 1) {
-    return { values: Float64Array.of(A[0]), vectors: Float64Array.of(1) };
+    return { values: Float64Array.of(A[0]), vectors: vectors ? Float64Array.of(1) : new Float64Array(0) };
   }
   const red = householderTridiagonalize(A, n, budget);
   const values = lowestEigenvalues(red, k, budget);
-  const vectors = tridiagonalEigenvectors(red, values, budget);
+  if (!vectors) return { values, vectors: new Float64Array(0) };
+  const vecs = tridiagonalEigenvectors(red, values, budget);
   // 4 flops per entry of each reflector: about 2 n^2 per vector.
-  backTransformAll(red, vectors, values.length, budget);
-  return { values, vectors };
+  backTransformAll(red, vecs, values.length, budget);
+  return { values, vectors: vecs };
 }
