@@ -1,6 +1,6 @@
 /**
  * The fast paths of the eigen-solver against closed forms: the twisted-factorization eigenvectors
- * (twisted.ts), the coarser check grid of large first grids (potentialRefine.ts, `downwardCheck`), the
+ * (twisted.ts), the coarser check grid (potentialRefine.ts, `downwardCheck`), the
  * sign decisions from a short head of each series (potentialView.ts) and the caps a raised time limit
  * lifts (potential.ts, `capRaise`). Work is counted, never timed.
  */
@@ -10,7 +10,7 @@ import { createBudget } from '../../server/src/physics/budget';
 import { sineDvrGrid, sineDvrSolve, sineDvrWork, type SineDvrSolution } from '../../server/src/physics/dvr';
 import { fixSigns } from '../../server/src/physics/potentialView';
 import { lowestEigenvalues, tridiagonalEigenvectors, inverseIteration } from '../../server/src/physics/tridiag';
-import { CHECK_RATIO, DOWNWARD_FROM } from '../../server/src/physics/potentialRefine';
+import { CHECK_RATIO } from '../../server/src/physics/potentialRefine';
 import { orthonormalityError } from './helpers';
 
 const pot = (f: (x: number) => number): PotentialFn => (xs) => xs.map(f);
@@ -35,7 +35,6 @@ describe('closed forms through the fast paths', () => {
     expect(r.stopped).toBeNull();
     const [Nc, N0] = r.sizes as [number, number];
     expect(r.sizes.length).toBe(2);
-    expect(N0).toBeGreaterThanOrEqual(DOWNWARD_FROM);
     expect(Nc).toBe(Math.ceil(N0 / CHECK_RATIO));
     expect(r.points).toBe(N0);
     honest(r.basis.energies, r.basis.uncertainty!, (n) => 2 * n + 1, K, 1e-9);
