@@ -139,7 +139,7 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  * every level to `tolerance` relative (relative to max(|E|, 1e-3 (E_K - V_min)), so levels near E = 0 are
  * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
  * `uncertainty` (a conservative bound while convergence is fast), floored at the rounding error double
- * precision allows for that grid, 4 eps ||H|| (`roundingFloor`), so it is never 0 and never
+ * precision allows for that grid, 4 eps ||H|| (more for blocks above 700: `roundingFloor`), so it is never 0 and never
  * below the true error where the two sizes agree to rounding. For smooth V the error falls
  * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
  * potential matrix is integrated exactly over panels that end on every jump (interfaces.ts), a Galerkin

@@ -381,15 +381,19 @@ function jumpClimb(s: RefineSetup, N0: number): Refined {
 }
 
 /**
- * The smallest error double precision can promise for a level of `sol`: 4 eps ||H||, with ||H|| bounded
- * by `normBound`. Why: the eigensolver is backward stable, so each computed level is exact for a matrix
- * H + dH with ||dH|| a modest multiple of eps ||H|| (Golub & Van Loan, Matrix Computations, sections 8.3
- * and 8.4, from memory), and a level of a symmetric matrix moves by at most ||dH|| (Weyl's inequality:
- * every eigenvalue of a symmetric matrix has condition number 1). Measured on the exactly solvable cases
- * of test/physics/potential.test.ts (half oscillator, quartic, oscillator, Poeschl–Teller; 3 to 150
- * levels, n = 47 to 945): true errors up to 1.2 eps ||H||, not growing with n, so the factor 4 leaves a
- * margin of 3 or more.
+ * The smallest error double precision can promise for a level of `sol`: 4 eps ||H|| max(1, n / 700),
+ * with ||H|| bounded by `normBound` and n the size of the largest block solved. Why: the eigensolver is
+ * backward stable, so each computed level is exact for a matrix H + dH with ||dH|| at most a modest
+ * multiple of n eps ||H|| (the Householder reduction's bound grows linearly with n; Golub & Van Loan,
+ * Matrix Computations, sections 8.3 and 8.4, from memory), and a level of a symmetric matrix moves by at
+ * most ||dH|| (Weyl's inequality: every eigenvalue of a symmetric matrix has condition number 1).
+ * Measured on exactly solvable cases (test/physics/potential.test.ts: half oscillator, quartic,
+ * oscillator, Poeschl-Teller, 3 to 150 levels, n = 47 to 945: true errors up to 1.2 eps ||H||; p^2 + x^2
+ * with walls far outside the top turning point: 1.0 eps ||H|| at blocks of 394 and 704, 2.1 at 852,
+ * 4.5 at 1,516), so the factor keeps a margin of about 2 where the errors start to grow with n.
  */
 export function roundingFloor(sol: SineDvrSolution): number {
-  return 4 * Number.EPSILON * sol.normBound;
+  const n = sol.intervals - 1;
+  const block = sol.parity.some((p) => p !== 0) ? Math.ceil(n / 2) : n;
+  return 4 * Number.EPSILON * sol.normBound * Math.max(1, block / 700);
 }
