@@ -160,6 +160,7 @@ ROWS = {
     'morse': morse,
     'evolution': evolution,
     'harmonic': harmonic,
+    'harmonic-raised': harmonic,
 }
 
 _JOBS = {}

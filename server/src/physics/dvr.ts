@@ -86,6 +86,11 @@ export interface SineDvrOptions {
    * Default none.
    */
   budget?: Budget;
+  /**
+   * Only the energies (no eigenvectors: `coefficients` is empty and `terms` all zero): the cost of the
+   * eigenvectors and their back-transform is saved on a grid solved only to check another. Default false.
+   */
+  valuesOnly?: boolean;
 }
 
 /**
@@ -108,6 +113,7 @@ export function sineDvrSolve(
   const L = b - a;
   const want = Math.max(0, Math.min(levels, n));
   const budget = options.budget;
+  const valuesOnly = options.valuesOnly === true;
   if (!options.moments) charge(budget, 2 * N * N);
   const C = options.moments ?? dvrMoments(v, a, L, options.jumps ?? []);
   const kin = (Math.PI * Math.PI) / (2 * mass * L * L);
@@ -119,27 +125,27 @@ export function sineDvrSolve(
     if (m === 0 || blk.want === 0) return;
     charge(budget, m * m);
     const H = blockMatrix(blk.ks, C, kin, slopes ? { slopes, f: wallFactor(L, N) } : null);
-    const eig = symmetricLowest(H, m, blk.want, budget);
+    const eig = symmetricLowest(H, m, blk.want, budget, !valuesOnly);
     for (let j = 0; j < eig.values.length; j++) {
-      found.push({ e: eig.values[j], block: bi, vec: eig.vectors.slice(j * m, (j + 1) * m) });
+      found.push({ e: eig.values[j], block: bi, vec: valuesOnly ? eig.vectors : eig.vectors.slice(j * m, (j + 1) * m) });
     }
   });
   found.sort((p, q) => p.e - q.e);
   const count = Math.min(want, found.length);
   const energies = new Float64Array(count);
-  const coefficients = new Float64Array(count * n);
+  const coefficients = new Float64Array(valuesOnly ? 0 : count * n);
   const parity = new Uint8Array(count);
   for (let j = 0; j < count; j++) {
     const f = found[j];
     const blk = blocks[f.block];
     energies[j] = f.e;
     parity[j] = blk.parity;
-    for (let r = 0; r < blk.ks.length; r++) coefficients[j * n + blk.ks[r] - 1] = f.vec[r];
+    if (!valuesOnly) for (let r = 0; r < blk.ks.length; r++) coefficients[j * n + blk.ks[r] - 1] = f.vec[r];
   }
   let vabs = options.potentialBound ?? 0;
   if (options.potentialBound === undefined) for (let i = 0; i < n; i++) vabs = Math.max(vabs, Math.abs(v[i]));
   const normBound = kin * n * n + vabs;
-  return { a, b, mass, intervals: N, energies, coefficients, parity, terms: significantTerms(coefficients, count, n), normBound };
+  return { a, b, mass, intervals: N, energies, coefficients, parity, terms: valuesOnly ? new Int32Array(count) : significantTerms(coefficients, count, n), normBound };
 }
 
 /**

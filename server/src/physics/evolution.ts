@@ -199,13 +199,13 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   const a = { re: new Float64Array(K), im: new Float64Array(K) };
   let wK = 0;
   for (let k = 0; k < K; k++) wK += cRe[k] * cRe[k] + cIm[k] * cIm[k];
-  const sp = sparseForms(me, K);
-  const formOps = sp ? 4 * sp.col.length : 4 * K * K;
+  const forms = triangleForms(me, K);
+  const formOps = 4 * forms.entries;
   for (let it = 0; it < nt; it++) {
     if (budget.expired()) return cut(it);
     budget.count(formOps + TRIG_OPS * n + (xs ? 2 * K * xs.length : 0));
     survival[it] = phasesAt(basis.energies, cRe, cIm, n, times[it], a) / (total * total);
-    const m = sp ? sparseQuadraticForms(sp, a.re, a.im) : quadraticForms(me, a.re, a.im);
+    const m = triangleQuadraticForms(forms, a.re, a.im);
     meanX[it] = m.x / wK;
     meanP[it] = m.p / wK;
     if (xs && table && result.density) result.density.push(densityAt(table, a.re, a.im, xs.length, wK));
@@ -237,22 +237,47 @@ function phasesAt(E: Float64Array, cRe: Float64Array, cIm: Float64Array, n: numb
 }
 
 /**
- * X and D in compressed rows (the entries where either is nonzero), when at most half of the K^2
- * entries are: X and D of the oscillator are tridiagonal (ladder operators) and those of a box or any
- * symmetric system vanish between levels of equal parity, so the quadratic forms of every time cost
- * 4 nnz instead of 4 K^2. Null when the matrices are dense.
+ * X and D for the quadratic forms of every time, using their symmetry: X is symmetric and D
+ * antisymmetric, so with a_k = ar_k + i ai_k,
+ * <x> W = sum_j X_jj |a_j|^2 + 2 sum_{j<k} X_jk (ar_j ar_k + ai_j ai_k) and
+ * <p> W = 2 sum_{j<k} D_jk (ar_j ai_k - ai_j ar_k): only the diagonal of X and the strict upper
+ * triangles are read (half of the K^2 entries). Then the triangle's structure: in compressed rows (the
+ * entries where X or D is nonzero) when at most a quarter of it is nonzero (the oscillator's X and D
+ * are tridiagonal, ladder operators); every other entry of each row (k = j + 1, j + 3, ...) when the
+ * rest vanish, as between levels of equal parity in a box or any symmetric system, which halves the
+ * triangle again; else the whole triangle, row by row.
  */
-interface SparseForms {
+interface TriangleForms {
+  K: number;
+  diag: Float64Array;
+  /** 'rows': compressed rows; 'alternate': k - j odd only; 'dense': the whole strict upper triangle. */
+  kind: 'rows' | 'alternate' | 'dense';
   start: Int32Array;
   col: Int32Array;
   x: Float64Array;
   d: Float64Array;
+  /** Entries read per time (for the budget's count). */
+  entries: number;
 }
 
-function sparseForms(me: MatrixElements, K: number): SparseForms | null {
+function triangleForms(me: MatrixElements, K: number): TriangleForms {
+  const diag = new Float64Array(K);
+  for (let j = 0; j < K; j++) diag[j] = me.x[j * K + j];
   let nnz = 0;
-  for (let i = 0; i < K * K; i++) if (me.x[i] !== 0 || me.d[i] !== 0) nnz++;
-  if (nnz > (K * K) / 2) return null;
+  let evenOffsets = 0;
+  for (let j = 0; j < K; j++) {
+    for (let k = j + 1; k < K; k++) {
+      if (me.x[j * K + k] === 0 && me.d[j * K + k] === 0) continue;
+      nnz++;
+      if (((k - j) & 1) === 0) evenOffsets++;
+    }
+  }
+  const triangle = (K * (K - 1)) / 2;
+  const none = new Int32Array(0);
+  if (nnz > 0.25 * triangle) {
+    const kind = evenOffsets === 0 ? 'alternate' : 'dense';
+    return { K, diag, kind, start: none, col: none, x: me.x, d: me.d, entries: K + (kind === 'alternate' ? Math.floor((K * K) / 4) : triangle) };
+  }
   const start = new Int32Array(K + 1);
   const col = new Int32Array(nnz);
   const x = new Float64Array(nnz);
@@ -260,7 +285,7 @@ function sparseForms(me: MatrixElements, K: number): SparseForms | null {
   let at = 0;
   for (let j = 0; j < K; j++) {
     start[j] = at;
-    for (let k = 0; k < K; k++) {
+    for (let k = j + 1; k < K; k++) {
       const i = j * K + k;
       if (me.x[i] === 0 && me.d[i] === 0) continue;
       col[at] = k;
@@ -270,57 +295,49 @@ function sparseForms(me: MatrixElements, K: number): SparseForms | null {
     }
   }
   start[K] = at;
-  return { start, col, x, d };
+  return { K, diag, kind: 'rows', start, col, x, d, entries: K + nnz };
 }
 
-/** The quadratic forms of `quadraticForms` over compressed rows. */
-function sparseQuadraticForms(sp: SparseForms, ar: Float64Array, ai: Float64Array): { x: number; p: number } {
-  const K = ar.length;
+/** <x> W and <p> W from the diagonal and strict upper triangles (see `TriangleForms`). */
+function triangleQuadraticForms(t: TriangleForms, ar: Float64Array, ai: Float64Array): { x: number; p: number } {
+  const K = t.K;
+  let diag = 0;
   let mx = 0;
   let mp = 0;
   for (let j = 0; j < K; j++) {
+    const rj = ar[j];
+    const ij = ai[j];
+    diag += t.diag[j] * (rj * rj + ij * ij);
     let xr = 0;
     let xi = 0;
     let dr = 0;
     let di = 0;
-    for (let e = sp.start[j]; e < sp.start[j + 1]; e++) {
-      const k = sp.col[e];
-      const X = sp.x[e];
-      const D = sp.d[e];
-      xr += X * ar[k];
-      xi += X * ai[k];
-      dr += D * ar[k];
-      di += D * ai[k];
+    if (t.kind === 'rows') {
+      for (let e = t.start[j]; e < t.start[j + 1]; e++) {
+        const k = t.col[e];
+        const X = t.x[e];
+        const D = t.d[e];
+        xr += X * ar[k];
+        xi += X * ai[k];
+        dr += D * ar[k];
+        di += D * ai[k];
+      }
+    } else {
+      const row = j * K;
+      const step = t.kind === 'alternate' ? 2 : 1;
+      for (let k = j + 1; k < K; k += step) {
+        const X = t.x[row + k];
+        const D = t.d[row + k];
+        xr += X * ar[k];
+        xi += X * ai[k];
+        dr += D * ar[k];
+        di += D * ai[k];
+      }
     }
-    mx += ar[j] * xr + ai[j] * xi;
-    mp += ar[j] * di - ai[j] * dr;
+    mx += rj * xr + ij * xi;
+    mp += rj * di - ij * dr;
   }
-  return { x: mx, p: mp };
-}
-
-/** <x> W = ar.X ar + ai.X ai and <p> W = ar.D ai - ai.D ar (X symmetric, D antisymmetric). */
-function quadraticForms(me: MatrixElements, ar: Float64Array, ai: Float64Array): { x: number; p: number } {
-  const K = ar.length;
-  let mx = 0;
-  let mp = 0;
-  for (let j = 0; j < K; j++) {
-    const row = j * K;
-    let xr = 0;
-    let xi = 0;
-    let dr = 0;
-    let di = 0;
-    for (let k = 0; k < K; k++) {
-      const X = me.x[row + k];
-      const D = me.d[row + k];
-      xr += X * ar[k];
-      xi += X * ai[k];
-      dr += D * ar[k];
-      di += D * ai[k];
-    }
-    mx += ar[j] * xr + ai[j] * xi;
-    mp += ar[j] * di - ai[j] * dr;
-  }
-  return { x: mx, p: mp };
+  return { x: diag + 2 * mx, p: 2 * mp };
 }
 
 /** |sum_k a_k phi_k(x)|^2 / W on the table's points. */

@@ -33,6 +33,8 @@ export interface PotentialOptions {
   /**
    * Cap on the eigensolver's work per solve, 4/3 n^3 flops summed over blocks (default 4e9, about 2-3 s on
    * an idle core): it lowers the grid cap to about 1440 points for a potential without symmetry, 2290 with it.
+   * A budget with a time limit above 10 s raises this cap in proportion and `maxPoints` by the cube
+   * root of the same factor (`capRaise`).
    */
   maxWork?: number;
   /**
@@ -100,7 +102,10 @@ export interface PotentialBasisResult {
    */
   wallTrend: { left: WallTrend; right: WallTrend };
   notes: PotentialNote[];
-  /** Grid sizes solved, in order (for benchmarks and reports). */
+  /**
+   * Grid sizes solved, ascending (for benchmarks and reports): the last is the grid of the basis returned
+   * and the one before it the grid it was checked against.
+   */
   sizes: number[];
   /**
    * Why refinement stopped short of the tolerance: 'time' or 'cancelled' (the budget expired before a
@@ -134,7 +139,7 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  * every level to `tolerance` relative (relative to max(|E|, 1e-3 (E_K - V_min)), so levels near E = 0 are
  * judged on the spectrum's scale). The finer solution is returned and the difference is each level's
  * `uncertainty` (a conservative bound while convergence is fast), floored at the rounding error double
- * precision allows for that grid, 4 eps ||H|| (`roundingFloor`), so it is never 0 and never
+ * precision allows for that grid, 4 eps ||H|| (more for blocks above 700: `roundingFloor`), so it is never 0 and never
  * below the true error where the two sizes agree to rounding. For smooth V the error falls
  * exponentially with N. When V jumps (steps, `?:` barriers) the jump is located by bisection and the
  * potential matrix is integrated exactly over panels that end on every jump (interfaces.ts), a Galerkin
@@ -168,7 +173,8 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   if ('kind' in scan) return fail(scan);
   const mp = options.massProfile ? massSetup(options.massProfile, a, b, scan, o.samples, o.symmetryTolerance) : null;
   if (mp && 'kind' in mp) return fail(mp);
-  const { cap, capWhy } = gridCap(o.maxPoints, o.maxWork, scan.symmetric);
+  const raise = capRaise(budget);
+  const { cap, capWhy } = gridCap(o.maxPoints * Math.cbrt(raise), o.maxWork * raise, scan.symmetric);
   const notes: PotentialNote[] = [];
   if (scan.jumps.length > 0) {
     notes.push({
@@ -241,6 +247,23 @@ function failedBasis(V: PotentialFn, a: number, b: number, mass: number, levels:
     sizes: [],
     stopped: null,
   };
+}
+
+/**
+ * The time limit the caps are sized for: the analysis's default of 10 s (`maxWork` is about 2-3 s of
+ * one solve on an idle core).
+ */
+export const CAP_LIMIT_MS = 10_000;
+
+/**
+ * How far a raised time limit raises the caps: limit / `CAP_LIMIT_MS` for a finite limit above it (the
+ * work cap by that factor, the point cap by its cube root, since a solve costs n^3), else 1. A function
+ * of the limit the budget was made with, never of a clock reading, so a grid size still follows from V,
+ * the levels and the options alone. Without a time limit the default caps hold.
+ */
+export function capRaise(budget: Budget): number {
+  const limit = budget.limitMs;
+  return Number.isFinite(limit) && limit > CAP_LIMIT_MS ? limit / CAP_LIMIT_MS : 1;
 }
 
 /**

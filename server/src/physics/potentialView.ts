@@ -73,22 +73,42 @@ export function makeBasis(
 
 /**
  * Flips each level so that it is positive at the first grid point where |phi| exceeds ~1e-6 of its
- * maximum. Each grid point evaluates only the levels not yet settled, each over its own significant
- * terms (`terms`, of its parity), so the cost is about the sum over levels of (points until settled) x
- * terms, not points x levels x terms. Its work is counted on `budget` (it never stops: it is cheap).
+ * maximum. Each grid point evaluates only the levels not yet settled, each over a short head of its
+ * series: the first `head` terms, where the tail beyond them sums (in absolute value) to at most 1e-3 of
+ * the threshold. The head's value differs from the full series by at most that tail, so wherever it is
+ * farther than the tail from the threshold, the decision (settled or not, and the sign) is the full
+ * series' own (a margin of 1e-9 of the threshold covers the rounding of the two sums); only the rare
+ * points that close to the threshold are evaluated in full (the ladder's sin(k theta) does not depend
+ * on how many terms it is asked for, so the values are those of the full series). The result
+ * is the same as evaluating every level's whole series at every point, at a cost of about the sum over
+ * levels of (points until settled) x (terms until the coefficients have decayed), which for the low
+ * levels of a fine grid is a small part of the significant terms (`terms`, which rounding noise in the
+ * high coefficients keeps near the grid size). Its work is counted on `budget` (it never stops: it is cheap).
  */
 export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
   const count = sol.energies.length;
   const n = sol.intervals - 1;
   const c = sol.coefficients;
   const threshold = new Float64Array(count);
+  const tail = new Float64Array(count);
+  const head = new Int32Array(count);
   const norm = Math.sqrt(2 / (sol.b - sol.a));
   for (let k = 0; k < count; k++) {
     let s = 0;
     for (let t = 0; t < n; t++) s += Math.abs(c[k * n + t]);
     threshold[k] = 1e-6 * norm * s;
+    // The shortest head whose tail sum (times the normalisation) stays within 1e-3 of the threshold.
+    const allowed = 1e-3 * threshold[k];
+    let acc = 0;
+    let h = sol.terms[k];
+    while (h > 1 && acc + norm * Math.abs(c[k * n + h - 1]) <= allowed) {
+      acc += norm * Math.abs(c[k * n + h - 1]);
+      h--;
+    }
+    head[k] = h;
+    tail[k] = acc;
   }
-  budget?.count(count * n);
+  budget?.count(2 * count * n);
   // The unsettled levels, compacted as they settle.
   const open = Int32Array.from({ length: count }, (_, k) => k);
   let left = count;
@@ -96,22 +116,30 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
   const C = new Float64Array(n + 1);
   const kf = Math.PI / (sol.b - sol.a);
   const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
+  const series = (j: number, top: number): number => {
+    const p = sol.parity[j];
+    const step = p === 0 ? 1 : 2;
+    const off = j * n - 1;
+    let f = 0;
+    for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
+    return norm * f;
+  };
   for (let i = 0; i < grid.length && left > 0; i++) {
     let kTop = 0;
-    for (let r = 0; r < left; r++) kTop = Math.max(kTop, sol.terms[open[r]]);
+    for (let r = 0; r < left; r++) kTop = Math.max(kTop, head[open[r]]);
     sineLadder(kf * (grid[i] - sol.a), kTop, S, C);
     let ops = kTop;
     let kept = 0;
     for (let r = 0; r < left; r++) {
       const j = open[r];
-      const p = sol.parity[j];
-      const step = p === 0 ? 1 : 2;
-      const off = j * n - 1;
-      const top = sol.terms[j];
-      let f = 0;
-      for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
-      ops += top;
-      const y = norm * f;
+      let y = series(j, head[j]);
+      ops += head[j];
+      if (Math.abs(Math.abs(y) - threshold[j]) <= tail[j] + 1e-9 * threshold[j] && head[j] < sol.terms[j]) {
+        // Too close to the threshold to decide from the head: the whole series at this point.
+        sineLadder(kf * (grid[i] - sol.a), sol.terms[j], S, C);
+        y = series(j, sol.terms[j]);
+        ops += 2 * sol.terms[j];
+      }
       if (!(Math.abs(y) > threshold[j])) {
         open[kept++] = j;
         continue;
