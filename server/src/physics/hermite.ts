@@ -105,3 +105,67 @@ export function hermiteFunction(n: number, xi: number): number {
   hermiteFunctionTable(Float64Array.of(xi), n + 1, out);
   return out[n];
 }
+
+/** sqrt(2/k) and sqrt((k-1)/k) of the recurrence for k < length, cached for the largest length asked. */
+let recurrence: { a: Float64Array; b: Float64Array } | null = null;
+function recurrenceFactors(levels: number): { a: Float64Array; b: Float64Array } {
+  if (recurrence && recurrence.a.length >= levels) return recurrence;
+  const a = new Float64Array(levels);
+  const b = new Float64Array(levels);
+  for (let k = 1; k < levels; k++) {
+    a[k] = Math.sqrt(2 / k);
+    b[k] = Math.sqrt((k - 1) / k);
+  }
+  recurrence = { a, b };
+  return recurrence;
+}
+
+/**
+ * outRe[k] += sum_j psi_k(xi_j) wRe[j] (and the same for wIm, which may be null), k < levels: the
+ * recurrence of {@link hermiteFunctionTable} run node by node and accumulated straight into the sums, so
+ * no table is written. The binary exponent the recurrence carries is folded into the weights (w 2^e,
+ * recomputed at each rescaling), so each level costs one recurrence step and two multiply-adds. A node
+ * whose weights are both zero is skipped. `onNode(levels)` is called once per node that is summed (the
+ * caller's budget charge).
+ */
+export function hermiteWeightedSums(
+  xi: Float64Array,
+  wRe: Float64Array,
+  wIm: Float64Array | null,
+  levels: number,
+  outRe: Float64Array,
+  outIm: Float64Array,
+  onNode?: (levels: number) => void,
+): void {
+  if (levels < 1) return;
+  const { a, b } = recurrenceFactors(levels);
+  for (let j = 0; j < xi.length; j++) {
+    const wr0 = wRe[j]!;
+    const wi0 = wIm ? wIm[j]! : 0;
+    if (wr0 === 0 && wi0 === 0) continue;
+    onNode?.(levels);
+    const x = xi[j]!;
+    const g = gaussianSplit(x);
+    let e = g.q;
+    let wr = ldexp(wr0, e);
+    let wi = ldexp(wi0, e);
+    let mPrev = 0;
+    let m = PI_M14 * g.base;
+    outRe[0]! += m * wr;
+    outIm[0]! += m * wi;
+    for (let k = 1; k < levels; k++) {
+      const next = a[k]! * x * m - b[k]! * mPrev;
+      mPrev = m;
+      m = next;
+      if (Math.abs(m) > TWO64) {
+        m *= TWOM64;
+        mPrev *= TWOM64;
+        e += 64;
+        wr = ldexp(wr0, e);
+        wi = ldexp(wi0, e);
+      }
+      outRe[k]! += m * wr;
+      outIm[k]! += m * wi;
+    }
+  }
+}
