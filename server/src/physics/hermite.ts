@@ -106,6 +106,18 @@ export function hermiteFunction(n: number, xi: number): number {
   return out[n];
 }
 
+/** 2^e for e = -1100 ... 1100 (0 and subnormals at the low end), index e + 1100. */
+let pow2: Float64Array | null = null;
+/** w 2^e: exact while in range, 0 or subnormal below (a weight that small adds nothing the sums keep). */
+function scaled(w: number, e: number): number {
+  if (e < -1100 || e > 1100) return ldexp(w, e);
+  if (!pow2) {
+    pow2 = new Float64Array(2201);
+    for (let k = 0; k < pow2.length; k++) pow2[k] = ldexp(1, k - 1100);
+  }
+  return w * pow2[e + 1100]!;
+}
+
 /** sqrt(2/k) and sqrt((k-1)/k) of the recurrence for k < length, cached for the largest length asked. */
 let recurrence: { a: Float64Array; b: Float64Array } | null = null;
 function recurrenceFactors(levels: number): { a: Float64Array; b: Float64Array } {
@@ -147,8 +159,8 @@ export function hermiteWeightedSums(
     const x = xi[j]!;
     const g = gaussianSplit(x);
     let e = g.q;
-    let wr = ldexp(wr0, e);
-    let wi = ldexp(wi0, e);
+    let wr = scaled(wr0, e);
+    let wi = scaled(wi0, e);
     let mPrev = 0;
     let m = PI_M14 * g.base;
     outRe[0]! += m * wr;
@@ -161,8 +173,8 @@ export function hermiteWeightedSums(
         m *= TWOM64;
         mPrev *= TWOM64;
         e += 64;
-        wr = ldexp(wr0, e);
-        wi = ldexp(wi0, e);
+        wr = scaled(wr0, e);
+        wi = scaled(wi0, e);
       }
       outRe[k]! += m * wr;
       outIm[k]! += m * wi;
