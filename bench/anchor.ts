@@ -72,9 +72,22 @@ export function kinkReference(count: number): Float64Array {
   return c;
 }
 
-/** c_n = e^{-a^2/2} a^n / sqrt(n!) (Glauber, Phys. Rev. 131, 2766 (1963)), real a > 0. */
+/**
+ * c_n = e^{-a^2/2} a^n / sqrt(n!) (Glauber, Phys. Rev. 131, 2766 (1963)), real a > 0, by the product
+ * c_n = c_{n-1} a / sqrt(n) (relative rounding about sqrt(n) eps; the sum of logarithms it replaces lost
+ * 1.4e-12 relative at n = 454, d = 30, against 50-digit decimal arithmetic). From the log form only when
+ * e^{-a^2/2} would underflow.
+ */
 export function coherentReference(count: number, alpha: number): Float64Array {
   const c = new Float64Array(count);
+  if (0.5 * alpha * alpha < 700) {
+    let v = Math.exp(-0.5 * alpha * alpha);
+    for (let n = 0; n < count; n++) {
+      if (n > 0) v *= alpha / Math.sqrt(n);
+      c[n] = v;
+    }
+    return c;
+  }
   let logFact = 0;
   for (let n = 0; n < count; n++) {
     if (n > 0) logFact += Math.log(n);

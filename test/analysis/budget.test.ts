@@ -98,16 +98,20 @@ describe('the time limit, on an injected clock', () => {
 });
 
 describe('work is counted, not timed', () => {
-  it('the projection work of a kinked state grows as the square of the basis', () => {
-    // The grid resolves the highest level, whose wave number grows as n pi / L, so the nodes grow as the
-    // basis and the projection (levels x nodes) as its square: doubling the basis about quadruples the
-    // work (derived in this comment; the refinement may add or save one doubling, hence the bounds).
+  it('the projection work of a kinked box state grows about as the basis (sine transform), not as its square', () => {
+    // The box's coefficients come from a sine transform of at least 2 (levels + 1) samples with the kink
+    // taken out in closed form (analysis/boxTransform.ts), counted as 6 N log2 N: doubling the basis
+    // doubles N, so the work grows by about 2 (9/8), where the quadrature it replaced (levels x nodes,
+    // the nodes growing with the basis) grew by about 4 (derived in this comment; the norm's grids add
+    // a little, and the spot check of six levels on the norm's grid 6 x nodes x 32, hence the bounds).
     const work = (n: number): number => analyse(`${TENT}basis ${n}\n`, { clock: manualClock(0) }).work!.ops;
     const small = work(100);
     const large = work(200);
-    expect(small).toBeGreaterThan(100 * 20 * 16);
-    expect(large / small).toBeGreaterThan(2);
-    expect(large / small).toBeLessThan(8);
+    expect(small).toBeGreaterThan(6 * 256 * 8);
+    // Below what the old quadrature's first grid alone cost (100 levels x 320 nodes x 8 a term).
+    expect(small).toBeLessThan(100 * 320 * 8);
+    expect(large / small).toBeGreaterThan(1.5);
+    expect(large / small).toBeLessThan(3);
     // The same file and caps count the same work on any clock.
     expect(analyse(`${TENT}basis 100\n`, { clock: manualClock(7) }).work!.ops).toBe(small);
   });

@@ -8,7 +8,7 @@ import type { GridValues } from '../expr/types';
 import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
 import { Stopped } from '../physics/budget';
-import { boxCoefficientsFromSamples } from '../physics/dst';
+import { boxTransform } from './boxTransform';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
@@ -34,11 +34,34 @@ export interface Expanded {
   im: Float64Array;
   /** Integral of |psi|^2 on the grid. */
   norm: number;
+  /**
+   * Estimated |c_k - c_k(exact)| of each coefficient as written (not normalised): the nested half grid
+   * of the box's sine transform (boxTransform.ts), else the difference from the previous quadrature grid
+   * (Infinity when there was none).
+   */
+  error: Float64Array;
   /** Why refinement stopped before two grids agreed: the grid cap, the time limit or a cancellation. */
   stopped: StopReason | null;
 }
 
 const ORDER = 20;
+
+/**
+ * k h of the highest level on a panel of half-width h: Gauss-Legendre with 20 points integrates
+ * e^{i k x} over such a panel to about (e k h / 4n)^(2n) ~ 1e-19 (common practice), with room for the
+ * state's own oscillation; about 6 nodes a wavelength.
+ */
+const PANEL_PHASE = 10;
+
+/** k h of the coarser grid that checks the first one: (e 13 / 80)^40 ~ 6e-15 (expandState). */
+const COARSE_PHASE = 13;
+
+/**
+ * Nodes holding together at most NEGLIGIBLE^2 of the norm are left out of the fused projections
+ * (project.ts), moving no coefficient by more than NEGLIGIBLE sqrt(norm) (Cauchy-Schwarz): the tails of
+ * a state far inside the basis's support cost nothing.
+ */
+const NEGLIGIBLE = 1e-14;
 
 /**
  * Entries (levels x nodes) of one chunk of a projection: the budget is polled between chunks, so a
@@ -55,9 +78,6 @@ const CHUNK_ENTRIES = 1 << 18;
  * the time the projection takes.
  */
 const TABLE_ENTRY_OPS = 32;
-
-/** From this many box levels on, coefficients come from the sine transform. */
-const DST_LEVELS = 256;
 
 /** A point inside [a, b] where the state cannot be evaluated. */
 export class BadValue extends Error {
@@ -161,8 +181,13 @@ export function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number
   return Math.sqrt(Math.max(0, 2 * mass * (eMax - vMin)));
 }
 
-function quadratureFor(window: [number, number], breakpoints: number[], panels: number): Quadrature {
-  return compositeGaussLegendre(window[0], window[1], { breakpoints, panels, order: ORDER });
+/**
+ * The composite rule of `panels` nominal panels with every piece between breakpoints cut into `refine`
+ * times its first grid's panels, so a doubling really halves every panel (a short piece next to a spike
+ * holds one panel until the nominal count reaches its share, and two such grids would agree falsely).
+ */
+function quadratureFor(window: [number, number], breakpoints: number[], panels: number, refine: number): Quadrature {
+  return compositeGaussLegendre(window[0], window[1], { breakpoints, panels, order: ORDER, refine });
 }
 
 /**
@@ -176,7 +201,7 @@ function projectWithin(basis: Eigenbasis, q: Quadrature, values: GridValues, lev
     // repeat that), charged on the budget node by node: it stops within a poll of the deadline.
     if (budget.expired()) return null;
     try {
-      return project(basis, q, values.re, values.im, levels, { budget });
+      return project(basis, q, values.re, values.im, levels, { budget, negligible: NEGLIGIBLE });
     } catch (err) {
       if (err instanceof Stopped) return null;
       throw err;
@@ -209,24 +234,6 @@ function allBreakpoints(state: StateFunction, basis: Eigenbasis, window: [number
 }
 
 /**
- * Many box levels of a smooth state: a sine transform of equally spaced samples replaces the per-level
- * quadrature (its aliasing error is about (2N)^-3 relative; see dst.ts). Null when it does not apply.
- */
-function sineTransform(state: StateFunction, basis: Eigenbasis, levels: number, breakpoints: number[], options: ExpandOptions): { re: Float64Array; im: Float64Array } | null {
-  if (!(basis.kind === 'box' && levels >= DST_LEVELS && breakpoints.length === 0 && basis.walls)) return null;
-  let N = 1 << 14;
-  while (N < 8 * levels && N < options.maxGridPoints) N *= 2;
-  const [a, b] = basis.walls;
-  const xs = new Float64Array(N + 1);
-  for (let j = 0; j <= N; j++) xs[j] = a + ((b - a) * j) / N;
-  const v = state.evaluate(xs, 0);
-  checkFinite(xs, v);
-  options.budget.count(N * Math.log2(N), N + 1);
-  const c = boxCoefficientsFromSamples(v.re, v.im, a, b, levels);
-  return c.ok && c.re.length === levels ? c : null;
-}
-
-/**
  * Projects the state on the first `levels` levels of `basis` over `window`, refining the grid until
  * the coefficients agree between two grids to 1e-12 of the norm. Stops short on the grid cap or when
  * the budget runs out (`stopped` says which), with the last grid's values; the grid sizes depend only
@@ -236,30 +243,35 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   const breakpoints = allBreakpoints(state, basis, window);
   const k = maxWaveNumber(basis, levels, window);
   const width = window[1] - window[0];
-  // One wavelength of the highest level per 20-point panel: Gauss–Legendre on a full period is
-  // accurate to about (e k h / 4n)^(2n) ~ 1e-27 there, and the doubling below confirms it.
-  let panels = Math.max(16, Math.ceil((k * width) / (2 * Math.PI)), breakpoints.length + 1);
+  // k h = PANEL_PHASE for the highest level on each 20-point panel; the doubling below confirms it.
+  let panels = Math.max(16, Math.ceil((k * width) / (2 * PANEL_PHASE)), breakpoints.length + 1);
   const maxPanels = Math.max(16, Math.floor(options.maxGridPoints / ORDER));
   // A first grid already above the cap is capped too, and says so.
   const wanted = panels;
   panels = Math.min(panels, maxPanels);
-  const fast = sineTransform(state, basis, levels, breakpoints, options);
-  // With the sine transform the grid only serves the norm and the energy integrals, which the state sets.
-  if (fast) panels = 32;
+  const first = panels;
+  // The sine transform, when it settles, replaces the projection: the grid then serves the norm, the
+  // energy integrals and a spot check of a few levels on its own nodes.
+  let fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget);
   const budget = options.budget;
   let prev: Expanded | null = null;
   const timed = Number.isFinite(budget.limitMs);
   for (;;) {
     const t0 = timed ? budget.clock.now() : 0;
-    const q = quadratureFor(window, breakpoints, panels);
+    const q = quadratureFor(window, breakpoints, first, panels / first);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
     budget.count(q.x.length, q.x.length);
     const norm = integrateAbs2(q, values);
+    if (fast && prev === null && !spotCheck(basis, q, values, fast, levels, norm, budget)) fast = null;
     const c = fast ?? projectWithin(basis, q, values, levels, budget);
-    if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, stopped: budget.reason };
-    const cur: Expanded = { q, values, re: c.re, im: c.im, norm, stopped: null };
+    if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, error: new Float64Array(0), stopped: budget.reason };
+    const cur: Expanded = { q, values, re: c.re, im: c.im, norm, error: fast ? fast.error : differences(prev, c, levels, NEGLIGIBLE * Math.sqrt(norm)), stopped: null };
     if (prev && agree(prev, cur, levels)) return cur;
+    if (prev === null && !fast && wanted <= maxPanels) {
+      const checked = coarseCheck(state, basis, levels, window, breakpoints, first, budget, cur);
+      if (checked) return checked;
+    }
     if (panels * 2 > maxPanels) return { ...cur, stopped: (prev !== null || (fast === null && wanted > maxPanels)) ? 'cap' : null };
     if (budget.expired()) return { ...cur, stopped: budget.reason };
     // The next grid has twice the nodes, so about twice this one's work: when that would end past the
@@ -269,6 +281,86 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
     prev = cur;
     panels *= 2;
   }
+}
+
+/**
+ * The first grid checked against a coarser one (k h = COARSE_PHASE instead of PANEL_PHASE, about 0.77 of
+ * its nodes) rather than a doubled one (twice its nodes): Gauss-Legendre converges faster than any power
+ * here, so the coarse grid's error bounds the first's, and their difference is the estimate. The first
+ * grid with that estimate when the two agree as two grids must; null otherwise (the doubling goes on).
+ */
+function coarseCheck(
+  state: StateFunction,
+  basis: Eigenbasis,
+  levels: number,
+  window: [number, number],
+  breakpoints: number[],
+  first: number,
+  budget: Budget,
+  cur: Expanded,
+): Expanded | null {
+  const panels = Math.max(1, Math.floor((first * PANEL_PHASE) / COARSE_PHASE));
+  const q = quadratureFor(window, breakpoints, panels, 1);
+  // A piece with as many nodes on both grids (one panel next to a spike) would agree with itself.
+  if (!fewerOnEveryPiece(q.x, cur.q.x, breakpoints)) return null;
+  const values = state.evaluate(q.x, 0);
+  checkFinite(q.x, values);
+  budget.count(q.x.length, q.x.length);
+  const c = projectWithin(basis, q, values, levels, budget);
+  if (c === null) return null;
+  const coarse = { ...cur, q, values, re: c.re, im: c.im, norm: integrateAbs2(q, values) };
+  if (!agree(coarse, cur, levels)) return null;
+  return { ...cur, error: differences(coarse, cur, levels, NEGLIGIBLE * Math.sqrt(cur.norm)) };
+}
+
+/** True when the coarse nodes are fewer than the fine ones between every two breakpoints (both ascending). */
+function fewerOnEveryPiece(coarse: Float64Array, fine: Float64Array, breakpoints: number[]): boolean {
+  let i = 0;
+  let j = 0;
+  for (let piece = 0; piece <= breakpoints.length; piece++) {
+    const end = piece < breakpoints.length ? breakpoints[piece]! : Infinity;
+    let nc = 0;
+    let nf = 0;
+    while (i < coarse.length && coarse[i]! < end) (i++, nc++);
+    while (j < fine.length && fine[j]! < end) (j++, nf++);
+    if (nf > 0 && nc >= nf) return false;
+  }
+  return true;
+}
+
+/**
+ * The sine transform's coefficients of a few levels (the first two, the last two, two between) against
+ * the quadrature on the grid's own nodes, which share no samples with it: true when every difference is
+ * within the tolerance of two grids plus the transform's own estimate. A state whose structure aliases
+ * alike onto the transform's nested grids shows here.
+ */
+function spotCheck(basis: Eigenbasis, q: Quadrature, values: GridValues, fast: { re: Float64Array; im: Float64Array; error: Float64Array }, levels: number, norm: number, budget: Budget): boolean {
+  const picks = [...new Set([0, 1, Math.floor(levels / 3), Math.floor((2 * levels) / 3), levels - 2, levels - 1])].filter((k) => k >= 0 && k < levels);
+  const n = q.x.length;
+  const row = new Float64Array(n);
+  const tol = Math.max(1e-12 * Math.sqrt(norm), 1e-13 * norm);
+  for (const k of picks) {
+    basis.table(q.x, k + 1, row, undefined, undefined, k);
+    budget.count(TABLE_ENTRY_OPS * n, 0);
+    let re = 0;
+    let im = 0;
+    for (let j = 0; j < n; j++) {
+      re += q.w[j]! * row[j]! * values.re[j]!;
+      im += q.w[j]! * row[j]! * values.im[j]!;
+    }
+    if (Math.hypot(re - fast.re[k]!, im - fast.im[k]!) > tol + fast.error[k]!) return false;
+  }
+  return true;
+}
+
+/**
+ * |c_k(this grid) - c_k(previous grid)| + floor for each level (Infinity without a previous grid); the
+ * floor covers the nodes left out (NEGLIGIBLE sqrt(norm)) and the rounding of the sums.
+ */
+function differences(prev: Expanded | null, c: { re: Float64Array; im: Float64Array }, levels: number, floor: number): Float64Array {
+  const out = new Float64Array(levels).fill(Infinity);
+  if (prev) for (let j = 0; j < levels; j++) out[j] = Math.hypot(prev.re[j]! - c.re[j]!, prev.im[j]! - c.im[j]!) + floor;
+  return out;
 }
 
 /** Two grids agree when every coefficient and the norm differ by at most 1e-12 of sqrt(norm) (or 1e-13 of the norm). */

@@ -74,7 +74,7 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
         // The ladder's rotation and the two sums: about 8 flops a level.
         charge(budget, 8 * lv);
         const x = xs[j];
-        if (!(x >= a && x <= b)) continue;
+        if (!(x >= a && x <= b) || (wRe[j] === 0 && (!wIm || wIm[j] === 0))) continue;
         sineLadder((Math.PI * (x - a)) / L, lv, S, C);
         const wr = amp * wRe[j];
         const wi = wIm ? amp * wIm[j] : 0;

@@ -105,3 +105,79 @@ export function hermiteFunction(n: number, xi: number): number {
   hermiteFunctionTable(Float64Array.of(xi), n + 1, out);
   return out[n];
 }
+
+/** 2^e for e = -1100 ... 1100 (0 and subnormals at the low end), index e + 1100. */
+let pow2: Float64Array | null = null;
+/** w 2^e: exact while in range, 0 or subnormal below (a weight that small adds nothing the sums keep). */
+function scaled(w: number, e: number): number {
+  if (e < -1100 || e > 1100) return ldexp(w, e);
+  if (!pow2) {
+    pow2 = new Float64Array(2201);
+    for (let k = 0; k < pow2.length; k++) pow2[k] = ldexp(1, k - 1100);
+  }
+  return w * pow2[e + 1100]!;
+}
+
+/** sqrt(2/k) and sqrt((k-1)/k) of the recurrence for k < length, cached for the largest length asked. */
+let recurrence: { a: Float64Array; b: Float64Array } | null = null;
+function recurrenceFactors(levels: number): { a: Float64Array; b: Float64Array } {
+  if (recurrence && recurrence.a.length >= levels) return recurrence;
+  const a = new Float64Array(levels);
+  const b = new Float64Array(levels);
+  for (let k = 1; k < levels; k++) {
+    a[k] = Math.sqrt(2 / k);
+    b[k] = Math.sqrt((k - 1) / k);
+  }
+  recurrence = { a, b };
+  return recurrence;
+}
+
+/**
+ * outRe[k] += sum_j psi_k(xi_j) wRe[j] (and the same for wIm, which may be null), k < levels: the
+ * recurrence of {@link hermiteFunctionTable} run node by node and accumulated straight into the sums, so
+ * no table is written. The binary exponent the recurrence carries is folded into the weights (w 2^e,
+ * recomputed at each rescaling), so each level costs one recurrence step and two multiply-adds. A node
+ * whose weights are both zero is skipped. `onNode(levels)` is called once per node that is summed (the
+ * caller's budget charge).
+ */
+export function hermiteWeightedSums(
+  xi: Float64Array,
+  wRe: Float64Array,
+  wIm: Float64Array | null,
+  levels: number,
+  outRe: Float64Array,
+  outIm: Float64Array,
+  onNode?: (levels: number) => void,
+): void {
+  if (levels < 1) return;
+  const { a, b } = recurrenceFactors(levels);
+  for (let j = 0; j < xi.length; j++) {
+    const wr0 = wRe[j]!;
+    const wi0 = wIm ? wIm[j]! : 0;
+    if (wr0 === 0 && wi0 === 0) continue;
+    onNode?.(levels);
+    const x = xi[j]!;
+    const g = gaussianSplit(x);
+    let e = g.q;
+    let wr = scaled(wr0, e);
+    let wi = scaled(wi0, e);
+    let mPrev = 0;
+    let m = PI_M14 * g.base;
+    outRe[0]! += m * wr;
+    outIm[0]! += m * wi;
+    for (let k = 1; k < levels; k++) {
+      const next = a[k]! * x * m - b[k]! * mPrev;
+      mPrev = m;
+      m = next;
+      if (Math.abs(m) > TWO64) {
+        m *= TWOM64;
+        mPrev *= TWOM64;
+        e += 64;
+        wr = scaled(wr0, e);
+        wi = scaled(wi0, e);
+      }
+      outRe[k]! += m * wr;
+      outIm[k]! += m * wi;
+    }
+  }
+}

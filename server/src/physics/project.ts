@@ -18,6 +18,12 @@ export interface ProjectOptions {
    * once it runs out; the table path ignores it (its caller chunks the nodes). Default none.
    */
   budget?: Budget;
+  /**
+   * Fused path only: nodes whose share w_j |psi_j|^2 of the grid norm is below eps^2 / nodes are left
+   * out of the sums (all of them together hold at most eps^2 of the norm, so by Cauchy-Schwarz no
+   * coefficient moves by more than about eps sqrt(norm)). Default 0 (every node summed).
+   */
+  negligible?: number;
 }
 
 /**
@@ -45,9 +51,20 @@ export function project(
     // Fused path: weighted samples, then the basis adds phi_k(x_j) w_j psi_j level by level.
     const wr = new Float64Array(nq);
     const wi = psiIm ? new Float64Array(nq) : null;
+    let total = 0;
     for (let j = 0; j < nq; j++) {
       wr[j] = quad.w[j] * psiRe[j];
       if (wi && psiIm) wi[j] = quad.w[j] * psiIm[j];
+      total += quad.w[j] * (psiRe[j] * psiRe[j] + (psiIm ? psiIm[j] * psiIm[j] : 0));
+    }
+    const eps = options.negligible ?? 0;
+    if (eps > 0) {
+      const below = (eps * eps * total) / nq;
+      for (let j = 0; j < nq; j++) {
+        if (quad.w[j] * (psiRe[j] * psiRe[j] + (psiIm ? psiIm[j] * psiIm[j] : 0)) >= below) continue;
+        wr[j] = 0;
+        if (wi) wi[j] = 0;
+      }
     }
     const xs = nq === quad.x.length ? quad.x : quad.x.subarray(0, nq);
     basis.weightedSums(xs, wr, wi, lv, re, im, options.budget);

@@ -65,6 +65,8 @@ export interface CompositeOptions {
   panels?: number;
   /** Gauss–Legendre order on each panel (default 20). */
   order?: number;
+  /** Each piece's panel count (from `panels`) is multiplied by this whole number (default 1). */
+  refine?: number;
 }
 
 /**
@@ -77,10 +79,14 @@ export interface CompositeOptions {
 export function compositeGaussLegendre(a: number, b: number, options: CompositeOptions = {}): Quadrature {
   const panels = Math.max(1, Math.floor(options.panels ?? 16));
   const order = Math.max(1, Math.floor(options.order ?? 20));
+  const refine = Math.max(1, Math.floor(options.refine ?? 1));
   if (!(Number.isFinite(a) && Number.isFinite(b) && b > a)) return { x: new Float64Array(0), w: new Float64Array(0) };
   const cuts = [a];
   const inner = (options.breakpoints ?? []).filter((p) => Number.isFinite(p) && p > a && p < b).sort((p, q) => p - q);
-  for (const p of inner) if (p > cuts[cuts.length - 1]) cuts.push(p);
+  // A cut within 64 eps of the last one is dropped: a piece a few ulps wide puts its nodes on a point
+  // (a spike one ulp beside a graded breakpoint) that no node should reach.
+  const apart = (p: number, q: number): boolean => p - q > 64 * Number.EPSILON * Math.max(Math.abs(p), Math.abs(q));
+  for (const p of inner) if (apart(p, cuts[cuts.length - 1]) && apart(b, p)) cuts.push(p);
   cuts.push(b);
   const base = gaussLegendre(order);
   const pieces: Array<[number, number]> = [];
@@ -88,7 +94,11 @@ export function compositeGaussLegendre(a: number, b: number, options: CompositeO
     const lo = cuts[s];
     const hi = cuts[s + 1];
     // The fraction first: panels * (hi - lo) overflows for intervals near the largest double.
-    const m = Math.max(1, Math.ceil(panels * ((hi - lo) / (b - a)) - 1e-12));
+    const base = Math.max(1, Math.ceil(panels * ((hi - lo) / (b - a)) - 1e-12));
+    // Refined, a piece keeps panels wider than 2^16 eps |x|: narrower ones put nodes within a few ulps
+    // of its ends, where a spike one ulp off a graded breakpoint sits.
+    const finest = Math.max(1, Math.floor((hi - lo) / (65536 * Number.EPSILON * Math.max(Math.abs(lo), Math.abs(hi), Number.MIN_VALUE))));
+    const m = Math.max(base, Math.min(refine * base, finest));
     for (let k = 0; k < m; k++) {
       const p0 = lo + (hi - lo) * (k / m);
       const p1 = k === m - 1 ? hi : lo + (hi - lo) * ((k + 1) / m);
