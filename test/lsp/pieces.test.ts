@@ -53,7 +53,10 @@ describe('completion', () => {
     expect(labels('expect |')).toEqual(['norm', 'parity', 'weight', 'energy', 'spread', 'level', 'continuum', 'revival', 'mean']);
     expect(labels('expect parity |')).toEqual(['even', 'odd', 'mixed']);
     expect(labels('units nm, |')).toEqual(expect.arrayContaining(['nm', 'meV', 'ps']));
-    expect(labels('units nm, |')).not.toContain('MHz');
+    // A frequency may stand for the energy unit (E = h f); a mass or a temperature may not.
+    expect(labels('units nm, |')).toContain('MHz');
+    expect(labels('units nm, |')).not.toContain('m_e');
+    expect(labels('units nm, |')).not.toContain('K');
     expect(labels('state psi(x) = 1 # |')).toEqual([]);
   });
   it('offers let names only after their definition, and units only in physical mode', () => {

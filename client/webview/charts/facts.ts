@@ -5,7 +5,7 @@
  * Pure (no DOM).
  */
 import { formatNumber, formatPercent } from '../../../server/src/shared/numbers';
-import { HBAR_SI, UNITS } from '../../../server/src/expr/constants';
+import { HBAR_SI, UNITS, energyUnitSI } from '../../../server/src/expr/constants';
 import type { PanelResult } from '../../src/messages';
 
 type Level = PanelResult['levels'][number];
@@ -126,10 +126,10 @@ export function relevantLevels(result: PanelResult): Level[] {
  */
 export function hbarInFileUnits(units: PanelResult['units']): number | null {
   if (!units.energy || !units.time) return 1;
-  const e = UNITS.get(units.energy);
+  const e = energyUnitSI(units.energy);
   const t = UNITS.get(units.time);
-  if (!e || !t) return null;
-  return HBAR_SI / (e.si * t.si);
+  if (e === null || !t) return null;
+  return HBAR_SI / (e * t.si);
 }
 
 /** How well the `evolve` steps sample the fastest beat between the relevant levels. */

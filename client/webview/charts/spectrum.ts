@@ -4,6 +4,7 @@
  */
 import { formatNumber } from '../../../server/src/shared/numbers';
 import { cumulativeWeights } from '../../src/format';
+import { energySymbol } from '../../../server/src/shared/energyUnit';
 import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
 import { levelClasses, naturalScale, phaseText, resolved, totalWeight, WEIGHT_FLOOR } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop } from './layout';
@@ -114,7 +115,7 @@ function spectrumXAxis(ctx: BuildContext): Option {
   if (settings.axis === 'energy') {
     const es = levels.map((l) => l.energy).filter((v): v is number => v !== null);
     const r = niceAxis(Math.min(0, ...es), Math.max(...es), 5);
-    return { ...base, ...valueAxis(r, p.foreground), name: `E_n${unitSuffix(result.units.energy)}` };
+    return { ...base, ...valueAxis(r, p.foreground), name: `${energySymbol('E_n', result.units)}${unitSuffix(result.units.energy)}` };
   }
   // A fixed label step spares ECharts measuring every label on each redraw; about one label per 40 px.
   const room = Math.max(4, Math.floor(((ctx.size ?? DEFAULT_SIZE).width - 130) / 40));

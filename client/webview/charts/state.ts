@@ -6,6 +6,7 @@
 import { formatNumber } from '../../../server/src/shared/numbers';
 import type { PanelResult } from '../../src/messages';
 import { partialSum, sampledState, trapezoid } from '../physics';
+import { energySymbol } from '../../../server/src/shared/energyUnit';
 import { axisStyle, baseOption, pairs, unitSuffix, type BuildContext, type Option } from './context';
 import { resolved, totalWeight } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
@@ -244,7 +245,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     xAxis: { ...axisStyle(p), ...valueAxis(xr, p.foreground), name: `x${unitSuffix(lu)}`, nameLocation: 'middle', nameGap },
     yAxis: [
       { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: result.samples!.density ? 'ρ(x)' : 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
-      { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `E, V${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
+      { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `${energySymbol('E', result.units)}, ${energySymbol('V', result.units)}${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
       ...(mass.axis ? [mass.axis] : []),
     ],
     series,

@@ -159,3 +159,14 @@ export const BUILTIN_NUMBERS: ReadonlyMap<string, { re: number; im: number; doc:
   ['pi', { re: Math.PI, im: 0, doc: 'pi, the ratio of circumference to diameter' }],
   ['i', { re: 0, im: 1, doc: 'the imaginary unit' }],
 ]);
+
+/**
+ * The energy in J of one unit that may name a file's energy unit: an energy unit's own value, or h f for a
+ * frequency unit (a `units` line may give the energy as a frequency, E = h f). Null for other names.
+ */
+export function energyUnitSI(name: string): number | null {
+  const info = UNITS.get(name);
+  if (!info) return null;
+  if (info.kind === 'energy') return info.si;
+  return info.kind === 'frequency' ? H_SI * info.si : null;
+}

@@ -107,7 +107,7 @@ export function completeAt(view: DocView, offset: number, options: CompletionOpt
   if (options.trigger === ' ' && !AFTER_SPACE.test(head) && !(call && /^\s*$/.test(call.current) && CONSTRUCTORS.some((c) => c.name === call.name))) return [];
   if (/^system\s+[A-Za-z]*$/.test(head) || /^state\s+eigen\b.*\bof\s+[A-Za-z]*$/.test(head)) return constructors('system', units, options);
   if (/^state\s+[A-Za-z]*$/.test(head)) return constructors('state', units, options);
-  if (/^units\b/.test(head)) return UNIT_NAMES.filter((u) => u.kind === 'length' || u.kind === 'energy' || u.kind === 'time').map((u) => item(u.name, CompletionItemKind.Unit, `${u.kind}: ${u.doc}`, null, options));
+  if (/^units\b/.test(head)) return UNIT_NAMES.filter((u) => ['length', 'energy', 'time', 'frequency'].includes(u.kind)).map((u) => item(u.name, CompletionItemKind.Unit, u.kind === 'frequency' ? `energy as a frequency (E = h f): ${u.doc}` : `${u.kind}: ${u.doc}`, null, options));
   // 'expect window' judges a sweep: offered only in a file with a `sweep` line.
   const swept = view.file.statements.some((st) => st.kind === 'sweep');
   if (/^expect\s+[a-z]*$/.test(head)) return EXPECT_KINDS.filter((k) => swept || k.name !== 'window').map((k) => item(k.name, CompletionItemKind.Keyword, k.doc, templateFor('expect', k.name, units, k.snippet), options));

@@ -10,6 +10,7 @@ import { rangeOf } from './positions';
 import { fmt, fmtComplex, fmtPhase, withUnit } from './format';
 import { FUNCTIONS, KEYWORDS } from './vocabulary';
 import { oscillatorQuantum, quantaText } from '../shared/quanta';
+import { H_SI, UNITS } from '../expr/constants';
 
 /** How many levels the state hover lists, and how many energies the system hover lists. */
 const TOP_LEVELS = 6;
@@ -161,6 +162,20 @@ function letHover(view: DocView, name: string): string[] {
   return lines;
 }
 
+/** The `units` line: what each name is, and what a frequency standing for an energy means. */
+function unitsHover(view: DocView, s: Extract<Statement, { kind: 'units' }>): string[] {
+  const lines = ['**units**', ''];
+  for (const u of s.units) {
+    const info = UNITS.get(u.name);
+    if (!info) continue;
+    if (info.kind === 'frequency') lines.push(`\`${u.name}\`: energies as the frequency E/h (${info.doc}; h = ${H_SI} J s, exact)  `);
+    else lines.push(`\`${u.name}\`: ${info.kind === 'energy' && u.name === 'invcm' ? 'energies as the wavenumber E/(h c)' : info.kind} (${info.doc})  `);
+  }
+  const t = view.result?.units.time;
+  if (t && !s.units.some((u) => u.name === t)) lines.push(`times in \`${t}\`, one over the frequency unit  `);
+  return lines;
+}
+
 /** The built-in function called at `offset` (the name under the cursor, followed by '('), or null. */
 function functionAt(text: string, offset: number): { doc: string; start: number; end: number } | null {
   const word = /[A-Za-z0-9_]/;
@@ -186,6 +201,7 @@ export function hoverAt(view: DocView, offset: number): Hover | null {
   if (s.kind === 'state') lines = stateHover(view);
   else if (s.kind === 'system') lines = systemHover(view);
   else if (s.kind === 'expect') lines = expectHover(view, s);
+  else if (s.kind === 'units') lines = unitsHover(view, s);
   else if (offset >= s.keywordSpan.start && offset <= s.keywordSpan.end) {
     const k = KEYWORDS.find((w) => w.name === s.kind);
     if (k) lines = [`**${k.name}**`, '', k.doc];
