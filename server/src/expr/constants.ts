@@ -132,6 +132,11 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['m_p', unit(MP_SI, 'mass', 'proton mass (CODATA 2018)')],
   ['u', unit(U_SI, 'mass', 'atomic mass constant (CODATA 2018)')],
   ['K', unit(1, 'temperature', 'kelvin (temperatures, e.g. of a thermal state)')],
+  ['mK', unit(1e-3, 'temperature', 'millikelvin')],
+  ['uK', unit(1e-6, 'temperature', 'microkelvin')],
+  ['\u00B5K', unit(1e-6, 'temperature', 'microkelvin')],
+  ['\u03BCK', unit(1e-6, 'temperature', 'microkelvin')],
+  ['nK', unit(1e-9, 'temperature', 'nanokelvin')],
 ]);
 
 /** A named physical constant (not a unit: it never appears on a `units` line). */
