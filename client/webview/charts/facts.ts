@@ -46,6 +46,22 @@ export function continuumText(c: number): string {
   return c < SUM_RESOLUTION ? `0 (below ${formatNumber(SUM_RESOLUTION)})` : formatPercent(c);
 }
 
+/**
+ * The captured weight as one percentage rounded to what the sum resolves: `100%` when it is 1 to within
+ * `SUM_RESOLUTION`, enough digits to show the shortfall 1 - c to two significant digits when it is small
+ * (99.9977%), else four significant digits (85.08%, as `formatPercent`).
+ */
+export function capturedText(c: number): string {
+  const gap = 1 - c;
+  if (Math.abs(gap) < SUM_RESOLUTION) return '100%';
+  if (gap > 0 && gap < 1e-2) {
+    // The percentage's decimals that reach the shortfall's second significant digit.
+    const decimals = Math.min(10, Math.ceil(-Math.log10(gap)) - 1);
+    return `${(100 * c).toFixed(decimals).replace(/\.?0+$/, '')}%`;
+  }
+  return formatPercent(c);
+}
+
 /** A symmetry class of the levels: its legend name and which level indices belong to it. */
 export interface LevelClass {
   id: 'symmetric' | 'antisymmetric' | 'levels';
