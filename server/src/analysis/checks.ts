@@ -13,6 +13,7 @@ import { BadValue } from './expand';
 import { TOL, type StateMeasurements, type Stop } from './measure';
 import { captureText, fmt, formatFactor, growthText, notSquareIntegrable, pct, plural, replaceFix, warn } from './findings';
 import { raiseHint } from '../shared/limits';
+import { formatNumber } from '../shared/numbers';
 
 /** What the checks need besides the measurements. */
 export interface CheckContext {
@@ -183,9 +184,11 @@ export const checkSpike: StateCheck = (m, ctx) => {
 export const checkConvergence: StateCheck = (m, ctx) => {
   const span = ctx.stateSpan;
   const decay = m.decay;
-  const p = decay?.exponent != null ? ` |c_n| falls off as n^-${fmt(decay.exponent)}.` : '';
-  if (m.jumps.length > 0) return [warn('convergence', span, `The state jumps at x = ${fmt(m.jumps[0]!)}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`)];
-  if (m.kinks.length > 0) return [warn('convergence', span, `The state has a kink at x = ${fmt(m.kinks[0]!)}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info')];
+  // The fitted exponent to the three digits a fit over a few dozen levels resolves; positions in the file's length unit.
+  const p = decay?.exponent != null ? ` |c_n| falls off as n^-${formatNumber(decay.exponent, 3)}.` : '';
+  const u = ctx.model.units.mode === 'physical' ? ` ${ctx.model.units.length.name}` : '';
+  if (m.jumps.length > 0) return [warn('convergence', span, `The state jumps at x = ${fmt(m.jumps[0]!)}${u}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`)];
+  if (m.kinks.length > 0) return [warn('convergence', span, `The state has a kink at x = ${fmt(m.kinks[0]!)}${u}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info')];
   // A nonzero value at a hard wall is the jump this decay shows: the boundary finding words it, with the measured law.
   const atHardWall = m.walls !== null && m.walls.values.some((v, i) => v > m.walls!.tolerance && m.walls!.hard[i]);
   if (decay && (decay.classification === 'kink' || (decay.classification === 'jump' && !atHardWall))) {

@@ -102,7 +102,7 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   const lines: string[] = [];
   lines.push(`== ${file}`);
   if (result.system) {
-    lines.push(`system: ${result.system.kind}${result.system.boundCount !== undefined ? ` (${result.system.boundCount} bound states)` : ''}`);
+    lines.push(`system: ${result.system.kind}${result.system.boundCount !== undefined ? ` (${result.system.boundCount} bound state${result.system.boundCount === 1 ? '' : 's'})` : ''}`);
   }
   if (result.levels.length > 0) {
     const top = result.levels.filter((l) => l.weight > 1e-12);

@@ -17,6 +17,9 @@ export interface DecayOptions {
   block?: number;
 }
 
+/** |c_n|^2 of the last levels at or above this share of the largest (|c_n| within a factor 10): the tail has not started to fall. */
+const NOT_FALLING = 1e-2;
+
 /** The fitted tail law. */
 export interface DecayFit {
   /** p in |c_n| ~ A n^-p, or null when the decay is geometric (faster than any power). */
@@ -95,6 +98,12 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
   let max = 0;
   for (let i = 0; i < n; i++) if (Number.isFinite(weights[i]) && weights[i] > max) max = weights[i];
   if (!(max > 0)) return unknown;
+  // A tail that has not started to fall (the last levels still hold a tenth or more of the largest |c_n|,
+  // as for a displaced high level whose weights peak near the top of the basis) has no decay law to fit:
+  // extrapolating one would call a rising tail algebraic.
+  let last = 0;
+  for (let i = Math.max(0, n - minPoints); i < n; i++) if (Number.isFinite(weights[i]) && weights[i] > last) last = weights[i];
+  if (last >= NOT_FALLING * max) return { ...unknown, points: 0 };
   const keep: number[] = [];
   for (let i = 0; i < n; i++) {
     if (Number.isFinite(weights[i]) && weights[i] > floor * max && labels[i] >= 1) keep.push(i);
