@@ -47,13 +47,15 @@ export function continuumText(c: number): string {
 }
 
 /**
- * The captured weight as one percentage rounded to what the sum resolves: `100%` when it is 1 to within
- * `SUM_RESOLUTION`, enough digits to show the shortfall 1 - c to two significant digits when it is small
- * (99.9977%), else four significant digits (85.08%, as `formatPercent`).
+ * The captured weight as one figure rounded to what the sum resolves: `100%` when it is 1 to within
+ * `SUM_RESOLUTION`, `1 − 4.3e-10` for a shortfall below 1e-5, enough digits to show a shortfall below
+ * 1e-2 to two significant digits (99.9977%), else four significant digits (85.08%, as `formatPercent`).
  */
 export function capturedText(c: number): string {
   const gap = 1 - c;
   if (Math.abs(gap) < SUM_RESOLUTION) return '100%';
+  // A shortfall of a few parts in a million or less reads better as itself than as a row of nines.
+  if (gap > 0 && gap < 1e-5) return `1 − ${formatNumber(gap, 2)}`;
   if (gap > 0 && gap < 1e-2) {
     // The percentage's decimals that reach the shortfall's second significant digit.
     const decimals = Math.min(10, Math.ceil(-Math.log10(gap)) - 1);

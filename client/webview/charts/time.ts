@@ -89,7 +89,7 @@ function timeAxes(ctx: BuildContext): { xAxis: Option[]; yAxis: Option[] } {
     ],
     yAxis: [
       dens
-        ? { ...axisStyle(p), ...valueAxis(niceAxis(0, dmax > 0 ? dmax : 1, 4), p.foreground), gridIndex: 0, ...name('|ψ|²') }
+        ? { ...axisStyle(p), ...valueAxis(niceAxis(0, dmax > 0 ? dmax : 1, 4), p.foreground), gridIndex: 0, ...name(result.mixture ? 'ρ(x,t)' : '|ψ|²') }
         : { ...axisStyle(p), ...valueAxis(niceAxis(Math.min(...meanX), Math.max(...meanX), 4), p.foreground), gridIndex: 0, ...name('⟨x⟩') },
       { ...axisStyle(p), ...valueAxis({ min: 0, max: 1, interval: 0.5 }, p.foreground), gridIndex: 1, ...name('survival') },
     ],

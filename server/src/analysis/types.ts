@@ -86,6 +86,11 @@ export interface AnalysisResult {
    * Absent in natural units.
    */
   units: { length: string | null; energy: string | null; time: string | null; energyKind?: EnergyKind };
+  /**
+   * What the `expect revival` and `expect mean` lines measured (for hovers; not in the JSON): the
+   * statement's start offset, the value in the unit it is compared in, and that unit (null when none).
+   */
+  measured?: { start: number; value: number | null; unit: string | null }[];
   system: {
     kind: 'box' | 'well' | 'oscillator' | 'potential';
     /** The first levels' energies (for hovers on the system line), at most 20. */

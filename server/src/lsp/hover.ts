@@ -133,7 +133,9 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
     } else if (x.kind === 'continuum') {
       if (r.continuum !== undefined) measured = fmt(r.continuum, 12);
     } else if (x.kind === 'revival' || x.kind === 'mean') {
-      // Measured where the line is checked: its finding names the value when it fails.
+      // Measured where the line is checked, and kept on the result for this hover.
+      const m = r.measured?.find((v) => v.start === s.span.start);
+      if (m) measured = m.value === null ? (x.kind === 'revival' ? 'no revival found' : 'not available') : fmt(m.value, 12) + withUnit(m.unit);
     } else {
       const from = levelNumber(x.from.text);
       const to = x.to ? levelNumber(x.to.text) : from;
