@@ -87,7 +87,7 @@ function keywordFits(view: DocView, keyword: string, at: number): boolean {
 }
 
 /** Where a space asks for a list: right after a word that must be followed by another. */
-const AFTER_SPACE = /^(system|state|expect|expect\s+parity|evolve|evolve\s+to\s+\S.*|state\s+eigen\b.*\bof)\s+$/;
+const AFTER_SPACE = /^(system|state|expect|expect\s+parity|evolve|evolve\s+to\s+\S.*|state\s+eigen\b.*\bof|system\s+V\s*\(\s*x\s*\)[^]*\bover\s*\[[^\]]*\])\s+$/;
 
 /** Completion items at `offset`. */
 export function completeAt(view: DocView, offset: number, options: CompletionOptions): CompletionItem[] {
@@ -113,6 +113,10 @@ export function completeAt(view: DocView, offset: number, options: CompletionOpt
   if (/^expect\s+[a-z]*$/.test(head)) return EXPECT_KINDS.filter((k) => swept || k.name !== 'window').map((k) => item(k.name, CompletionItemKind.Keyword, k.doc, templateFor('expect', k.name, units, k.snippet), options));
   if (/^expect\s+parity\s+[a-z]*$/.test(head)) return PARITIES.map((p) => item(p, CompletionItemKind.EnumMember, `parity ${p}`, null, options));
   if (/^evolve\s+[a-z]*$/.test(head)) return [item('to', CompletionItemKind.Keyword, 'The time to evolve up to, then the number of steps.', evolveRest(units), options)];
+  // After a potential's interval: the mass profile it may carry (`with mass(x) = ...`), in the file's units.
+  if (/^system\s+V\s*\(\s*x\s*\)[^]*\bover\s*\[[^\]]*\]\s+[a-z]*$/.test(head) && !/\bwith\b/.test(head)) {
+    return [item('with mass(x) =', CompletionItemKind.Keyword, 'A mass that depends on x (BenDaniel-Duke kinetic energy); the mass line holds where it names none.', `with mass(x) = \${1:${units ? '1 m_e' : '1'}}`, options)];
+  }
   const names = expressionNames(view, start, head, options);
   // After the time: `steps`, beside the names and units the time may still take.
   if (/^evolve\s+to\s+\S.*\s[a-z]*$/.test(head) && !/\bsteps\b/.test(head)) return [item('steps', CompletionItemKind.Keyword, 'How many time steps (default 200).', 'steps ${1:200}', options, ' steps'), ...names];
