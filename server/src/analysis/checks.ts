@@ -119,17 +119,19 @@ export const checkWalls: StateCheck = (m, ctx) => {
   if (!w || !w.broken) return [];
   const [a, b] = w.walls;
   const [va, vb] = w.values;
+  // Positions in the file's length unit, as written.
+  const lu = ctx.model.units.mode === 'physical' ? ` ${ctx.model.units.length.name}` : '';
   const at = (x: number, v: number): string =>
     !Number.isFinite(v)
-      ? `psi is infinite at ${fmt(x)}`
-      : `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)} normalised${w.peak > 0 ? `, ${fmt(v / w.peak)} times its largest value` : ''}`;
+      ? `psi is infinite at ${fmt(x)}${lu}`
+      : `psi(${fmt(x)}${lu}) = ${fmt(v / w.rootNorm)} normalised${w.peak > 0 ? `, ${fmt(v / w.peak)} times its largest value` : ''}`;
   const offA = va > w.tolerance;
   const offB = vb > w.tolerance;
   const problems: string[] = [];
   if (offA && offB) problems.push(`it is not zero at the walls (${at(a, va)}; ${at(b, vb)})`);
   else if (offA) problems.push(`it is not zero at the left wall (${at(a, va)})`);
   else if (offB) problems.push(`it is not zero at the right wall (${at(b, vb)})`);
-  if (w.outside > 1e-9) problems.push(`${pct(w.outside)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)} and is dropped`);
+  if (w.outside > 1e-9) problems.push(`${pct(w.outside)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)}${lu} and is dropped`);
   let message = `The state breaks the walls' boundary condition: ${problems.join('; ')}.`;
   let fixes: FixData[] | undefined;
   const spec = ctx.systemStmt.kind === 'system' && ctx.systemStmt.system.kind === 'potential' ? ctx.systemStmt.system : null;
