@@ -108,3 +108,21 @@ describe('the summary line', () => {
     expect(s.match(/85\.08/g)).toHaveLength(1);
   });
 });
+
+describe('what looking at every example found', () => {
+  it('names the time view density of a mixed state rho(x,t), not |psi|^2', async () => {
+    await show('examples/thermal-ion-shift.qstate');
+    await openTab(page, 'time');
+    const texts = (await panel(page, 'texts')).map((t) => t.text);
+    expect(texts).toContain('ρ(x,t)');
+    expect(texts).not.toContain('|ψ|²');
+  });
+
+  it('gives a captured weight within 1e-5 of 1 as its shortfall, not a row of nines', async () => {
+    // The Morse packet's 24 levels capture all but about 4e-10 (expand --table: 0.9999999996).
+    await show('examples/morse-bond-packet.qstate');
+    const s = await text('#summary');
+    expect(s).toMatch(/captured 1 − \d(\.\d)?e-10/);
+    expect(s).not.toMatch(/99\.9999/);
+  });
+});
