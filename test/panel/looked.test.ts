@@ -126,3 +126,11 @@ describe('what looking at every example found', () => {
     expect(s).not.toMatch(/99\.9999/);
   });
 });
+
+describe('the reason for an infinite spread', () => {
+  it('follows the finding: a kink in the state, not a slow decay the basis of two bound levels cannot show', async () => {
+    // The widened well's state has a kink at x = -3 nm (its convergence finding says so).
+    await show('examples/gaas-well-widened.qstate');
+    expect(await text('#summary')).toMatch(/ΔE ∞ \(the state has a kink\)/);
+  });
+});

@@ -116,7 +116,11 @@ export function missingEnergyText(result: PanelResult, which: 'mean' | 'spread')
   const c = result.decay?.classification;
   const diverges = result.diagnostics.some((d) => d.code === 'convergence') || c === 'jump' || (which === 'spread' && c === 'kink');
   if (!diverges) return 'n/a';
-  const why = c === 'jump' ? 'the state jumps' : c === 'kink' ? 'the state has a kink' : 'the coefficients decay too slowly';
+  // The convergence finding names what it found in the state itself (a jump or a kink at some x), beyond the decay fit.
+  const said = result.diagnostics.find((d) => d.code === 'convergence')?.message ?? '';
+  const jump = c === 'jump' || /\bjumps\b/.test(said);
+  const kink = c === 'kink' || /\bkink\b/.test(said);
+  const why = jump ? 'the state jumps' : kink ? 'the state has a kink' : 'the coefficients decay too slowly';
   return `∞ (${why})`;
 }
 
