@@ -196,12 +196,14 @@ function syncControls(r: PanelResult | null): void {
   const terms = $('terms') as HTMLInputElement;
   terms.max = String(maxK);
   terms.value = String(Math.min(settings.terms, maxK));
+  // A mixed state has no wave function to sum: a slider that changes nothing is disabled.
+  terms.disabled = Boolean(r?.mixture);
   if (r && r.samples) {
     const st = sampledState(r.samples);
     const part = partialSum(r.samples, r.levels, settings.terms);
     const err = l2Distance(r.samples.x, st.re, st.im, part.re, part.im);
     // A mixed state has no wave function to sum.
-    setText('terms-out', r.mixture ? `K = ${part.terms}: a mixed state has no partial sum ψ_K` : `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
+    setText('terms-out', r.mixture ? 'a mixed state has no wave function, so no partial sum ψ_K' : `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
   } else setText('terms-out', '');
   syncTime(r);
 }

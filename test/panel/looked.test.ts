@@ -118,6 +118,15 @@ describe('what looking at every example found', () => {
     expect(texts).not.toContain('|ψ|²');
   });
 
+  it('disables the partial-sum slider of a mixed state, which has no wave function to sum', async () => {
+    await show('examples/thermal-ion-shift.qstate');
+    await openTab(page, 'state');
+    expect(await page.isDisabled('#terms')).toBe(true);
+    expect(await text('#terms-out')).toMatch(/no wave function/);
+    await show('examples/ion-trap-kick.qstate');
+    expect(await page.isDisabled('#terms')).toBe(false);
+  });
+
   it('gives a captured weight within 1e-5 of 1 as its shortfall, not a row of nines', async () => {
     // The Morse packet's 24 levels capture all but about 4e-10 (expand --table: 0.9999999996).
     await show('examples/morse-bond-packet.qstate');
