@@ -16,6 +16,9 @@ import { hoverAt } from '../../server/src/lsp/hover';
 import { lineTable } from '../../server/src/lsp/positions';
 import type { DocView } from '../../server/src/lsp/view';
 import { hbarInFileUnits } from '../../client/webview/charts/facts';
+import { DEFAULT_SETTINGS, spectrumOption, stateOption } from '../../client/webview/charts';
+import { readPalette } from '../../client/webview/theme';
+import type { PanelResult } from '../../client/src/messages';
 
 const span = { start: 0, end: 1 };
 const line = (...names: string[]) => makeUnitSystem(names.map((name) => ({ name, span })));
@@ -87,5 +90,14 @@ describe('a frequency unit on the units line', () => {
     expect(h).toContain('h = 6.62607015e-34 J s');
     expect(h).toContain('times in `us`');
     expect(hover(ION, ION.indexOf('state'))).toMatch(/⟨E⟩ = 2\.\d+ MHz/);
+  });
+
+  it('names the panel axes E/h in MHz', () => {
+    const { file: _f, ...r } = analyse(ION, { samples: true });
+    const ctx = (tab: 'spectrum' | 'state') => ({ result: JSON.parse(JSON.stringify(r)) as PanelResult, settings: { ...DEFAULT_SETTINGS, tab, axis: 'energy' as const }, palette: readPalette(() => '', 'dark'), tooltip: () => '' });
+    const spectrum = spectrumOption(ctx('spectrum')) as { xAxis: { name: string } };
+    expect(spectrum.xAxis.name).toBe('E_n/h (MHz)');
+    const state = stateOption(ctx('state')) as { yAxis: { name: string }[] };
+    expect(state.yAxis[1]!.name).toBe('E/h, V/h (MHz)');
   });
 });
