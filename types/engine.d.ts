@@ -64,7 +64,8 @@ export interface EngineResult {
   parity: 'even' | 'odd' | 'mixed' | null;
   continuum?: number;
   diagnostics: EngineFinding[];
-  units: { length: string | null; energy: string | null; time: string | null };
+  /** `energyKind`: the energy unit is an `energy`, a `frequency` f standing for h f, or a `wavenumber` (invcm, h c / 1 cm); absent in natural units. */
+  units: { length: string | null; energy: string | null; time: string | null; energyKind?: 'energy' | 'frequency' | 'wavenumber' };
   system: {
     kind: 'box' | 'well' | 'oscillator' | 'potential';
     energies: number[];

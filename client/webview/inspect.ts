@@ -53,7 +53,7 @@ export function drawnTexts(chart: echarts.ECharts): DrawnText[] {
 }
 
 interface AxisModel {
-  axis: { getViewLabels(): { formattedLabel: string }[] };
+  axis: { getViewLabels(): { formattedLabel: string; tick?: { offInterval?: boolean } }[] };
 }
 
 /** The labels ECharts shows on each x and y axis. */
@@ -64,7 +64,8 @@ export function axisLabels(chart: echarts.ECharts): { x: string[][]; y: string[]
     for (let i = 0; ; i++) {
       const c = model.getComponent(type, i);
       if (!c) return out;
-      out.push(c.axis.getViewLabels().map((l) => l.formattedLabel));
+      // A category axis's end labels off its label interval are listed but not drawn (ECharts 6 hides them).
+      out.push(c.axis.getViewLabels().filter((l) => l.tick?.offInterval !== true).map((l) => l.formattedLabel));
     }
   };
   return { x: read('xAxis'), y: read('yAxis') };

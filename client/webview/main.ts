@@ -10,10 +10,9 @@ import { GridComponent, TooltipComponent, LegendComponent, MarkAreaComponent, Ma
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
-import { formatPercent } from '../../server/src/shared/numbers';
 import { oscillatorQuantum, quantaText } from '../../server/src/shared/quanta';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
-import { continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
+import { capturedText, continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, partialSum, sampledState } from './physics';
 import { axisLabels, drawnTexts, itemLayouts, yPixel } from './inspect';
 import { pickedText, SweepTab, sweepStatus, syncQuantities } from './sweepTab';
@@ -130,10 +129,11 @@ function summaryItems(r: PanelResult): [string, string][] {
   const items: [string, string][] = [
     ['⟨E⟩', r.energy?.mean == null ? missingEnergyText(r, 'mean') : `${formatNumber(r.energy.mean, 5)}${eu}${inQuanta(r, r.energy.mean)}`],
     ['ΔE', r.energy?.spread == null ? missingEnergyText(r, 'spread') : spreadText(r.energy.spread, r.energy.mean, eu, inQuanta(r, r.energy.spread))],
-    ['captured', r.captured == null ? '–' : `${formatNumber(100 * r.captured, 6)} %`],
+    ['captured', r.captured == null ? '–' : capturedText(r.captured)],
     r.mixture ? ['purity Tr ρ²', formatNumber(r.purity, 6)] : ['norm as written', formatNumber(r.norm, 6)],
     ['parity', r.parity === null ? 'none (V has no symmetry centre)' : `${r.parity}${about}`],
-    ['levels for 99.9 %', r.levelsFor999 == null ? `not reached${r.captured == null ? '' : ` (the ${r.levels.length} levels hold ${formatPercent(r.captured)})`}` : String(r.levelsFor999)],
+    // The captured weight stands beside it: one figure, not two.
+    ['levels for 99.9 %', r.levelsFor999 == null ? `not reached with ${r.levels.length} level${r.levels.length === 1 ? '' : 's'}` : String(r.levelsFor999)],
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
   if (typeof r.meanQuantumNumber === 'number') items.push(['⟨n⟩', formatNumber(r.meanQuantumNumber, 5)]);
@@ -207,12 +207,14 @@ function syncControls(r: PanelResult | null): void {
   const terms = $('terms') as HTMLInputElement;
   terms.max = String(maxK);
   terms.value = String(Math.min(settings.terms, maxK));
+  // A mixed state has no wave function to sum: a slider that changes nothing is disabled.
+  terms.disabled = Boolean(r?.mixture);
   if (r && r.samples) {
     const st = sampledState(r.samples);
     const part = partialSum(r.samples, r.levels, settings.terms);
     const err = l2Distance(r.samples.x, st.re, st.im, part.re, part.im);
     // A mixed state has no wave function to sum.
-    setText('terms-out', r.mixture ? `K = ${part.terms}: a mixed state has no partial sum ψ_K` : `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
+    setText('terms-out', r.mixture ? 'a mixed state has no wave function, so no partial sum ψ_K' : `K = ${part.terms}: ‖ψ − ψ_K‖ = ${formatNumber(err, 3)}`);
   } else setText('terms-out', '');
   syncTime(r);
 }

@@ -58,6 +58,7 @@ const FILES = {
   natural: 'system box(0, 1)\n',
   'nm, meV, ps': 'units nm, meV, ps\n',
   'angstrom, eV (no time unit)': 'units angstrom, eV\n',
+  'um, MHz (a frequency for the energy, no time unit)': 'units um, MHz\n',
 };
 
 /** Documents ending where a list is asked for, each with what it should become once an item is accepted. */

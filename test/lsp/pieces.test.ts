@@ -53,8 +53,15 @@ describe('completion', () => {
     expect(labels('expect |')).toEqual(['norm', 'parity', 'weight', 'energy', 'spread', 'level', 'continuum', 'revival', 'mean']);
     expect(labels('expect parity |')).toEqual(['even', 'odd', 'mixed']);
     expect(labels('units nm, |')).toEqual(expect.arrayContaining(['nm', 'meV', 'ps']));
-    expect(labels('units nm, |')).not.toContain('MHz');
+    // A frequency may stand for the energy unit (E = h f); a mass or a temperature may not.
+    expect(labels('units nm, |')).toContain('MHz');
+    expect(labels('units nm, |')).not.toContain('m_e');
+    expect(labels('units nm, |')).not.toContain('K');
     expect(labels('state psi(x) = 1 # |')).toEqual([]);
+    // After a potential's interval: its mass profile (common practice: BenDaniel-Duke form of the format).
+    expect(labels('system V(x) = x^2 over [-5, 5] |')).toEqual(['with mass(x) =']);
+    expect(labels('system V(x) = x^2 over [-5, 5] w|')).toEqual(['with mass(x) =']);
+    expect(labels('system V(x) = x^2 over [-5, 5] with mass(x) = 1 |')).not.toContain('with mass(x) =');
   });
   it('offers let names only after their definition, and units only in physical mode', () => {
     expect(labels('let a = 1\nsystem box(0, |)\nlet b = 2\n')).toContain('a');

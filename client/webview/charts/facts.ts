@@ -5,7 +5,7 @@
  * Pure (no DOM).
  */
 import { formatNumber, formatPercent } from '../../../server/src/shared/numbers';
-import { HBAR_SI, UNITS } from '../../../server/src/expr/constants';
+import { HBAR_SI, UNITS, energyUnitSI } from '../../../server/src/expr/constants';
 import type { PanelResult } from '../../src/messages';
 
 type Level = PanelResult['levels'][number];
@@ -44,6 +44,24 @@ export function phaseText(re: number, im: number): string {
 /** The continuum weight rounded to what the sum resolves: '0' below `SUM_RESOLUTION`, else a percentage. */
 export function continuumText(c: number): string {
   return c < SUM_RESOLUTION ? `0 (below ${formatNumber(SUM_RESOLUTION)})` : formatPercent(c);
+}
+
+/**
+ * The captured weight as one figure rounded to what the sum resolves: `100%` when it is 1 to within
+ * `SUM_RESOLUTION`, `1 − 4.3e-10` for a shortfall below 1e-5, enough digits to show a shortfall below
+ * 1e-2 to two significant digits (99.9977%), else four significant digits (85.08%, as `formatPercent`).
+ */
+export function capturedText(c: number): string {
+  const gap = 1 - c;
+  if (Math.abs(gap) < SUM_RESOLUTION) return '100%';
+  // A shortfall of a few parts in a million or less reads better as itself than as a row of nines.
+  if (gap > 0 && gap < 1e-5) return `1 − ${formatNumber(gap, 2)}`;
+  if (gap > 0 && gap < 1e-2) {
+    // The percentage's decimals that reach the shortfall's second significant digit.
+    const decimals = Math.min(10, Math.ceil(-Math.log10(gap)) - 1);
+    return `${(100 * c).toFixed(decimals).replace(/\.?0+$/, '')}%`;
+  }
+  return formatPercent(c);
 }
 
 /** A symmetry class of the levels: its legend name and which level indices belong to it. */
@@ -98,7 +116,11 @@ export function missingEnergyText(result: PanelResult, which: 'mean' | 'spread')
   const c = result.decay?.classification;
   const diverges = result.diagnostics.some((d) => d.code === 'convergence') || c === 'jump' || (which === 'spread' && c === 'kink');
   if (!diverges) return 'n/a';
-  const why = c === 'jump' ? 'the state jumps' : c === 'kink' ? 'the state has a kink' : 'the coefficients decay too slowly';
+  // The convergence finding names what it found in the state itself (a jump or a kink at some x), beyond the decay fit.
+  const said = result.diagnostics.find((d) => d.code === 'convergence')?.message ?? '';
+  const jump = c === 'jump' || /\bjumps\b/.test(said);
+  const kink = c === 'kink' || /\bkink\b/.test(said);
+  const why = jump ? 'the state jumps' : kink ? 'the state has a kink' : 'the coefficients decay too slowly';
   return `∞ (${why})`;
 }
 
@@ -126,10 +148,10 @@ export function relevantLevels(result: PanelResult): Level[] {
  */
 export function hbarInFileUnits(units: PanelResult['units']): number | null {
   if (!units.energy || !units.time) return 1;
-  const e = UNITS.get(units.energy);
+  const e = energyUnitSI(units.energy);
   const t = UNITS.get(units.time);
-  if (!e || !t) return null;
-  return HBAR_SI / (e.si * t.si);
+  if (e === null || !t) return null;
+  return HBAR_SI / (e * t.si);
 }
 
 /** How well the `evolve` steps sample the fastest beat between the relevant levels. */

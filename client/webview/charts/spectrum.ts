@@ -4,6 +4,7 @@
  */
 import { formatNumber } from '../../../server/src/shared/numbers';
 import { cumulativeWeights } from '../../src/format';
+import { energySymbol } from '../../../server/src/shared/energyUnit';
 import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
 import { levelClasses, naturalScale, phaseText, resolved, totalWeight, WEIGHT_FLOOR } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop } from './layout';
@@ -114,12 +115,32 @@ function spectrumXAxis(ctx: BuildContext): Option {
   if (settings.axis === 'energy') {
     const es = levels.map((l) => l.energy).filter((v): v is number => v !== null);
     const r = niceAxis(Math.min(0, ...es), Math.max(...es), 5);
-    return { ...base, ...valueAxis(r, p.foreground), name: `E_n${unitSuffix(result.units.energy)}` };
+    return { ...base, ...valueAxis(r, p.foreground), name: `${energySymbol('E_n', result.units)}${unitSuffix(result.units.energy)}` };
   }
-  // A fixed label step spares ECharts measuring every label on each redraw; about one label per 40 px.
+  // A fixed label rule spares ECharts measuring every label on each redraw; about one label per 40 px.
   const room = Math.max(4, Math.floor(((ctx.size ?? DEFAULT_SIZE).width - 130) / 40));
-  const step = Math.max(0, Math.ceil(levels.length / room) - 1);
-  return { ...base, type: 'category', name: 'n', data: levels.map((l) => String(l.n)), axisLabel: { color: p.foreground, interval: step }, axisTick: { interval: step } };
+  const step = levelTickStep(levels.length, room);
+  const first = levels[0]?.n ?? 0;
+  const interval = (k: number) => levelLabelShown(levels[k]?.n ?? NaN, first, step);
+  return { ...base, type: 'category', name: 'n', data: levels.map((l) => String(l.n)), axisLabel: { color: p.foreground, interval }, axisTick: { interval, alignWithLabel: true } };
+}
+
+/** Round label steps for level numbers: 1, 2, 5, 10, 20, 25, 50, 100, ... */
+const LEVEL_STEPS = [1, 2, 5, 10, 20, 25, 50];
+
+/** The smallest round step that gives at most `room` labels to `count` levels. */
+export function levelTickStep(count: number, room: number): number {
+  for (let p = 1; ; p *= 100) for (const m of LEVEL_STEPS) if (count / (m * p) <= room || m * p >= count) return m * p;
+}
+
+/**
+ * Whether level n gets a label: the multiples of the step (5, 10, 15, ...), and the first level when the
+ * next multiple is more than half a step away (1, 5, 10 for a box; 0, 5, 10 for an oscillator).
+ */
+export function levelLabelShown(n: number, first: number, step: number): boolean {
+  if (!Number.isFinite(n)) return false;
+  if (n % step === 0) return true;
+  return n === first && Math.ceil(first / step) * step - first > step / 2;
 }
 
 function spectrumYAxes(ctx: BuildContext, shown: (number | null)[], decades: DecadeAxis | null): Option[] {

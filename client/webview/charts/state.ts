@@ -6,18 +6,20 @@
 import { formatNumber } from '../../../server/src/shared/numbers';
 import type { PanelResult } from '../../src/messages';
 import { partialSum, sampledState, trapezoid } from '../physics';
+import { energySymbol } from '../../../server/src/shared/energyUnit';
 import { axisStyle, baseOption, pairs, unitSuffix, type BuildContext, type Option } from './context';
 import { resolved, totalWeight } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
+import { rangeNote, xRange, type XRange } from './xrange';
 
 function anyNonZero(a: ArrayLike<number>): boolean {
   for (let j = 0; j < a.length; j++) if (Math.abs(a[j]!) > 1e-12) return true;
   return false;
 }
 
-/** Energy window for the state view: the levels that matter, the mean and the well's floor. */
-export function energyWindow(result: PanelResult): [number, number] {
+/** Energy window for the state view: the levels that matter, the mean and the well's floor (within the shown x window, when given). */
+export function energyWindow(result: PanelResult, shown: { lo: number; hi: number } | null = null): [number, number] {
   // Levels holding at least 1 % of the largest weight set the top, so a slowly decaying tail does not squash the view.
   const es: number[] = [];
   let wmax = 0;
@@ -28,7 +30,11 @@ export function energyWindow(result: PanelResult): [number, number] {
   const s = result.energy?.spread;
   if (m !== null && m !== undefined) es.push(m + 2 * (s ?? 0));
   let lo = Math.min(0, ...es);
-  for (const v of result.samples?.potential ?? []) if (v !== null && Number.isFinite(v)) lo = Math.min(lo, v);
+  const xs = result.samples?.x ?? [];
+  (result.samples?.potential ?? []).forEach((v, j) => {
+    const inside = shown === null || ((xs[j] ?? 0) >= shown.lo && (xs[j] ?? 0) <= shown.hi);
+    if (v !== null && Number.isFinite(v) && inside) lo = Math.min(lo, v);
+  });
   const hi = es.length ? Math.max(...es) : 1;
   const pad = 0.12 * (hi - lo || 1);
   // Zero stays the bottom when nothing lies below it (a box, an oscillator): no empty band under the floor.
@@ -88,11 +94,11 @@ function centroid(x: ArrayLike<number | null>, rho: Float64Array): number | null
 }
 
 /** The level segments (length proportional to the weight, centred on the system) and the mean energy. */
-function levelSegments(ctx: BuildContext, ehi: number): Option[] {
+function levelSegments(ctx: BuildContext, ehi: number, win: XRange): Option[] {
   const { result, settings, palette: p } = ctx;
   const x = result.samples!.x;
-  const xmin = x[0] ?? 0;
-  const xmax = x[x.length - 1] ?? 1;
+  const xmin = win.lo;
+  const xmax = win.hi;
   // Centred on the symmetry centre, or else where the state sits (the centroid of the sampled |psi|^2).
   const center = result.system?.center ?? centroid(x, sampledState(result.samples!).density) ?? (xmin + xmax) / 2;
   const span = xmax - xmin;
@@ -122,14 +128,14 @@ const line = (ctx: BuildContext, id: string, name: string, color: string, data: 
   ...extra,
 });
 
-function energySeries(ctx: BuildContext, ehi: number): Option[] {
+function energySeries(ctx: BuildContext, ehi: number, win: XRange): Option[] {
   const { result, palette: p } = ctx;
   const s = result.samples!;
-  const walls = s.walls ? s.walls.map((w) => ({ xAxis: w, lineStyle: { color: p.foreground, width: 3, type: 'solid' }, label: { show: false } })) : [];
+  const walls = s.walls ? s.walls.filter((w) => w >= win.lo && w <= win.hi).map((w) => ({ xAxis: w, lineStyle: { color: p.foreground, width: 3, type: 'solid' }, label: { show: false } })) : [];
   const mark = (data: Option[]) => ({ markLine: { silent: true, symbol: 'none', animation: false, label: { show: false }, data } });
   const out = [
     line(ctx, 'potential', 'V(x)', p.potential, pairs(s.x, Float64Array.from(s.potential, (v) => v ?? NaN)), { yAxisIndex: 1, ...mark(walls) }),
-    line(ctx, 'levels', `levels E_n (length ∝ ${result.mixture ? 'P_n' : '|c_n|²'})`, p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi)) }),
+    line(ctx, 'levels', `levels E_n (length ∝ ${result.mixture ? 'P_n' : '|c_n|²'})`, p.odd, [], { yAxisIndex: 1, lineStyle: { color: p.odd, width: 2 }, ...mark(levelSegments(ctx, ehi, win)) }),
   ];
   const mean = result.energy?.mean;
   if (mean !== null && mean !== undefined) {
@@ -219,17 +225,17 @@ function densitySeries(ctx: BuildContext, density: Float64Array): { series: Opti
   return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
 }
 
-/** The state view's chart option and whether its two vertical axes share their zero. */
-export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean } {
+/** The state view's chart option, whether its two vertical axes share their zero, and the x window shown. */
+export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean; shown: XRange } {
   const { result, palette: p } = ctx;
-  const x = result.samples!.x;
   const lu = result.units.length;
-  const [elo, ehi] = energyWindow(result);
+  const win = xRange(result);
+  const [elo, ehi] = energyWindow(result, win);
   const psi = psiSeries(ctx);
   const mass = massSeries(ctx);
-  const series = [...psi.series, ...energySeries(ctx, ehi), ...mass.series];
+  const series = [...psi.series, ...energySeries(ctx, ehi, win), ...mass.series];
   const axes = stateAxes(psi.range, [elo, ehi]);
-  const xr = niceAxis(x[0] ?? 0, x[x.length - 1] ?? 1, xTicks(ctx.size ?? DEFAULT_SIZE));
+  const xr = niceAxis(win.lo, win.hi, xTicks(ctx.size ?? DEFAULT_SIZE));
   const nameGap = Math.round(p.fontSize * 2.2);
   const option = {
     ...baseOption(p),
@@ -244,12 +250,12 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     xAxis: { ...axisStyle(p), ...valueAxis(xr, p.foreground), name: `x${unitSuffix(lu)}`, nameLocation: 'middle', nameGap },
     yAxis: [
       { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: result.samples!.density ? 'ρ(x)' : 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
-      { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `E, V${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
+      { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `${energySymbol('E', result.units)}, ${energySymbol('V', result.units)}${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
       ...(mass.axis ? [mass.axis] : []),
     ],
     series,
   };
-  return { option, sharedZero: axes.shared };
+  return { option, sharedZero: axes.shared, shown: win };
 }
 
 /** The state view's chart option. */
@@ -257,7 +263,8 @@ export function stateOption(ctx: BuildContext): Option {
   return stateChart(ctx).option;
 }
 
-/** Notes beside the state view. */
-export function stateNotes(sharedZero: boolean): string[] {
-  return sharedZero ? [] : ['ψ and V have separate zeros here: on a shared zero one of them would fill less than 30 % of the height.'];
+/** Notes beside the state view: a clipped x window, and separate zeros of the two axes. */
+export function stateNotes(sharedZero: boolean, win: XRange | null = null, lengthUnit: string | null = null): string[] {
+  const clip = win ? rangeNote(win, lengthUnit) : null;
+  return [...(clip ? [clip] : []), ...(sharedZero ? [] : ['ψ and V have separate zeros here: on a shared zero one of them would fill less than 30 % of the height.'])];
 }

@@ -9,6 +9,7 @@ import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } fro
 import { evolvedShare, evolveSampling, hbarInFileUnits, MIN_SAMPLES_PER_PERIOD, relevantLevels } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { niceAxis, niceCeil, valueAxis } from './scale';
+import { rangeNote, xRange, type XRange } from './xrange';
 
 type Evolution = NonNullable<PanelResult['evolution']>;
 
@@ -80,18 +81,25 @@ function timeAxes(ctx: BuildContext): { xAxis: Option[]; yAxis: Option[] } {
   const tAxis = (grid: number) => ({ ...axisStyle(p), ...valueAxis(tr, p.foreground), gridIndex: grid, name: `t${unitSuffix(tu)}`, nameLocation: 'middle', nameGap });
   const name = (n: string) => ({ name: n, nameTextStyle: { color: p.foreground, align: 'left' } });
   const meanX = ev.meanX.filter((v): v is number => v !== null);
+  const win = timeRange(result);
   return {
     xAxis: [
-      dens ? { ...axisStyle(p), ...valueAxis(niceAxis(x[0] ?? 0, x[x.length - 1] ?? 1, ticks), p.foreground), gridIndex: 0, name: `x${unitSuffix(result.units.length)}`, nameLocation: 'middle', nameGap } : tAxis(0),
+      dens ? { ...axisStyle(p), ...valueAxis(niceAxis(win?.lo ?? x[0] ?? 0, win?.hi ?? x[x.length - 1] ?? 1, ticks), p.foreground), gridIndex: 0, name: `x${unitSuffix(result.units.length)}`, nameLocation: 'middle', nameGap } : tAxis(0),
       tAxis(1),
     ],
     yAxis: [
       dens
-        ? { ...axisStyle(p), ...valueAxis(niceAxis(0, dmax > 0 ? dmax : 1, 4), p.foreground), gridIndex: 0, ...name('|ψ|²') }
+        ? { ...axisStyle(p), ...valueAxis(niceAxis(0, dmax > 0 ? dmax : 1, 4), p.foreground), gridIndex: 0, ...name(result.mixture ? 'ρ(x,t)' : '|ψ|²') }
         : { ...axisStyle(p), ...valueAxis(niceAxis(Math.min(...meanX), Math.max(...meanX), 4), p.foreground), gridIndex: 0, ...name('⟨x⟩') },
       { ...axisStyle(p), ...valueAxis({ min: 0, max: 1, interval: 0.5 }, p.foreground), gridIndex: 1, ...name('survival') },
     ],
   };
+}
+
+/** The x window of the time view's |psi(x, t)|^2: where the state lives at any time shown, or null without densities. */
+export function timeRange(result: PanelResult): XRange | null {
+  const rows = result.evolution?.density;
+  return result.samples && rows && rows.length > 0 ? xRange(result, rows) : null;
 }
 
 /** The time view's chart option (the result must have an evolution with at least one time). */
@@ -122,6 +130,9 @@ export function timeOption(ctx: BuildContext): Option {
 /** What the time view cannot show or shows only in part, in words. */
 export function timeNotes(result: PanelResult): string[] {
   const notes: string[] = [];
+  const w = timeRange(result);
+  const clip = w ? rangeNote(w, result.units.length) : null;
+  if (clip) notes.push(clip);
   const share = evolvedShare(result);
   if (share) {
     notes.push(`Bound part only: the bound levels hold ${formatPercent(share.bound)} of the state; it is drawn renormalised to 1, so |ψ|² and the survival leave out the ${formatPercent(share.continuum)} in the continuum, which leaves the well.`);

@@ -13,6 +13,7 @@ import { BadValue } from './expand';
 import { TOL, type StateMeasurements, type Stop } from './measure';
 import { captureText, fmt, formatFactor, growthText, notSquareIntegrable, pct, plural, replaceFix, warn } from './findings';
 import { raiseHint } from '../shared/limits';
+import { formatNumber } from '../shared/numbers';
 
 /** What the checks need besides the measurements. */
 export interface CheckContext {
@@ -118,17 +119,19 @@ export const checkWalls: StateCheck = (m, ctx) => {
   if (!w || !w.broken) return [];
   const [a, b] = w.walls;
   const [va, vb] = w.values;
+  // Positions in the file's length unit, as written.
+  const lu = ctx.model.units.mode === 'physical' ? ` ${ctx.model.units.length.name}` : '';
   const at = (x: number, v: number): string =>
     !Number.isFinite(v)
-      ? `psi is infinite at ${fmt(x)}`
-      : `psi(${fmt(x)}) = ${fmt(v / w.rootNorm)} normalised${w.peak > 0 ? `, ${fmt(v / w.peak)} times its largest value` : ''}`;
+      ? `psi is infinite at ${fmt(x)}${lu}`
+      : `psi(${fmt(x)}${lu}) = ${fmt(v / w.rootNorm)} normalised${w.peak > 0 ? `, ${fmt(v / w.peak)} times its largest value` : ''}`;
   const offA = va > w.tolerance;
   const offB = vb > w.tolerance;
   const problems: string[] = [];
   if (offA && offB) problems.push(`it is not zero at the walls (${at(a, va)}; ${at(b, vb)})`);
   else if (offA) problems.push(`it is not zero at the left wall (${at(a, va)})`);
   else if (offB) problems.push(`it is not zero at the right wall (${at(b, vb)})`);
-  if (w.outside > 1e-9) problems.push(`${pct(w.outside)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)} and is dropped`);
+  if (w.outside > 1e-9) problems.push(`${pct(w.outside)} of |psi|^2 lies outside the walls at ${fmt(a)} and ${fmt(b)}${lu} and is dropped`);
   let message = `The state breaks the walls' boundary condition: ${problems.join('; ')}.`;
   let fixes: FixData[] | undefined;
   const spec = ctx.systemStmt.kind === 'system' && ctx.systemStmt.system.kind === 'potential' ? ctx.systemStmt.system : null;
@@ -183,9 +186,11 @@ export const checkSpike: StateCheck = (m, ctx) => {
 export const checkConvergence: StateCheck = (m, ctx) => {
   const span = ctx.stateSpan;
   const decay = m.decay;
-  const p = decay?.exponent != null ? ` |c_n| falls off as n^-${fmt(decay.exponent)}.` : '';
-  if (m.jumps.length > 0) return [warn('convergence', span, `The state jumps at x = ${fmt(m.jumps[0]!)}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`)];
-  if (m.kinks.length > 0) return [warn('convergence', span, `The state has a kink at x = ${fmt(m.kinks[0]!)}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info')];
+  // The fitted exponent to the three digits a fit over a few dozen levels resolves; positions in the file's length unit.
+  const p = decay?.exponent != null ? ` |c_n| falls off as n^-${formatNumber(decay.exponent, 3)}.` : '';
+  const u = ctx.model.units.mode === 'physical' ? ` ${ctx.model.units.length.name}` : '';
+  if (m.jumps.length > 0) return [warn('convergence', span, `The state jumps at x = ${fmt(m.jumps[0]!)}${u}: the expansion converges slowly (Gibbs ringing) and the energy mean is infinite.${p}`)];
+  if (m.kinks.length > 0) return [warn('convergence', span, `The state has a kink at x = ${fmt(m.kinks[0]!)}${u}: the energy mean is finite but the energy spread is infinite.${p}`, undefined, 'info')];
   // A nonzero value at a hard wall is the jump this decay shows: the boundary finding words it, with the measured law.
   const atHardWall = m.walls !== null && m.walls.values.some((v, i) => v > m.walls!.tolerance && m.walls!.hard[i]);
   if (decay && (decay.classification === 'kink' || (decay.classification === 'jump' && !atHardWall))) {

@@ -44,6 +44,7 @@ export function checkMore(x: MoreExpect, model: Model, result: AnalysisResult, d
         return;
       }
       compare(x.comparison, t, 'the revival time', unit(timeUnitName(u)), span, out, (v) => timeToDisplay(v, u));
+      record(result, span.start, t === null ? null : timeToDisplay(t, u), u.mode === 'physical' ? timeUnitName(u) : null);
       return;
     }
     case 'mean': {
@@ -53,9 +54,15 @@ export function checkMore(x: MoreExpect, model: Model, result: AnalysisResult, d
       const what = `<${x.observable}>(${fmt(timeToDisplay(x.time, u))}${unit(timeUnitName(u))})`;
       const name = u.mode === 'physical' ? (x.observable === 'x' ? u.length.name : `1/${u.length.name}`) : null;
       compare(x.comparison, v !== null && Number.isFinite(v) ? v : null, what, unit(name), span, out);
+      record(result, span.start, v !== null && Number.isFinite(v) ? v : null, name);
       return;
     }
   }
+}
+
+/** Keeps what an `expect` line measured on the result, for the hover. */
+function record(result: AnalysisResult, start: number, value: number | null, unit: string | null): void {
+  (result.measured ??= []).push({ start, value, unit });
 }
 
 /** The normalised coefficients of the levels, or null without them. */

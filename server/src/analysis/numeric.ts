@@ -132,7 +132,8 @@ function singularityOf(g: Singularity, unresolvedWeight: number): NonNullable<An
 function unitNames(model: Model): AnalysisResult['units'] {
   const u = model.units;
   if (u.mode === 'natural') return { length: null, energy: null, time: null };
-  return { length: u.length.name, energy: u.energy.name, time: u.time ? u.time.name : null };
+  const energyKind = u.energy.frequency ? 'frequency' : u.energy.name === 'invcm' ? 'wavenumber' : 'energy';
+  return { length: u.length.name, energy: u.energy.name, time: u.time ? u.time.name : null, energyKind };
 }
 
 /**

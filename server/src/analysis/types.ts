@@ -72,12 +72,25 @@ export interface SampleResult {
   density?: number[];
 }
 
+/** What a file's energy unit is (see `AnalysisResult.units`). */
+export type EnergyKind = 'energy' | 'frequency' | 'wavenumber';
+
 /** Everything known about a file after analysis. */
 export interface AnalysisResult {
   /** The parsed file (null only if parsing itself was skipped). */
   file: QFile | null;
   diagnostics: EngineDiagnostic[];
-  units: { length: string | null; energy: string | null; time: string | null };
+  /**
+   * Unit names; `energyKind` says what the energy unit is: an `energy`, a `frequency` f standing for the
+   * energy h f (`units um, MHz`: energies are E / h in MHz), or a `wavenumber` (`invcm`: E / (h c) in 1/cm).
+   * Absent in natural units.
+   */
+  units: { length: string | null; energy: string | null; time: string | null; energyKind?: EnergyKind };
+  /**
+   * What the `expect revival` and `expect mean` lines measured (for hovers; not in the JSON): the
+   * statement's start offset, the value in the unit it is compared in, and that unit (null when none).
+   */
+  measured?: { start: number; value: number | null; unit: string | null }[];
   system: {
     kind: 'box' | 'well' | 'oscillator' | 'potential';
     /** The first levels' energies (for hovers on the system line), at most 20. */

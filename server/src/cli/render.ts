@@ -3,6 +3,7 @@
  * Lines and columns come from the one offset-to-line table (language/positions.ts), numbers in the
  * table from the one formatter (shared/numbers.ts).
  */
+import { energySymbol, energyUnitDescription } from '../shared/energyUnit';
 import type { AnalysisResult } from '../analysis/types';
 import type { EngineDiagnostic } from '../language/catalogue';
 import { lineTable, positionAt, type LineTable } from '../language/positions';
@@ -84,7 +85,7 @@ export function renderJson(result: AnalysisResult, text: string): string {
  * header `n,energy,re,im,weight` and one row a level.
  */
 export function renderCsv(result: AnalysisResult, bare = false): string {
-  const unit = result.units.energy === null ? 'natural units (hbar = 1, mass = 1)' : result.units.energy;
+  const unit = energyUnitDescription(result.units);
   const rows = bare ? ['n,energy,re,im,weight'] : [`# energy in ${unit}`, 'n,energy,re,im,weight'];
   // A mixed state has no coefficients: its re and im cells are empty.
   for (const l of result.levels) rows.push([l.n, l.energy, l.re, l.im, l.weight].map((v) => (v === null ? '' : String(v))).join(','));
@@ -101,14 +102,14 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   const lines: string[] = [];
   lines.push(`== ${file}`);
   if (result.system) {
-    lines.push(`system: ${result.system.kind}${result.system.boundCount !== undefined ? ` (${result.system.boundCount} bound states)` : ''}`);
+    lines.push(`system: ${result.system.kind}${result.system.boundCount !== undefined ? ` (${result.system.boundCount} bound state${result.system.boundCount === 1 ? '' : 's'})` : ''}`);
   }
   if (result.levels.length > 0) {
     const top = result.levels.filter((l) => l.weight > 1e-12);
     const shown = top.slice(0, 12);
     // An oscillator's energies also in its quantum hbar omega, where they read n + 1/2.
     const inQ = (e: number): string => (quantum === null ? '' : `  ${num(e / quantum, 8).padStart(16)}`);
-    lines.push(`  ${'n'.padStart(4)}  ${('E_n' + (eu ? ` [${eu}]` : '')).padStart(16)}${quantum === null ? '' : `  ${'E_n [hbar omega]'.padStart(16)}`}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${(result.mixture ? 'P_n' : '|c_n|^2').padStart(13)}`);
+    lines.push(`  ${'n'.padStart(4)}  ${(energySymbol('E_n', result.units) + (eu ? ` [${eu}]` : '')).padStart(16)}${quantum === null ? '' : `  ${'E_n [hbar omega]'.padStart(16)}`}  ${'Re c_n'.padStart(13)}  ${'Im c_n'.padStart(13)}  ${(result.mixture ? 'P_n' : '|c_n|^2').padStart(13)}`);
     for (const l of shown) {
       lines.push(`  ${String(l.n).padStart(4)}  ${num(l.energy, 8).padStart(16)}${inQ(l.energy)}  ${num(l.re).padStart(13)}  ${num(l.im).padStart(13)}  ${num(l.weight).padStart(13)}`);
     }

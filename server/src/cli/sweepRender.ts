@@ -3,6 +3,7 @@
  * changes and the design window) and CSV (one row a point). The JSON is `expand --json`'s object,
  * whose `sweep` field holds the sweep (render.ts). Numbers go through the one formatter.
  */
+import { energyUnitDescription } from '../shared/energyUnit';
 import type { AnalysisResult } from '../analysis/types';
 import type { SweepResult } from '../analysis/sweep/index';
 import { lineTable } from '../language/positions';
@@ -117,7 +118,7 @@ export function renderSweepCsv(result: AnalysisResult, bare = false): string {
   const fixed = ['valid', 'bound', 'captured', 'continuum', 'mean', 'spread', ...ns.map((n) => `P${n}`), ...ns.map((n) => `E${n}`), ...s.expects.map((x) => `expect${x.line}`)];
   // A swept name that equals another column's name is written let:NAME, so every header is unique.
   const header = [...s.axes.map((a) => (fixed.includes(a.name) ? `let:${a.name}` : a.name)), ...fixed];
-  const units = [...s.axes.map((a) => `${a.name} in ${a.unit ?? 'natural units'}`), `energy in ${result.units.energy ?? 'natural units (hbar = 1, mass = 1)'}`].join('; ');
+  const units = [...s.axes.map((a) => `${a.name} in ${a.unit ?? 'natural units'}`), `energy in ${energyUnitDescription(result.units)}`].join('; ');
   const rows = bare ? [header.join(',')] : [`# ${units}`, header.join(',')];
   const cell = (v: number | null | undefined): string => (v === null || v === undefined || !Number.isFinite(v) ? '' : String(v));
   for (const p of s.points) {

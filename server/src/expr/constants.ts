@@ -132,6 +132,11 @@ export const UNITS: ReadonlyMap<string, UnitInfo> = new Map<string, UnitInfo>([
   ['m_p', unit(MP_SI, 'mass', 'proton mass (CODATA 2018)')],
   ['u', unit(U_SI, 'mass', 'atomic mass constant (CODATA 2018)')],
   ['K', unit(1, 'temperature', 'kelvin (temperatures, e.g. of a thermal state)')],
+  ['mK', unit(1e-3, 'temperature', 'millikelvin')],
+  ['uK', unit(1e-6, 'temperature', 'microkelvin')],
+  ['\u00B5K', unit(1e-6, 'temperature', 'microkelvin')],
+  ['\u03BCK', unit(1e-6, 'temperature', 'microkelvin')],
+  ['nK', unit(1e-9, 'temperature', 'nanokelvin')],
 ]);
 
 /** A named physical constant (not a unit: it never appears on a `units` line). */
@@ -159,3 +164,14 @@ export const BUILTIN_NUMBERS: ReadonlyMap<string, { re: number; im: number; doc:
   ['pi', { re: Math.PI, im: 0, doc: 'pi, the ratio of circumference to diameter' }],
   ['i', { re: 0, im: 1, doc: 'the imaginary unit' }],
 ]);
+
+/**
+ * The energy in J of one unit that may name a file's energy unit: an energy unit's own value, or h f for a
+ * frequency unit (a `units` line may give the energy as a frequency, E = h f). Null for other names.
+ */
+export function energyUnitSI(name: string): number | null {
+  const info = UNITS.get(name);
+  if (!info) return null;
+  if (info.kind === 'energy') return info.si;
+  return info.kind === 'frequency' ? H_SI * info.si : null;
+}

@@ -49,7 +49,8 @@ export type UnitSystem =
   | {
       mode: 'physical';
       length: { name: string; si: number };
-      energy: { name: string; si: number };
+      /** `frequency`: the unit is a frequency f standing for the energy h f (`units um, MHz`), `si` is h f in J. */
+      energy: { name: string; si: number; frequency?: true };
       /** The unit times are shown in; absent means the internal time unit hbar / energy. */
       time: { name: string; si: number } | null;
     };

@@ -7,7 +7,7 @@
 import type { Span } from '../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../language/catalogue';
 import { didYouMean, editDistance } from '../language/suggest';
-import { CONSTANTS, HBAR_SI, QE_SI, UNITS, type UnitKind } from './constants';
+import { CONSTANTS, H_SI, HBAR_SI, QE_SI, UNITS, type UnitKind } from './constants';
 import type { Dimension, Prepared, Scope, ScopeValue, UnitSystem } from './types';
 
 /** The natural unit system: hbar = 1, mass = 1 by default, and no value carries a unit. */
@@ -16,8 +16,24 @@ export const NATURAL: UnitSystem = { mode: 'natural' };
 /** Names allowed on a `units` line, by kind. */
 function displayUnitNames(): string[] {
   const out: string[] = [];
-  for (const [name, info] of UNITS) if (info.kind === 'length' || info.kind === 'energy' || info.kind === 'time') out.push(name);
+  for (const [name, info] of UNITS) if (info.kind === 'length' || info.kind === 'energy' || info.kind === 'time' || info.kind === 'frequency') out.push(name);
   return out;
+}
+
+/**
+ * The role a unit plays on a `units` line. A frequency stands for the energy h f (CODATA 2018: h exact),
+ * so `units um, MHz` shows energies as E / h in MHz.
+ */
+function lineRole(kind: UnitKind): 'length' | 'energy' | 'time' | null {
+  if (kind === 'frequency') return 'energy';
+  return kind === 'length' || kind === 'energy' || kind === 'time' ? kind : null;
+}
+
+/** The time unit that is one over a frequency unit (MHz: us), or null; the default time unit of a frequency-unit file. */
+export function reciprocalTime(frequencySI: number): { name: string; si: number } | null {
+  for (const [name, info] of UNITS)
+    if (info.kind === 'time' && /^[a-z]+$/.test(name) && Math.abs(info.si * frequencySI - 1) < 1e-12) return { name, si: info.si };
+  return null;
 }
 
 /**
@@ -43,7 +59,7 @@ function unitSuggestion(word: string): string {
 export function makeUnitSystem(units: { name: string; span: Span }[] | null): Prepared<UnitSystem> {
   if (units === null) return { result: NATURAL, diagnostics: [] };
   const diagnostics: EngineDiagnostic[] = [];
-  const found: Partial<Record<'length' | 'energy' | 'time', { name: string; si: number }>> = {};
+  const found: Partial<Record<'length' | 'energy' | 'time', { name: string; si: number; frequency?: number }>> = {};
   for (const u of units) {
     const info = UNITS.get(u.name);
     if (!info) {
@@ -52,10 +68,10 @@ export function makeUnitSystem(units: { name: string; span: Span }[] | null): Pr
       );
       continue;
     }
-    const kind: UnitKind = info.kind;
-    if (kind !== 'length' && kind !== 'energy' && kind !== 'time') {
+    const kind = lineRole(info.kind);
+    if (kind === null) {
       diagnostics.push(
-        diagnostic('units', u.span.start, u.span.end, `'${u.name}' is a ${kind} unit; the units line lists a length, an energy and optionally a time.`),
+        diagnostic('units', u.span.start, u.span.end, `'${u.name}' is a ${info.kind} unit; the units line lists a length, an energy (or a frequency standing for h f) and optionally a time.`),
       );
       continue;
     }
@@ -65,7 +81,8 @@ export function makeUnitSystem(units: { name: string; span: Span }[] | null): Pr
       );
       continue;
     }
-    found[kind] = { name: u.name, si: info.si };
+    // A frequency unit is the energy h times one of it; `frequency` keeps its SI value for the default time unit.
+    found[kind] = info.kind === 'frequency' ? { name: u.name, si: H_SI * info.si, frequency: info.si } : { name: u.name, si: info.si };
   }
   const whole =
     units.length > 0 ? { start: units[0]!.span.start, end: units[units.length - 1]!.span.end } : { start: 0, end: 0 };
@@ -74,8 +91,11 @@ export function makeUnitSystem(units: { name: string; span: Span }[] | null): Pr
   if (!found.energy && !diagnostics.some((d) => d.code === 'units' && /Unknown/.test(d.message)))
     diagnostics.push(diagnostic('units', whole.start, whole.end, 'The units line needs an energy unit (for example meV).'));
   if (!found.length || !found.energy || diagnostics.length > 0) return { result: null, diagnostics };
+  const { frequency, ...energy } = found.energy;
+  // With a frequency for the energy and no time unit, times are shown in its reciprocal (MHz: us), not in 1/(2 pi MHz).
+  const time = found.time ?? (frequency !== undefined ? reciprocalTime(frequency) : null);
   return {
-    result: { mode: 'physical', length: found.length, energy: found.energy, time: found.time ?? null },
+    result: { mode: 'physical', length: found.length, energy: frequency !== undefined ? { ...energy, frequency: true } : energy, time },
     diagnostics,
   };
 }

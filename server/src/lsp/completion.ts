@@ -87,7 +87,7 @@ function keywordFits(view: DocView, keyword: string, at: number): boolean {
 }
 
 /** Where a space asks for a list: right after a word that must be followed by another. */
-const AFTER_SPACE = /^(system|state|expect|expect\s+parity|evolve|evolve\s+to\s+\S.*|state\s+eigen\b.*\bof)\s+$/;
+const AFTER_SPACE = /^(system|state|expect|expect\s+parity|evolve|evolve\s+to\s+\S.*|state\s+eigen\b.*\bof|system\s+V\s*\(\s*x\s*\)[^]*\bover\s*\[[^\]]*\])\s+$/;
 
 /** Completion items at `offset`. */
 export function completeAt(view: DocView, offset: number, options: CompletionOptions): CompletionItem[] {
@@ -107,12 +107,16 @@ export function completeAt(view: DocView, offset: number, options: CompletionOpt
   if (options.trigger === ' ' && !AFTER_SPACE.test(head) && !(call && /^\s*$/.test(call.current) && CONSTRUCTORS.some((c) => c.name === call.name))) return [];
   if (/^system\s+[A-Za-z]*$/.test(head) || /^state\s+eigen\b.*\bof\s+[A-Za-z]*$/.test(head)) return constructors('system', units, options);
   if (/^state\s+[A-Za-z]*$/.test(head)) return constructors('state', units, options);
-  if (/^units\b/.test(head)) return UNIT_NAMES.filter((u) => u.kind === 'length' || u.kind === 'energy' || u.kind === 'time').map((u) => item(u.name, CompletionItemKind.Unit, `${u.kind}: ${u.doc}`, null, options));
+  if (/^units\b/.test(head)) return UNIT_NAMES.filter((u) => ['length', 'energy', 'time', 'frequency'].includes(u.kind)).map((u) => item(u.name, CompletionItemKind.Unit, u.kind === 'frequency' ? `energy as a frequency (E = h f): ${u.doc}` : `${u.kind}: ${u.doc}`, null, options));
   // 'expect window' judges a sweep: offered only in a file with a `sweep` line.
   const swept = view.file.statements.some((st) => st.kind === 'sweep');
   if (/^expect\s+[a-z]*$/.test(head)) return EXPECT_KINDS.filter((k) => swept || k.name !== 'window').map((k) => item(k.name, CompletionItemKind.Keyword, k.doc, templateFor('expect', k.name, units, k.snippet), options));
   if (/^expect\s+parity\s+[a-z]*$/.test(head)) return PARITIES.map((p) => item(p, CompletionItemKind.EnumMember, `parity ${p}`, null, options));
   if (/^evolve\s+[a-z]*$/.test(head)) return [item('to', CompletionItemKind.Keyword, 'The time to evolve up to, then the number of steps.', evolveRest(units), options)];
+  // After a potential's interval: the mass profile it may carry (`with mass(x) = ...`), in the file's units.
+  if (/^system\s+V\s*\(\s*x\s*\)[^]*\bover\s*\[[^\]]*\]\s+[a-z]*$/.test(head) && !/\bwith\b/.test(head)) {
+    return [item('with mass(x) =', CompletionItemKind.Keyword, 'A mass that depends on x (BenDaniel-Duke kinetic energy); the mass line holds where it names none.', `with mass(x) = \${1:${units ? '1 m_e' : '1'}}`, options)];
+  }
   const names = expressionNames(view, start, head, options);
   // After the time: `steps`, beside the names and units the time may still take.
   if (/^evolve\s+to\s+\S.*\s[a-z]*$/.test(head) && !/\bsteps\b/.test(head)) return [item('steps', CompletionItemKind.Keyword, 'How many time steps (default 200).', 'steps ${1:200}', options, ' steps'), ...names];

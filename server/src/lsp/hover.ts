@@ -10,6 +10,7 @@ import { rangeOf } from './positions';
 import { fmt, fmtComplex, fmtPhase, withUnit } from './format';
 import { FUNCTIONS, KEYWORDS } from './vocabulary';
 import { oscillatorQuantum, quantaText } from '../shared/quanta';
+import { H_SI, UNITS } from '../expr/constants';
 
 /** How many levels the state hover lists, and how many energies the system hover lists. */
 const TOP_LEVELS = 6;
@@ -132,7 +133,9 @@ function expectHover(view: DocView, s: Extract<Statement, { kind: 'expect' }>): 
     } else if (x.kind === 'continuum') {
       if (r.continuum !== undefined) measured = fmt(r.continuum, 12);
     } else if (x.kind === 'revival' || x.kind === 'mean') {
-      // Measured where the line is checked: its finding names the value when it fails.
+      // Measured where the line is checked, and kept on the result for this hover.
+      const m = r.measured?.find((v) => v.start === s.span.start);
+      if (m) measured = m.value === null ? (x.kind === 'revival' ? 'no revival found' : 'not available') : fmt(m.value, 12) + withUnit(m.unit);
     } else {
       const from = levelNumber(x.from.text);
       const to = x.to ? levelNumber(x.to.text) : from;
@@ -161,6 +164,20 @@ function letHover(view: DocView, name: string): string[] {
   return lines;
 }
 
+/** The `units` line: what each name is, and what a frequency standing for an energy means. */
+function unitsHover(view: DocView, s: Extract<Statement, { kind: 'units' }>): string[] {
+  const lines = ['**units**', ''];
+  for (const u of s.units) {
+    const info = UNITS.get(u.name);
+    if (!info) continue;
+    if (info.kind === 'frequency') lines.push(`\`${u.name}\`: energies as the frequency E/h (${info.doc}; h = ${H_SI} J s, exact)  `);
+    else lines.push(`\`${u.name}\`: ${info.kind === 'energy' && u.name === 'invcm' ? 'energies as the wavenumber E/(h c)' : info.kind} (${info.doc})  `);
+  }
+  const t = view.result?.units.time;
+  if (t && !s.units.some((u) => u.name === t)) lines.push(`times in \`${t}\`, one over the frequency unit  `);
+  return lines;
+}
+
 /** The built-in function called at `offset` (the name under the cursor, followed by '('), or null. */
 function functionAt(text: string, offset: number): { doc: string; start: number; end: number } | null {
   const word = /[A-Za-z0-9_]/;
@@ -186,6 +203,7 @@ export function hoverAt(view: DocView, offset: number): Hover | null {
   if (s.kind === 'state') lines = stateHover(view);
   else if (s.kind === 'system') lines = systemHover(view);
   else if (s.kind === 'expect') lines = expectHover(view, s);
+  else if (s.kind === 'units') lines = unitsHover(view, s);
   else if (offset >= s.keywordSpan.start && offset <= s.keywordSpan.end) {
     const k = KEYWORDS.find((w) => w.name === s.kind);
     if (k) lines = [`**${k.name}**`, '', k.doc];

@@ -7,6 +7,7 @@
  */
 import type { QFile } from '../language/ast';
 import { UNITS } from '../expr/constants';
+import { reciprocalTime } from '../expr/units';
 
 /** The units a file's values carry, or null in natural units. */
 export interface FileUnits {
@@ -14,6 +15,8 @@ export interface FileUnits {
   energy: string;
   /** The `units` line's time unit, or `ps` when it names none (a time must still carry a unit). */
   time: string;
+  /** One energy unit as a formula writes it: `1 meV`, or `h * 1 MHz` (a formula's frequency is not converted to an energy). */
+  formulaEnergy: string;
 }
 
 /**
@@ -27,7 +30,11 @@ export function fileUnits(file: QFile, text: string): FileUnits | null {
   else if ((file.rejected ?? []).some((r) => r.keyword === 'units')) names = (/^units\b([^\n#]*)/m.exec(text)?.[1] ?? '').split(/[\s,]+/);
   else return null;
   const of = (kind: string, fallback: string): string => names.find((n) => UNITS.get(n)?.kind === kind) ?? fallback;
-  return { length: of('length', 'nm'), energy: of('energy', 'meV'), time: of('time', 'ps') };
+  // A frequency on the units line is the energy unit (E = h f); times then default to its reciprocal (MHz: us).
+  const hz = names.find((n) => UNITS.get(n)?.kind === 'frequency');
+  const energy = hz ?? of('energy', 'meV');
+  const time = of('time', (hz && reciprocalTime(UNITS.get(hz)!.si)?.name) || 'ps');
+  return { length: of('length', 'nm'), energy, time, formulaEnergy: hz ? `h * 1 ${hz}` : `1 ${energy}` };
 }
 
 type Template = (u: FileUnits | null) => string;
@@ -54,7 +61,7 @@ const CONSTRUCTOR_TEMPLATES: Record<string, Template> = {
   well: (u) => `well(depth = \${1:${en(u, u ? '1' : '10')}}, width = \${2:${len(u, u ? '1' : '2')}})`,
   // In physical units the three ways of giving the oscillator take different dimensions: the level spacing fits the file's energy unit.
   oscillator: (u) => (u ? `oscillator(quantum = \${1:1 ${u.energy}})` : 'oscillator(${1|omega,frequency,quantum|} = ${2:1})'),
-  V: (u) => (u ? `V(x) = \${1:1 ${u.energy} * (x / ${u.length})^2} over [\${2:-5 ${u.length}}, \${3:5 ${u.length}}]` : 'V(x) = ${1:x^2 / 2} over [${2:-5}, ${3:5}]'),
+  V: (u) => (u ? `V(x) = \${1:${u.formulaEnergy} * (x / ${u.length})^2} over [\${2:-5 ${u.length}}, \${3:5 ${u.length}}]` : 'V(x) = ${1:x^2 / 2} over [${2:-5}, ${3:5}]'),
   psi: (u) => `psi(x) = \${1:x * (${len(u, '1')} - x)}`,
   thermal: (u) => (u ? `thermal(temperature = \${1:300 K}) of \${2:oscillator(quantum = 1 ${u.energy})}` : 'thermal(nbar = ${1:0.3}) of ${2:oscillator(omega = 1)}'),
   mixture: (u) => `mixture(\${1:0.5}: \${2:eigen(1) of box(${len(u, '0')}, ${len(u, '1')})}, \${3:0.5}: \${4:eigen(2) of box(${len(u, '0')}, ${len(u, '1')})})`,

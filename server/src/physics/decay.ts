@@ -17,6 +17,20 @@ export interface DecayOptions {
   block?: number;
 }
 
+/** |c_n|^2 of the last levels at or above this share of the largest (|c_n| within a factor 10): the tail has not started to fall. */
+const NOT_FALLING = 1e-2;
+
+/**
+ * Whether the tail has not started to fall: the last `count` levels still hold a tenth or more of the
+ * largest |c_n| (a displaced high level whose weights peak near the top of the basis). Such a tail has
+ * no decay law to fit; extrapolating one would call a rising tail algebraic.
+ */
+function notFalling(weights: Float64Array, n: number, count: number, max: number): boolean {
+  let last = 0;
+  for (let i = Math.max(0, n - count); i < n; i++) if (Number.isFinite(weights[i]) && weights[i] > last) last = weights[i];
+  return last >= NOT_FALLING * max;
+}
+
 /** The fitted tail law. */
 export interface DecayFit {
   /** p in |c_n| ~ A n^-p, or null when the decay is geometric (faster than any power). */
@@ -94,7 +108,7 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
   };
   let max = 0;
   for (let i = 0; i < n; i++) if (Number.isFinite(weights[i]) && weights[i] > max) max = weights[i];
-  if (!(max > 0)) return unknown;
+  if (!(max > 0) || notFalling(weights, n, minPoints, max)) return unknown;
   const keep: number[] = [];
   for (let i = 0; i < n; i++) {
     if (Number.isFinite(weights[i]) && weights[i] > floor * max && labels[i] >= 1) keep.push(i);
