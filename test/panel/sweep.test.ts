@@ -184,10 +184,10 @@ describe('the sweep view in Chromium', () => {
     const close: SweepResult = {
       ...gate,
       located: [
-        { kind: 'bound', at: 5, bracket: [5, 5], before: 1, after: 2, row: null },
-        { kind: 'expect', expect: 0, at: 5.05, bracket: [5.05, 5.05], before: 1, after: 0, row: null },
-        { kind: 'expect', expect: 0, at: 5.1, bracket: [5.1, 5.1], before: 0, after: 1, row: null },
-        { kind: 'bound', at: 5.15, bracket: [5.15, 5.15], before: 2, after: 3, row: null },
+        { kind: 'bound', at: 5, bracket: [5, 5], before: 1, after: 2, row: null, axis: 0 },
+        { kind: 'expect', expect: 0, at: 5.05, bracket: [5.05, 5.05], before: 1, after: 0, row: null, axis: 0 },
+        { kind: 'expect', expect: 0, at: 5.1, bracket: [5.1, 5.1], before: 0, after: 1, row: null, axis: 0 },
+        { kind: 'bound', at: 5.15, bracket: [5.15, 5.15], before: 2, after: 3, row: null, axis: 0 },
       ],
     };
     for (const width of [480, 1400]) {

@@ -151,11 +151,11 @@ function contourSeries(sweep: SweepResult, p: Palette, name: string): Option[] {
   );
 }
 
-/** The located steps of the bound-level count, row by row, as markers. */
+/** The located steps of the bound-level count as markers: along the first axis in each row, along the second in each column (`axis` 1: `at` is then the second value, `row` the first). */
 function stepSeries(sweep: SweepResult, p: Palette): Option[] {
   const steps = sweep.located.filter((l) => l.kind === 'bound' && l.row !== null);
   if (steps.length === 0) return [];
-  return [{ id: 'bound-steps', name: 'bound count steps', type: 'scatter', silent: true, tooltip: { show: false }, symbol: 'diamond', symbolSize: 7, z: 4, data: steps.map((l) => [l.at, l.row!, -1]), itemStyle: { color: p.foreground, borderColor: p.background, borderWidth: 1 } }];
+  return [{ id: 'bound-steps', name: 'bound count steps', type: 'scatter', silent: true, tooltip: { show: false }, symbol: 'diamond', symbolSize: 7, z: 4, data: steps.map((l) => (l.axis === 1 ? [l.row!, l.at, -1] : [l.at, l.row!, -1])), itemStyle: { color: p.foreground, borderColor: p.background, borderWidth: 1 } }];
 }
 
 /** What only the map needs to say. */
