@@ -21,7 +21,6 @@ import { signatureAt } from './signature';
 import { quickFixes } from './actions';
 import { lensesFor, letHints } from './lens';
 import { definitionAt, documentSymbols, prepareRenameAt, referencesAt, renameAt } from './symbols';
-import { registerSweepDetail } from './sweepDetail';
 
 type Handler<P, R> = (params: P, token: CancellationToken) => Promise<R | ResponseError<void>>;
 
@@ -103,5 +102,4 @@ export function registerHandlers(connection: Connection, store: DocumentStore, s
     if (r instanceof ResponseError) throw r;
     return r;
   });
-  registerSweepDetail(connection, store, session, logError);
 }

@@ -12,6 +12,7 @@ import { registerHandlers } from './handlers';
 import { registerSweep } from './sweep';
 import { SweepRuns } from './sweepRuns';
 import { DataFiles } from './dataWatch';
+import { registerSweepDetail } from './sweepDetail';
 
 /** Options of `startServer`. */
 export interface ServerOptions {
@@ -81,6 +82,7 @@ export function startServer(connection: Connection, options: ServerOptions): voi
   });
 
   registerHandlers(connection, store, session, logError);
+  registerSweepDetail(connection, store, session, logError, (uri, text) => dataFiles.read(uri, text));
   if (sweeps) registerSweep(connection, store, session, sweeps);
   const documents = new TextDocuments(TextDocument);
   store.listen(documents);

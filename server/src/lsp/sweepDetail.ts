@@ -10,6 +10,7 @@ import { Worker } from 'node:worker_threads';
 import { join } from 'node:path';
 import type { CancellationToken, Connection } from 'vscode-languageserver';
 import { pointText } from '../analysis/sweep/pointText';
+import type { DataFile } from '../analysis/options';
 import type { ResultParams } from '../protocol';
 import type { DocumentStore } from './documents';
 import type { Session } from './session';
@@ -30,8 +31,19 @@ function validParams(v: unknown): v is SweepPointResultParams {
   return typeof p?.textDocument?.uri === 'string' && Array.isArray(p.at) && p.at.length >= 1 && p.at.length <= 2 && p.at.every((x) => typeof x === 'number' && Number.isFinite(x));
 }
 
-/** Registers the request on `connection`; `workerPath` defaults to the analysis worker beside this bundle. */
-export function registerSweepDetail(connection: Connection, store: DocumentStore, session: Session, logError: (message: string) => void, workerPath = join(__dirname, 'worker.js')): void {
+/**
+ * Registers the request on `connection`. `data` reads the data files a text names (lsp/dataWatch.ts, the
+ * same reader the document's own analysis uses), so a `samples(...)` state is analysed with its file;
+ * `workerPath` defaults to the analysis worker beside this bundle.
+ */
+export function registerSweepDetail(
+  connection: Connection,
+  store: DocumentStore,
+  session: Session,
+  logError: (message: string) => void,
+  data: (uri: string, text: string) => [string, DataFile][],
+  workerPath = join(__dirname, 'worker.js'),
+): void {
   connection.onRequest(SWEEP_POINT_RESULT_REQUEST, async (params: unknown, token: CancellationToken): Promise<SweepPointAnswer> => {
     if (!validParams(params)) return null;
     const doc = store.get(params.textDocument.uri);
@@ -50,6 +62,7 @@ export function registerSweepDetail(connection: Connection, store: DocumentStore
         maxMillis: Math.max(50, Math.floor(s.timeBudgetMs * ENGINE_SHARE)),
         limits: { ...s.limits },
         cancel: new Int32Array(new SharedArrayBuffer(4)),
+        data: data(doc.uri, doc.text),
       };
       const result = await runOnce(workerPath, job, s.timeBudgetMs + LOAD_SLACK_MS, token);
       if (!result) return null;
