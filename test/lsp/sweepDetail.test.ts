@@ -3,6 +3,10 @@
  * the full analysis of one sweep point, with samples for the panel, its findings at the file's own
  * offsets, and null for values off the sweep, a file without a sweep or an untrusted workspace.
  */
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { afterEach, describe, expect, it } from 'vitest';
 import { startClient, type TestClient } from './client';
 
@@ -61,5 +65,24 @@ describe('eigenspan/sweepPointResult', () => {
     client.open(URI, WIDENED);
     await client.diagnostics(URI);
     expect(await ask(client, [2])).toBeNull();
+  });
+
+  it("analyses a samples state's point with its data file", async () => {
+    // Samples of the oscillator's ground state exp(-x^2 / 2) (natural units, any text), swept over omega:
+    // at omega = 1 the samples are the ground state itself, |c_0|^2 = 1 to the sampling's accuracy; at
+    // omega = 2 the overlap of the two Gaussians is 2 sqrt(2) / 3 (derived: <g_1|g_2>^2 = 2 sqrt(w1 w2) / (w1 + w2)).
+    const dir = mkdtempSync(join(tmpdir(), 'eigenspan-lsp-detail-'));
+    const rows = ['x, re', ...Array.from({ length: 81 }, (_, i) => `${(-8 + 0.2 * i).toFixed(4)}, ${Math.exp(-((-8 + 0.2 * i) ** 2) / 2).toPrecision(12)}`)];
+    writeFileSync(join(dir, 'ground.csv'), rows.join('\n') + '\n');
+    const text = 'let w = 1\nsystem oscillator(omega = w)\nstate samples("ground.csv")\nbasis 20\nsweep w from 0.5 to 2 steps 6\n';
+    const uri = pathToFileURL(join(dir, 'sampled.qstate')).href;
+    writeFileSync(join(dir, 'sampled.qstate'), text);
+    client = await startClient({ initializationOptions: { panel: true } });
+    client.open(uri, text);
+    await client.result(uri);
+    const at1 = await ask(client, [1], uri);
+    expect(at1!.levels[0]!.weight).toBeGreaterThan(0.9999);
+    const at2 = await ask(client, [2], uri);
+    expect(Math.abs(at2!.levels[0]!.weight - (2 * Math.SQRT2) / 3)).toBeLessThan(1e-4);
   });
 });
