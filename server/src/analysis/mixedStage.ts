@@ -10,6 +10,7 @@
  * one part). The revival time is the spectrum's own where it has one (box, oscillator), otherwise that
  * of the heaviest part.
  */
+import type { Budget } from '../physics/budget';
 import type { AnalysisResult, EvolutionResult } from './types';
 import type { Eigenbasis } from '../physics/types';
 import { evolve, revivalTime } from '../physics/evolution';
@@ -61,7 +62,7 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   checkExpects(model, result, out, { basis, levels: m.levels, budget: ctx.budget });
   const plotX = plotGrid(basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = mixedEvolution(model, basis, measured, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100);
+  if (input.samples) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100, ctx.budget);
 }
 
 /** Coefficients of one measured part. */
@@ -112,8 +113,8 @@ function mixedEvolution(model: Model, basis: Eigenbasis, parts: MeasuredPart[], 
 }
 
 /** The plot samples of a mixture: the potential and levels as for a pure state, and the density sum_k p_k |psi_k(x)|^2. */
-function mixedSamples(mp: MixedParts, parts: MeasuredPart[], basis: Eigenbasis, xs: Float64Array, maxLevels: number): AnalysisResult['samples'] {
-  const first = samples(mp.parts[0]!.state, basis, xs, parts[0]!.m.norm, parts[0]!.m.levels, maxLevels);
+function mixedSamples(mp: MixedParts, parts: MeasuredPart[], basis: Eigenbasis, xs: Float64Array, maxLevels: number, budget: Budget): AnalysisResult['samples'] {
+  const first = samples(mp.parts[0]!.state, basis, xs, parts[0]!.m.norm, parts[0]!.m.levels, maxLevels, budget);
   const density = new Float64Array(xs.length);
   mp.parts.forEach((part, k) => {
     const v = part.state.evaluate(xs, 0);
