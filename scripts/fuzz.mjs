@@ -44,8 +44,24 @@ const jobs = Math.max(1, flag('--jobs', 2));
 const spawnRuns = flag('--spawn', ci ? 5 : 20);
 const frames = !process.argv.includes('--no-frames');
 const cpu = !process.argv.includes('--wall');
-// A child that has not moved on to its next case for this long is hung.
+// A child that has not moved on to its next case for this long is hung: CPU time of the child when it
+// can be read (Linux's /proc), so a loaded machine does not make a slow case look hung; wall time otherwise.
 const hangMs = Math.max(30_000, 10 * budget);
+
+/** CPU milliseconds the process `pid` has used (user and system), or null where /proc cannot say. */
+function cpuMsOf(pid) {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    // utime and stime are fields 14 and 15 of the line, in clock ticks (100 a second on Linux).
+    return ((Number(fields[11]) + Number(fields[12])) * 1000) / 100;
+  } catch {
+    return null;
+  }
+}
+
+// Progress once a minute (cases started by each child), so a long run shows how far it got.
+const progress = [];
 
 const work = mkdtempSync(join(tmpdir(), 'eigenspan-fuzz-run-'));
 const bundle = join(work, 'child.cjs');
@@ -80,7 +96,9 @@ function runChild(j) {
     const child = spawn(process.execPath, ['-e', `require(${JSON.stringify(bundle)})`], { stdio: ['ignore', 'pipe', 'inherit'], env });
     let out = '';
     let last = '';
-    let lastChange = Date.now();
+    const clockOf = () => cpuMsOf(child.pid) ?? Date.now();
+    let lastChange = clockOf();
+    let lastWall = Date.now();
     child.stdout.on('data', (d) => (out += d));
     const watch = setInterval(() => {
       let now = '';
@@ -91,8 +109,15 @@ function runChild(j) {
       }
       if (now !== last) {
         last = now;
-        lastChange = Date.now();
-      } else if (Date.now() - lastChange > hangMs) {
+        lastChange = clockOf();
+        lastWall = Date.now();
+        try {
+          progress[j] = JSON.parse(now).index + 1;
+        } catch {
+          // Half written.
+        }
+      } else if (clockOf() - lastChange > hangMs || Date.now() - lastWall > 20 * hangMs) {
+        // (A child blocked without using the CPU, on a read say, is caught by the wall clock, 20 times later.)
         child.kill('SIGKILL');
       }
     }, 1000);
@@ -112,7 +137,7 @@ function runChild(j) {
       } catch {
         // No case recorded.
       }
-      const why = signal === 'SIGKILL' ? `hung for more than ${hangMs} ms` : `the process died (exit ${code}, signal ${signal})`;
+      const why = signal === 'SIGKILL' ? `hung for more than ${hangMs} ms${cpuMsOf(process.pid) !== null ? ' of CPU time (or 20 times that of wall time)' : ''}` : `the process died (exit ${code}, signal ${signal})`;
       // The cases before the one it stopped on ran; their own failures went down with the worker.
       resolve({ cases: done, failures: c ? [{ case: c, problems: [why], ms: hangMs }] : [], slowest: { ms: 0, case: null }, slow: [], times: [], byKind: {}, totalMs: 0, died: `${why} after ${done} cases` });
     });
@@ -120,7 +145,12 @@ function runChild(j) {
 }
 
 const started = Date.now();
+const ticker = setInterval(() => {
+  const done = progress.reduce((a, x) => a + (x ?? 0), 0);
+  console.log(`fuzz: ${done} of ${cases} cases started after ${((Date.now() - started) / 1000).toFixed(0)} s, load average ${loadavg()[0].toFixed(1)}`);
+}, 60_000);
 const reports = await Promise.all(Array.from({ length: jobs }, (_, j) => runChild(j)));
+clearInterval(ticker);
 
 // A few runs of the built command line as a separate process, on examples mutated by the harness.
 const spawned = [];

@@ -24,7 +24,7 @@ import { resolvedCount, samplePoints } from './samplesState';
 import { massRegions, massSamples } from './massView';
 import { isMixed, mixedStage } from './mixedStage';
 import { tableOps } from './charged';
-import type { Budget } from '../physics/budget';
+import { Stopped, type Budget } from '../physics/budget';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -39,6 +39,15 @@ export interface NumericInput {
 
 /** Runs the numerical stage, filling `result` (its diagnostics included). Throws `BadValue` and `MissingLevel` for the caller to word. */
 export function numericStage(input: NumericInput, result: AnalysisResult): void {
+  try {
+    numericStageIn(input, result);
+  } catch (err) {
+    // An evaluation cut by the budget (charged.ts): what was filled stands, and the caller reports the limit.
+    if (!(err instanceof Stopped)) throw err;
+  }
+}
+
+function numericStageIn(input: NumericInput, result: AnalysisResult): void {
   const { model, ctx } = input;
   const out = result.diagnostics;
   result.units = unitNames(model);
@@ -92,7 +101,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   const { input, checks } = s;
   const { model, ctx } = input;
   const out = result.diagnostics;
-  const m = measureState({ model, built: s.built, count: s.count, state: s.state, ctx });
+  const m = measureStopped(() => measureState({ model, built: s.built, count: s.count, state: s.state, ctx }));
   if ('stop' in m) {
     if (m.stop === 'notFinite') result.norm = m.norm;
     if (m.stop === 'notSquareIntegrable') result.singularity = singularityOf(m.singular, 0);
@@ -111,6 +120,16 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   if (input.samples) {
     result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100, ctx.budget), ...massSamples(m.basis, plotX, model.units) };
     if (model.state?.model.kind === 'samples') result.samples.data = samplePoints(model.state.model, m.norm);
+  }
+}
+
+/** The measurement, or the time stop when an evaluation was cut by the budget before it finished (charged.ts). */
+function measureStopped(measure: () => ReturnType<typeof measureState>): ReturnType<typeof measureState> {
+  try {
+    return measure();
+  } catch (err) {
+    if (err instanceof Stopped) return { stop: 'noTime' };
+    throw err;
   }
 }
 

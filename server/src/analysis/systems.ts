@@ -327,6 +327,7 @@ export function buildState(
     case 'psi': {
       const fn = state.fn;
       let missingLevel: number | null = null;
+      const cut = { stopped: false };
       const phi = target
         ? chargedPhi(
             phiProvider(target, (n) => {
@@ -334,6 +335,7 @@ export function buildState(
             }),
             target,
             options.budget,
+            cut,
           )
         : undefined;
       const f: StateFunction = {
@@ -351,7 +353,7 @@ export function buildState(
         window: null,
         walls: null,
       };
-      return charged(f, options.budget, formulaPointOps(state.expr.text.length));
+      return charged(f, options.budget, formulaPointOps(state.expr.text.length), cut);
     }
     case 'thermal':
     case 'mixture':
