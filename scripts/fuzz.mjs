@@ -1,12 +1,15 @@
 // Fuzzes the engine: parser, static stage, whole analysis and command line (`npm run fuzz`).
 //
 //   node scripts/fuzz.mjs [--cases N] [--seed S] [--budget MS] [--jobs J] [--spawn K] [--no-frames] [--wall]
+//                         [--max-seconds S]
 //
 // Broken frames of the language server's stream are part of the mix (2 cases in 100, each spawning
 // dist/server.js, which must answer after them or exit with a logged reason); --no-frames leaves them out.
 // Cases are timed by the process's CPU time, and the whole analyses' 1.5 s time limit runs on it too, so
 // a machine shared with other work does not fail cases that only waited for a core; --wall times them
-// (and runs the limit) on the wall clock instead, as an editor or CI sees them.
+// (and runs the limit) on the wall clock instead, as an editor or CI sees them. --max-seconds S stops the
+// run after S seconds of wall time and reports the cases finished by then (marked partial): each child
+// logs every case's outcome as it ends, so a run stopped early still says what failed.
 // Defaults: 20,000 cases (1,000 when CI is set), seed from the clock, 2,000 ms per case, 2 jobs, 20
 // spawned `dist/cli.js` runs. The harness (test/fuzz/harness.ts) is bundled with esbuild to a temporary
 // file and run in child processes; each child writes the case it is on to a file first, so a case that
@@ -69,12 +72,13 @@ const bundle = join(work, 'child.cjs');
 // The child: runs its share of the cases, records the current case before each one, prints a report.
 const childSource = `
 import { runFuzz } from './test/fuzz/harness';
-import { readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { appendFileSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-const { cases, seed, budget, current, root, frames, cpu } = JSON.parse(process.env.EIGENSPAN_FUZZ ?? '{}');
+const { cases, seed, budget, current, log, root, frames, cpu } = JSON.parse(process.env.EIGENSPAN_FUZZ ?? '{}');
 const dir = join(root, 'examples');
 const examples = readdirSync(dir).filter((f) => f.endsWith('.qstate')).map((f) => ({ name: f, text: readFileSync(join(dir, f), 'utf8') }));
-const report = runFuzz({ cases, seed, budgetMs: budget, examples, frames, cpu, beforeCase: (c, i) => writeFileSync(current, JSON.stringify({ index: i, case: c })) });
+const report = runFuzz({ cases, seed, budgetMs: budget, examples, frames, cpu, beforeCase: (c, i) => writeFileSync(current, JSON.stringify({ index: i, case: c })),
+  afterCase: (c, i, problems, ms) => appendFileSync(log, JSON.stringify(problems.length > 0 ? { i, kind: c.kind, ms, problems, case: c } : { i, kind: c.kind, ms, origin: c.origin }) + '\\n') });
 process.stdout.write(JSON.stringify(report));
 `;
 await build({
@@ -90,9 +94,10 @@ await build({
 function runChild(j) {
   const share = Math.floor(cases / jobs) + (j < cases % jobs ? 1 : 0);
   const current = join(work, `current-${j}.json`);
+  const log = join(work, `log-${j}.jsonl`);
   return new Promise((resolve) => {
     // Loaded with -e, not as the main module: the bundled command line runs itself when it is main.
-    const env = { ...process.env, EIGENSPAN_ROOT: root, EIGENSPAN_FUZZ: JSON.stringify({ cases: share, seed: seed + j * 7919, budget, current, root, frames, cpu }) };
+    const env = { ...process.env, EIGENSPAN_ROOT: root, EIGENSPAN_FUZZ: JSON.stringify({ cases: share, seed: seed + j * 7919, budget, current, log, root, frames, cpu }) };
     const child = spawn(process.execPath, ['-e', `require(${JSON.stringify(bundle)})`], { stdio: ['ignore', 'pipe', 'inherit'], env });
     let out = '';
     let last = '';
@@ -121,8 +126,13 @@ function runChild(j) {
         child.kill('SIGKILL');
       }
     }, 1000);
+    children.push(child);
     child.on('close', (code, signal) => {
       clearInterval(watch);
+      if (stopping) {
+        resolve(partialReport(log));
+        return;
+      }
       if (code === 0) {
         resolve(JSON.parse(out));
         return;
@@ -144,13 +154,51 @@ function runChild(j) {
   });
 }
 
+/** The report of a child stopped by --max-seconds, from the outcomes it logged. */
+function partialReport(log) {
+  const r = { cases: 0, failures: [], slowest: { ms: 0, case: null }, slow: [], times: [], byKind: {}, totalMs: 0 };
+  let lines = [];
+  try {
+    lines = readFileSync(log, 'utf8').split('\n').filter((l) => l.length > 0);
+  } catch {
+    // Nothing logged yet.
+  }
+  for (const line of lines) {
+    let x;
+    try {
+      x = JSON.parse(line);
+    } catch {
+      continue;
+    }
+    r.cases++;
+    r.times.push(x.ms);
+    r.byKind[x.kind] = (r.byKind[x.kind] ?? 0) + 1;
+    const c = x.case ?? { kind: x.kind, origin: x.origin, text: '' };
+    if (x.ms > r.slowest.ms) r.slowest = { ms: x.ms, case: c };
+    r.slow.push({ ms: x.ms, case: c });
+    if (x.problems) r.failures.push({ case: x.case, problems: x.problems, ms: x.ms });
+  }
+  r.slow = r.slow.sort((a, b) => b.ms - a.ms).slice(0, 10);
+  return r;
+}
+
+const children = [];
+let stopping = false;
+const maxSeconds = flag('--max-seconds', Infinity);
 const started = Date.now();
+const stopper = Number.isFinite(maxSeconds)
+  ? setTimeout(() => {
+      stopping = true;
+      for (const c of children) c.kill('SIGKILL');
+    }, maxSeconds * 1000)
+  : null;
 const ticker = setInterval(() => {
   const done = progress.reduce((a, x) => a + (x ?? 0), 0);
   console.log(`fuzz: ${done} of ${cases} cases started after ${((Date.now() - started) / 1000).toFixed(0)} s, load average ${loadavg()[0].toFixed(1)}`);
 }, 60_000);
 const reports = await Promise.all(Array.from({ length: jobs }, (_, j) => runChild(j)));
 clearInterval(ticker);
+if (stopper) clearTimeout(stopper);
 
 // A few runs of the built command line as a separate process, on examples mutated by the harness.
 const spawned = [];
@@ -201,6 +249,7 @@ for (const f of failures) {
 }
 
 const died = reports.filter((r) => r.died).map((r) => r.died);
+if (stopping) console.log(`fuzz: PARTIAL RUN, stopped by --max-seconds ${maxSeconds}: ${total} of ${cases} cases finished`);
 console.log(`fuzz: ${total} cases (${Object.entries(byKind).map(([k, v]) => `${k} ${v}`).join(', ')}) + ${spawned.length} spawned runs, seed ${seed}, ${((Date.now() - started) / 1000).toFixed(1)} s wall, cases timed on ${cpu ? 'CPU time' : 'the wall clock'}, load average ${loadavg().map((x) => x.toFixed(1)).join(' ')}`);
 if (slowest.case) console.log(`fuzz: slowest case ${slowest.ms.toFixed(0)} ms (${slowest.case.kind}, ${slowest.case.origin}):\n${slowest.case.text.slice(0, 400)}`);
 const slow = reports.flatMap((r) => r.slow ?? []).sort((a, b) => b.ms - a.ms).slice(0, 10);

@@ -85,6 +85,8 @@ export interface FuzzOptions {
   examples: { name: string; text: string }[];
   /** Called before each case (the script writes it to disk so a hang can be traced). */
   beforeCase?: (c: FuzzCase, index: number) => void;
+  /** Called after each case with the promises it broke (the script logs them, so a run stopped early still reports). */
+  afterCase?: (c: FuzzCase, index: number, problems: string[], ms: number) => void;
   /** Stop after this many failures (default 50): one bug tends to fail many cases. */
   maxFailures?: number;
   /** Limits of the whole-analysis cases (default `FUZZ_LIMITS`). */
@@ -621,6 +623,7 @@ export function runFuzz(options: FuzzOptions): FuzzReport {
       if (report.failures.length >= maxFailures) return;
       options.beforeCase?.(c, i);
       const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS, c.kind === 'analyse' ? options.clock?.() : undefined, options.cpu === true ? CPU_CLOCK : undefined);
+      options.afterCase?.(c, i, problems, ms);
       report.times.push(ms);
       report.cases++;
       report.byKind[c.kind]++;
