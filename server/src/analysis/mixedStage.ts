@@ -10,6 +10,7 @@
  * one part). The revival time is the spectrum's own where it has one (box, oscillator), otherwise that
  * of the heaviest part.
  */
+import { warn } from './findings';
 import type { Budget } from '../physics/budget';
 import type { AnalysisResult, EvolutionResult } from './types';
 import type { Eigenbasis } from '../physics/types';
@@ -42,6 +43,11 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   const options = { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget };
   const mp = mixedParts({ model: state, target: basis, mass: model.mass, out, options, maxBasis: ctx.limits.maxBasis });
   if (!mp) return;
+  // A thermal state of a system whose basis came out empty (extents at the ends of double precision) has nothing to occupy.
+  if (mp.parts.length === 0) {
+    out.push(warn('evaluation', model.state!.stmt.span, 'The thermal state has no levels to occupy: its system gave no levels (see its parameters).'));
+    return;
+  }
   const measured: MeasuredPart[] = [];
   for (const part of mp.parts) {
     if (ctx.budget.expired()) return;
