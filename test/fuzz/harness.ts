@@ -29,11 +29,14 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { analyse, analyseStatic, type AnalyseOptions } from '../../server/src/analysis/index';
 import type { Clock } from '../../server/src/physics/budget';
-import type { AnalysisResult } from '../../server/src/analysis/types';
-import { CATALOGUE, type EngineDiagnostic } from '../../server/src/language/catalogue';
 import { parse } from '../../server/src/language/parser';
 import { run } from '../../server/src/cli/main';
+import { CPU_CLOCK, FUZZ_LIMITS, REPLAY_OVERSHOOT_MS } from './clocks';
+import { diagnosticProblems, messageProblems, resultProblems } from './promises';
 import { brokenFrame, checkFramesCase, checkOutputProblems, checkTreeCase, controlsText, longNamesText, manyNamesText, RAW_UNSAFE, treeEntries, type TreeEntry } from './hostile';
+
+export { diagnosticProblems, messageProblems, resultProblems } from './promises';
+export { CPU_CLOCK, FUZZ_LIMITS, isTimeCase, REPLAY_LIMITS, REPLAY_MS_PER_OP, REPLAY_OVERSHOOT_MS } from './clocks';
 
 /** Which front door a case goes through. */
 export type CaseKind = 'parse' | 'static' | 'analyse' | 'cli-check' | 'cli-json' | 'cli-tree' | 'lsp-frames';
@@ -69,6 +72,8 @@ export interface FuzzReport {
   totalMs: number;
   /** Each case's time in milliseconds, in order. */
   times: number[];
+  /** The ten slowest cases, slowest first. */
+  slow: { ms: number; case: FuzzCase }[];
 }
 
 /** Options of `runFuzz`. */
@@ -83,6 +88,8 @@ export interface FuzzOptions {
   examples: { name: string; text: string }[];
   /** Called before each case (the script writes it to disk so a hang can be traced). */
   beforeCase?: (c: FuzzCase, index: number) => void;
+  /** Called after each case with the promises it broke (the script logs them, so a run stopped early still reports). */
+  afterCase?: (c: FuzzCase, index: number, problems: string[], ms: number) => void;
   /** Stop after this many failures (default 50): one bug tends to fail many cases. */
   maxFailures?: number;
   /** Limits of the whole-analysis cases (default `FUZZ_LIMITS`). */
@@ -93,6 +100,12 @@ export interface FuzzOptions {
    * past its limit (see `checkCase`).
    */
   clock?: () => Clock;
+  /**
+   * Time cases by the process's CPU time (`CPU_CLOCK`), and run the whole analyses' time limit on it,
+   * instead of the wall clock (default false). On a machine shared with other work the wall clock also
+   * counts the time the process waited for a core, which says nothing about the engine.
+   */
+  cpu?: boolean;
   /** Shares of the kinds of case, out of 100 (default: 20 parse, 20 static, 47 analyse, 5 + 5 command line, 3 trees). */
   shares?: [CaseKind, number][];
   /**
@@ -312,63 +325,7 @@ const arbRandomText: fc.Arbitrary<string> = fc.oneof(
 );
 
 // ---------------------------------------------------------------------------------------------------
-// The promises checked on every result.
-
-const STACK = /\n\s+at |\bat .*\.(ts|js):\d+|Error:|TypeError|RangeError/;
-
-/** Problems with one message, or an empty list. */
-export function messageProblems(message: string): string[] {
-  const p: string[] = [];
-  if (!/^([A-Z0-9]|['"`\u2018\u201c|<])/u.test(message)) p.push(`message does not start with a capital letter, digit or quoted name: ${JSON.stringify(message)}`);
-  if (!/[.?]$/.test(message)) p.push(`message does not end with a period or question mark: ${JSON.stringify(message)}`);
-  // Names the user wrote may be quoted back ('NaN' is not allowed); anything else raw is a leak.
-  const unquoted = message.replace(/'[^']*'|`[^`]*`|"[^"]*"/g, "''");
-  if (/undefined|\bNaN\b|\[object|\bnull\b/.test(unquoted)) p.push(`message shows a raw value: ${JSON.stringify(message)}`);
-  if (STACK.test(message)) p.push(`message shows a stack trace or error class: ${JSON.stringify(message)}`);
-  if (/internal error/i.test(message)) p.push(`internal error: ${JSON.stringify(message)}`);
-  return p;
-}
-
-/** Problems with one diagnostic in a document of length `n`. */
-export function diagnosticProblems(d: EngineDiagnostic, n: number): string[] {
-  const p: string[] = [];
-  const inside = (s: number, e: number): boolean => Number.isInteger(s) && Number.isInteger(e) && 0 <= s && s <= e && e <= n;
-  if (!inside(d.start, d.end)) p.push(`range [${d.start}, ${d.end}) outside the document of length ${n} (${d.code}: ${d.message})`);
-  if (!(d.code in CATALOGUE)) p.push(`code '${String(d.code)}' is not in the catalogue`);
-  if (d.severity !== 'error' && d.severity !== 'warning' && d.severity !== 'info') p.push(`severity '${String(d.severity)}'`);
-  p.push(...messageProblems(d.message));
-  for (const f of d.fixes ?? []) {
-    const ok = f.kind === 'replace' ? inside(f.start, f.end) : inside(f.at, f.at);
-    if (!ok) p.push(`quick fix '${f.title}' edits outside the document`);
-    if (typeof f.text !== 'string' || /undefined|NaN|\[object/.test(f.text)) p.push(`quick fix '${f.title}' inserts ${JSON.stringify(f.text)}`);
-  }
-  return p;
-}
-
-/** Problems with the numbers of an analysis result. */
-export function resultProblems(r: AnalysisResult): string[] {
-  const p: string[] = [];
-  let sum = 0;
-  for (const l of r.levels) {
-    if (!Number.isFinite(l.energy)) p.push(`level ${l.n} has energy ${l.energy}`);
-    // A mixed state has populations only: its re and im are null (docs/format.md), and only then.
-    if (r.mixture ? l.re !== null || l.im !== null : !Number.isFinite(l.re) || !Number.isFinite(l.im)) p.push(`level ${l.n} has coefficient ${l.re} + ${l.im} i`);
-    if (!(l.weight >= 0 && l.weight <= 1 + 1e-6)) p.push(`level ${l.n} has weight ${l.weight}`);
-    sum += l.weight;
-  }
-  if (r.levels.length > 0) {
-    if (!(sum <= 1 + 1e-6)) p.push(`weights add up to ${sum}, above 1`);
-    if (!(r.norm !== null && Number.isFinite(r.norm) && r.norm > 0)) p.push(`norm is ${r.norm} while levels were computed`);
-  }
-  if (r.energy) {
-    for (const k of ['mean', 'spread'] as const) {
-      const v = r.energy[k];
-      if (v !== null && !Number.isFinite(v)) p.push(`energy ${k} is ${v} (should be null when it diverges)`);
-    }
-  }
-  if (r.continuum !== undefined && !(r.continuum >= -1e-6 && r.continuum <= 1 + 1e-6)) p.push(`continuum weight ${r.continuum}`);
-  return p;
-}
+// The promises checked on every result live in promises.ts; here, the front doors that produce results.
 
 const CHECK_LINE = /^(.+):(\d+):(\d+): (error|warning|info)\[([a-z]+)\]: (.*)$/;
 /** The built language server; EIGENSPAN_ROOT names the checkout when the harness runs bundled elsewhere (scripts/fuzz.mjs). */
@@ -395,34 +352,16 @@ export function cleanUp(): void {
   scratchDir = null;
 }
 
-/** Whole analyses run under a time limit below the case budget: the engine must stop itself in time. */
-export const FUZZ_LIMITS: NonNullable<AnalyseOptions['limits']> = { maxMillis: 1500 };
-
-/**
- * Replays of saved time overruns run on a clock of counted work (`workClock`: a machine doing one counted
- * operation per nanosecond, about this engine's speed) under a 30 ms limit, so each costs tens of
- * milliseconds and never depends on the machine. The promise checked: the analysis stops within
- * `REPLAY_OVERSHOOT_MS` of counted work past its limit (one poll of the budget, 2^20 operations, plus the
- * largest single charge, a Householder column of the largest grid, 4 x 2290^2 operations), and reports it.
- */
-export const REPLAY_MS_PER_OP = 1e-6;
-export const REPLAY_LIMITS: NonNullable<AnalyseOptions['limits']> = { maxMillis: 30 };
-export const REPLAY_OVERSHOOT_MS = 25;
-
-/** True for a saved case that failed by time (took longer than its budget, or hung). */
-export function isTimeCase(c: FuzzCase & { problems?: string[] }): boolean {
-  return (c.problems ?? []).some((p) => /^took \d+ ms|^hung/.test(p));
-}
-
 /**
  * Runs one case and returns the promises it broke (an empty list when it kept them all) and its time.
  * With `clock` (whole analyses only), the analysis runs on it and must end within `REPLAY_OVERSHOOT_MS`
  * of the clock past its limit, with a limits finding when it went past.
  */
-export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['limits'] = FUZZ_LIMITS, clock?: Clock): { problems: string[]; ms: number } {
+export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['limits'] = FUZZ_LIMITS, clock?: Clock, timer?: Clock): { problems: string[]; ms: number } {
   const problems: string[] = [];
   const n = c.text.length;
-  const started = performance.now();
+  const now = timer ? () => timer.now() : () => performance.now();
+  const started = now();
   try {
     switch (c.kind) {
       case 'parse': {
@@ -437,7 +376,7 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
         break;
       }
       case 'analyse': {
-        const r = analyse(c.text, { samples: c.samples ?? false, limits, clock });
+        const r = analyse(c.text, { samples: c.samples ?? false, limits, clock: clock ?? timer });
         const limit = limits?.maxMillis ?? Infinity;
         if (clock && r.elapsedMs !== undefined && r.elapsedMs > limit + REPLAY_OVERSHOOT_MS) problems.push(`ran ${r.elapsedMs.toFixed(0)} ms of counted work under a limit of ${limit} ms`);
         if (clock && r.elapsedMs !== undefined && r.elapsedMs > limit && !r.diagnostics.some((d) => d.code === 'limits')) problems.push('went past the time limit without a limits finding');
@@ -495,8 +434,8 @@ export function checkCase(c: FuzzCase, budgetMs = 2000, limits: AnalyseOptions['
   } catch (e) {
     problems.push(`threw: ${e instanceof Error ? `${e.name}: ${e.message}\n${e.stack ?? ''}` : String(e)}`);
   }
-  const ms = performance.now() - started;
-  if (ms > budgetMs) problems.push(`took ${ms.toFixed(0)} ms, above the budget of ${budgetMs} ms`);
+  const ms = now() - started;
+  if (ms > budgetMs) problems.push(`took ${ms.toFixed(0)} ms${timer === CPU_CLOCK ? ' of CPU time' : ''}, above the budget of ${budgetMs} ms`);
   return { problems: [...new Set(problems)], ms };
 }
 
@@ -594,16 +533,23 @@ export function runFuzz(options: FuzzOptions): FuzzReport {
     byKind: { parse: 0, static: 0, analyse: 0, 'cli-check': 0, 'cli-json': 0, 'cli-tree': 0, 'lsp-frames': 0 },
     totalMs: 0,
     times: [],
+    slow: [],
   };
   try {
     cases.forEach((c, i) => {
       if (report.failures.length >= maxFailures) return;
       options.beforeCase?.(c, i);
-      const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS, c.kind === 'analyse' ? options.clock?.() : undefined);
+      const { problems, ms } = checkCase(c, budget, options.limits ?? FUZZ_LIMITS, c.kind === 'analyse' ? options.clock?.() : undefined, options.cpu === true ? CPU_CLOCK : undefined);
+      options.afterCase?.(c, i, problems, ms);
       report.times.push(ms);
       report.cases++;
       report.byKind[c.kind]++;
       if (ms > report.slowest.ms) report.slowest = { ms, case: c };
+      if (report.slow.length < 10 || ms > report.slow[report.slow.length - 1]!.ms) {
+        report.slow.push({ ms, case: c });
+        report.slow.sort((a, b) => b.ms - a.ms);
+        report.slow.length = Math.min(10, report.slow.length);
+      }
       if (problems.length > 0) report.failures.push({ case: c, problems, ms });
     });
   } finally {

@@ -87,6 +87,9 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
     // Nothing is evaluated, so no `let` has a value to show.
     return { ...emptyResult(u.file, u.diagnostics), values: [], elapsedMs: clock.now() - started };
   }
+  // The deadline runs from the start: the quick stage (parse, names, units, the model) is part of the
+  // time the caller waits, and on a cold start (the formula parser's first use) it is not small.
+  const budget = createBudget({ limitMs: resolveLimits(options).maxMillis, clock, cancelled: options.cancelled });
   let stage: StaticStage;
   try {
     stage = staticStage(text, options, true);
@@ -95,7 +98,6 @@ export function analyse(text: string, options: AnalyseOptions = {}): AnalysisRes
   }
   const result = emptyResult(stage.file, stage.diagnostics);
   result.values = stage.model ? letValues(stage.model) : [];
-  const budget = createBudget({ limitMs: stage.limits.maxMillis, clock, cancelled: options.cancelled });
   try {
     if (stage.model) numericStage({ model: stage.model, file: stage.file, ctx: { budget, limits: stage.limits }, samples: options.samples === true, plot: options.plot }, result);
   } catch (err) {

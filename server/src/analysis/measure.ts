@@ -17,6 +17,7 @@ import { wallLine, type WallLine } from './wallValues';
 import { gridVariance } from './spread';
 import { withPeaks, type NarrowPeak } from './narrow';
 import { coefficientUncertainties } from './coefficientErrors';
+import { ENERGY_POINT_OPS } from './charged';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -144,6 +145,7 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   const apart = (x: number): boolean => !singular || Math.abs(x - singular.x) > 1e-6 * (window[1] - window[0]);
   const jumps = found.jumps.filter(apart);
   const kinks = found.kinks.filter(apart);
+  ctx.budget.spend(ENERGY_POINT_OPS * ex.q.x.length);
   const energy = energyOf({ basis, built, ex, weights, count, jumps, kinks, wallBreak: walls?.broken ?? false, singular });
   const parity = basis.center !== null ? parityOf(state, ex, basis.center) : null;
   const m: StateMeasurements = {

@@ -11,6 +11,7 @@ import type { Eigenbasis } from '../physics/types';
 import { boltzmannWeights, occupationLevels, occupationWeights, type ThermalWeights } from '../physics/thermal';
 import { MAX_PARTS, type MixtureModel, type ThermalModel } from './mixedModel';
 import { buildBasis, buildState, eigenState, type BuildOptions, type StateFunction } from './systems';
+import { charged, tableOps } from './charged';
 import { TOL } from './measure';
 import { fmt, pct, plural, warn } from './findings';
 
@@ -88,7 +89,7 @@ function thermalParts(model: ThermalModel, input: PartsInput): MixedParts | null
     let k = w.weights.length;
     while (k > 1 && w.weights[k - 1] === 0) k--;
     const parts: MixedPart[] = [];
-    for (let j = 0; j < k; j++) parts.push({ weight: w.weights[j]!, state: eigenState(old, j), span: model.span });
+    for (let j = 0; j < k; j++) parts.push({ weight: w.weights[j]!, state: charged(eigenState(old, j), input.options.budget, tableOps(old, j + 1, j)), span: model.span });
     cutFindings(model, old, w, taken, cap, input.out);
     return { kind: 'thermal', parts, omitted: w.tail, orthonormal: true };
   }

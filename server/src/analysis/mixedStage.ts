@@ -10,6 +10,8 @@
  * one part). The revival time is the spectrum's own where it has one (box, oscillator), otherwise that
  * of the heaviest part.
  */
+import { warn } from './findings';
+import type { Budget } from '../physics/budget';
 import type { AnalysisResult, EvolutionResult } from './types';
 import type { Eigenbasis } from '../physics/types';
 import { evolve, revivalTime } from '../physics/evolution';
@@ -41,6 +43,11 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   const options = { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget };
   const mp = mixedParts({ model: state, target: basis, mass: model.mass, out, options, maxBasis: ctx.limits.maxBasis });
   if (!mp) return;
+  // A thermal state of a system whose basis came out empty (extents at the ends of double precision) has nothing to occupy.
+  if (mp.parts.length === 0) {
+    out.push(warn('evaluation', model.state!.stmt.span, 'The thermal state has no levels to occupy: its system gave no levels (see its parameters).'));
+    return;
+  }
   const measured: MeasuredPart[] = [];
   for (const part of mp.parts) {
     if (ctx.budget.expired()) return;
@@ -61,7 +68,7 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   checkExpects(model, result, out, { basis, levels: m.levels, budget: ctx.budget });
   const plotX = plotGrid(basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = mixedEvolution(model, basis, measured, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100);
+  if (input.samples) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100, ctx.budget);
 }
 
 /** Coefficients of one measured part. */
@@ -112,8 +119,8 @@ function mixedEvolution(model: Model, basis: Eigenbasis, parts: MeasuredPart[], 
 }
 
 /** The plot samples of a mixture: the potential and levels as for a pure state, and the density sum_k p_k |psi_k(x)|^2. */
-function mixedSamples(mp: MixedParts, parts: MeasuredPart[], basis: Eigenbasis, xs: Float64Array, maxLevels: number): AnalysisResult['samples'] {
-  const first = samples(mp.parts[0]!.state, basis, xs, parts[0]!.m.norm, parts[0]!.m.levels, maxLevels);
+function mixedSamples(mp: MixedParts, parts: MeasuredPart[], basis: Eigenbasis, xs: Float64Array, maxLevels: number, budget: Budget): AnalysisResult['samples'] {
+  const first = samples(mp.parts[0]!.state, basis, xs, parts[0]!.m.norm, parts[0]!.m.levels, maxLevels, budget);
   const density = new Float64Array(xs.length);
   mp.parts.forEach((part, k) => {
     const v = part.state.evaluate(xs, 0);

@@ -23,6 +23,8 @@ import type { ComputeContext } from './context';
 import { resolvedCount, samplePoints } from './samplesState';
 import { massRegions, massSamples } from './massView';
 import { isMixed, mixedStage } from './mixedStage';
+import { tableOps } from './charged';
+import { Stopped, type Budget } from '../physics/budget';
 
 /** What the numerical stage works on. */
 export interface NumericInput {
@@ -37,6 +39,15 @@ export interface NumericInput {
 
 /** Runs the numerical stage, filling `result` (its diagnostics included). Throws `BadValue` and `MissingLevel` for the caller to word. */
 export function numericStage(input: NumericInput, result: AnalysisResult): void {
+  try {
+    numericStageIn(input, result);
+  } catch (err) {
+    // An evaluation cut by the budget (charged.ts): what was filled stands, and the caller reports the limit.
+    if (!(err instanceof Stopped)) throw err;
+  }
+}
+
+function numericStageIn(input: NumericInput, result: AnalysisResult): void {
   const { model, ctx } = input;
   const out = result.diagnostics;
   result.units = unitNames(model);
@@ -90,7 +101,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   const { input, checks } = s;
   const { model, ctx } = input;
   const out = result.diagnostics;
-  const m = measureState({ model, built: s.built, count: s.count, state: s.state, ctx });
+  const m = measureStopped(() => measureState({ model, built: s.built, count: s.count, state: s.state, ctx }));
   if ('stop' in m) {
     if (m.stop === 'notFinite') result.norm = m.norm;
     if (m.stop === 'notSquareIntegrable') result.singularity = singularityOf(m.singular, 0);
@@ -107,8 +118,18 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
   if (input.samples) {
-    result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100), ...massSamples(m.basis, plotX, model.units) };
+    result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100, ctx.budget), ...massSamples(m.basis, plotX, model.units) };
     if (model.state?.model.kind === 'samples') result.samples.data = samplePoints(model.state.model, m.norm);
+  }
+}
+
+/** The measurement, or the time stop when an evaluation was cut by the budget before it finished (charged.ts). */
+function measureStopped(measure: () => ReturnType<typeof measureState>): ReturnType<typeof measureState> {
+  try {
+    return measure();
+  } catch (err) {
+    if (err instanceof Stopped) return { stop: 'noTime' };
+    throw err;
   }
 }
 
@@ -192,18 +213,29 @@ export function plotGrid(basis: Eigenbasis, window: [number, number], n: number)
   return xs;
 }
 
-export function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[], maxLevels: number): SampleResult {
+/** Levels drawn for a result the budget cut short: its plot is not worth what the limit saved. */
+export const CUT_PLOT_LEVELS = 12;
+
+/**
+ * The plot samples: the state, the first `maxLevels` levels and the potential at xs. With the budget,
+ * the levels' table is charged to it, and a result it already cut short draws only `CUT_PLOT_LEVELS`
+ * levels (a numerical basis's table costs its sine terms at every point of every level drawn).
+ */
+export function samples(state: StateFunction, basis: Eigenbasis, xs: Float64Array, norm: number, levels: LevelResult[], maxLevels: number, budget?: Budget): SampleResult {
   const n = xs.length;
   const v = state.evaluate(xs, 0);
   const s = 1 / Math.sqrt(norm);
-  const kmax = Math.min(levels.length, maxLevels);
+  const kmax = Math.min(levels.length, maxLevels, budget?.reason ? CUT_PLOT_LEVELS : Infinity);
+  budget?.spend(tableOps(basis, kmax) * n);
   const table = new Float64Array(kmax * n);
   basis.table(xs, kmax, table);
   const phi: number[][] = [];
   for (let k = 0; k < kmax; k++) phi.push(Array.from(table.subarray(k * n, (k + 1) * n)));
   const pot: number[] = [];
+  // A numerical potential in one vectorised call, not one evaluation of its formula a point.
+  const vs = basis.potentials ? basis.potentials(xs) : null;
   for (let j = 0; j < n; j++) {
-    const p = basis.potential(xs[j]!);
+    const p = vs ? vs[j]! : basis.potential(xs[j]!);
     pot.push(Number.isFinite(p) ? p : 0);
   }
   // Plots take finite numbers only: a state that is infinite at a plot point (1/x at a wall) is drawn as 0 there.

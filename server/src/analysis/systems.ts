@@ -16,6 +16,7 @@ import { continuumLevels, solverCaps, type WallEnd } from './walls';
 import { coarserBasis } from './coefficientErrors';
 import { samplesState } from './samplesState';
 import { massFindings, massProfileOf } from './massSystems';
+import { charged, chargedPhi, formulaPointOps, GAUSSIAN_POINT_OPS, tableOps } from './charged';
 
 /** A built basis together with facts the diagnostics need. */
 export interface BuiltBasis {
@@ -303,7 +304,7 @@ export function buildState(
 ): StateFunction | null {
   switch (state.kind) {
     case 'gaussian':
-      return gaussianState(state.center, state.width, state.momentum);
+      return charged(gaussianState(state.center, state.width, state.momentum), options.budget, GAUSSIAN_POINT_OPS);
     case 'samples':
       return samplesState(state, target, out);
     case 'eigen': {
@@ -321,15 +322,21 @@ export function buildState(
         );
         return null;
       }
-      return eigenState(built.basis, k0);
+      return charged(eigenState(built.basis, k0), options.budget, tableOps(built.basis, k0 + 1, k0));
     }
     case 'psi': {
       const fn = state.fn;
       let missingLevel: number | null = null;
+      const cut = { stopped: false };
       const phi = target
-        ? phiProvider(target, (n) => {
-            if (missingLevel === null) missingLevel = n;
-          })
+        ? chargedPhi(
+            phiProvider(target, (n) => {
+              if (missingLevel === null) missingLevel = n;
+            }),
+            target,
+            options.budget,
+            cut,
+          )
         : undefined;
       const f: StateFunction = {
         evaluate(xs, order) {
@@ -346,7 +353,7 @@ export function buildState(
         window: null,
         walls: null,
       };
-      return f;
+      return charged(f, options.budget, formulaPointOps(state.expr.text.length), cut);
     }
     case 'thermal':
     case 'mixture':

@@ -6,6 +6,10 @@
  *
  * Results depend on the clock only where the budget really ran out: nothing may size a grid or a
  * level count from a measured time.
+ *
+ * The deadline runs from the start of `analyse` (the quick stage counts), and work outside the numerics'
+ * hot loops is charged too: every evaluation of the state (analysis/charged.ts), the energy integrals and
+ * the plot's table, so no stretch of an analysis goes unpolled for long.
  */
 
 /** Why a stage stopped before finishing: the time limit, a size cap, or the caller's cancellation. */
