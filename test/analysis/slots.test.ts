@@ -7,8 +7,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import { analyse, analyseUntrusted } from '../../server/src/analysis/index';
-import { SLOTS, type SlotName } from '../../server/src/analysis/slots';
+import { SLOTS } from '../../server/src/analysis/slots';
 import type { ValueKind } from '../../server/src/analysis/dimensions';
+
+type SlotName = keyof typeof SLOTS;
 
 const UNITS = 'units nm, meV, ps\n';
 const BOX = 'system box(0 nm, 8 nm)\n';

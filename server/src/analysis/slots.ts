@@ -55,9 +55,6 @@ export const SLOTS = Object.freeze({
   expectMeanP: slot('wavenumber', 'the expected mean p'),
 } satisfies Record<string, SlotSpec>);
 
-/** The name of a statement slot. */
-export type SlotName = keyof typeof SLOTS;
-
 /** The tolerance of a comparison (`V +- T`): the value's kind, named as the tolerance. */
 export function toleranceSlot(value: SlotSpec): SlotSpec {
   return slot(value.kind, 'the tolerance');
