@@ -1,7 +1,7 @@
 // Old against new: the benchmark rows of two checkouts interleaved in one run (old rep, new rep, ...),
 // each row's medians over the reps and the ratio new/old.
 //
-//   node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT]
+//   node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT] [--partial OUT]
 //
 // Each checkout is driven only through its own files, so the two may have different module layouts:
 // - its own bench suite: CHECKOUT/bench/suite.ts (whatever it imports inside that checkout) is bundled
@@ -19,7 +19,9 @@
 // --build runs `npm run build` in both checkouts first (default: use their dist/, build only when
 // dist/cli.js is missing). Each checkout needs its node_modules (npm ci). Defaults: --reps 9, all rows.
 // A full pass of every item takes minutes on a loaded 2-core machine: 9 reps a side of everything is
-// of the order of an hour; --rows 1,2,4,6,cli is the quick set.
+// of the order of an hour (several hours under a load of 20); --rows 1,2,4,6,cli is the quick set.
+// --partial OUT writes the table of the reps finished so far to OUT after every rep (and --json its
+// JSON), so a run stopped early still leaves its figures; the log names each unit's time.
 import { build } from 'esbuild';
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
@@ -30,7 +32,7 @@ import { pathToFileURL } from 'node:url';
 const MARK = '@@bench-compare@@';
 
 function parseArgs(argv) {
-  const out = { dirs: [], reps: 9, innerReps: 3, rows: null, build: false, json: null };
+  const out = { dirs: [], reps: 9, innerReps: 3, rows: null, build: false, json: null, partial: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--reps') out.reps = Math.max(1, Number(argv[++i]));
@@ -38,10 +40,11 @@ function parseArgs(argv) {
     else if (a === '--rows') out.rows = argv[++i].split(',').filter((s) => s !== '');
     else if (a === '--build') out.build = true;
     else if (a === '--json') out.json = argv[++i];
+    else if (a === '--partial') out.partial = argv[++i];
     else if (a.startsWith('--')) throw new Error(`unknown option ${a}`);
     else out.dirs.push(resolve(a));
   }
-  if (out.dirs.length !== 2) throw new Error('usage: node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT]');
+  if (out.dirs.length !== 2) throw new Error('usage: node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT] [--partial OUT]');
   if (!Number.isFinite(out.reps)) throw new Error('--reps needs a number');
   return out;
 }
@@ -238,10 +241,18 @@ async function main() {
     // Interleaved finely: for every suite item, the old checkout's pass then the new one's, and for every
     // example, the old cli then the new, so a burst of load on the shared machine hits both sides alike.
     const units = [...items.map((item) => ({ item })), ...examples.map((name) => ({ name }))];
+    const loads = [];
+    const write = (done, final) => {
+      const r = report(headerOf(args, items, wantCli, done, loads), samples, keys);
+      if (final) process.stdout.write(r.text + '\n');
+      if (args.partial && !final) writeFileSync(args.partial, r.text + '\n');
+      if (args.json) writeFileSync(args.json, JSON.stringify({ header: headerOf(args, items, wantCli, done, loads), rows: r.rows }, null, 2) + '\n');
+    };
     for (let rep = -1; rep < args.reps; rep++) {
       for (const unit of units) {
         if (unit.item !== undefined && rep < 0) continue; // every suite row warms itself up inside the suite
         for (let i = 0; i < 2; i++) {
+          const u0 = performance.now();
           const pass = new Map();
           if (unit.item !== undefined) {
             if (!workers[i]) continue;
@@ -249,22 +260,27 @@ async function main() {
           } else for (const [k, v] of cliPass(args.dirs[i], [unit.name])) pass.set(k, v);
           if (rep >= 0) collect(samples[i], pass); // rep -1 warms the cli rows up and is not counted
           remember(pass);
+          if (rep >= 0 && unit.item !== undefined) log(`rep ${rep + 1} item ${unit.item} ${names[i]}: ${((performance.now() - u0) / 1000).toFixed(0)} s`);
         }
       }
-      log(`${rep < 0 ? 'warm-up' : `rep ${rep + 1}/${args.reps}`} done, ${((performance.now() - t0) / 1000).toFixed(0)} s`);
+      if (rep >= 0) loads.push(loadavg()[0]);
+      log(`${rep < 0 ? 'warm-up' : `rep ${rep + 1}/${args.reps}`} done, ${((performance.now() - t0) / 1000).toFixed(0)} s, load ${loadavg().map((v) => v.toFixed(1)).join(' ')}`);
+      if (rep >= 0) write(rep + 1, false);
     }
-    const header = [
-      `Old against new, ${new Date().toISOString()}, node ${process.version}, ${cpus().length} x ${cpus()[0]?.model ?? 'unknown'}, load average at end ${loadavg().map((v) => v.toFixed(1)).join(' ')}`,
-      `old: ${args.dirs[0]} (${gitHead(args.dirs[0])})`,
-      `new: ${args.dirs[1]} (${gitHead(args.dirs[1])})`,
-      `interleaved per item and per example: old, new, old, new, ... ${args.reps} reps each (a suite item in a fresh process, ${args.innerReps} run(s) a job inside it) after one warm-up of the cli rows; items ${items.join(', ') || 'none'}${wantCli ? ', cli' : ''}`,
-    ];
-    const r = report(header, samples, keys);
-    process.stdout.write(r.text + '\n');
-    if (args.json) writeFileSync(args.json, JSON.stringify({ header, rows: r.rows }, null, 2) + '\n');
+    write(args.reps, true);
   } finally {
     rmSync(tmp, { recursive: true, force: true });
   }
+}
+
+function headerOf(args, items, wantCli, done, loads) {
+  const range = loads.length ? ` (1-minute load at the end of each rep: ${Math.min(...loads).toFixed(1)} to ${Math.max(...loads).toFixed(1)})` : '';
+  return [
+    `Old against new, ${new Date().toISOString()}, node ${process.version}, ${cpus().length} x ${cpus()[0]?.model ?? 'unknown'}, load average now ${loadavg().map((v) => v.toFixed(1)).join(' ')}${range}`,
+    `old: ${args.dirs[0]} (${gitHead(args.dirs[0])})`,
+    `new: ${args.dirs[1]} (${gitHead(args.dirs[1])})`,
+    `interleaved per item and per example: old, new, old, new, ... ${done} of ${args.reps} reps each (a suite item in a fresh process, ${args.innerReps} run(s) a job inside it) after one warm-up of the cli rows; items ${items.join(', ') || 'none'}${wantCli ? ', cli' : ''}`,
+  ];
 }
 
 function gitHead(dir) {

@@ -5,6 +5,10 @@
 import { describe, expect, it } from 'vitest';
 import { analyse } from '../../server/src/analysis/index';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { manualClock } from '../../server/src/physics/budget';
+
+/** A clock that never advances: the time limit is never reached, so a loaded machine cannot cut these analyses short. */
+const timeless = { clock: manualClock() };
 
 /**
  * The step box V = 0 on [0, 1/2), V0 on [1/2, 1], hard walls at 0 and 1 (m = hbar = 1). Derived in this
@@ -64,7 +68,7 @@ describe('coefficient uncertainties of numerical systems', () => {
     expect(exact[0]!.E).toBeCloseTo(10.839106, 5);
     const psi = (x: number): number => Math.sin(Math.PI * x) ** 2 / Math.sqrt(3 / 8);
     const q = compositeGaussLegendre(0, 1, { breakpoints: [0.5], panels: 200, order: 20 });
-    const r = analyse(`system V(x) = x < 0.5 ? 0 : 20 over [0, 1]\nstate psi(x) = sin(pi x)^2\nbasis ${K}\n`);
+    const r = analyse(`system V(x) = x < 0.5 ? 0 : 20 over [0, 1]\nstate psi(x) = sin(pi x)^2\nbasis ${K}\n`, timeless);
     for (let n = 0; n < K; n++) {
       let c = 0;
       for (let j = 0; j < q.x.length; j++) c += q.w[j]! * psi(q.x[j]!) * exact[n]!.phi(q.x[j]!);
@@ -87,7 +91,7 @@ describe('maxGridPoints reaches the potential solver', () => {
     // The quartic's levels need more than 64 grid intervals for 1e-9 (measured), the solver's cap at maxGridPoints 1024.
     const text = 'system V(x) = x^4 over [-4, 4]\nstate gaussian(center = 0.5, width = 0.4)\nbasis 40\n';
     const limits = (r: ReturnType<typeof analyse>) => r.diagnostics.filter((d) => d.code === 'limits' && d.start === 0);
-    expect(limits(analyse(text))).toEqual([]);
-    expect(limits(analyse(text, { limits: { maxGridPoints: 1024 } }))).toHaveLength(1);
+    expect(limits(analyse(text, timeless))).toEqual([]);
+    expect(limits(analyse(text, { ...timeless, limits: { maxGridPoints: 1024 } }))).toHaveLength(1);
   });
 });

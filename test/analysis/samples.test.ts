@@ -21,6 +21,7 @@ import { describe, expect, it } from 'vitest';
 import { analyse } from '../../server/src/analysis/index';
 import type { AnalysisResult } from '../../server/src/analysis/types';
 import { messageProblems } from '../fuzz/harness';
+import { numbersIn } from '../hardening/helpers';
 
 function table(f: (x: number) => number, a: number, b: number, N: number, head = 'x, re'): string {
   const rows = ['# written by the test', head];
@@ -138,14 +139,15 @@ describe('what the samples resolve', () => {
     const f = r.diagnostics.filter((d) => d.code === 'basis');
     expect(f).toHaveLength(1);
     expect(text.slice(f[0]!.start, f[0]!.end)).toBe('"d.csv"');
-    expect(f[0]!.message).toContain(`n = ${N}`);
+    // The first level the samples do not resolve.
+    expect(numbersIn(f[0]!.message)).toContain(N);
     expect(r.levels).toHaveLength(N - 1);
   });
   it('oscillator: level n is resolved while sqrt(2 n + 1) < pi / h', () => {
     // h = 0.5: pi / h = 6.283, sqrt(2 n + 1) < 6.283 for n <= 19; level 20 is the first past it.
     const r = run(osc, table((x) => Math.PI ** -0.25 * Math.exp(-(x * x) / 2), -10, 10, 40), 'basis 30');
     expect(r.levels).toHaveLength(20);
-    expect(r.diagnostics.find((d) => d.code === 'basis')?.message).toContain('n = 20');
+    expect(numbersIn(r.diagnostics.find((d) => d.code === 'basis')?.message ?? '')).toContain(20);
   });
 });
 
@@ -158,7 +160,7 @@ describe('the capture finding past the resolution', () => {
     const capture = r.diagnostics.filter((d) => d.code === 'basis' && d.message.includes('capture'));
     expect(capture).toHaveLength(1);
     expect(capture[0]!.fixes).toBeUndefined();
-    expect(capture[0]!.message).toContain('resolve only 15');
+    expect(numbersIn(capture[0]!.message)).toContain(15);
   });
 });
 

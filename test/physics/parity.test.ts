@@ -1,6 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import { parityOf, nearlySymmetric } from '../../server/src/physics/parity';
 import { compositeGaussLegendre } from '../../server/src/physics/quadrature';
+import { analyse } from '../../server/src/analysis/index';
 
 const c = 1.25;
 const q = compositeGaussLegendre(c - 8, c + 8, { panels: 32, order: 20 });
@@ -27,6 +28,8 @@ describe('parityOf', () => {
     // Mixed: g + (x - c) g has even weight sqrt(pi/2) and odd weight sqrt(pi/2)/4 (Gaussian moments, common practice).
     const mixed = parityOf(sample((x) => g(x) + (x - c) * g(x)));
     expect(mixed.classification).toBe('mixed');
+    expect(mixed.major).toBe('even');
+    expect(Math.abs(mixed.minor - 0.2)).toBeLessThan(1e-13); // (1/4) / (1 + 1/4)
     expect(Math.abs(mixed.even - Math.sqrt(Math.PI / 2))).toBeLessThan(1e-13);
     expect(Math.abs(mixed.odd - Math.sqrt(Math.PI / 2) / 4)).toBeLessThan(1e-13);
     let norm = 0;
@@ -52,5 +55,25 @@ describe('parityOf', () => {
     const z = parityOf(sample(() => 0));
     expect(z.total).toBe(0);
     expect(z.classification).toBe('even');
+    expect(z.minor).toBe(0);
+    expect(nearlySymmetric(z)).toBeNull();
+  });
+});
+
+describe('the analysis measures parity here', () => {
+  // A box centred on 0: an even packet, the same packet off by 1e-3 (odd share about 1e-6, as above) and one off by 1.
+  const file = (shift: string) => `system box(-10, 10)\nstate psi(x) = exp(-(x - ${shift})^2)\nbasis 80\n`;
+  const findings = (shift: string) => {
+    const text = file(shift);
+    const r = analyse(text);
+    // On the formula of psi(x).
+    const at = text.indexOf('exp(');
+    return { parity: r.parity, found: r.diagnostics.filter((d) => d.code === 'parity').map((d) => [d.severity, d.start === at && d.end === text.indexOf('\nbasis')]) };
+  };
+
+  it('an even state is an info, a slightly shifted one a warning, a clearly mixed one nothing', () => {
+    expect(findings('0')).toEqual({ parity: 'even', found: [['info', true]] });
+    expect(findings('0.001')).toEqual({ parity: 'mixed', found: [['warning', true]] });
+    expect(findings('1')).toEqual({ parity: 'mixed', found: [] });
   });
 });

@@ -14,6 +14,7 @@ import { TOL, type StateMeasurements, type Stop } from './measure';
 import { captureText, fmt, formatFactor, growthText, notSquareIntegrable, pct, plural, replaceFix, warn } from './findings';
 import { raiseHint } from '../shared/limits';
 import { formatNumber } from '../shared/numbers';
+import { nearlySymmetric } from '../physics/parity';
 
 /** What the checks need besides the measurements. */
 export interface CheckContext {
@@ -216,8 +217,9 @@ export const checkParity: StateCheck = (m, ctx) => {
     return `n = ${first}, ${first + 2}, ${first + 4}, ...`;
   };
   if (p.parity !== 'mixed') return [warn('parity', ctx.stateSpan, `The state is ${p.parity} about x = ${c}: the levels ${vanish(p.parity)} vanish by symmetry.`, undefined, 'info')];
-  if (!(p.minor < 1e-3)) return [];
-  return [warn('parity', ctx.stateSpan, `The state is almost ${p.major} about x = ${c} but not quite: the ${p.major === 'even' ? 'odd' : 'even'} part carries ${pct(p.minor)} of the weight.`, undefined, 'warning')];
+  const near = nearlySymmetric(p);
+  if (!near) return [];
+  return [warn('parity', ctx.stateSpan, `The state is almost ${near.almost} about x = ${c} but not quite: the ${near.almost === 'even' ? 'odd' : 'even'} part carries ${pct(near.fraction)} of the weight.`, undefined, 'warning')];
 };
 
 /** Capture: weight in a finite well's continuum, or a basis too small for the state (with the basis that suffices). */

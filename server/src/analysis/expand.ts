@@ -403,24 +403,6 @@ export function classifyBreakpoints(
   return { jumps, kinks };
 }
 
-/** Even and odd weights of the state about `c`, from values at mirrored nodes. */
-export function parityParts(state: StateFunction, q: Quadrature, values: GridValues, c: number): { even: number; odd: number } {
-  const mx = new Float64Array(q.x.length);
-  for (let j = 0; j < mx.length; j++) mx[j] = 2 * c - q.x[j]!;
-  const m = state.evaluate(mx, 0);
-  let even = 0;
-  let odd = 0;
-  for (let j = 0; j < mx.length; j++) {
-    const er = (values.re[j]! + m.re[j]!) / 2;
-    const ei = (values.im[j]! + m.im[j]!) / 2;
-    const or = (values.re[j]! - m.re[j]!) / 2;
-    const oi = (values.im[j]! - m.im[j]!) / 2;
-    even += q.w[j]! * (er * er + ei * ei);
-    odd += q.w[j]! * (or * or + oi * oi);
-  }
-  return { even, odd };
-}
-
 /**
  * <H> and <H^2> of the state on the grid: <H> = integral of |psi'|^2/(2m) + V |psi|^2,
  * <H^2> = integral of |-psi''/(2m) + V psi|^2 (valid for states in the operator's domain; the caller

@@ -10,7 +10,8 @@ import { compositeGaussLegendre } from '../physics/quadrature';
 import type { DecayResult, LevelResult } from './types';
 import type { Model } from './model';
 import { buildBasis, MissingLevel, type BuiltBasis, type StateFunction } from './systems';
-import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEnergy, parityParts, type Expanded } from './expand';
+import { BadValue, classifyBreakpoints, decayOf, expandState, findWindow, gridEnergy, type Expanded } from './expand';
+import { parityOf as splitParity } from '../physics/parity';
 import { findSingularity, gradedTowards, weightWithin, type Singularity } from './singular';
 import type { ComputeContext, StopReason } from './context';
 import { wallLine, type WallLine } from './wallValues';
@@ -341,12 +342,13 @@ function energyOf(m: {
   return { mean, spread, meanFromLevels, decay };
 }
 
-/** Even and odd parts of the state about `center`. */
+/** Even and odd parts of the state about `center` (physics/parity.ts), from its values at the mirrored nodes. */
 function parityOf(state: StateFunction, ex: Expanded, center: number): ParityMeasurements {
-  const p = parityParts(state, ex.q, ex.values, center);
-  const total = p.even + p.odd;
-  const parity = p.odd / total < 1e-10 ? 'even' : p.even / total < 1e-10 ? 'odd' : 'mixed';
-  return { center, parity, minor: Math.min(p.even, p.odd) / total, major: p.odd < p.even ? 'even' : 'odd' };
+  const mx = new Float64Array(ex.q.x.length);
+  for (let j = 0; j < mx.length; j++) mx[j] = 2 * center - ex.q.x[j]!;
+  const mirror = state.evaluate(mx, 0);
+  const p = splitParity({ re: ex.values.re, im: ex.values.im, mirrorRe: mirror.re, mirrorIm: mirror.im, w: ex.q.w });
+  return { center, parity: p.classification, minor: p.minor, major: p.major };
 }
 
 /**

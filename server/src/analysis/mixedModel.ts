@@ -12,6 +12,7 @@ import type { StateModel, SystemModel } from './model';
 import type { ValueKind } from './dimensions';
 import { fmt } from './findings';
 import { paramOf } from '../language/signatures';
+import { SLOTS } from './slots';
 
 /** The most parts a mixed state may have: each is projected like a pure state, and the purity costs their number squared. */
 export const MAX_PARTS = 200;
@@ -70,7 +71,7 @@ export function mixtureModel(spec: Extract<StateSpec, { kind: 'mixture' }>, h: M
   const parts: MixtureModel['parts'] = [];
   let ok = true;
   for (const part of spec.parts) {
-    const w = h.constant(part.weight, 'dimensionless', 'the weight');
+    const w = h.constant(part.weight, SLOTS.mixtureWeight.kind, SLOTS.mixtureWeight.what);
     const model = h.state(part.state);
     if (w === null || model === null) {
       ok = false;

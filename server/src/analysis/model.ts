@@ -13,6 +13,7 @@ import { evaluateConstant, compileFunction } from '../expr/compile';
 import { makeUnitSystem, createScope, formatDimension, sameDimension } from '../expr/units';
 import { paramOf, type ConstructorName } from '../language/signatures';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { SLOTS, toleranceSlot, type SlotSpec } from './slots';
 import { energyOfFrequency, frequencyAsEnergy } from './frequencyEnergy';
 import { capital, fmt } from './findings';
 import { raiseHint, type CapName } from '../shared/limits';
@@ -103,7 +104,7 @@ class ModelBuilder {
       case 'state':
         return;
       case 'mass': {
-        const v = this.constant(stmt.expr, 'mass', 'the mass');
+        const v = this.slot(stmt.expr, SLOTS.mass);
         if (v === null) return;
         if (!(v > 0) || !Number.isFinite(v)) this.error('evaluation', stmt.expr, 'The mass must be positive and finite.');
         else m.mass = v;
@@ -117,7 +118,7 @@ class ModelBuilder {
         return;
       }
       case 'basis': {
-        const n = this.integer(stmt.expr, 'the basis size', 1, this.options.maxBasis);
+        const n = this.integer(stmt.expr, SLOTS.basis, 1, this.options.maxBasis);
         if (n !== null) m.basis = { value: n, stmt };
         return;
       }
@@ -127,10 +128,10 @@ class ModelBuilder {
         return;
       }
       case 'evolve': {
-        const t = this.constant(stmt.to, 'time', 'the evolution time');
+        const t = this.slot(stmt.to, SLOTS.evolveTime);
         let steps = 200;
         if (stmt.steps) {
-          const k = this.integer(stmt.steps, 'the number of steps', 1, this.options.maxEvolveSteps, 'maxEvolveSteps');
+          const k = this.integer(stmt.steps, SLOTS.evolveSteps, 1, this.options.maxEvolveSteps, 'maxEvolveSteps');
           if (k !== null) steps = k;
         }
         if (t === null) return;
@@ -195,8 +196,14 @@ class ModelBuilder {
     return kind === 'frequency' ? re * 2 * Math.PI : re;
   }
 
-  private integer(src: ExprText, what: string, min: number, max: number, cap: CapName = 'maxBasis'): number | null {
-    const v = this.constant(src, 'dimensionless', what);
+  /** The value of a statement slot (slots.ts), checked against the dimension given there. */
+  private slot(src: ExprText, s: SlotSpec): number | null {
+    return this.constant(src, s.kind, s.what);
+  }
+
+  private integer(src: ExprText, s: SlotSpec, min: number, max: number, cap: CapName = 'maxBasis'): number | null {
+    const what = s.what;
+    const v = this.constant(src, s.kind, what);
     if (v === null) return null;
     if (!Number.isInteger(v)) {
       this.error('evaluation', src, `${capital(what)} must be a whole number, not ${fmt(v)}.`);
@@ -267,7 +274,7 @@ class ModelBuilder {
       return null;
     }
     const bm = named.get('barrier_mass');
-    const barrierMass = bm ? this.constant(bm.value, 'mass', 'the barrier mass') : undefined;
+    const barrierMass = bm ? this.argument('well', 'barrier_mass', bm.value) : undefined;
     if (barrierMass === null) return null;
     if (barrierMass !== undefined && !(barrierMass > 0 && Number.isFinite(barrierMass))) {
       this.error('evaluation', bm!.value, `The barrier mass must be positive and finite, not ${fmt(barrierMass)}.`);
@@ -298,12 +305,12 @@ class ModelBuilder {
   }
 
   private potential(spec: Extract<SystemSpec, { kind: 'potential' }>): SystemModel | null {
-    const a = this.constant(spec.from, 'length', "the interval's left end");
-    const b = this.constant(spec.to, 'length', "the interval's right end");
+    const a = this.slot(spec.from, SLOTS.intervalLeft);
+    const b = this.slot(spec.to, SLOTS.intervalRight);
     const e = this.expr(spec.expr);
     if (!e) return null;
     const scope: Scope = { ...this.scope, hasX: true, hasPhi: false };
-    const checked = checkExpression(e, scope, dimensionOf('energy', this.units), 'the potential');
+    const checked = checkExpression(e, scope, dimensionOf(SLOTS.potential.kind, this.units), SLOTS.potential.what);
     this.push(checked.diagnostics);
     if (checked.dimension === null || a === null || b === null) return null;
     if (!(b > a)) {
@@ -322,7 +329,7 @@ class ModelBuilder {
   private massProfile(sys: Extract<SystemModel, { kind: 'potential' }>, src: ExprText, scope: Scope): SystemModel | null {
     const e = this.expr(src);
     if (!e) return null;
-    const checked = checkExpression(e, scope, dimensionOf('mass', this.units), 'the mass');
+    const checked = checkExpression(e, scope, dimensionOf(SLOTS.massProfile.kind, this.units), SLOTS.massProfile.what);
     this.push(checked.diagnostics);
     if (checked.dimension === null) return null;
     const c = compileFunction(e, scope);
@@ -348,7 +355,7 @@ class ModelBuilder {
         return { kind: 'psi', fn: c.result, expr: spec.expr, usesPhi: usesName(e, 'phi'), dimension: checked.dimension, peaks: gaussianFactors(e, scope) };
       }
       case 'eigen': {
-        const level = this.integer(spec.level, 'the level', 0, this.options.maxBasis);
+        const level = this.integer(spec.level, SLOTS.eigenLevel, 0, this.options.maxBasis);
         const system = this.system(spec.system);
         // Whether the level exists (and the system's first label) is a fact of its basis, checked when it is built.
         if (level === null || system === null) return null;
@@ -396,12 +403,13 @@ class ModelBuilder {
     };
   }
 
-  private comparison(c: import('../language/ast').Comparison, kind: ValueKind | null, what: string): ComparisonModel | null {
-    if (kind === null) return this.anyComparison(c);
-    const value = this.constant(c.value, kind, what);
+  /** A comparison of the slot's kind (slots.ts), or of any dimension (`null`, the tolerance then has the value's). */
+  private comparison(c: import('../language/ast').Comparison, s: SlotSpec | null): ComparisonModel | null {
+    if (s === null) return this.anyComparison(c);
+    const value = this.slot(c.value, s);
     if (value === null) return null;
     if (c.kind === 'tolerance') {
-      const tol = this.constant(c.tolerance, kind, 'the tolerance');
+      const tol = this.slot(c.tolerance, toleranceSlot(s));
       if (tol === null) return null;
       if (!(tol >= 0)) {
         this.error('evaluation', c.tolerance, 'The tolerance must not be negative.');
@@ -480,29 +488,29 @@ class ModelBuilder {
         // A value with a dimension is checked against the state's once the state is known (`normDimensions`).
         const dim = this.units.mode === 'physical' ? this.dimensionOfValue(x.comparison.value) : null;
         if (dim !== null && !sameDimension(dim, dimensionOf('dimensionless', this.units))) {
-          const c = this.comparison(x.comparison, null, 'the expected norm');
+          const c = this.comparison(x.comparison, null);
           if (c) this.dimensionalNorms.push({ stmt, dimension: dim, span: x.comparison.value });
           return c ? { kind: 'norm', stmt, comparison: c } : null;
         }
-        const c = this.comparison(x.comparison, 'dimensionless', 'the expected norm');
+        const c = this.comparison(x.comparison, SLOTS.expectNorm);
         return c ? { kind: 'norm', stmt, comparison: c } : null;
       }
       case 'level': {
-        const level = this.integer(x.level, 'the level', 0, this.options.maxBasis);
-        const c = this.comparison(x.comparison, 'energy', "the expected level's energy");
+        const level = this.integer(x.level, SLOTS.expectLevel, 0, this.options.maxBasis);
+        const c = this.comparison(x.comparison, SLOTS.expectLevelEnergy);
         return level !== null && c ? { kind: 'level', stmt, level, comparison: c } : null;
       }
       case 'continuum': {
-        const c = this.comparison(x.comparison, 'dimensionless', 'the expected continuum weight');
+        const c = this.comparison(x.comparison, SLOTS.expectContinuum);
         return c ? { kind: 'continuum', stmt, comparison: c } : null;
       }
       case 'revival': {
-        const c = this.comparison(x.comparison, 'time', 'the expected revival time');
+        const c = this.comparison(x.comparison, SLOTS.expectRevival);
         return c ? { kind: 'revival', stmt, comparison: c } : null;
       }
       case 'mean': {
-        const time = this.constant(x.time, 'time', 'the time');
-        const c = this.comparison(x.comparison, x.observable === 'x' ? 'length' : 'wavenumber', `the expected mean ${x.observable}`);
+        const time = this.slot(x.time, SLOTS.expectMeanTime);
+        const c = this.comparison(x.comparison, x.observable === 'x' ? SLOTS.expectMeanX : SLOTS.expectMeanP);
         if (time === null || c === null) return null;
         if (!(time >= 0) || !Number.isFinite(time)) {
           this.error('evaluation', x.time, 'The time must be zero or positive and finite.');
@@ -512,13 +520,13 @@ class ModelBuilder {
       }
       case 'energy':
       case 'spread': {
-        const c = this.comparison(x.comparison, 'energy', x.kind === 'energy' ? 'the expected energy' : 'the expected spread');
+        const c = this.comparison(x.comparison, x.kind === 'energy' ? SLOTS.expectEnergy : SLOTS.expectSpread);
         return c ? { kind: x.kind, stmt, comparison: c } : null;
       }
       case 'weight': {
-        const from = this.integer(x.from, 'the first level', 0, this.options.maxBasis);
-        const to = x.to ? this.integer(x.to, 'the last level', 0, this.options.maxBasis) : from;
-        const c = this.comparison(x.comparison, 'dimensionless', 'the expected weight');
+        const from = this.integer(x.from, SLOTS.expectWeightFrom, 0, this.options.maxBasis);
+        const to = x.to ? this.integer(x.to, SLOTS.expectWeightTo, 0, this.options.maxBasis) : from;
+        const c = this.comparison(x.comparison, SLOTS.expectWeight);
         if (from === null || to === null || c === null) return null;
         if (to < from) {
           this.error('evaluation', x.to ?? x.from, `The level range ${from}..${to} is empty.`);

@@ -95,7 +95,7 @@ export function buildBasis(
   }
 }
 
-/** A numerical system's basis: V probed for bad values, solved, and remembered in the memo. */
+/** A numerical system's basis: V probed for bad values, solved, and remembered in the memo, with the next-to-last grid's basis the solver kept from its climb (`coarse`; a second solve to that size is the fallback). */
 function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mass: number, count: number, out: EngineDiagnostic[], options: BuildOptions): BuiltBasis | null {
   const memoKey = system.key === undefined ? null : `${system.key}|${system.a}|${system.b}|${mass}|${count}|${options.maxGridPoints}`;
   const hit = memoKey === null ? undefined : basisMemo.get(memoKey);
@@ -166,7 +166,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     wallTrend: solved.wallTrend,
     ...(findings.length > 0 ? { findings } : {}),
   };
-  const coarse = options.coarse === false ? null : coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { ...caps, maxPoints }));
+  const coarse = options.coarse === false || options.budget.expired() ? null : (solved.coarse ?? coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { ...caps, maxPoints })));
   if (coarse) built.coarse = coarse;
   const entry = { built, above: solved.wallLevels, ends: solved.wallEnds };
   // A solve cut short by the time limit or a cancellation is not kept: the next edit deserves a full one.

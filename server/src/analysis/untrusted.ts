@@ -14,6 +14,7 @@ import { checkExpression, foldReal } from '../expr/check';
 import { createScope, makeUnitSystem } from '../expr/units';
 import { paramOf, SIGNATURES, type ConstructorName } from '../language/signatures';
 import { dimensionOf, type ValueKind } from './dimensions';
+import { SLOTS, toleranceSlot, type SlotSpec } from './slots';
 import { frequencyAsEnergy } from './frequencyEnergy';
 import { readFile, sortDiagnostics, internalError } from './front';
 import { resolveLimits, type AnalyseOptions, type Limits } from './options';
@@ -28,6 +29,8 @@ interface Slot {
   /** Inside `V(x)` and `psi(x)`: the position x (and, in psi of a file with a system, phi). */
   hasX?: boolean;
   hasPhi?: boolean;
+  /** With `kind` null: the value must have the dimension of this expression (a norm's tolerance, the norm's). */
+  like?: ExprText;
 }
 
 /** Syntax, name and unit checks of `text`, evaluating nothing. Never throws. */
@@ -68,7 +71,11 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
     push(p.diagnostics);
     if (!p.result) return;
     const s: Scope = { ...scope, hasX: slot.hasX ?? false, hasPhi: slot.hasPhi ?? false };
-    const checked = checkExpression(p.result, s, slot.kind === null ? null : dimensionOf(slot.kind, units), slot.what);
+    const like = slot.like ? parseExpression(slot.like, parseOptions).result : null;
+    const want = slot.kind !== null ? dimensionOf(slot.kind, units) : like ? checkExpression(like, s, null, slot.what).dimension : null;
+    // A value the reference's own finding already covers (its dimension unknown) is not judged against it.
+    if (slot.like && want === null) return push(checkExpression(p.result, s, null, slot.what).diagnostics);
+    const checked = checkExpression(p.result, s, want, slot.what);
     // A frequency where a constant energy is expected stands for E = h f (frequencyEnergy.ts), as in the model.
     if (!slot.hasX && checked.diagnostics.some((d) => d.code === 'units')) {
       const free = checkExpression(p.result, s, null, slot.what);
@@ -106,13 +113,13 @@ function checkFile(file: QFile, limits: Limits, out: EngineDiagnostic[]): void {
 function slotsOf(stmt: Statement): Slot[] {
   switch (stmt.kind) {
     case 'mass':
-      return [{ src: stmt.expr, kind: 'mass', what: 'the mass' }];
+      return [at(stmt.expr, SLOTS.mass)];
     case 'system':
       return systemSlots(stmt.system);
     case 'basis':
-      return [{ src: stmt.expr, kind: 'dimensionless', what: 'the basis size' }];
+      return [at(stmt.expr, SLOTS.basis)];
     case 'evolve':
-      return [{ src: stmt.to, kind: 'time', what: 'the evolution time' }, ...(stmt.steps ? [{ src: stmt.steps, kind: 'dimensionless' as const, what: 'the number of steps' }] : [])];
+      return [at(stmt.to, SLOTS.evolveTime), ...(stmt.steps ? [at(stmt.steps, SLOTS.evolveSteps)] : [])];
     case 'expect':
       return expectSlots(stmt.expectation);
     default:
@@ -127,33 +134,40 @@ function expectSlots(x: Expectation): Slot[] {
       return [];
     case 'norm':
       // A dimensionless number, or the dimension of the integral of |psi|^2, which the checked model knows.
-      return comparisonSlots(x.comparison, null, 'the expected norm');
+      return comparisonSlots(x.comparison, null);
     case 'energy':
     case 'spread':
-      return comparisonSlots(x.comparison, 'energy', `the expected ${x.kind}`);
+      return comparisonSlots(x.comparison, x.kind === 'energy' ? SLOTS.expectEnergy : SLOTS.expectSpread);
     case 'weight':
       return [
-        { src: x.from, kind: 'dimensionless', what: 'the first level' },
-        ...(x.to ? [{ src: x.to, kind: 'dimensionless' as const, what: 'the last level' }] : []),
-        ...comparisonSlots(x.comparison, 'dimensionless', 'the expected weight'),
+        at(x.from, SLOTS.expectWeightFrom),
+        ...(x.to ? [at(x.to, SLOTS.expectWeightTo)] : []),
+        ...comparisonSlots(x.comparison, SLOTS.expectWeight),
       ];
     case 'level':
-      return [{ src: x.level, kind: 'dimensionless', what: 'the level' }, ...comparisonSlots(x.comparison, 'energy', "the expected level's energy")];
+      return [at(x.level, SLOTS.expectLevel), ...comparisonSlots(x.comparison, SLOTS.expectLevelEnergy)];
     case 'continuum':
-      return comparisonSlots(x.comparison, 'dimensionless', 'the expected continuum weight');
+      return comparisonSlots(x.comparison, SLOTS.expectContinuum);
     case 'revival':
-      return comparisonSlots(x.comparison, 'time', 'the expected revival time');
+      return comparisonSlots(x.comparison, SLOTS.expectRevival);
     case 'mean':
       return [
-        { src: x.time, kind: 'time', what: 'the time' },
-        ...comparisonSlots(x.comparison, x.observable === 'x' ? 'length' : 'wavenumber', `the expected mean ${x.observable}`),
+        at(x.time, SLOTS.expectMeanTime),
+        ...comparisonSlots(x.comparison, x.observable === 'x' ? SLOTS.expectMeanX : SLOTS.expectMeanP),
       ];
   }
 }
 
-function comparisonSlots(c: Comparison, kind: ValueKind | null, what: string): Slot[] {
-  const value: Slot = { src: c.value, kind, what };
-  return c.kind === 'tolerance' ? [value, { src: c.tolerance, kind, what: 'the tolerance' }] : [value];
+/** The value and the tolerance of a comparison of the slot's kind, or of any dimension (`null`: the norm, which the model checks against the state's). */
+function comparisonSlots(c: Comparison, s: SlotSpec | null): Slot[] {
+  const value: Slot = s ? at(c.value, s) : { src: c.value, kind: null, what: SLOTS.expectNorm.what };
+  if (c.kind !== 'tolerance') return [value];
+  return [value, s ? at(c.tolerance, toleranceSlot(s)) : { src: c.tolerance, kind: null, what: toleranceSlot(SLOTS.expectNorm).what, like: c.value }];
+}
+
+/** The expression `src` in a statement slot (slots.ts). */
+function at(src: ExprText, s: SlotSpec, inX: { hasX?: boolean; hasPhi?: boolean } = {}): Slot {
+  return { src, kind: s.kind, what: s.what, ...inX };
 }
 
 /** The slots of a constructor's arguments, each with its dimension and words from its signature. */
@@ -171,10 +185,10 @@ function argSlots(constructor: ConstructorName, args: Arg[]): Slot[] {
 function systemSlots(spec: SystemSpec): Slot[] {
   if (spec.kind !== 'potential') return argSlots(spec.kind, spec.args);
   return [
-    { src: spec.from, kind: 'length', what: "the interval's left end" },
-    { src: spec.to, kind: 'length', what: "the interval's right end" },
-    { src: spec.expr, kind: 'energy', what: 'the potential', hasX: true },
-    ...(spec.mass ? [{ src: spec.mass, kind: 'mass' as const, what: 'the mass', hasX: true }] : []),
+    at(spec.from, SLOTS.intervalLeft),
+    at(spec.to, SLOTS.intervalRight),
+    at(spec.expr, SLOTS.potential, { hasX: true }),
+    ...(spec.mass ? [at(spec.mass, SLOTS.massProfile, { hasX: true })] : []),
   ];
 }
 
@@ -183,7 +197,7 @@ function stateSlots(spec: StateSpec, hasSystem: boolean): Slot[] {
     case 'psi':
       return [{ src: spec.expr, kind: null, what: 'the state', hasX: true, hasPhi: hasSystem }];
     case 'eigen':
-      return [{ src: spec.level, kind: 'dimensionless', what: 'the level' }, ...systemSlots(spec.system)];
+      return [at(spec.level, SLOTS.eigenLevel), ...systemSlots(spec.system)];
     case 'gaussian':
       return argSlots('gaussian', spec.args);
     case 'samples':
@@ -192,6 +206,6 @@ function stateSlots(spec: StateSpec, hasSystem: boolean): Slot[] {
     case 'thermal':
       return [...argSlots('thermal', spec.args), ...systemSlots(spec.system)];
     case 'mixture':
-      return spec.parts.flatMap((p) => [{ src: p.weight, kind: 'dimensionless' as const, what: 'the weight' }, ...stateSlots(p.state, hasSystem)]);
+      return spec.parts.flatMap((p) => [at(p.weight, SLOTS.mixtureWeight), ...stateSlots(p.state, hasSystem)]);
   }
 }

@@ -1,5 +1,7 @@
 /**
- * Parity of a state about a centre c, measured from samples at mirrored points.
+ * Parity of a state about a centre c, measured from samples at mirrored points: the one home of the
+ * even/odd split and its thresholds. The analysis measures every state's parity with it
+ * (analysis/measure.ts) and words the finding from `nearlySymmetric` (analysis/checks.ts).
  */
 
 /** Samples of psi at nodes x_j and at their mirror images 2c - x_j, with quadrature weights w_j. */
@@ -28,6 +30,10 @@ export interface ParityResult {
   /** even + odd: the norm over the symmetric region. */
   total: number;
   classification: 'even' | 'odd' | 'mixed';
+  /** The smaller part's share of the total (0 for a zero state). */
+  minor: number;
+  /** The larger part ('even' when they are equal). */
+  major: 'even' | 'odd';
 }
 
 /**
@@ -59,7 +65,7 @@ export function parityOf(s: MirrorSamples, options: ParityOptions = {}): ParityR
   let classification: ParityResult['classification'] = 'mixed';
   if (!(total > 0) || odd <= tol * total) classification = 'even';
   else if (even <= tol * total) classification = 'odd';
-  return { even, odd, total, classification };
+  return { even, odd, total, classification, minor: total > 0 ? Math.min(even, odd) / total : 0, major: odd <= even ? 'even' : 'odd' };
 }
 
 /** Options of {@link nearlySymmetric}. */
@@ -74,17 +80,16 @@ export interface NearOptions {
  * Tells whether a state is almost but not quite symmetric: the minor part (odd for a mostly even
  * state, even for a mostly odd one) holds a fraction of the weight in (lower, upper]. Returns the
  * parity it almost has and that fraction, or null (exactly symmetric within `lower`, or clearly
- * mixed). Used to warn about a small slip such as a centre off by a little (common practice).
+ * mixed). Used to warn about a small slip such as a centre off by a little (common practice). Takes
+ * the share and the larger part only, so a mixed state's combined parity (analysis/mixed.ts) is
+ * judged by the same rule.
  */
 export function nearlySymmetric(
-  p: ParityResult,
+  p: Pick<ParityResult, 'minor' | 'major'>,
   options: NearOptions = {},
 ): { almost: 'even' | 'odd'; fraction: number } | null {
   const lower = options.lower ?? 1e-10;
   const upper = options.upper ?? 1e-3;
-  if (!(p.total > 0)) return null;
-  const minor = Math.min(p.even, p.odd);
-  const fraction = minor / p.total;
-  if (fraction > lower && fraction <= upper) return { almost: p.even >= p.odd ? 'even' : 'odd', fraction };
+  if (p.minor > lower && p.minor <= upper) return { almost: p.major, fraction: p.minor };
   return null;
 }

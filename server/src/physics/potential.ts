@@ -7,6 +7,7 @@ import { unlimitedBudget, type Budget, type StopReason } from './budget';
 import { firstGridSize, scanPotential, evalV } from './potentialScan';
 import { JUMP_ORDER, levelScale, refine, roundingFloor } from './potentialRefine';
 import { emptyBasis, fixSigns, makeBasis } from './potentialView';
+import type { SineDvrSolution } from './dvr';
 import { fixMassSigns, massBasis, massSetup, type MassProfile, type MassSolution } from './massProfile';
 
 /** A vectorised potential: V at every x of the array, in internal units. */
@@ -107,6 +108,11 @@ export interface PotentialBasisResult {
    * and the one before it the grid it was checked against.
    */
   sizes: number[];
+  /**
+   * The basis on the next-to-last grid of `sizes`, kept from the climb (absent with one size): the same
+   * as a solve capped at that size, for the coefficients' uncertainties. Its `uncertainty` is not estimated (zeros).
+   */
+  coarse?: Eigenbasis;
   /**
    * Why refinement stopped short of the tolerance: 'time' or 'cancelled' (the budget expired before a
    * solve the tolerance needed), 'cap' (the grid or work cap, or the rounding floor of double precision
@@ -230,7 +236,25 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   const basis = mp
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
-  return { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
+  const out: PotentialBasisResult = { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
+  if (r.coarse) out.coarse = coarseView(r.coarse, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
+  return out;
+}
+
+/** The next-to-last grid's solution as a basis, with the sign convention and view of the fine one. */
+function coarseView(
+  c: SineDvrSolution,
+  at: { a: number; b: number; mass: number; V: PotentialFn; center: number | null; breakpoints: number[] },
+  budget: Budget,
+  mass: { profile: MassProfile; jumps: Parameters<typeof massBasis>[2] } | null,
+): Eigenbasis {
+  const zeros = new Float64Array(c.energies.length);
+  if (!mass) {
+    fixSigns(c, budget);
+    return makeBasis(c, at.a, at.b, at.mass, at.V, at.center, at.breakpoints, c.energies, zeros);
+  }
+  fixMassSigns(c as MassSolution, mass.profile);
+  return massBasis(c as MassSolution, mass.profile, mass.jumps, { ...at, energies: c.energies, uncertainty: zeros });
 }
 
 /** The result of a solve that could not start or finish its first grid: an empty basis and why. */

@@ -33,6 +33,8 @@ export interface RefineSetup {
   lastSolve?: { ms: number; work: number };
   /** Set by `solveAt` when the budget ran out inside a solve (which then returns null). */
   stoppedBy?: StopReason;
+  /** The last two finished solves, oldest first (set by `solveAt`; see `Refined.coarse`). */
+  solved?: { N: number; sol: SineDvrSolution }[];
 }
 
 /** The outcome of `refine`. */
@@ -48,6 +50,12 @@ export interface Refined {
   expired: StopReason | null;
   /** A note on algebraic convergence stopped by the cap, when one applies. */
   capNote: string | null;
+  /**
+   * The solution at the next-to-last size of `sizes` (null with fewer than two), kept from the climb:
+   * exactly what a solve capped at that size returns, so the coefficients' uncertainties
+   * (analysis/coefficientErrors.ts) need no second climb.
+   */
+  coarse?: SineDvrSolution | null;
 }
 
 /**
@@ -88,6 +96,7 @@ function solveAt(s: RefineSetup, N: number, valuesOnly = false): SineDvrSolution
     return null;
   }
   s.lastSolve = { ms: s.budget.clock.now() - t0, work: s.budget.work.ops - w0 };
+  if (sol) s.solved = [...(s.solved ?? []).slice(-1), { N, sol }];
   return sol;
 }
 
@@ -182,7 +191,16 @@ interface Climb {
  * exceeds the cap, N_f = min(cap, max(2 N, algebraicPoints)).
  */
 export function refine(s: RefineSetup, N0: number): Refined {
-  if (s.scan.jumps.length > 0) return jumpClimb(s, N0);
+  const r = s.scan.jumps.length > 0 ? jumpClimb(s, N0) : climb(s, N0);
+  // The solve before the last, when it is the next-to-last size (every finished solve is one size).
+  const [before, last] = s.solved ?? [];
+  const n = r.sizes.length;
+  r.coarse = r.sol && before && last && last.sol === r.sol && n >= 2 && before.N === r.sizes[n - 2] ? before.sol : null;
+  return r;
+}
+
+/** The climb of a smooth V (see `refine`). */
+function climb(s: RefineSetup, N0: number): Refined {
   const first = solveAt(s, N0);
   if (!first) return { sol: null, diffs: new Float64Array(0), sizes: [N0], capped: false, expired: s.stoppedBy ?? null, capNote: null };
   const sizes = [N0];
