@@ -20,7 +20,9 @@ describe('resource limits', () => {
   });
 
   it('caps the grid and says the coefficients may be inaccurate', () => {
-    const text = 'system box(0, 1)\nstate psi(x) = x < 0.3 ? x : 0.3 * (1 - x) / 0.7\nbasis 200\n';
+    // The sine transform needs at least twice as many samples as levels (analysis/boxTransform.ts): 2,000
+    // levels cannot settle under a 640-point cap, where 200 would (on 400 samples, no finding then).
+    const text = 'system box(0, 1)\nstate psi(x) = x < 0.3 ? x : 0.3 * (1 - x) / 0.7\nbasis 2000\n';
     expectFinding(text, 'limits', 'x < 0.3 ? x : 0.3 * (1 - x) / 0.7', [640], { limits: { maxGridPoints: 640 } });
   });
 
