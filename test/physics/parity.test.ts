@@ -76,4 +76,20 @@ describe('the analysis measures parity here', () => {
     expect(findings('0.001')).toEqual({ parity: 'mixed', found: [['warning', true]] });
     expect(findings('1')).toEqual({ parity: 'mixed', found: [] });
   });
+
+  it('names only the levels of the other parity that the basis holds', () => {
+    // A finite well of width 1 and depth V0 (m = hbar = 1) has z0 = sqrt(2 V0) / 2 and ceil(2 z0 / pi)
+    // bound levels (the standard square-well count, any quantum mechanics text): depth 2 gives z0 = 1,
+    // one level (even); depth 10 gives z0 = 2.24, two levels; a box of 40 levels names n = 2, 4, 6, ...
+    const levelsNamed = (system: string) => {
+      const r = analyse(`system ${system}\nstate gaussian(center = 0, width = 0.3)\nbasis 40\n`);
+      const d = r.diagnostics.find((x) => x.code === 'parity');
+      expect(d?.severity).toBe('info');
+      const list = /n = ([0-9, ]+)(, \.\.\.)?\)? (vanish|would vanish)/.exec(d!.message);
+      return { count: r.levels.length, named: list![1]!.split(', ').map(Number), more: list![2] !== undefined, would: list![3] === 'would vanish' };
+    };
+    expect(levelsNamed('well(depth = 2, width = 1)')).toEqual({ count: 1, named: [2, 4], more: true, would: true });
+    expect(levelsNamed('well(depth = 10, width = 1)')).toEqual({ count: 2, named: [2], more: false, would: false });
+    expect(levelsNamed('box(-0.5, 0.5)')).toEqual({ count: 40, named: [2, 4, 6], more: true, would: false });
+  });
 });

@@ -211,12 +211,16 @@ export const checkParity: StateCheck = (m, ctx) => {
   const p = m.parity;
   if (!p) return [];
   const c = fmt(p.center);
-  // Levels of the other parity: index 1, 3, ... vanish for an even state, 0, 2, ... for an odd one.
+  // Levels of the other parity: index 1, 3, ... vanish for an even state, 0, 2, ... for an odd one; only
+  // those the basis holds are named (a well with one bound level has none of the other parity).
   const vanish = (parity: 'even' | 'odd'): string => {
     const first = m.basis.firstLabel + (parity === 'even' ? 1 : 0);
-    return `n = ${first}, ${first + 2}, ${first + 4}, ...`;
+    const last = m.basis.firstLabel + m.basis.count - 1;
+    if (first > last) return `the levels of the other parity (n = ${first}, ${first + 2}, ...) would vanish by symmetry; the basis's ${plural(m.basis.count, 'level')} ${m.basis.count === 1 ? 'is' : 'are'} all of the state's parity`;
+    const named = [first, first + 2, first + 4].filter((n) => n <= last);
+    return `the levels n = ${named.join(', ')}${first + 6 <= last ? ', ...' : ''} vanish by symmetry`;
   };
-  if (p.parity !== 'mixed') return [warn('parity', ctx.stateSpan, `The state is ${p.parity} about x = ${c}: the levels ${vanish(p.parity)} vanish by symmetry.`, undefined, 'info')];
+  if (p.parity !== 'mixed') return [warn('parity', ctx.stateSpan, `The state is ${p.parity} about x = ${c}: ${vanish(p.parity)}.`, undefined, 'info')];
   const near = nearlySymmetric(p);
   if (!near) return [];
   return [warn('parity', ctx.stateSpan, `The state is almost ${near.almost} about x = ${c} but not quite: the ${near.almost === 'even' ? 'odd' : 'even'} part carries ${pct(near.fraction)} of the weight.`, undefined, 'warning')];
