@@ -2,7 +2,8 @@
 // Renders the spectrum panel in headless Chromium with real engine results and saves PNGs.
 //   node scripts/screenshots.mjs                 the README's pictures into docs/screenshots/ (the three
 //                                                views, and the sweep view of a one- and a two-parameter sweep)
-//   node scripts/screenshots.mjs --all --out DIR every view of every example, in the light, dark and
+//   node scripts/screenshots.mjs --all --out DIR [--only WORD] [--theme NAME] [--width 480|1400]
+//                                                every view of every example, in the light, dark and
 //                                                high-contrast themes, at 480 px and 1400 px wide (the sweep
 //                                                view for the examples with a sweep line)
 // Needs `npm run build` first (it serves dist/webview, the very files the extension ships) and
@@ -24,6 +25,12 @@ const out = resolve(outAt >= 0 ? args[outAt + 1] : 'docs/screenshots');
 const onlyAt = args.indexOf('--only');
 /** With --only WORD, just the examples whose name contains WORD (with --all). */
 const only = onlyAt >= 0 ? args[onlyAt + 1] : '';
+const themeAt = args.indexOf('--theme');
+/** With --theme NAME (dark, light, high-contrast), just that theme (with --all). */
+const onlyTheme = themeAt >= 0 ? args[themeAt + 1] : '';
+const widthAt = args.indexOf('--width');
+/** With --width N (480 or 1400), just that width (with --all). */
+const onlyWidth = widthAt >= 0 ? Number(args[widthAt + 1]) : 0;
 
 /** Editor-like colours per theme kind, set as the --vscode-* variables the panel reads. */
 const THEMES = {
@@ -46,7 +53,7 @@ async function engine() {
   const dir = mkdtempSync(join(tmpdir(), 'eigenspan-shots-'));
   const file = join(dir, 'engine.mjs');
   await build({
-    stdin: { contents: "export { analyse } from './server/src/analysis/index';\nexport { runSweep } from './server/src/analysis/sweep/index';\nexport { buildPanelHtml, makeNonce } from './client/src/panelHtml';\n", resolveDir: process.cwd(), loader: 'ts' },
+    stdin: { contents: "export { analyse } from './server/src/analysis/index';\nexport { runSweep } from './server/src/analysis/sweep/index';\nexport { dataOf } from './server/src/cli/data';\nexport { buildPanelHtml, makeNonce } from './client/src/panelHtml';\n", resolveDir: process.cwd(), loader: 'ts' },
     bundle: true,
     platform: 'node',
     format: 'esm',
@@ -127,11 +134,12 @@ async function post(page, msg) {
 
 const analysed = new Map();
 /** The panel's result message body for an example, analysed once per run. */
-function resultFor(analyse, path) {
+function resultFor(analyse, dataOf, path) {
   if (!analysed.has(path)) {
     const source = readFileSync(path, 'utf8');
     // A generous time limit, so the pictures do not depend on how busy the machine is.
-    const { file: _file, ...result } = analyse(source, { samples: true, limits: { maxMillis: 60000 } });
+    // The data files the example names, read as the command line reads them (inside its folder).
+    const { file: _file, ...result } = analyse(source, { samples: true, limits: { maxMillis: 60000 }, data: dataOf(path, source) });
     const lines = result.diagnostics.map((d) => source.slice(0, d.start).split('\n').length - 1);
     analysed.set(path, { json: JSON.stringify(result), lines });
   }
@@ -141,21 +149,22 @@ function resultFor(analyse, path) {
 
 const swept = new Map();
 /** The sweep of an example (as the language server sends it when the sweep ends), run once per run; null without one. */
-function sweepFor(runSweep, path) {
-  if (!swept.has(path)) swept.set(path, JSON.stringify(runSweep(readFileSync(path, 'utf8'), {}, { maxMillis: 600000 })?.result ?? null));
+function sweepFor(runSweep, dataOf, path) {
+  const text = readFileSync(path, 'utf8');
+  if (!swept.has(path)) swept.set(path, JSON.stringify(runSweep(text, { data: dataOf(path, text) }, { maxMillis: 600000 })?.result ?? null));
   return JSON.parse(swept.get(path));
 }
 
 async function shoot(page, engine, shot, path, version) {
-  const { analyse, runSweep } = engine;
-  const { result, lines } = resultFor(analyse, shot.file);
+  const { analyse, runSweep, dataOf } = engine;
+  const { result, lines } = resultFor(analyse, dataOf, shot.file);
   const name = shot.file.slice(shot.file.lastIndexOf('/') + 1);
   const uri = `file:///ws/${name}`;
   // The sweep tab appears once the file's sweep has arrived; the others can be opened first.
   if (shot.tab !== 'sweep') await page.click(`#tab-${shot.tab}`);
   await post(page, { type: 'result', uri, version, fileName: name, result, diagnosticLines: lines });
   if (shot.tab === 'sweep') {
-    await post(page, { type: 'sweep', uri, version, sweep: sweepFor(runSweep, shot.file) });
+    await post(page, { type: 'sweep', uri, version, sweep: sweepFor(runSweep, dataOf, shot.file) });
     await page.click('#tab-sweep');
     await page.evaluate(() => new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(r))));
   }
@@ -179,7 +188,9 @@ let version = 0;
 const written = [];
 try {
   const plans = all
-    ? Object.keys(THEMES).flatMap((theme) => [480, 1400].map((width) => ({ theme, width })))
+    ? Object.keys(THEMES)
+        .filter((theme) => onlyTheme === '' || theme === onlyTheme)
+        .flatMap((theme) => [480, 1400].filter((width) => onlyWidth === 0 || width === onlyWidth).map((width) => ({ theme, width })))
     : [{ theme: 'dark', width: 1100 }];
   for (const { theme, width } of plans) {
     const page = await browser.newPage({ viewport: { width, height: width < 800 ? 900 : 700 } });
