@@ -210,7 +210,7 @@ if (spawnRuns > 0 && existsSync(join(root, 'dist', 'cli.js'))) {
     const text = pool[k % pool.length].slice(0, pool[k % pool.length].length - (k % 7));
     const file = join(work, `spawn-${k}.qstate`);
     writeFileSync(file, text);
-    const args = k % 2 === 0 ? ['check', file, '--time-limit', '1500'] : ['expand', file, '--json', '--time-limit', '1500'];
+    const args = k % 2 === 0 ? ['check', file, '--time-limit', '1500', '--sweep-time-limit', '300'] : ['expand', file, '--json', '--time-limit', '1500', '--sweep-time-limit', '300'];
     const t0 = Date.now();
     const r = spawnSync(process.execPath, [join(root, 'dist', 'cli.js'), ...args], { encoding: 'utf8', timeout: 30_000 });
     const ms = Date.now() - t0;

@@ -9,6 +9,12 @@ import type { FuzzCase } from './harness';
 
 /** Whole analyses run under a time limit below the case budget: the engine must stop itself in time. */
 export const FUZZ_LIMITS: NonNullable<AnalyseOptions['limits']> = { maxMillis: 1500 };
+/**
+ * The sweep's own time limit in the command-line cases (`--sweep-time-limit`): a sweep runs after the
+ * file's analysis under a budget of its own (docs/format.md, Sweeps), so a case whose text has a `sweep`
+ * line may take this much longer than the others (its budget grows by as much).
+ */
+export const FUZZ_SWEEP_MS = 300;
 
 /**
  * Replays of saved time overruns run on a clock of counted work (`workClock`: a machine doing one counted
