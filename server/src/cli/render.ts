@@ -133,11 +133,13 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
     const timeUnit = result.units.time ? ` ${result.units.time}` : result.units.energy ? ` hbar/${result.units.energy}` : '';
     lines.push(`evolution: ${result.evolution.times.length} times up to ${num(result.evolution.times[result.evolution.times.length - 1], 6)}${timeUnit}; revival ${result.evolution.revival === null ? 'none found' : num(result.evolution.revival, 8) + timeUnit}`);
   }
-  const idx = lineTable(text);
-  if (result.diagnostics.length === 0) lines.push('diagnostics: none');
-  else {
-    lines.push('diagnostics:');
-    for (const d of result.diagnostics) lines.push('  ' + renderDiagnostic(file, d, idx));
-  }
+  lines.push(...diagnosticLines(file, text, result.diagnostics));
   return lines.join('\n') + '\n';
+}
+
+/** The table's closing block: `diagnostics: none`, or each finding as a `FILE:LINE:COL:` line, indented. */
+export function diagnosticLines(file: string, text: string, diagnostics: AnalysisResult['diagnostics']): string[] {
+  if (diagnostics.length === 0) return ['diagnostics: none'];
+  const idx = lineTable(text);
+  return ['diagnostics:', ...diagnostics.map((d) => '  ' + renderDiagnostic(file, d, idx))];
 }

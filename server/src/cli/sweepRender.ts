@@ -6,9 +6,8 @@
 import { energyUnitDescription } from '../shared/energyUnit';
 import type { AnalysisResult } from '../analysis/types';
 import type { SweepResult } from '../analysis/sweep/index';
-import { lineTable } from '../language/positions';
 import { formatNumber as num } from '../shared/numbers';
-import { renderDiagnostic } from './render';
+import { diagnosticLines } from './render';
 
 /** Populations shown per point in the table (the CSV has every level a point reports). */
 const TABLE_LEVELS = 3;
@@ -52,12 +51,7 @@ export function renderSweepTable(result: AnalysisResult, text: string, file: str
   const fmtRow = (r: string[]): string => '  ' + r.map((c, k) => (c.startsWith('invalid') ? c : c.padStart(width[k] ?? 0))).join('  ');
   const lines = [`== ${file}`, ...head(s), fmtRow(cols), ...rows.map(fmtRow)];
   lines.push(...locatedLines(s), ...windowLines(s));
-  const idx = lineTable(text);
-  if (result.diagnostics.length === 0) lines.push('diagnostics: none');
-  else {
-    lines.push('diagnostics:');
-    for (const d of result.diagnostics) lines.push('  ' + renderDiagnostic(file, d, idx));
-  }
+  lines.push(...diagnosticLines(file, text, result.diagnostics));
   return lines.join('\n') + '\n';
 }
 
