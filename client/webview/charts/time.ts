@@ -6,9 +6,9 @@
 import { formatNumber, formatPercent } from '../../../server/src/shared/numbers';
 import type { PanelResult } from '../../src/messages';
 import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
-import { evolvedShare, evolveSampling, hbarInFileUnits, MIN_SAMPLES_PER_PERIOD, relevantLevels } from './facts';
+import { evolvedShare, evolveSampling, MIN_SAMPLES_PER_PERIOD } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
-import { niceAxis, niceCeil, valueAxis } from './scale';
+import { niceAxis, valueAxis } from './scale';
 import { rangeNote, xRange, type XRange } from './xrange';
 
 type Evolution = NonNullable<PanelResult['evolution']>;
@@ -146,20 +146,5 @@ export function timeNotes(result: PanelResult): string[] {
   return notes;
 }
 
-/** What to write to get a time evolution: an `evolve` line over a few periods of the main beat. */
-export function evolveHint(result: PanelResult): string {
-  const tu = result.units.time ? ` ${result.units.time}` : '';
-  const hbar = hbarInFileUnits(result.units);
-  const es = relevantLevels(result).map((l) => l.energy!);
-  let line = `evolve to 10${tu} steps 200`;
-  if (hbar !== null && es.length >= 2) {
-    const spread = Math.max(...es) - Math.min(...es);
-    const main = Math.abs(es[1]! - es[0]!);
-    if (main > 0 && spread > 0) {
-      const to = niceCeil((3 * 2 * Math.PI * hbar) / main);
-      const steps = Math.min(10000, Math.max(100, Math.ceil((to * 8 * spread) / (2 * Math.PI * hbar))));
-      line = `evolve to ${formatNumber(to, 3)}${tu} steps ${steps}`;
-    }
-  }
-  return `No time evolution in this file. Add a line such as \`${line}\` to see |ψ(x,t)|² and the survival probability.`;
-}
+/** The hint for a file without an `evolve` line (its own module: it writes a time in the file's units). */
+export { evolveHint } from './evolveHint';

@@ -1,0 +1,94 @@
+/**
+ * What looking at every view of every example in the light and dark themes, at 480 px and 1400 px,
+ * found, in headless Chromium with real engine results (one test per fix).
+ */
+import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
+import { readFileSync } from 'node:fs';
+import type { Browser, Page } from 'playwright-core';
+import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import { messageFor, messageForFile, openPanel, openTab, panel, post, resultOf } from './driver';
+
+let browser: Browser;
+let server: PanelServer;
+let page: Page;
+let narrow: Page;
+let version = 0;
+const errors: string[] = [];
+let setupError: unknown = null;
+
+beforeAll(async () => {
+  try {
+    server = await servePanel(await bundleWebview());
+    browser = await launchChromium();
+    page = await openPanel(browser, server.origin, 1100, 720, errors);
+    narrow = await openPanel(browser, server.origin, 480, 900, errors);
+  } catch (e) {
+    setupError = e;
+  }
+}, 120_000);
+
+afterAll(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+function it(name: string, body: () => Promise<void>, timeout?: number): void {
+  vitestIt(name, async () => {
+    if (setupError) throw setupError;
+    await body();
+    expect(errors).toEqual([]);
+  }, timeout);
+}
+
+const show = (path: string, p: Page = page) => post(p, messageForFile(path, ++version));
+const showText = (source: string, p: Page = page) => post(p, messageFor(source, ++version, 'file:///ws/scenario.qstate'));
+const text = async (sel: string, p: Page = page) => (await p.textContent(sel)) ?? '';
+
+/** The `evolve` line the time view's hint suggests. */
+async function suggested(p: Page = page): Promise<string> {
+  await openTab(p, 'time');
+  const hint = await text('#empty-time', p);
+  const m = /`(evolve [^`]+)`/.exec(hint);
+  expect(m, hint).not.toBeNull();
+  return m![1]!;
+}
+
+describe('the time view hint for a file without an evolve line', () => {
+  // An electron in a 6 nm well with a 200 meV offset, started off centre (so two bound levels beat);
+  // the units line names no time unit, so times are shown in hbar/meV but must be written with one.
+  const noTimeUnit = ['units nm, meV', 'mass 0.067 m_e', 'system well(depth = 200 meV, width = 6 nm)', 'state gaussian(center = 1 nm, width = 1.5 nm)', ''].join('\n');
+
+  it('suggests a line that the file accepts: a time with a unit when the units line names none', async () => {
+    for (const source of [noTimeUnit, readFileSync('examples/gate-widened-well.qstate', 'utf8'), readFileSync('examples/gate-release.qstate', 'utf8'), readFileSync('examples/plucked-box.qstate', 'utf8')]) {
+      await showText(source);
+      const line = await suggested();
+      const after = resultOf(`${source}\n${line}\n`).result;
+      const errs = after.diagnostics.filter((d) => d.severity === 'error').map((d) => d.message);
+      expect(errs, `${line}`).toEqual([]);
+      const steps = Number(/steps (\d+)/.exec(line)![1]);
+      expect(after.evolution?.times.length, line).toBe(steps + 1);
+    }
+  });
+
+  it('spans a few beats of the two levels that hold the weight, in an SI time unit', async () => {
+    await showText(noTimeUnit);
+    const line = await suggested();
+    const after = resultOf(`${noTimeUnit}\n${line}\n`).result;
+    const ev = after.evolution!;
+    // Times are in hbar/meV here (docs/format.md, evolve); the main beat's period is 2 pi hbar / (E2 - E1).
+    const [e1, e2] = after.levels.map((l) => l.energy!);
+    const period = (2 * Math.PI) / (e2! - e1!);
+    const span = ev.times[ev.times.length - 1]!;
+    expect(line).toMatch(/^evolve to \d+(\.\d+)? (fs|ps|ns) steps \d+$/);
+    expect(span / period).toBeGreaterThanOrEqual(3);
+    expect(span / period).toBeLessThan(3 * 2.5 + 1e-9);
+  });
+
+  it('says when one level holds all the bound weight, so nothing would move', async () => {
+    await show('examples/gate-widened-well.qstate');
+    await openTab(page, 'time');
+    expect(await text('#empty-time')).toMatch(/Only one level holds weight/);
+    await show('examples/gate-release.qstate');
+    expect(await text('#empty-time')).not.toMatch(/Only one level/);
+  });
+});
