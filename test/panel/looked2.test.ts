@@ -92,3 +92,31 @@ describe('the time view hint for a file without an evolve line', () => {
     expect(await text('#empty-time')).not.toMatch(/Only one level/);
   });
 });
+
+describe('the time axis', () => {
+  it('ends where the evolution ends, not at the next round tick past it', async () => {
+    // evolve to 2 pi: the axis ran on to 7.5 (1400 px) and 6.5 (480 px), a fifth of the narrow plot empty.
+    const f = 'examples/trap-frequency-drop.qstate';
+    const r = resultOf(readFileSync(f, 'utf8')).result;
+    const end = r.evolution!.times[r.evolution!.times.length - 1]!;
+    expect(end).toBeCloseTo(2 * Math.PI, 9);
+    for (const p of [page, narrow]) {
+      await show(f, p);
+      await openTab(p, 'time');
+      const ts = (await panel(p, 'axisLabels')).x[1]!.filter((l) => l !== '').map(Number);
+      expect(Math.max(...ts), ts.join(' ')).toBeLessThanOrEqual(end);
+      expect(Math.max(...ts)).toBeGreaterThan(end / 2);
+    }
+  });
+});
+
+describe('the spectrum legend', () => {
+  it('says "first K = 1 level", not "1 levels"', async () => {
+    await show('examples/gate-widened-well.qstate');
+    await openTab(page, 'spectrum');
+    const texts = (await panel(page, 'texts')).map((t) => t.text);
+    expect(texts).toContain('first K = 1 level (ψ_K)');
+    await show('examples/gaas-well-packet.qstate');
+    expect((await panel(page, 'texts')).map((t) => t.text)).toContain('first K = 2 levels (ψ_K)');
+  });
+});

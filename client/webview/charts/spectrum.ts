@@ -66,7 +66,7 @@ function cumulativeSeries(ctx: BuildContext, cum: Float64Array): Option[] {
     {
       // The partial sum's cut as a legend entry, not as a label that could sit on a tick or an axis name.
       id: 'cut',
-      name: `first K = ${terms} levels (ψ_K)`,
+      name: `first K = ${terms} level${terms === 1 ? '' : 's'} (ψ_K)`,
       type: 'line',
       yAxisIndex: 1,
       showSymbol: false,

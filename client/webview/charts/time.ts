@@ -76,7 +76,9 @@ function timeAxes(ctx: BuildContext): { xAxis: Option[]; yAxis: Option[] } {
   let dmax = 0;
   for (const row of ev.density ?? []) for (const v of row) if (v !== null && v > dmax) dmax = v;
   const ticks = xTicks(ctx.size ?? DEFAULT_SIZE);
-  const tr = niceAxis(ev.times[0] ?? 0, ev.times[ev.times.length - 1] ?? 1, ticks);
+  // The time axis ends where the evolution ends (2 pi is not widened to 7.5): the end is then unlabelled, the ticks stay round.
+  const tEnd = ev.times[ev.times.length - 1] ?? 1;
+  const tr = { ...niceAxis(ev.times[0] ?? 0, tEnd, ticks), ...(tEnd > (ev.times[0] ?? 0) ? { max: tEnd } : {}) };
   const nameGap = Math.round(p.fontSize * 2);
   const tAxis = (grid: number) => ({ ...axisStyle(p), ...valueAxis(tr, p.foreground), gridIndex: grid, name: `t${unitSuffix(tu)}`, nameLocation: 'middle', nameGap });
   const name = (n: string) => ({ name: n, nameTextStyle: { color: p.foreground, align: 'left' } });
