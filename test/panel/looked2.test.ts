@@ -6,6 +6,8 @@ import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import { runSweep } from '../../server/src/analysis/sweep/index';
+import type { SweepResult } from '../../server/src/analysis/sweep/types';
 import { messageFor, messageForFile, openPanel, openTab, panel, post, resultOf } from './driver';
 
 let browser: Browser;
@@ -118,5 +120,24 @@ describe('the spectrum legend', () => {
     expect(texts).toContain('first K = 1 level (ψ_K)');
     await show('examples/gaas-well-packet.qstate');
     expect((await panel(page, 'texts')).map((t) => t.text)).toContain('first K = 2 levels (ψ_K)');
+  });
+});
+
+describe('the sweep view at 480 px', () => {
+  // An electron packet in a box whose width is swept from 2 nm to 20 nm (box levels are closed forms: quick).
+  const BOX = ['units nm, meV', 'mass 0.067 m_e', 'let width = 4 nm', 'system box(0 nm, width)', 'state gaussian(center = 1 nm, width = 0.2 nm)', 'sweep width from 2 nm to 20 nm steps 18', ''].join('\n');
+  const URI = 'file:///ws/box-sweep.qstate';
+
+  it('labels both ends of the swept range and no round tick crowding them (2 and 3 sat side by side)', async () => {
+    const sweep = JSON.parse(JSON.stringify(runSweep(BOX, {}, { maxMillis: 120_000 })!.result)) as SweepResult;
+    expect(sweep.finished).toBe(19);
+    await post(narrow, messageFor(BOX, ++version, URI));
+    await post(narrow, { type: 'sweep', uri: URI, version, sweep });
+    await narrow.click('#tab-sweep');
+    const xs = (await panel(narrow, 'axisLabels')).x[0]!.filter((l) => l !== '').map(Number);
+    expect(xs[0], xs.join(' ')).toBe(2);
+    expect(xs[xs.length - 1], xs.join(' ')).toBe(20);
+    const gaps = xs.slice(1).map((v, k) => v - xs[k]!);
+    expect(Math.min(...gaps), xs.join(' ')).toBeGreaterThanOrEqual(0.5 * Math.max(...gaps));
   });
 });

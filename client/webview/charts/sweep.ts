@@ -12,8 +12,9 @@
 import type { SweepPoint, SweepResult } from '../../../server/src/analysis/sweep/types';
 import type { Palette } from '../theme';
 import { axisStyle, baseOption, unitSuffix, type Option } from './context';
-import { legendFor, plotTop, type ChartSize } from './layout';
-import { niceAxis } from './scale';
+import { legendFor, plotTop, xTicks, type ChartSize } from './layout';
+import { clean, niceAxis } from './scale';
+import { formatNumber } from '../../../server/src/shared/numbers';
 import { plainRows, pointTooltip, quantityAxisName, quantityPlan, sweepNotes, validPoints, type QuantityAxis, type SweepDescription, type SweepViewOptions } from './sweepQuantity';
 
 export type { SweepDescription, SweepViewOptions } from './sweepQuantity';
@@ -54,13 +55,29 @@ export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize,
     tooltip: pointTooltip(sweep, energyUnit, tooltip, p),
     legend: legendFor(series, p),
     grid,
-    xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: lo, max: hi, ...axisStyle(p) },
+    xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: lo, max: hi, ...axisStyle(p), ...(logX ? {} : rangeTicks(lo, hi, size, p)) },
     yAxis: plan.axes.map((kind, k) => valueAxis(kind, plan.lines.filter((l) => l.axis === k), pts, energyUnit, p, k)),
     // No colour scale: in the panel this removes a map's scale when the same chart draws lines next.
     visualMap: [],
     series,
   };
   return { option, notes: sweepNotes(sweep), empty: null };
+}
+
+/**
+ * Ticks of the swept range: its two ends (the values swept from and to) and round values between them,
+ * none closer to an end than half a tick step (at 480 px, 2 and 3 sat side by side).
+ */
+function rangeTicks(lo: number, hi: number, size: ChartSize, p: Palette): Option {
+  const step = niceAxis(lo, hi, xTicks(size)).interval;
+  const values = [lo];
+  for (let k = Math.ceil(lo / step - 1e-9); k * step <= hi + 1e-9 * step; k++) {
+    const v = clean(k * step);
+    if (v - lo >= 0.5 * step && hi - v >= 0.5 * step) values.push(v);
+  }
+  if (hi > lo) values.push(hi);
+  const label = (v: number) => formatNumber(clean(v), 6);
+  return { axisTick: { customValues: values }, axisLabel: { color: p.foreground, customValues: values, formatter: label }, splitLine: { ...(axisStyle(p).splitLine as Option), show: true } };
 }
 
 /** One value axis: weights from 0 to 1, energies over a nice range of the values drawn, counts in whole steps. */
