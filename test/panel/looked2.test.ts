@@ -141,3 +141,13 @@ describe('the sweep view at 480 px', () => {
     expect(Math.min(...gaps), xs.join(' ')).toBeGreaterThanOrEqual(0.5 * Math.max(...gaps));
   });
 });
+
+describe('the controls at 480 px', () => {
+  it('keep the name "Terms K" on one line beside a mixed state\'s long explanation', async () => {
+    await show('examples/thermal-ion-shift.qstate', narrow);
+    await openTab(narrow, 'state');
+    const box = await narrow.$eval('label[for="terms"]', (el) => ({ h: el.getBoundingClientRect().height, font: parseFloat(getComputedStyle(el).fontSize) }));
+    // One line is about 1.2 font sizes tall (common practice for normal line height); two lines are 2.4.
+    expect(box.h).toBeLessThan(1.8 * box.font);
+  });
+});
