@@ -116,7 +116,7 @@ describe('eigenspan plot --view spectrum', () => {
 describe('eigenspan plot --view state and time', () => {
   it('draws the state as curves and names the axes with their units', () => {
     const all = svgOf(PARABOLA_NM, ['--view', 'state']);
-    expect(texts(all)).toEqual(expect.arrayContaining(['x (nm)', 'E, V (meV)', 'ψ, |ψ|²', '|ψ|²', 'Re ψ']));
+    expect(texts(all)).toEqual(expect.arrayContaining(['x (nm)', 'E, V (meV)', 'ψ (nm^-1/2), |ψ|² (1/nm)', '|ψ|²', 'Re ψ']));
     // |psi|^2 is one line in the palette's density colour over the samples, highest (smallest y) at the box's centre x = 1 nm, where x(2 nm - x) peaks.
     const lines = all.filter((e) => e.name === 'path' && e.attrs.fill === 'none' && e.attrs.stroke === LIGHT.density && !e.attrs.transform);
     expect(lines).toHaveLength(1);

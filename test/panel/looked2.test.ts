@@ -8,7 +8,7 @@ import type { Browser, Page } from 'playwright-core';
 import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
 import { runSweep } from '../../server/src/analysis/sweep/index';
 import type { SweepResult } from '../../server/src/analysis/sweep/types';
-import { messageFor, messageForFile, openPanel, openTab, panel, post, resultOf } from './driver';
+import { messageFor, messageForFile, openPanel, openTab, overlaps, panel, post, resultOf } from './driver';
 
 let browser: Browser;
 let server: PanelServer;
@@ -149,5 +149,32 @@ describe('the controls at 480 px', () => {
     const box = await narrow.$eval('label[for="terms"]', (el) => ({ h: el.getBoundingClientRect().height, font: parseFloat(getComputedStyle(el).fontSize) }));
     // One line is about 1.2 font sizes tall (common practice for normal line height); two lines are 2.4.
     expect(box.h).toBeLessThan(1.8 * box.font);
+  });
+});
+
+describe('the density axes name their unit', () => {
+  // |psi|^2 integrates to 1 over x, so it is per length; psi is per square root of length (derived in this comment).
+  it('gives psi and |psi|^2 (or rho) per length in a file with units, with nothing drawn over the title, at 480 px', async () => {
+    const cases: [string, string][] = [
+      ['examples/gaas-well-packet.qstate', 'ψ (nm^-1/2), |ψ|² (1/nm)'],
+      ['examples/morse-bond-packet.qstate', 'ψ (angstrom^-1/2), |ψ|² (1/angstrom)'],
+      ['examples/thermal-ion-shift.qstate', 'ρ(x) (1/nm)'],
+    ];
+    for (const [f, title] of cases) {
+      await show(f, narrow);
+      await openTab(narrow, 'state');
+      const texts = await panel(narrow, 'texts');
+      expect(texts.map((t) => t.text), f).toContain(title);
+      expect(overlaps(texts).filter((o) => o.includes(title)), f).toEqual([]);
+    }
+    await show('examples/gaas-well-packet.qstate', narrow);
+    await openTab(narrow, 'time');
+    expect((await panel(narrow, 'texts')).map((t) => t.text)).toContain('|ψ|² (1/nm)');
+  });
+
+  it('keeps the bare names in natural units', async () => {
+    await show('examples/plucked-box.qstate');
+    await openTab(page, 'state');
+    expect((await panel(page, 'texts')).map((t) => t.text)).toContain('ψ, |ψ|²');
   });
 });

@@ -72,7 +72,7 @@ describe('a mixed state in the panel', () => {
     for (let j = 0; j + 1 < density.length; j++) integral += ((density[j + 1]![0] - density[j]![0]) * (density[j]![1] + density[j + 1]![1])) / 2;
     expect(integral).toBeCloseTo(1, 4);
     for (const id of ['re', 'im', 'partial']) expect(await seriesData(id)).toBeNull();
-    expect((await panel(page, 'texts')).map((t) => t.text)).toContain('ρ(x)');
+    expect((await panel(page, 'texts')).map((t) => t.text)).toContain('ρ(x) (1/nm)');
     expect(await page.textContent('#terms-out')).toContain('mixed state');
     // For a look by eye only (the ignored test-artifacts folder).
     await page.screenshot({ path: `${artifacts()}/panel-mixed-state.png` });

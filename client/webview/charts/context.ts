@@ -46,6 +46,15 @@ export type Option = Record<string, unknown>;
 /** ` (unit)` or nothing. */
 export const unitSuffix = (u: string | null) => (u ? ` (${u})` : '');
 
+/**
+ * A density axis title with its unit: |psi|^2 and rho(x) are per length (they integrate to 1 over x),
+ * psi per square root of length. `names` are [density] or [psi, density]; bare in natural units.
+ */
+export function perLengthTitle(names: [string] | [string, string], length: string | null): string {
+  if (!length) return names.join(', ');
+  return names.length === 2 ? `${names[0]} (${length}^-1/2), ${names[1]} (1/${length})` : `${names[0]} (1/${length})`;
+}
+
 /** Background, text, legend and tooltip style shared by the views. */
 export function baseOption(p: Palette): Option {
   return {

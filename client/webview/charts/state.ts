@@ -7,7 +7,7 @@ import { formatNumber } from '../../../server/src/shared/numbers';
 import type { PanelResult } from '../../src/messages';
 import { partialSum, sampledState, trapezoid } from '../physics';
 import { energySymbol } from '../../../server/src/shared/energyUnit';
-import { axisStyle, baseOption, pairs, unitSuffix, type BuildContext, type Option } from './context';
+import { axisStyle, baseOption, pairs, perLengthTitle, unitSuffix, type BuildContext, type Option } from './context';
 import { resolved, totalWeight } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
@@ -249,7 +249,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     },
     xAxis: { ...axisStyle(p), ...valueAxis(xr, p.foreground), name: `x${unitSuffix(lu)}`, nameLocation: 'middle', nameGap },
     yAxis: [
-      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: result.samples!.density ? 'ρ(x)' : 'ψ, |ψ|²', nameTextStyle: { color: p.foreground, align: 'left' } },
+      { ...axisStyle(p), ...valueAxis(axes.psi, p.foreground), name: perLengthTitle(result.samples!.density ? ['ρ(x)'] : ['ψ', '|ψ|²'], lu), nameTextStyle: { color: p.foreground, align: 'left' } },
       { ...axisStyle(p), ...valueAxis(axes.energy, p.foreground), name: `${energySymbol('E', result.units)}, ${energySymbol('V', result.units)}${unitSuffix(result.units.energy)}`, nameTextStyle: { color: p.foreground, align: 'right' }, splitLine: { show: false } },
       ...(mass.axis ? [mass.axis] : []),
     ],

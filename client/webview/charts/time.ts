@@ -5,7 +5,7 @@
  */
 import { formatNumber, formatPercent } from '../../../server/src/shared/numbers';
 import type { PanelResult } from '../../src/messages';
-import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
+import { axisStyle, baseOption, perLengthTitle, unitSuffix, type BuildContext, type Option } from './context';
 import { evolvedShare, evolveSampling, MIN_SAMPLES_PER_PERIOD } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { niceAxis, valueAxis } from './scale';
@@ -91,7 +91,7 @@ function timeAxes(ctx: BuildContext): { xAxis: Option[]; yAxis: Option[] } {
     ],
     yAxis: [
       dens
-        ? { ...axisStyle(p), ...valueAxis(niceAxis(0, dmax > 0 ? dmax : 1, 4), p.foreground), gridIndex: 0, ...name(result.mixture ? 'ρ(x,t)' : '|ψ|²') }
+        ? { ...axisStyle(p), ...valueAxis(niceAxis(0, dmax > 0 ? dmax : 1, 4), p.foreground), gridIndex: 0, ...name(perLengthTitle([result.mixture ? 'ρ(x,t)' : '|ψ|²'], result.units.length)) }
         : { ...axisStyle(p), ...valueAxis(niceAxis(Math.min(...meanX), Math.max(...meanX), 4), p.foreground), gridIndex: 0, ...name('⟨x⟩') },
       { ...axisStyle(p), ...valueAxis({ min: 0, max: 1, interval: 0.5 }, p.foreground), gridIndex: 1, ...name('survival') },
     ],
