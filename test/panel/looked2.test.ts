@@ -178,3 +178,24 @@ describe('the density axes name their unit', () => {
     expect((await panel(page, 'texts')).map((t) => t.text)).toContain('ψ, |ψ|²');
   });
 });
+
+describe('a well deeper than the state view shows', () => {
+  it('says how high V reaches when its barriers run off the top of the plot', async () => {
+    // The widened well: barriers at 230 meV (the file's offset), levels and mean far below.
+    await show('examples/gaas-well-widened.qstate');
+    await openTab(page, 'state');
+    const notes = await text('#notes-state');
+    expect(notes).toMatch(/V reaches 230 meV, above the top of the plot \(\d+ meV\)/);
+    const top = Number(/above the top of the plot \((\d+) meV\)/.exec(notes)![1]);
+    const ys = (await panel(page, 'axisLabels')).y[1]!.filter((l) => l !== '').map(Number);
+    expect(Math.max(...ys)).toBe(top);
+  });
+
+  it('says nothing when the barriers are on the plot or V only rises steadily (oscillator, Morse, double well)', async () => {
+    for (const f of ['examples/gaas-well-packet.qstate', 'examples/gate-widened-well.qstate', 'examples/ion-trap-kick.qstate', 'examples/morse-bond-packet.qstate', 'examples/double-well-tunnelling.qstate', 'examples/plucked-box.qstate']) {
+      await show(f);
+      await openTab(page, 'state');
+      expect(await text('#notes-state'), f).not.toMatch(/V reaches/);
+    }
+  });
+});

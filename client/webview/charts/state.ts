@@ -12,6 +12,7 @@ import { resolved, totalWeight } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
 import { rangeNote, xRange, type XRange } from './xrange';
+import { potentialAboveNote } from './potentialNote';
 
 function anyNonZero(a: ArrayLike<number>): boolean {
   for (let j = 0; j < a.length; j++) if (Math.abs(a[j]!) > 1e-12) return true;
@@ -225,8 +226,8 @@ function densitySeries(ctx: BuildContext, density: Float64Array): { series: Opti
   return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
 }
 
-/** The state view's chart option, whether its two vertical axes share their zero, and the x window shown. */
-export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean; shown: XRange } {
+/** The state view's chart option, whether its two vertical axes share their zero, the x window shown, and a note on V above the plot. */
+export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean; shown: XRange; above: string | null } {
   const { result, palette: p } = ctx;
   const lu = result.units.length;
   const win = xRange(result);
@@ -255,7 +256,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     ],
     series,
   };
-  return { option, sharedZero: axes.shared, shown: win };
+  return { option, sharedZero: axes.shared, shown: win, above: potentialAboveNote(result, win, axes.energy.max) };
 }
 
 /** The state view's chart option. */
