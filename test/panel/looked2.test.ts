@@ -89,9 +89,9 @@ describe('the time view hint for a file without an evolve line', () => {
   it('says when one level holds all the bound weight, so nothing would move', async () => {
     await show('examples/gate-widened-well.qstate');
     await openTab(page, 'time');
-    expect(await text('#empty-time')).toMatch(/Only one level holds weight/);
+    expect(await text('#empty-time')).toMatch(/Only one bound level holds weight here, so the bound part's/);
     await show('examples/gate-release.qstate');
-    expect(await text('#empty-time')).not.toMatch(/Only one level/);
+    expect(await text('#empty-time')).not.toMatch(/Only one/);
   });
 });
 

@@ -61,6 +61,9 @@ export function evolveHint(result: PanelResult): string {
   const to = writtenTime(main > 0 ? (3 * 2 * Math.PI * hbar) / main : 10, result.units);
   const steps = to && spread > 0 ? Math.min(10000, Math.max(100, Math.ceil((to.value * 8 * spread) / (2 * Math.PI * hbar)))) : 200;
   const line = `evolve to ${to?.text ?? '1 ps'} steps ${steps}`;
-  const still = known !== null && es.length < 2 ? ' Only one level holds weight here, so |ψ(x,t)|² stands still and the survival stays 1.' : '';
+  // A finite well's continuum part is not evolved (the time view shows the bound part): say which part stands still.
+  const bound = (result.continuum ?? 0) > 0 ? 'bound ' : '';
+  const part = bound ? "the bound part's " : '';
+  const still = known !== null && es.length < 2 ? ` Only one ${bound}level holds weight here, so ${part}|ψ(x,t)|² stands still and its survival stays 1.` : '';
   return `No time evolution in this file. Add a line such as \`${line}\` to see |ψ(x,t)|² and the survival probability.${still}`;
 }
