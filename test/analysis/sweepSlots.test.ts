@@ -113,8 +113,34 @@ describe('the sweep line reads its slots from slots.ts', () => {
     }
   }
 
+  describe('the name rules (sweep/names.ts) give the same findings in both pipelines', () => {
+    const u = UNITS.nm!;
+    const head = `${u.line}let w = 4 nm\nlet d = 100 meV\nsystem well(depth = d, width = w)\nstate gaussian(center = 0 nm, width = 1 nm)\n`;
+    const findings = (text: string, f: typeof analyse | typeof analyseUntrusted) =>
+      f(text).diagnostics.filter((d) => d.severity === 'error').map((d) => [d.code, text.slice(d.start, d.end), d.message, d.fixes ?? []]);
+    it.each([
+      ['a name no let defines, with the nearest let as its fix', 'sweep ww from 1 nm to 5 nm steps 4\n', [['name', 'ww']]],
+      ['a let defined after the swept one in its range', 'sweep w from 1 nm to (d / 25 meV) * 1 nm steps 4\n', [['name', 'd']]],
+      ['the swept let itself in its range', 'sweep w from 1 nm to 2 w steps 4\n', [['name', 'w']]],
+      ['a later let in the window', 'sweep w from 1 nm to 5 nm steps 4\nexpect window covers 2 nm..(d / 50 meV) * 1 nm\n', [['name', 'd']]],
+      ['an earlier let in the range is fine', 'sweep d from (w / 4 nm) * 50 meV to 150 meV steps 4\n', []],
+    ])('%s', (_label, line, want) => {
+      const text = head + line;
+      const full = findings(text, analyse);
+      expect(full.map(([code, at]) => [code, at])).toEqual(want);
+      expect(findings(text, analyseUntrusted)).toEqual(full);
+    });
+    it('offers the nearest let name as a replacement in both', () => {
+      const text = `${head}sweep ww from 1 nm to 5 nm steps 4\n`;
+      for (const f of [analyse, analyseUntrusted]) {
+        const d = f(text).diagnostics.find((x) => x.code === 'name')!;
+        expect(d.fixes?.map((x) => [x.kind, 'text' in x ? x.text : null])).toEqual([['replace', 'w']]);
+      }
+    });
+  });
+
   it('keeps the sweep files free of dimension rules of their own', () => {
-    for (const f of ['plan.ts', 'untrusted.ts']) {
+    for (const f of ['plan.ts', 'untrusted.ts', 'names.ts']) {
       const src = readFileSync(new URL(`../../server/src/analysis/sweep/${f}`, import.meta.url), 'utf8');
       // A dimension literal, a kind looked up directly or a mismatch worded here would be a second home.
       expect(src, f).not.toMatch(/\[\s*-?\d+\s*,\s*-?\d+\s*,\s*-?\d+\s*,\s*-?\d+\s*[,\]]/);

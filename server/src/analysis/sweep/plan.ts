@@ -6,17 +6,16 @@
  */
 import type { QFile, Span, Statement, SweepSpec } from '../../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../../language/catalogue';
-import type { Dimension, Expr, Scope } from '../../expr/types';
+import type { Dimension, Scope } from '../../expr/types';
 import { checkExpression } from '../../expr/check';
 import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../../expr/sandbox';
-import { forEachNode } from '../../expr/walk';
 import { evaluateConstant } from '../../expr/compile';
 import { createScope, sameDimension } from '../../expr/units';
-import { suggest } from '../../language/suggest';
 import { positionAt, lineTable } from '../../language/positions';
 import type { Model } from '../model';
 import { capital, fmt } from '../findings';
 import { sweepLineSlots, windowSlots, type SweepSlot } from '../slots';
+import { lateNameFinding, notALetFinding } from './names';
 
 /** Most steps one sweep line may take, and most points a sweep (one or two lines) may have. */
 export const MAX_SWEEP_STEPS = 10_000;
@@ -117,11 +116,7 @@ class Checker {
     const refused = this.file.rejected?.some((r) => r.keyword === 'let' && r.name === spec.name) ?? false;
     if (!letStmt) {
       if (refused) return null;
-      const names = this.file.statements.flatMap((s) => (s.kind === 'let' ? [s.name] : []));
-      const near = suggest(spec.name, names);
-      const hint = near === null ? (names.length === 0 ? ' The file defines no `let` names.' : '') : ` Did you mean '${near}'?`;
-      const fixes = near === null ? [] : [{ kind: 'replace' as const, title: `Change to '${near}'`, start: spec.nameSpan.start, end: spec.nameSpan.end, text: near }];
-      this.out.push(diagnostic('name', spec.nameSpan.start, spec.nameSpan.end, `A sweep varies a \`let\` value; '${spec.name}' is not defined by a \`let\`.${hint}`, { severity: 'error', fixes }));
+      this.out.push(notALetFinding(spec, this.file));
       return null;
     }
     const own = this.model.lets.get(spec.name);
@@ -189,9 +184,10 @@ class Checker {
       this.out.push(...p.diagnostics);
       return null;
     }
-    const late = this.lateName(p.result, scope);
+    // A let defined at or after the swept one (or a let that is not in this scope for that reason).
+    const late = lateNameFinding(p.result, (name) => !scope.values.has(name) && this.model.lets.has(name), what, letStmt.name, this.line(letStmt.span.start));
     if (late) {
-      this.error('name', late.span, `${capital(what)} may use only names defined before '${letStmt.name}' (line ${this.line(letStmt.span.start)}); '${late.name}' is not.`);
+      this.out.push(late);
       return null;
     }
     const v = evaluateConstant(p.result, scope);
@@ -209,14 +205,5 @@ class Checker {
     return v.result.value.re;
   }
 
-  /** A let name used in `e` that is defined at or after the swept let (or is a swept name itself). */
-  private lateName(e: Expr, scope: Scope): { name: string; span: Span } | null {
-    let found: { name: string; span: Span } | null = null;
-    forEachNode(e, (n) => {
-      if (found || n.type !== 'symbol') return;
-      if (!scope.values.has(n.name) && this.model.lets.has(n.name)) found = { name: n.name, span: { start: n.start, end: n.end } };
-    });
-    return found;
-  }
 }
 
