@@ -47,14 +47,17 @@ export function offenders(file, text) {
   return found;
 }
 
+/** Every file the check reads, relative to the repository root: each TypeScript source under server/ and client/. */
+export function checkedFiles() {
+  return folders.flatMap((folder) => [...sources(join(root, folder))].map((file) => relative(root, file)));
+}
+
 if (process.argv[1] === fileURLToPath(import.meta.url)) {
   let bad = 0;
-  for (const folder of folders) {
-    for (const file of sources(join(root, folder))) {
-      for (const o of offenders(file, readFileSync(file, 'utf8'))) {
-        console.log(`${relative(root, file)}:${o.line}: ${o.what}`);
-        bad++;
-      }
+  for (const file of checkedFiles()) {
+    for (const o of offenders(file, readFileSync(join(root, file), 'utf8'))) {
+      console.log(`${file}:${o.line}: ${o.what}`);
+      bad++;
     }
   }
   if (bad > 0) {

@@ -45,6 +45,7 @@ const FILES: Record<SlotName, (v: string) => string> = {
   expectMeanTime: (v) => `${BOX}${PACKET}expect mean x(${v}) 4 nm +- 10 nm\n`,
   expectMeanX: (v) => `${BOX}${PACKET}expect mean x(0 ps) ${v} +- 10 nm\n`,
   expectMeanP: (v) => `${BOX}${PACKET}expect mean p(0 ps) ${v} +- 10 / nm\n`,
+  sweepSteps: (v) => `let w = 8 nm\nsystem box(0 nm, w)\n${PACKET}sweep w from 6 nm to 9 nm steps ${v}\n`,
 };
 
 /** Slots whose right value must differ from the table's (a norm's tolerance is a plain number; a level range must not be empty). */

@@ -29,7 +29,7 @@ export function parabolaResult(levels = 12, options: { samples?: boolean; energy
   return {
     diagnostics: [],
     units: { length: null, energy: options.energyUnit ?? null, time: null },
-    system: { kind: 'box', energies: ls.map((l) => l.energy), center: 0.5 },
+    system: { kind: 'box', firstLabel: 1, energies: ls.map((l) => l.energy), center: 0.5 },
     levels: ls,
     norm: 1,
     captured,

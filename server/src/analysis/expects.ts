@@ -8,6 +8,7 @@ import { checkMore } from './expectsMore';
 import type { EngineDiagnostic, FixData } from '../language/catalogue';
 import type { ComparisonModel, Model } from './model';
 import { capital, fmt, formatFactor, replaceFix, warn } from './findings';
+import { formatRounded } from '../shared/numbers';
 
 /** What the forms about dynamics need besides the result: the basis, the levels and the budget. */
 export interface ExpectDynamics {
@@ -122,5 +123,5 @@ export function compare(
 
 /** A measured value with 10 significant digits (enough for a tolerance of 1e-9 relative). */
 function measuredText(v: number): string {
-  return String(Number(v.toPrecision(10)));
+  return formatRounded(v, 10);
 }

@@ -5,7 +5,7 @@
  */
 import { diagnostic, type Code, type EngineDiagnostic, type FixData, type Severity } from '../language/catalogue';
 import type { Span } from '../language/ast';
-import { formatNumber, formatPercent } from '../shared/numbers';
+import { formatDecimals, formatNumber, formatPercent, formatRounded } from '../shared/numbers';
 import { distanceText, type Singularity } from './singular';
 
 /** A number in a message (6 significant digits; see `formatNumber`). */
@@ -41,7 +41,7 @@ export function plural(n: number, thing: string): string {
 /** The growth law of a singularity for a message: |x - 0.3|^-0.25, or log(1/|x|). */
 export function growthText(g: Singularity): string {
   if (g.logarithmic) return `log(1/${distanceText(g.x, fmt)})`;
-  return `${distanceText(g.x, fmt)}^-${Number(g.power.toFixed(2))}`;
+  return `${distanceText(g.x, fmt)}^-${formatDecimals(g.power, 2)}`;
 }
 
 /** The finding's text for a state whose |psi|^2 cannot be integrated across a point. */
@@ -53,10 +53,10 @@ export function notSquareIntegrable(g: Singularity): string {
 export function captureText(f: number): string {
   const short = 1 - f;
   const digits = short > 0 ? Math.min(15, Math.max(3, Math.ceil(-Math.log10(short)) + 2)) : 6;
-  return String(Number(f.toPrecision(digits)));
+  return formatRounded(f, digits);
 }
 
 /** A normalising factor as text, exact to 12 significant digits (it is written into the file by a fix). */
 export function formatFactor(f: number): string {
-  return String(Number(f.toPrecision(12)));
+  return formatRounded(f, 12);
 }

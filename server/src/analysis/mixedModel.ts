@@ -48,7 +48,9 @@ export function thermalModel(spec: Extract<StateSpec, { kind: 'thermal' }>, h: M
   const system = h.system(spec.system);
   const given = n ?? t;
   if (!given) return null;
-  const value = n ? h.constant(n.value, 'dimensionless', paramOf('thermal', 'nbar')!.what) : h.constant(t!.value, 'temperature', paramOf('thermal', 'temperature')!.what);
+  // What the argument must be is its parameter's in signatures.ts.
+  const param = paramOf('thermal', n ? 'nbar' : 'temperature')!;
+  const value = h.constant(given.value, param.kind, param.what);
   if (value === null || system === null) return null;
   if (!(value >= 0) || !Number.isFinite(value)) {
     h.error('evaluation', given.value, `${n ? 'The mean occupation nbar' : 'The temperature'} must be zero or positive and finite, not ${fmt(value)}.`);

@@ -172,7 +172,7 @@ function extentProblem(basis: Eigenbasis): string | null {
 /** The system's facts for hovers: kind, the first 20 energies, the well's bound-state count, the centre. */
 function systemFacts(basis: Eigenbasis): NonNullable<AnalysisResult['system']> {
   const energies = Array.from(basis.energies.subarray(0, Math.min(20, basis.count)));
-  const system: NonNullable<AnalysisResult['system']> = { kind: basis.kind, energies, center: basis.center };
+  const system: NonNullable<AnalysisResult['system']> = { kind: basis.kind, firstLabel: basis.firstLabel, energies, center: basis.center };
   if (basis.uncertainty) system.uncertainties = Array.from(basis.uncertainty.subarray(0, energies.length));
   if (basis.kind === 'well') system.boundCount = basis.count;
   return system;

@@ -1,11 +1,14 @@
 /**
  * What every expression slot of a statement must be, other than the constructor arguments (whose home
  * is their parameter in language/signatures.ts): the kind of value (its dimension, analysis/
- * dimensions.ts) and the words findings name it with. The full analysis (model.ts, mixedModel.ts) and
- * the untrusted pipeline (untrusted.ts) both read each slot from here, so the two cannot disagree on
- * what a slot must be; test/analysis/slots.test.ts tries a wrong dimension in every slot in both.
+ * dimensions.ts) and the words findings name it with. The full analysis (model.ts, mixedModel.ts,
+ * sweep/plan.ts) and the untrusted pipeline (untrusted.ts, sweep/untrusted.ts) both read each slot
+ * from here, so the two cannot disagree on what a slot must be; test/analysis/slots.test.ts tries a
+ * wrong dimension in every slot in both.
  */
-import type { ValueKind } from './dimensions';
+import type { ExprText, SweepSpec } from '../language/ast';
+import type { Dimension, UnitSystem } from '../expr/types';
+import { dimensionOf, type ValueKind } from './dimensions';
 
 /** One slot: the kind of value expected and how findings name it ("the evolution time"). */
 export interface SlotSpec {
@@ -53,9 +56,59 @@ export const SLOTS = Object.freeze({
   expectMeanTime: slot('time', 'the time'),
   expectMeanX: slot('length', 'the expected mean x'),
   expectMeanP: slot('wavenumber', 'the expected mean p'),
+  /** `sweep NAME from A to B steps K`: the number of steps. */
+  sweepSteps: slot('dimensionless', 'the number of steps'),
 } satisfies Record<string, SlotSpec>);
 
 /** The tolerance of a comparison (`V +- T`): the value's kind, named as the tolerance. */
 export function toleranceSlot(value: SlotSpec): SlotSpec {
   return slot(value.kind, 'the tolerance');
+}
+
+/**
+ * A slot whose dimension is no fixed kind but that of a `let`: a sweep's range takes the swept let's
+ * dimension (sweepLineSlots), the range of `expect window covers A..B` the first sweep's (windowSlots).
+ * `what` words it with that let's name.
+ */
+export interface LikeSlotSpec {
+  readonly what: (name: string) => string;
+}
+
+const like = (what: (name: string) => string): LikeSlotSpec => Object.freeze({ what });
+
+/** The slots whose dimension is a let's. */
+export const LIKE_SLOTS = Object.freeze({
+  /** `sweep NAME from A to B ...`: A and B. */
+  sweepFrom: like((n) => `the first value of the sweep of '${n}'`),
+  sweepTo: like((n) => `the last value of the sweep of '${n}'`),
+  /** `expect window covers A..B`: A and B, values of the first sweep's let. */
+  windowFrom: like((n) => `the first value of the window of '${n}'`),
+  windowTo: like((n) => `the last value of the window of '${n}'`),
+} satisfies Record<string, LikeSlotSpec>);
+
+/** One expression of a sweep or window line, what it must be (a dimension) and its words. */
+export interface SweepSlot {
+  readonly src: ExprText;
+  readonly dimension: Dimension;
+  readonly what: string;
+}
+
+/**
+ * The expressions of a `sweep` line in the order they are checked, each with the dimension it must
+ * have: the range the swept let's (`letDimension`), the number of steps that of `SLOTS.sweepSteps`.
+ */
+export function sweepLineSlots(spec: SweepSpec, letDimension: Dimension, units: UnitSystem): SweepSlot[] {
+  return [
+    { src: spec.from, dimension: letDimension, what: LIKE_SLOTS.sweepFrom.what(spec.name) },
+    { src: spec.to, dimension: letDimension, what: LIKE_SLOTS.sweepTo.what(spec.name) },
+    { src: spec.steps, dimension: dimensionOf(SLOTS.sweepSteps.kind, units), what: SLOTS.sweepSteps.what },
+  ];
+}
+
+/** The range of an `expect window covers A..B` line: values of the first sweep's let `name`, of dimension `letDimension`. */
+export function windowSlots(range: { from: ExprText; to: ExprText }, name: string, letDimension: Dimension): SweepSlot[] {
+  return [
+    { src: range.from, dimension: letDimension, what: LIKE_SLOTS.windowFrom.what(name) },
+    { src: range.to, dimension: letDimension, what: LIKE_SLOTS.windowTo.what(name) },
+  ];
 }

@@ -93,6 +93,8 @@ export interface AnalysisResult {
   measured?: { start: number; value: number | null; unit: string | null }[];
   system: {
     kind: 'box' | 'well' | 'oscillator' | 'potential';
+    /** The label n of the first level (the basis's `firstLabel`: 0 for the oscillator, 1 otherwise). */
+    firstLabel: number;
     /** The first levels' energies (for hovers on the system line), at most 20. */
     energies: number[];
     uncertainties?: number[];

@@ -7,6 +7,7 @@ import type { Dimension, UnitSystem } from '../expr/types';
 import { fromInternal, isDimensionless, sameDimension, timeToDisplay, timeUnitName } from '../expr/units';
 import { DIM } from '../expr/constants';
 import type { Model } from './model';
+import { formatDecimals } from '../shared/numbers';
 
 /** One `let` value as a front end shows it. */
 export type LetValue = NonNullable<AnalysisResult['values']>[number];
@@ -14,7 +15,7 @@ export type LetValue = NonNullable<AnalysisResult['values']>[number];
 /** SI spelling of a dimension, for values that have no unit of their own in the file: m, kg, s, C with powers. */
 function siUnit(dim: Dimension): string {
   const names = ['m', 'kg', 's', 'C', 'K'];
-  const parts = dim.map((p = 0, k) => (Math.abs(p) < 1e-9 ? '' : p === 1 ? names[k]! : `${names[k]}^${Number(p.toFixed(3))}`)).filter(Boolean);
+  const parts = dim.map((p = 0, k) => (Math.abs(p) < 1e-9 ? '' : p === 1 ? names[k]! : `${names[k]}^${formatDecimals(p, 3)}`)).filter(Boolean);
   return parts.join(' ');
 }
 
@@ -25,7 +26,7 @@ function display(re: number, im: number, dim: Dimension, u: UnitSystem): { re: n
   if (sameDimension(dim, DIM.energy)) return { re, im, unit: u.energy.name };
   if (sameDimension(dim, DIM.time)) return { re: timeToDisplay(re, u), im: timeToDisplay(im, u), unit: timeUnitName(u) };
   // Internal lengths are file lengths, so a pure power of length is shown in the file's length unit.
-  if (dim[1] === 0 && dim[2] === 0 && dim[3] === 0 && !dim[4]) return { re, im, unit: `${u.length.name}^${Number(dim[0].toFixed(3))}` };
+  if (dim[1] === 0 && dim[2] === 0 && dim[3] === 0 && !dim[4]) return { re, im, unit: `${u.length.name}^${formatDecimals(dim[0], 3)}` };
   return { re: fromInternal(re, dim, u), im: fromInternal(im, dim, u), unit: siUnit(dim) };
 }
 

@@ -6,9 +6,9 @@ import { escapeText } from './escape';
 import { readBounded } from './files';
 import { UsageError } from './options';
 
-/** The text of `path`, at most `maxFileBytes` characters' worth of UTF-8. */
+/** The text of `path`; a file over `maxFileBytes` bytes reaches the engine, which refuses it with its size (front.ts). */
 export function readText(path: string, maxFileBytes = DEFAULT_LIMITS.maxFileBytes): string {
-  // Bytes, not characters: a UTF-8 file of maxFileBytes characters has at most four bytes a character.
+  // The read stops at four times the cap: a file somewhat over it gets the engine's finding with its size, a far larger one a usage error without reading it all.
   const read = readBounded(path, { maxBytes: maxFileBytes * 4 });
   if (!read.ok) throw new UsageError(`cannot read '${escapeText(path)}': ${read.refusal.message}`);
   return read.data.toString('utf8');

@@ -5,6 +5,7 @@
  */
 import type { AnalysisResult } from '../analysis/types';
 import { ENERGY_DIGITS, physicsFacts, WEIGHT_DECIMALS } from './physics';
+import { formatFixed } from '../shared/numbers';
 
 function value(v: number | 'diverges' | null, unit: string): string {
   if (v === null) return 'none';
@@ -21,13 +22,13 @@ export function renderSummary(result: AnalysisResult): string {
   lines.push(`system: ${f.system ?? 'none'}`);
   lines.push(`energy unit: ${f.energyUnit ?? 'natural'}`);
   lines.push(`levels computed: ${f.levelCount}`);
-  for (const l of f.levels) lines.push(`level ${l.n}: energy ${l.energy}${unit}, weight ${l.weight.toFixed(WEIGHT_DECIMALS)}`);
-  lines.push(`captured weight: ${f.captured === null ? 'none' : f.captured.toFixed(WEIGHT_DECIMALS)}`);
+  for (const l of f.levels) lines.push(`level ${l.n}: energy ${l.energy}${unit}, weight ${formatFixed(l.weight, WEIGHT_DECIMALS)}`);
+  lines.push(`captured weight: ${f.captured === null ? 'none' : formatFixed(f.captured, WEIGHT_DECIMALS)}`);
   lines.push(`energy mean: ${value(f.mean, unit)}`);
   lines.push(`energy spread: ${value(f.spread, unit)}`);
   lines.push(`parity: ${f.parity ?? 'none'}`);
   // A mixed state only (pure states keep their summary unchanged): Tr rho^2, rounded like a weight.
-  if (result.mixture && result.purity !== undefined) lines.push(`purity: ${result.purity.toFixed(WEIGHT_DECIMALS)}`);
+  if (result.mixture && result.purity !== undefined) lines.push(`purity: ${formatFixed(result.purity, WEIGHT_DECIMALS)}`);
   for (const k of f.findings) lines.push(`finding: ${k}`);
   return lines.join('\n') + '\n';
 }

@@ -70,7 +70,7 @@ function systemHover(view: DocView): string[] {
   if (!r || !r.system) return ['**system**', '', missing(view)];
   const s = r.system;
   const e = withUnit(r.units.energy);
-  const first = r.levels.length > 0 ? r.levels[0]!.n : s.kind === 'oscillator' ? 0 : 1;
+  const first = s.firstLabel;
   const lines = [`**system** ${s.kind}`, ''];
   if (s.boundCount !== undefined) lines.push(`${s.boundCount} bound state${s.boundCount === 1 ? '' : 's'}  `);
   if (s.center !== null) lines.push(`centre ${fmt(s.center)}${withUnit(r.units.length)}  `);

@@ -39,3 +39,22 @@ export function formatPercent(f: number): string {
   if (p === 0) return '0%';
   return `${formatNumber(p, 3)}%`;
 }
+
+/**
+ * `x` rounded to `digits` significant digits, written as JavaScript writes the rounded number (`0.999999`,
+ * `1e-7`, `1.5e+21`): a form the file's own parser reads back, for values a quick fix writes into the
+ * file and measured values compared to many digits.
+ */
+export function formatRounded(x: number, digits: number): string {
+  return String(Number(x.toPrecision(digits)));
+}
+
+/** `x` rounded to at most `decimals` decimals, trailing zeros dropped (`0.25`, `1.5`, `2`): exponents in words. */
+export function formatDecimals(x: number, decimals: number): string {
+  return String(Number(x.toFixed(decimals)));
+}
+
+/** `x` with exactly `decimals` decimals (`0.250000`): columns that line up and compare line by line. */
+export function formatFixed(x: number, decimals: number): string {
+  return x.toFixed(decimals);
+}

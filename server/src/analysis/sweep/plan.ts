@@ -4,17 +4,18 @@
  * the design-window `expect` lines checked against the first axis. Cheap: it parses and folds the few
  * expressions of those lines, so the quick stage runs it on every keystroke.
  */
-import type { ExprText, QFile, Span, Statement, SweepSpec } from '../../language/ast';
+import type { QFile, Span, Statement, SweepSpec } from '../../language/ast';
 import { diagnostic, type EngineDiagnostic } from '../../language/catalogue';
-import type { Dimension, Expr, Scope } from '../../expr/types';
+import type { Dimension, Scope } from '../../expr/types';
+import { checkExpression } from '../../expr/check';
 import { DEFAULT_PARSE_OPTIONS, parseExpression } from '../../expr/sandbox';
-import { forEachNode } from '../../expr/walk';
 import { evaluateConstant } from '../../expr/compile';
-import { createScope, isDimensionless, sameDimension, withArticle } from '../../expr/units';
-import { suggest } from '../../language/suggest';
+import { createScope, sameDimension } from '../../expr/units';
 import { positionAt, lineTable } from '../../language/positions';
 import type { Model } from '../model';
 import { capital, fmt } from '../findings';
+import { sweepLineSlots, windowSlots, type SweepSlot } from '../slots';
+import { lateNameFinding, notALetFinding } from './names';
 
 /** Most steps one sweep line may take, and most points a sweep (one or two lines) may have. */
 export const MAX_SWEEP_STEPS = 10_000;
@@ -115,11 +116,7 @@ class Checker {
     const refused = this.file.rejected?.some((r) => r.keyword === 'let' && r.name === spec.name) ?? false;
     if (!letStmt) {
       if (refused) return null;
-      const names = this.file.statements.flatMap((s) => (s.kind === 'let' ? [s.name] : []));
-      const near = suggest(spec.name, names);
-      const hint = near === null ? (names.length === 0 ? ' The file defines no `let` names.' : '') : ` Did you mean '${near}'?`;
-      const fixes = near === null ? [] : [{ kind: 'replace' as const, title: `Change to '${near}'`, start: spec.nameSpan.start, end: spec.nameSpan.end, text: near }];
-      this.out.push(diagnostic('name', spec.nameSpan.start, spec.nameSpan.end, `A sweep varies a \`let\` value; '${spec.name}' is not defined by a \`let\`.${hint}`, { severity: 'error', fixes }));
+      this.out.push(notALetFinding(spec, this.file));
       return null;
     }
     const own = this.model.lets.get(spec.name);
@@ -130,11 +127,8 @@ class Checker {
       return null;
     }
     const scope = this.scopeBefore(letStmt.nameSpan.start);
-    const what = `the sweep of '${spec.name}'`;
-    const from = this.value(spec.from, scope, own.dimension, `the first value of ${what}`, letStmt);
-    const to = this.value(spec.to, scope, own.dimension, `the last value of ${what}`, letStmt);
-    const steps = this.value(spec.steps, scope, [0, 0, 0, 0], 'the number of steps', letStmt);
-    if (from === null || to === null || steps === null) return null;
+    const [from, to, steps] = sweepLineSlots(spec, own.dimension, this.model.units).map((slot) => this.value(slot, scope, letStmt));
+    if (from == null || to == null || steps == null) return null;
     if (!Number.isInteger(steps) || steps < 1 || steps > MAX_SWEEP_STEPS) {
       this.error(steps > MAX_SWEEP_STEPS ? 'limits' : 'evaluation', spec.steps, `The number of steps must be a whole number from 1 to ${MAX_SWEEP_STEPS}, not ${fmt(steps)}.`);
       return null;
@@ -159,10 +153,8 @@ class Checker {
     }
     if (!axis) return null;
     const scope = this.scopeBefore(axis.letStmt.nameSpan.start);
-    const what = `the window of '${axis.spec.name}'`;
-    const from = this.value(x.from, scope, axis.dimension, `the first value of ${what}`, axis.letStmt);
-    const to = this.value(x.to, scope, axis.dimension, `the last value of ${what}`, axis.letStmt);
-    if (from === null || to === null) return null;
+    const [from, to] = windowSlots(x, axis.spec.name, axis.dimension).map((slot) => this.value(slot, scope, axis.letStmt));
+    if (from == null || to == null) return null;
     const [lo, hi] = [Math.min(axis.from, axis.to), Math.max(axis.from, axis.to)];
     if (!(from <= to)) {
       this.error('evaluation', x.rangeSpan, "The range's first value must not exceed its last.");
@@ -184,24 +176,26 @@ class Checker {
     return scope;
   }
 
-  /** A real constant of dimension `dim`, using only names defined before the swept let. */
-  private value(src: ExprText, scope: Scope, dim: Dimension, what: string, letStmt: Extract<Statement, { kind: 'let' }>): number | null {
+  /** A real constant of the slot's dimension (slots.ts), using only names defined before the swept let. */
+  private value(slot: SweepSlot, scope: Scope, letStmt: Extract<Statement, { kind: 'let' }>): number | null {
+    const { src, what } = slot;
     const p = parseExpression(src, { maxLength: this.options.maxExpressionLength ?? DEFAULT_PARSE_OPTIONS.maxLength, maxDepth: this.options.maxNesting ?? DEFAULT_PARSE_OPTIONS.maxDepth });
     if (!p.result) {
       this.out.push(...p.diagnostics);
       return null;
     }
-    const late = this.lateName(p.result, scope);
+    // A let defined at or after the swept one (or a let that is not in this scope for that reason).
+    const late = lateNameFinding(p.result, (name) => !scope.values.has(name) && this.model.lets.has(name), what, letStmt.name, this.line(letStmt.span.start));
     if (late) {
-      this.error('name', late.span, `${capital(what)} may use only names defined before '${letStmt.name}' (line ${this.line(letStmt.span.start)}); '${late.name}' is not.`);
+      this.out.push(late);
       return null;
     }
     const v = evaluateConstant(p.result, scope);
     this.out.push(...v.diagnostics);
     if (!v.result) return null;
-    if (!sameDimension(v.result.dimension, dim)) {
-      const expected = isDimensionless(dim) ? 'a plain number' : withArticle(dim);
-      this.error('units', src, `${capital(what)} must be ${expected}${isDimensionless(dim) ? '' : ` (the dimension of '${letStmt.name}')`}, but it is ${withArticle(v.result.dimension)}.`);
+    if (!sameDimension(v.result.dimension, slot.dimension)) {
+      // Worded by the checker, as every other slot's (and the untrusted pipeline's) mismatch.
+      this.out.push(...checkExpression(p.result, scope, slot.dimension, what).diagnostics.filter((d) => d.code === 'units'));
       return null;
     }
     if (Math.abs(v.result.value.im) > 1e-12 * Math.max(1, Math.abs(v.result.value.re))) {
@@ -211,14 +205,5 @@ class Checker {
     return v.result.value.re;
   }
 
-  /** A let name used in `e` that is defined at or after the swept let (or is a swept name itself). */
-  private lateName(e: Expr, scope: Scope): { name: string; span: Span } | null {
-    let found: { name: string; span: Span } | null = null;
-    forEachNode(e, (n) => {
-      if (found || n.type !== 'symbol') return;
-      if (!scope.values.has(n.name) && this.model.lets.has(n.name)) found = { name: n.name, span: { start: n.start, end: n.end } };
-    });
-    return found;
-  }
 }
 

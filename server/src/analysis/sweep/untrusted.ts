@@ -1,49 +1,48 @@
 /**
  * The sweep lines in the untrusted pipeline (analysis/untrusted.ts): names and dimensions only,
- * nothing evaluated. The swept name must be a `let`, the range must have the let's dimension, the
- * number of steps and the window's range are checked the same way. Values (whole steps, one sign for
- * `log`, the range inside the sweep) need evaluation and are checked by plan.ts in trusted files.
+ * nothing evaluated. The swept name must be a `let`; what each expression of a sweep or window line
+ * must be comes from slots.ts and which names it may use from names.ts, as in plan.ts. Values (whole
+ * steps, one sign for `log`, the range inside the sweep) need evaluation and are checked by plan.ts in
+ * trusted files.
  */
-import type { ExprText, QFile, Statement } from '../../language/ast';
-import { diagnostic, type EngineDiagnostic } from '../../language/catalogue';
+import type { QFile, Statement } from '../../language/ast';
+import type { EngineDiagnostic } from '../../language/catalogue';
 import type { Dimension, Scope } from '../../expr/types';
 import { parseExpression } from '../../expr/sandbox';
 import { checkExpression } from '../../expr/check';
-import { isDimensionless, sameDimension, withArticle } from '../../expr/units';
-import { capital } from '../findings';
+import { lineTable, positionAt } from '../../language/positions';
+import { sweepLineSlots, windowSlots, type SweepSlot } from '../slots';
+import { lateNameFinding, notALetFinding } from './names';
+
+type LetStatement = Extract<Statement, { kind: 'let' }>;
 
 /** Checks the `sweep` and `expect window` lines against `scope` (every `let` with its checked dimension). */
 export function checkSweepsUntrusted(file: QFile, scope: Scope, parseOptions: { maxLength: number; maxDepth: number }, push: (d: EngineDiagnostic[]) => void): void {
-  let first: Dimension | null = null;
-  const check = (src: ExprText, dim: Dimension, what: string): void => {
-    const p = parseExpression(src, parseOptions);
+  let first: { letStmt: LetStatement; dimension: Dimension } | null = null;
+  const lets = new Set(file.statements.flatMap((s) => (s.kind === 'let' ? [s.name] : [])));
+  const check = (slot: SweepSlot, letStmt: LetStatement): void => {
+    const p = parseExpression(slot.src, parseOptions);
     push(p.diagnostics);
     if (!p.result) return;
-    const c = checkExpression(p.result, { ...scope, hasX: false, hasPhi: false }, null, what);
-    push(c.diagnostics);
-    if (c.dimension !== null && !sameDimension(c.dimension, dim)) {
-      push([diagnostic('units', src.start, src.end, `${capital(what)} must be ${isDimensionless(dim) ? 'a plain number' : withArticle(dim)}, but it is ${withArticle(c.dimension)}.`, { severity: 'error' })]);
-    }
+    // A let defined at or after the swept one, as plan.ts judges it (a let whose value failed was reported on its line).
+    const isLate = (name: string): boolean => lets.has(name) && (scope.values.get(name)?.definedAt?.start ?? -1) >= letStmt.nameSpan.start;
+    const late = lateNameFinding(p.result, isLate, slot.what, letStmt.name, positionAt(lineTable(file.text), letStmt.span.start).line + 1);
+    if (late) return push([late]);
+    push(checkExpression(p.result, { ...scope, hasX: false, hasPhi: false }, slot.dimension, slot.what).diagnostics);
   };
   for (const s of file.statements) {
-    if (s.kind === 'sweep') {
-      const own = scope.values.get(s.sweep.name);
-      const isLet = file.statements.some((x: Statement) => x.kind === 'let' && x.name === s.sweep.name);
-      if (!own || !isLet) {
-        const span = s.sweep.nameSpan;
-        if (!isLet) push([diagnostic('name', span.start, span.end, `A sweep varies a \`let\` value; '${s.sweep.name}' is not defined by a \`let\`.`, { severity: 'error' })]);
-        continue;
-      }
-      first ??= own.dimension;
-      const what = `the sweep of '${s.sweep.name}'`;
-      check(s.sweep.from, own.dimension, `the first value of ${what}`);
-      check(s.sweep.to, own.dimension, `the last value of ${what}`);
-      check(s.sweep.steps, [0, 0, 0, 0], 'the number of steps');
+    if (s.kind !== 'sweep') continue;
+    const own = scope.values.get(s.sweep.name);
+    const letStmt = file.statements.find((x): x is LetStatement => x.kind === 'let' && x.name === s.sweep.name);
+    if (!own || !letStmt) {
+      if (!letStmt) push([notALetFinding(s.sweep, file)]);
+      continue;
     }
+    first ??= { letStmt, dimension: own.dimension };
+    for (const slot of sweepLineSlots(s.sweep, own.dimension, scope.units)) check(slot, letStmt);
   }
   for (const s of file.statements) {
     if (s.kind !== 'expect' || s.expectation.kind !== 'window' || first === null) continue;
-    check(s.expectation.from, first, "the first value of the window's range");
-    check(s.expectation.to, first, "the last value of the window's range");
+    for (const slot of windowSlots(s.expectation, first.letStmt.name, first.dimension)) check(slot, first.letStmt);
   }
 }
