@@ -167,17 +167,14 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
   if (geometric) {
     return { ...base, exponent: null, amplitude: Math.exp(geo.c0), rate: -geo.c1, classification: 'smooth', derivativeJump: null };
   }
-  const amplitude = Math.exp(pow.c0);
-  let classification: DecayFit['classification'] = 'algebraic';
-  let derivativeJump: DecayFit['derivativeJump'] = null;
-  if (p >= STEEP) classification = 'smooth';
-  else if (p >= 2.5) derivativeJump = 2;
-  else if (p >= 1.5) {
-    classification = 'kink';
-    derivativeJump = 1;
-  } else if (p >= 0.5) {
-    classification = 'jump';
-    derivativeJump = 0;
-  }
-  return { ...base, exponent: p, amplitude, rate: null, classification, derivativeJump };
+  return { ...base, exponent: p, amplitude: Math.exp(pow.c0), rate: null, ...powerClass(p) };
+}
+
+/** The class of a power law |c_n| ~ n^-p and the lowest derivative that jumps (see {@link fitDecay}). */
+function powerClass(p: number): Pick<DecayFit, 'classification' | 'derivativeJump'> {
+  if (p >= STEEP) return { classification: 'smooth', derivativeJump: null };
+  if (p >= 2.5) return { classification: 'algebraic', derivativeJump: 2 };
+  if (p >= 1.5) return { classification: 'kink', derivativeJump: 1 };
+  if (p >= 0.5) return { classification: 'jump', derivativeJump: 0 };
+  return { classification: 'algebraic', derivativeJump: null };
 }
