@@ -143,3 +143,21 @@ describe('the reason for an infinite spread', () => {
     expect(await text('#summary')).toMatch(/ΔE ∞ \(the state has a kink\)/);
   });
 });
+
+describe('the decay figure of the summary', () => {
+  // The laws and their meaning are derived in test/shared/decayText.test.ts (a kink gives n^-2; a
+  // thermal mixture's populations fall geometrically, by about e^(-hbar omega / kT) a level).
+  const decay = async () => (await page.$$eval('#summary .figure', (els) => els.map((e) => e.textContent ?? ''))).find((t) => t.startsWith('decay')) ?? '';
+
+  it('says a thermal mixture\'s populations fall geometrically with their ratio, not n^-29.8 (smooth)', async () => {
+    await show('examples/thermal-ion-shift.qstate');
+    const d = await decay();
+    expect(d).toMatch(/^decay P_n falls geometrically, by about a factor 0\.2\d* a level over n = \d+\.\.\d+: faster than any power of n$/);
+    expect(d).not.toMatch(/n\^-|√|smooth\)/);
+  });
+
+  it('names the derivative that jumps for a power law', async () => {
+    await show('examples/plucked-box.qstate');
+    expect(await decay()).toMatch(/^decay \|c_n\| ~ n\^-2 over n = \d+\.\.\d+: ψ′ jumps \(ψ has a kink\)$/);
+  });
+});
