@@ -69,7 +69,9 @@ export function decayText(decay: DecayFacts | null | undefined, options: DecayTe
   const ascii = options.ascii === true;
   const what = options.mixture ? 'P_n' : '|c_n|';
   const range = decay.range ?? null;
-  const over = range ? ` over n = ${range[0]}..${range[1]}` : '';
+  // The panel keeps "n = a..b" on one line (no-break spaces); the command line prints plain spaces.
+  const sp = ascii ? ' ' : '\u00a0';
+  const over = range ? ` over n${sp}=${sp}${range[0]}..${range[1]}` : '';
   const walls = options.kind === 'box' || options.kind === 'potential';
   if (decay.exponent !== null) {
     const p = decay.exponent;
@@ -79,7 +81,7 @@ export function decayText(decay: DecayFacts | null | undefined, options: DecayTe
   }
   const rate = decay.rate ?? null;
   if (rate === null || !(rate > 0)) {
-    const last = range ? ` after n = ${range[1]}` : '';
+    const last = range ? ` after n${sp}=${sp}${range[1]}` : '';
     return `${what} stops${last}: a finite sum of levels`;
   }
   const ratio = Math.exp(-(options.mixture ? 2 : 1) * rate);
