@@ -75,7 +75,15 @@ export interface EngineResult {
     /** A mass that depends on x: the regions between its interfaces, with the smallest and largest mass in each (m_e in a physical file). */
     mass?: { regions: { from: number | null; to: number | null; min: number; max: number }[]; unit: string | null };
   } | null;
-  decay: { exponent: number | null; classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown'; at: number | null } | null;
+  decay: {
+    exponent: number | null;
+    classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
+    at: number | null;
+    /** r in |c_n| ~ e^{-r n} when the fall is geometric, else null. */
+    rate?: number | null;
+    /** First and last level n of the tail fitted, or null. */
+    range?: [number, number] | null;
+  } | null;
   levelsFor999: number | null;
   evolution?: {
     times: number[];

@@ -11,6 +11,7 @@ import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
 import { parseHostMessage, type HostMessage, type PanelResult } from '../src/messages';
 import { formatNumber } from '../src/format';
 import { oscillatorQuantum, quantaText } from '../../server/src/shared/quanta';
+import { decayText } from '../../server/src/shared/decayText';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
 import { capturedText, continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, partialSum, sampledState } from './physics';
@@ -137,10 +138,8 @@ function summaryItems(r: PanelResult): [string, string][] {
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
   if (typeof r.meanQuantumNumber === 'number') items.push(['⟨n⟩', formatNumber(r.meanQuantumNumber, 5)]);
-  if (r.decay && r.decay.classification !== 'unknown') {
-    const law = r.decay.exponent !== null ? `${r.mixture ? '√P_n' : '|c_n|'} ~ n^-${formatNumber(r.decay.exponent, 3)}` : 'faster than any power of n';
-    items.push(['decay', `${law} (${r.decay.classification})`]);
-  }
+  const decay = decayText(r.decay, { mixture: Boolean(r.mixture), kind: r.system?.kind });
+  if (decay !== null) items.push(['decay', decay]);
   return items;
 }
 

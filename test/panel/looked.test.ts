@@ -7,7 +7,7 @@ import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
-import { messageForFile, openPanel, openTab, panel, post, resultOf } from './driver';
+import { messageForFile, openPanel, openTab, overlaps, panel, post, resultOf } from './driver';
 
 let browser: Browser;
 let server: PanelServer;
@@ -142,4 +142,53 @@ describe('the reason for an infinite spread', () => {
     await show('examples/gaas-well-widened.qstate');
     expect(await text('#summary')).toMatch(/ΔE ∞ \(the state has a kink\)/);
   });
+});
+
+describe('the decay figure of the summary', () => {
+  // The laws and their meaning are derived in test/shared/decayText.test.ts (a kink gives n^-2; a
+  // thermal mixture's populations fall geometrically, by about e^(-hbar omega / kT) a level).
+  const decay = async () => (await page.$$eval('#summary .figure', (els) => els.map((e) => e.textContent ?? ''))).find((t) => t.startsWith('decay')) ?? '';
+
+  it('says a thermal mixture\'s populations fall geometrically with their ratio, not n^-29.8 (smooth)', async () => {
+    await show('examples/thermal-ion-shift.qstate');
+    const d = await decay();
+    expect(d).toMatch(/^decay P_n falls geometrically, by about a factor 0\.2\d* a level over n\s=\s\d+\.\.\d+: faster than any power of n$/);
+    expect(d).not.toMatch(/n\^-|√|smooth\)/);
+  });
+
+  it('names the derivative that jumps for a power law', async () => {
+    await show('examples/plucked-box.qstate');
+    expect(await decay()).toMatch(/^decay \|c_n\| ~ n\^-2 over n\s=\s\d+\.\.\d+: ψ′ jumps \(ψ has a kink\)$/);
+  });
+});
+
+describe('the room kept for the legend', () => {
+  // ECharts wraps a plain legend into rows; the plot starts below the rows the chart builder expects.
+  // The axis names sit right under the last row (common practice: no empty band) and never under it.
+  const examples = ['thermal-ion-shift', 'gaas-well-widened', 'morse-bond-packet', 'double-well-tunnelling'];
+  for (const width of [480, 1400]) {
+    it(`leaves no empty row between the legend and the axis names at ${width} px`, async () => {
+      const p = await openPanel(browser, server.origin, width, 720, errors);
+      try {
+        for (const name of examples) {
+          await show(`examples/${name}.qstate`, p);
+          for (const tab of ['spectrum', 'state'] as const) {
+            await openTab(p, tab);
+            const texts = await panel(p, 'texts');
+            const axisName = texts.find((t) => t.text === 'cumulative' || t.text.startsWith('E, V'));
+            expect(axisName, `${name} ${tab}`).toBeDefined();
+            const above = texts.filter((t) => t.y < axisName!.y - 1);
+            expect(above.length, `${name} ${tab}: legend`).toBeGreaterThan(0);
+            const gap = axisName!.y - Math.max(...above.map((t) => t.y + t.height));
+            expect(gap, `${name} ${tab} at ${width} px`).toBeGreaterThanOrEqual(0);
+            expect(gap, `${name} ${tab} at ${width} px`).toBeLessThan(16);
+            // No legend entry wrapped onto the axis names' line (seen: the thermal state's ⟨E⟩ on ρ(x) at 480 px).
+            expect(overlaps(texts.filter((t) => t.y < axisName!.y + axisName!.height)), `${name} ${tab} at ${width} px`).toEqual([]);
+          }
+        }
+      } finally {
+        await p.close();
+      }
+    }, 120_000);
+  }
 });

@@ -166,7 +166,7 @@ export function spectrumOption(ctx: BuildContext): Option {
   const top = plotTop(series.map((s) => String(s.name)), ctx.size ?? DEFAULT_SIZE, ctx.palette);
   return {
     ...baseOption(ctx.palette),
-    legend: legendFor(series, ctx.palette),
+    legend: legendFor(series, ctx.palette, ctx.size ?? DEFAULT_SIZE),
     grid: { left: 64, right: 56, top, bottom: Math.round(ctx.palette.fontSize * 3.6) },
     tooltip: spectrumTooltip(ctx, cum),
     xAxis: spectrumXAxis(ctx),

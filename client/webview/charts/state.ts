@@ -240,7 +240,7 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
   const nameGap = Math.round(p.fontSize * 2.2);
   const option = {
     ...baseOption(p),
-    legend: legendFor(series, p),
+    legend: legendFor(series, p, ctx.size ?? DEFAULT_SIZE),
     grid: { left: 64, right: 64, top: plotTop(series.map((q) => String(q.name)), ctx.size ?? DEFAULT_SIZE, p), bottom: Math.round(p.fontSize * 3.6) },
     tooltip: {
       ...(baseOption(p).tooltip as Option),

@@ -53,7 +53,7 @@ export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize,
   const option: Option = {
     ...baseOption(p),
     tooltip: pointTooltip(sweep, energyUnit, tooltip, p),
-    legend: legendFor(series, p),
+    legend: legendFor(series, p, size),
     grid,
     xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: lo, max: hi, ...axisStyle(p), ...(logX ? {} : rangeTicks(lo, hi, size, p)) },
     yAxis: plan.axes.map((kind, k) => valueAxis(kind, plan.lines.filter((l) => l.axis === k), pts, energyUnit, p, k)),

@@ -118,7 +118,7 @@ export function timeOption(ctx: BuildContext): Option {
   const upper = Math.round(room * 0.6);
   return {
     ...baseOption(p),
-    legend: legendFor(series, p),
+    legend: legendFor(series, p, size),
     grid: [
       { left: 64, right: 32, top, height: upper },
       { left: 64, right: 32, top: top + upper + axisRoom + Math.round(p.fontSize * 1.6), height: room - upper },

@@ -430,17 +430,21 @@ export function gridEnergy(basis: Eigenbasis, q: Quadrature, v: GridValues, norm
   return { mean: t / norm, meanSquare: h2 / norm };
 }
 
-/** Decay of |c_n| fitted over the tail, for systems whose levels are sine-like (box, potential). */
-export function decayOf(basis: Eigenbasis, weights: Float64Array): DecayResult | null {
+/**
+ * Decay of |c_n| fitted over the tail, for systems whose levels are sine-like (box, potential).
+ * `unresolved` is a thermal sum's share left out, which bounds the error of every P_n: only weights
+ * a hundred times larger (resolved to about 1 %) are fitted.
+ */
+export function decayOf(basis: Eigenbasis, weights: Float64Array, unresolved = 0): DecayResult | null {
   if (basis.kind === 'well' || weights.length < 12) return null;
   const labels = new Float64Array(weights.length);
   for (let k = 0; k < labels.length; k++) labels[k] = k + basis.firstLabel;
-  const f = fitDecay(labels, weights, { block: 4 });
+  const f = fitDecay(labels, weights, { block: 4, floor: Math.max(1e-28, 100 * unresolved) });
   let classification = f.classification as 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
   // Weights that grow along the tail (a box-quantised continuum, say) have no decay law to report.
-  if (f.exponent !== null && !(f.exponent > 0)) return { exponent: null, classification: 'unknown', at: null };
+  if (f.exponent !== null && !(f.exponent > 0)) return { exponent: null, classification: 'unknown', at: null, rate: null, range: null };
   // The jump and kink laws (1/n, 1/n^2) are those of sine-like levels between hard walls; on the line
   // (the oscillator) a slow decay is only algebraic.
   if (basis.walls === null && (classification === 'jump' || classification === 'kink')) classification = 'algebraic';
-  return { exponent: f.exponent ?? null, classification, at: null };
+  return { exponent: f.exponent ?? null, classification, at: null, rate: f.rate, range: f.range };
 }

@@ -29,8 +29,8 @@ export interface MixedMeasurements {
   purity: number;
 }
 
-/** Combines the parts' measurements (at least one, all in the same basis with the same level count). */
-export function combineParts(parts: readonly MeasuredPart[], orthonormal: boolean): MixedMeasurements {
+/** Combines the parts' measurements (at least one, all in the same basis with the same level count); `omitted` is the share of a thermal sum left out. */
+export function combineParts(parts: readonly MeasuredPart[], orthonormal: boolean, omitted = 0): MixedMeasurements {
   const first = parts[0]!.m;
   const count = Math.min(...parts.map((p) => p.m.levels.length));
   const levels: LevelResult[] = [];
@@ -46,7 +46,8 @@ export function combineParts(parts: readonly MeasuredPart[], orthonormal: boolea
   let captured = 0;
   for (const p of parts) captured += p.weight * p.m.captured;
   const energy = combineEnergy(parts);
-  const decay = decayOf(first.basis, weights);
+  // Populations below the share of a thermal sum left out are not resolved: no decay law is read from them.
+  const decay = decayOf(first.basis, weights, omitted);
   const jumps = union(parts.map((p) => p.m.jumps));
   const kinks = union(parts.map((p) => p.m.kinks));
   if (decay) decay.at = jumps[0] ?? kinks[0] ?? null;

@@ -59,7 +59,7 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
     }
     measured.push({ weight: part.weight, m });
   }
-  const { m, purity } = combineParts(measured, mp.orthonormal);
+  const { m, purity } = combineParts(measured, mp.orthonormal, mp.omitted);
   for (const check of STATE_CHECKS) out.push(...check(m, checks));
   fillResult(m, result);
   result.purity = purity;

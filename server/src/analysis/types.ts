@@ -29,6 +29,10 @@ export interface DecayResult {
   classification: 'jump' | 'kink' | 'smooth' | 'algebraic' | 'unknown';
   /** Where a detected jump or kink sits (file length unit), if found. */
   at: number | null;
+  /** r in |c_n| ~ B e^{-r n} when the fall is geometric (each level |c_n| times e^{-r}), else null. */
+  rate?: number | null;
+  /** First and last level n of the tail fitted (of the levels holding weight, for a finite sum), or null. */
+  range?: [number, number] | null;
 }
 
 /** Time evolution on a grid of times. */

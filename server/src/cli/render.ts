@@ -9,6 +9,7 @@ import type { EngineDiagnostic } from '../language/catalogue';
 import { lineTable, positionAt, type LineTable } from '../language/positions';
 import { formatNumber } from '../shared/numbers';
 import { oscillatorQuantum, quantaText } from '../shared/quanta';
+import { decayText } from '../shared/decayText';
 
 /** A diagnostic with 1-based lines and columns, as the JSON and `check` print them. */
 export interface LocatedDiagnostic {
@@ -127,7 +128,8 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   }
   if (typeof result.meanQuantumNumber === 'number') lines.push(`mean quantum number <n>: ${num(result.meanQuantumNumber, 8)}`);
   if (result.parity) lines.push(`parity: ${result.parity}`);
-  if (result.decay && result.decay.exponent !== null) lines.push(`decay: ${result.mixture ? 'sqrt(P_n)' : '|c_n|'} ~ n^-${num(result.decay.exponent, 3)} (${result.decay.classification})`);
+  const decay = decayText(result.decay, { mixture: Boolean(result.mixture), kind: result.system?.kind, ascii: true });
+  if (decay !== null) lines.push(`decay: ${decay}`);
   if (result.evolution) {
     // Times carry the file's time unit; a file with units but no time unit counts time in hbar per its energy unit.
     const timeUnit = result.units.time ? ` ${result.units.time}` : result.units.energy ? ` hbar/${result.units.energy}` : '';

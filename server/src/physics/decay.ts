@@ -31,6 +31,9 @@ function notFalling(weights: Float64Array, n: number, count: number, max: number
   return last >= NOT_FALLING * max;
 }
 
+/** A power at least this steep is 'smooth'; it stays a power only when it fits clearly better than a geometric fall. */
+const STEEP = 3.5;
+
 /** The fitted tail law. */
 export interface DecayFit {
   /** p in |c_n| ~ A n^-p, or null when the decay is geometric (faster than any power). */
@@ -50,6 +53,8 @@ export interface DecayFit {
   density: number;
   /** Points used in the fit. */
   points: number;
+  /** First and last level label of the tail fitted, or null when nothing was fitted. */
+  range: [number, number] | null;
   /** RMS residuals of log|c| fitted against log n (power) and against n (geometric). */
   residual: { power: number; geometric: number };
 }
@@ -85,8 +90,9 @@ function line(t: number[], y: number[]): { c0: number; c1: number; rms: number }
  * Fits the tail of the coefficients, weights[i] = |c_n|^2 at n = labels[i] (labels ascending, >= 1),
  * to |c_n| ~ A n^-p by least squares on log|c_n| against log n, and to |c_n| ~ B e^{-r n} on log|c_n|
  * against n. Levels below the floor are skipped. The decay is geometric (smooth, exponent null)
- * when the exponential fit is clearly better (residual under half the power fit's) or the power is
- * at least 3.5. Otherwise p near 1 means a jump, near 2 a kink, near 3 a jump in psi''
+ * when the exponential fit is clearly better (residual under half the power fit's), or when the power
+ * is at least 3.5 and the power fit is not clearly better (its residual under half the exponential's);
+ * a clear steep power stays a power ('smooth', p >= 3.5). Otherwise p near 1 means a jump, near 2 a kink, near 3 a jump in psi''
  * (Boyd, Chebyshev and Fourier Spectral Methods, ch. 2 (from memory)). A state whose weight stops
  * entirely after a few levels (a finite combination) is smooth. Never throws.
  */
@@ -104,6 +110,7 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
     derivativeJump: null,
     density: 0,
     points: 0,
+    range: null,
     residual: { power: NaN, geometric: NaN },
   };
   let max = 0;
@@ -116,7 +123,8 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
   if (keep.length < minPoints) {
     // A finite combination: nothing above the floor over a stretch of at least minPoints levels.
     const last = keep.length ? keep[keep.length - 1] : -1;
-    if (n - 1 - last >= minPoints) return { ...unknown, classification: 'smooth', density: 0, points: keep.length };
+    const range: [number, number] | null = keep.length ? [labels[keep[0]!]!, labels[last]!] : null;
+    if (n - 1 - last >= minPoints) return { ...unknown, classification: 'smooth', density: 0, points: keep.length, range };
     return { ...unknown, points: keep.length };
   }
   const tailCount = Math.max(minPoints, Math.ceil(keep.length * tailFraction));
@@ -151,22 +159,22 @@ export function fitDecay(labels: Float64Array, weights: Float64Array, options: D
   const geo = line(nn, logC);
   const p = -pow.c1;
   const residual = { power: pow.rms, geometric: geo.rms };
-  const base = { density, points: pts.length, residual };
-  const geometric = geo.rms < 0.5 * pow.rms && geo.c1 < 0;
+  const base = { density, points: pts.length, range: [firstLabel, lastLabel] as [number, number], residual };
+  // A steep power (p >= 3.5) that does not fit clearly better than a geometric fall is that fall seen
+  // through the wrong model: over a short range of n a geometric tail fits any large p (29.8 was seen).
+  const steepButNotPower = p >= STEEP && !(pow.rms < 0.5 * geo.rms);
+  const geometric = (geo.rms < 0.5 * pow.rms || steepButNotPower) && geo.c1 < 0;
   if (geometric) {
     return { ...base, exponent: null, amplitude: Math.exp(geo.c0), rate: -geo.c1, classification: 'smooth', derivativeJump: null };
   }
-  const amplitude = Math.exp(pow.c0);
-  let classification: DecayFit['classification'] = 'algebraic';
-  let derivativeJump: DecayFit['derivativeJump'] = null;
-  if (p >= 3.5) classification = 'smooth';
-  else if (p >= 2.5) derivativeJump = 2;
-  else if (p >= 1.5) {
-    classification = 'kink';
-    derivativeJump = 1;
-  } else if (p >= 0.5) {
-    classification = 'jump';
-    derivativeJump = 0;
-  }
-  return { ...base, exponent: p, amplitude, rate: null, classification, derivativeJump };
+  return { ...base, exponent: p, amplitude: Math.exp(pow.c0), rate: null, ...powerClass(p) };
+}
+
+/** The class of a power law |c_n| ~ n^-p and the lowest derivative that jumps (see {@link fitDecay}). */
+function powerClass(p: number): Pick<DecayFit, 'classification' | 'derivativeJump'> {
+  if (p >= STEEP) return { classification: 'smooth', derivativeJump: null };
+  if (p >= 2.5) return { classification: 'algebraic', derivativeJump: 2 };
+  if (p >= 1.5) return { classification: 'kink', derivativeJump: 1 };
+  if (p >= 0.5) return { classification: 'jump', derivativeJump: 0 };
+  return { classification: 'algebraic', derivativeJump: null };
 }
