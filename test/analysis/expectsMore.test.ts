@@ -55,8 +55,12 @@ describe('expect revival', () => {
     // Box revival time T = 4 m L^2 / (pi hbar) = 2 pi hbar / E_1 (Styer, Am. J. Phys. 69, 56 (2001), from memory).
     const T = (4 * ME * 1e-18) / (PI * HBAR) / 1e-15;
     expect(T).toBeCloseTo(10.99823394, 8);
-    const text = `units nm, eV, fs\nsystem box(0, 1 nm)\nstate psi(x) = phi(1, x) + phi(2, x)\nexpect revival ${T.toPrecision(12)} fs +- 1e-8 fs\nexpect revival ${(T * 1000).toPrecision(12)} as +- 1e-5 as\nexpect revival 10 fs +- 0.1 fs\n`;
+    // Levels 1, 2 and 3: n^2 - 1 = 3 and 8 have no common step, so the state needs the full T.
+    const text = `units nm, eV, fs\nsystem box(0, 1 nm)\nstate psi(x) = phi(1, x) + phi(2, x) + phi(3, x)\nexpect revival ${T.toPrecision(12)} fs +- 1e-8 fs\nexpect revival ${(T * 1000).toPrecision(12)} as +- 1e-5 as\nexpect revival 10 fs +- 0.1 fs\n`;
     expect(failingLines(text)).toEqual([6]);
+    // Levels 1 and 2 alone: their phases agree again after T / 3 (4 - 1 = 3; derived in evolution.ts).
+    const two = `units nm, eV, fs\nsystem box(0, 1 nm)\nstate psi(x) = phi(1, x) + phi(2, x)\nexpect revival ${(T / 3).toPrecision(12)} fs +- 1e-8 fs\nexpect revival ${T.toPrecision(12)} fs +- 1e-8 fs\n`;
+    expect(failingLines(two)).toEqual([5]);
   });
 
   it('the oscillator revives after one period 2 pi / omega', () => {

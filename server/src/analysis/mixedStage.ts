@@ -7,8 +7,8 @@
  * <x>(t) = sum_k p_k <x>_k(t), <p>(t) likewise, the density sum_k p_k |psi_k(x, t)|^2, and the
  * survival is the ensemble's return probability S(t) = sum_k p_k |<psi_k|psi_k(t)>|^2 (the chance that
  * a member of the ensemble is found in the pure state it started in; 1 at t = 0, the pure survival for
- * one part). The revival time is the spectrum's own where it has one (box, oscillator), otherwise that
- * of the heaviest part.
+ * one part). The revival time is that of the heaviest part (`revival`: the spectrum's own divided by
+ * the common step of the levels it holds, or the survival's first return).
  */
 import { warn } from './findings';
 import type { Budget } from '../physics/budget';

@@ -410,7 +410,9 @@ function populated(cRe: Float64Array, cIm: Float64Array, count: number): Populat
 /**
  * The revival time of a state. Box on [a, b]: T_rev = 4 m L^2 / (pi hbar) = 2 pi / E_1
  * (Styer, Am. J. Phys. 69, 56 (2001) (from memory)); oscillator: its period 2 pi / omega,
- * omega = E_1 - E_0. Otherwise the first revival of the survival probability S(t) (see `evolve`):
+ * omega = E_1 - E_0; each divided by the common step of the populated levels (`commonStep`), so a
+ * state on odd box levels only revives at T_rev / 8 and one on even oscillator levels after half a
+ * period. A state on one level has none. Otherwise the first revival of the survival probability S(t) (see `evolve`):
  * the first local maximum with S >= `high` after S first falls below `low`, refined by bisection on
  * the slope S'(t); null when S never falls below `low` or no revival comes before the horizon.
  * A packet that returns intact after one classical period (S >= `high` again) counts as a revival, so
@@ -420,15 +422,17 @@ function populated(cRe: Float64Array, cIm: Float64Array, count: number): Populat
  * A search stopped by the budget gives time null and `stopped`.
  */
 export function revival(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, options: RevivalOptions = {}): RevivalResult {
+  const pop = populated(cRe, cIm, basis.count);
+  // A single populated level only turns its phase: the state never changes, so it has no revival.
+  if (!(pop.total > 0) || pop.idx.length < 2) return { time: null, stopped: null };
   if (basis.kind === 'box' && basis.walls) {
     const L = basis.walls[1] - basis.walls[0];
-    return { time: (4 * basis.mass * L * L) / Math.PI, stopped: null };
+    const n = pop.idx.map((k) => k + basis.firstLabel);
+    return { time: (4 * basis.mass * L * L) / Math.PI / commonStep(n.map((q) => q * q)), stopped: null };
   }
   if (basis.kind === 'oscillator') {
-    return { time: basis.count < 2 ? null : (2 * Math.PI) / (basis.energies[1] - basis.energies[0]), stopped: null };
+    return { time: (2 * Math.PI) / (basis.energies[1] - basis.energies[0]) / commonStep(pop.idx), stopped: null };
   }
-  const pop = populated(cRe, cIm, basis.count);
-  if (!(pop.total > 0) || pop.idx.length < 2) return { time: null, stopped: null };
   const E = basis.energies;
   let emin = Infinity;
   let emax = -Infinity;
@@ -442,6 +446,20 @@ export function revival(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array,
   const horizon = options.horizon ?? defaultHorizon(E, basis.count, pop.mean, spread);
   const steps = Math.min(Math.max(16, options.maxSteps ?? 200000), Math.ceil(horizon / dt));
   return searchRevival(E, pop, dt, steps, options.low ?? 0.5, options.high ?? 0.9, options.budget ?? unlimitedBudget());
+}
+
+/**
+ * The greatest common divisor of the differences of integer level energies (in units of the spectrum's
+ * own step: n^2 for a box, n for the oscillator) from the first: the phases e^{-i E_n t} of every
+ * populated level agree again after T / g, where T is the revival of the full spectrum. Only odd box
+ * levels (a state symmetric about the centre) give g = 8 (n^2 = 1 mod 8 for odd n), only even
+ * oscillator levels (a squeezed vacuum) g = 2 (derived in this comment).
+ */
+function commonStep(values: readonly number[]): number {
+  const gcd = (p: number, q: number): number => (q === 0 ? p : gcd(q, p % q));
+  let g = 0;
+  for (const v of values) g = gcd(g, Math.abs(v - values[0]));
+  return g > 0 ? g : 1;
 }
 
 /** Horizon from the curvature of E_n near the mean level m: max(4 (4 pi / |E''|), 40 periods). */
