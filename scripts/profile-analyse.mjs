@@ -189,6 +189,7 @@ const stageOf = (name) => {
 function tally(profiles) {
   const inclusive = new Map();
   const selfByModule = new Map();
+  const selfByFunction = new Map();
   let total = 0;
   for (const profile of profiles) {
     const byId = new Map(profile.nodes.map((n) => [n.id, n]));
@@ -208,9 +209,11 @@ function tally(profiles) {
       for (const st of seen) inclusive.set(st, (inclusive.get(st) ?? 0) + count);
       const mod = frame.url.endsWith('engine.mjs') ? moduleAt(frame.lineNumber) : frame.url ? frame.url : `(${frame.functionName || 'native'})`;
       selfByModule.set(mod, (selfByModule.get(mod) ?? 0) + count);
+      const fn = `${frame.functionName || '(anonymous)'} (${mod.replace(/^server\/src\//, '')})`;
+      selfByFunction.set(fn, (selfByFunction.get(fn) ?? 0) + count);
     }
   }
-  return { inclusive, selfByModule, total };
+  return { inclusive, selfByModule, selfByFunction, total };
 }
 
 const f = (ms) => (ms >= 1 ? ms.toFixed(2) : ms.toFixed(3));
@@ -227,6 +230,10 @@ function report(title, t, cpuMs) {
   console.log(`${title}: self time by module`);
   for (const [mod, c] of [...t.selfByModule].sort((p, q) => q[1] - p[1]).slice(0, 14)) {
     console.log(`  ${mod.padEnd(52)} ${f(scale(c)).padStart(7)} ms  ${((100 * c) / t.total).toFixed(1).padStart(5)}%`);
+  }
+  console.log(`${title}: self time by function`);
+  for (const [fn, c] of [...t.selfByFunction].sort((p, q) => q[1] - p[1]).slice(0, 16)) {
+    console.log(`  ${fn.slice(0, 60).padEnd(60)} ${f(scale(c)).padStart(7)} ms  ${((100 * c) / t.total).toFixed(1).padStart(5)}%`);
   }
 }
 
