@@ -138,9 +138,10 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) return { stop: 'notFinite', norm };
   // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
   const rms = Math.sqrt(norm / (window[1] - window[0]));
-  const scalePsi = singular ? rms : maxAbs(ex.values.re, ex.values.im) || 1;
+  const peakPsi = singular ? NaN : maxAbs(ex.values.re, ex.values.im);
+  const scalePsi = singular ? rms : peakPsi || 1;
   const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
-  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: singular ? NaN : maxAbs(ex.values.re, ex.values.im) }, hardWalls(input.model, input.built)) : null;
+  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: peakPsi }, hardWalls(input.model, input.built)) : null;
   const found = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
   // A breakpoint at the singularity (the corner of abs(x - x0)) is the singularity, not a jump or kink.
   const apart = (x: number): boolean => !singular || Math.abs(x - singular.x) > 1e-6 * (window[1] - window[0]);
@@ -409,7 +410,27 @@ function levelsNeeded(input: { state: StateFunction; basis: Eigenbasis; window: 
   return null;
 }
 
-function maxAbs(re: Float64Array, im: Float64Array): number {
+/**
+ * max_j hypot(re_j, im_j), exactly as that loop gives it, at the cost of one pass of squares: the
+ * squares find the largest modulus, and only the nodes within 1e-12 of it (the squares' rounding is a
+ * few eps where they neither overflow nor underflow) are measured with hypot. Any other case (a
+ * non-finite or a tiny square) takes the plain loop.
+ */
+export function maxAbs(re: Float64Array, im: Float64Array): number {
+  let m2 = 0;
+  for (let j = 0; j < re.length; j++) {
+    const s = re[j]! * re[j]! + im[j]! * im[j]!;
+    if (s > m2) m2 = s;
+    else if (!(s <= m2)) return maxAbsPlain(re, im);
+  }
+  if (!(m2 > 1e-280 && m2 < Infinity)) return maxAbsPlain(re, im);
+  const near = m2 * (1 - 1e-12);
+  let m = 0;
+  for (let j = 0; j < re.length; j++) if (re[j]! * re[j]! + im[j]! * im[j]! >= near) m = Math.max(m, Math.hypot(re[j]!, im[j]!));
+  return m;
+}
+
+function maxAbsPlain(re: Float64Array, im: Float64Array): number {
   let m = 0;
   for (let j = 0; j < re.length; j++) m = Math.max(m, Math.hypot(re[j]!, im[j]!));
   return m;
