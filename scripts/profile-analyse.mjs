@@ -3,13 +3,13 @@
 // processes. Bundles server/src with esbuild (as bench/solver.mjs does); the stage names are functions of
 // the engine, matched on the sampled stacks (inclusive time), and the modules' self time comes from the
 // bundle's module markers.
-// Usage: node scripts/profile-analyse.mjs [--reps 400] [--cold 5] [--interval 50] [--file F.qstate] [--cpuprofile OUT]
+// Usage: node scripts/profile-analyse.mjs [--reps 400] [--cold 5] [--interval 50] [--file F.qstate] [--cpuprofile OUT] [--tree DIR]
 // Default text: issue #15's first row (200 box coefficients of a smooth packet).
 import { build } from 'esbuild';
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir, loadavg, cpus } from 'node:os';
-import { join } from 'node:path';
+import { join, resolve } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { Session } from 'node:inspector/promises';
 
@@ -23,6 +23,8 @@ const text = opt('--file', null) ? readFileSync(opt('--file'), 'utf8') : DEFAULT
 const reps = Number(opt('--reps', 400));
 const coldRuns = Number(opt('--cold', 5));
 const interval = Number(opt('--interval', 50));
+// Another tree holding server/src (a `git archive` of an older commit) to profile instead of this checkout.
+const tree = resolve(opt('--tree', process.cwd()));
 
 /** Stages of the path, by the engine function that does each (inclusive time: a stage holds its callees). */
 const STAGES = [
@@ -68,13 +70,14 @@ const out = join(dir, 'engine.mjs');
 await build({
   stdin: {
     contents: "export { analyse } from './server/src/analysis/index';\nexport { clearBasisMemo } from './server/src/analysis/systems';\n",
-    resolveDir: process.cwd(),
+    resolveDir: tree,
     loader: 'ts',
   },
   bundle: true,
   platform: 'node',
   format: 'esm',
   outfile: out,
+  nodePaths: [join(process.cwd(), 'node_modules')],
   logLevel: 'warning',
 });
 const bundle = readFileSync(out, 'utf8');
