@@ -345,11 +345,36 @@ function energyOf(m: {
 
 /** Even and odd parts of the state about `center` (physics/parity.ts), from its values at the mirrored nodes. */
 function parityOf(state: StateFunction, ex: Expanded, center: number): ParityMeasurements {
-  const mx = new Float64Array(ex.q.x.length);
-  for (let j = 0; j < mx.length; j++) mx[j] = 2 * center - ex.q.x[j]!;
-  const mirror = state.evaluate(mx, 0);
+  const mirror = mirrorValues(state, ex, center);
   const p = splitParity({ re: ex.values.re, im: ex.values.im, mirrorRe: mirror.re, mirrorIm: mirror.im, w: ex.q.w });
   return { center, parity: p.classification, minor: p.minor, major: p.major };
+}
+
+/**
+ * psi(2c - x_j) at every node. Where the mirror image of a node is, bit for bit, the node at the other
+ * end of the grid (about half the nodes of a grid symmetric about c, all of some), its value is already
+ * known: evaluation is pointwise (charged.ts), so only the other images are evaluated.
+ */
+function mirrorValues(state: StateFunction, ex: Expanded, center: number): { re: Float64Array; im: Float64Array } {
+  const x = ex.q.x;
+  const n = x.length;
+  const other: number[] = [];
+  for (let j = 0; j < n; j++) if (2 * center - x[j]! !== x[n - 1 - j]) other.push(j);
+  const mx = new Float64Array(other.length);
+  other.forEach((j, i) => (mx[i] = 2 * center - x[j]!));
+  const v = state.evaluate(mx, 0);
+  if (other.length === n) return { re: v.re, im: v.im };
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    re[j] = ex.values.re[n - 1 - j]!;
+    im[j] = ex.values.im[n - 1 - j]!;
+  }
+  other.forEach((j, i) => {
+    re[j] = v.re[i]!;
+    im[j] = v.im[i]!;
+  });
+  return { re, im };
 }
 
 /**
