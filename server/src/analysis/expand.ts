@@ -187,8 +187,28 @@ export function maxWaveNumber(basis: Eigenbasis, levels: number, window: [number
  * holds one panel until the nominal count reaches its share, and two such grids would agree falsely).
  */
 function quadratureFor(window: [number, number], breakpoints: number[], panels: number, refine: number): Quadrature {
-  return compositeGaussLegendre(window[0], window[1], { breakpoints, panels, order: ORDER, refine });
+  const memo = breakpoints.length <= GRID_MEMO_BREAKPOINTS;
+  const key = memo ? `${window[0]} ${window[1]} ${panels} ${refine} ${breakpoints.join(' ')}` : '';
+  const hit = memo ? GRID_MEMO.get(key) : undefined;
+  if (hit) return hit;
+  const q = compositeGaussLegendre(window[0], window[1], { breakpoints, panels, order: ORDER, refine });
+  if (memo && q.x.length <= GRID_MEMO_NODES) {
+    if (GRID_MEMO.size >= GRID_MEMO_SIZE) GRID_MEMO.delete(GRID_MEMO.keys().next().value!);
+    GRID_MEMO.set(key, q);
+  }
+  return q;
 }
+
+/**
+ * The last few quadrature grids by their parameters (numbers print as round-trip decimals, so equal keys
+ * mean equal inputs): a file analysed again, or edited without touching its system and its levels, gets
+ * the same grid without rebuilding it. Grids are read, never written, by everything downstream. Only
+ * grids of at most 2^16 nodes (1 MiB) and 64 breakpoints are kept.
+ */
+const GRID_MEMO = new Map<string, Quadrature>();
+const GRID_MEMO_SIZE = 8;
+const GRID_MEMO_NODES = 1 << 16;
+const GRID_MEMO_BREAKPOINTS = 64;
 
 /**
  * The coefficients of the state on the first `levels` levels, projected chunk by chunk of nodes (the

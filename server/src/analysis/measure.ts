@@ -138,9 +138,10 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) return { stop: 'notFinite', norm };
   // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
   const rms = Math.sqrt(norm / (window[1] - window[0]));
-  const scalePsi = singular ? rms : maxAbs(ex.values.re, ex.values.im) || 1;
+  const peakPsi = singular ? NaN : maxAbs(ex.values.re, ex.values.im);
+  const scalePsi = singular ? rms : peakPsi || 1;
   const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
-  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: singular ? NaN : maxAbs(ex.values.re, ex.values.im) }, hardWalls(input.model, input.built)) : null;
+  const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: peakPsi }, hardWalls(input.model, input.built)) : null;
   const found = classifyBreakpoints(state, window, { psi: scalePsi, dpsi: scaleD });
   // A breakpoint at the singularity (the corner of abs(x - x0)) is the singularity, not a jump or kink.
   const apart = (x: number): boolean => !singular || Math.abs(x - singular.x) > 1e-6 * (window[1] - window[0]);
@@ -344,11 +345,36 @@ function energyOf(m: {
 
 /** Even and odd parts of the state about `center` (physics/parity.ts), from its values at the mirrored nodes. */
 function parityOf(state: StateFunction, ex: Expanded, center: number): ParityMeasurements {
-  const mx = new Float64Array(ex.q.x.length);
-  for (let j = 0; j < mx.length; j++) mx[j] = 2 * center - ex.q.x[j]!;
-  const mirror = state.evaluate(mx, 0);
+  const mirror = mirrorValues(state, ex, center);
   const p = splitParity({ re: ex.values.re, im: ex.values.im, mirrorRe: mirror.re, mirrorIm: mirror.im, w: ex.q.w });
   return { center, parity: p.classification, minor: p.minor, major: p.major };
+}
+
+/**
+ * psi(2c - x_j) at every node. Where the mirror image of a node is, bit for bit, the node at the other
+ * end of the grid (about half the nodes of a grid symmetric about c, all of some), its value is already
+ * known: evaluation is pointwise (charged.ts), so only the other images are evaluated.
+ */
+function mirrorValues(state: StateFunction, ex: Expanded, center: number): { re: Float64Array; im: Float64Array } {
+  const x = ex.q.x;
+  const n = x.length;
+  const other: number[] = [];
+  for (let j = 0; j < n; j++) if (2 * center - x[j]! !== x[n - 1 - j]) other.push(j);
+  const mx = new Float64Array(other.length);
+  other.forEach((j, i) => (mx[i] = 2 * center - x[j]!));
+  const v = state.evaluate(mx, 0);
+  if (other.length === n) return { re: v.re, im: v.im };
+  const re = new Float64Array(n);
+  const im = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    re[j] = ex.values.re[n - 1 - j]!;
+    im[j] = ex.values.im[n - 1 - j]!;
+  }
+  other.forEach((j, i) => {
+    re[j] = v.re[i]!;
+    im[j] = v.im[i]!;
+  });
+  return { re, im };
 }
 
 /**
@@ -409,7 +435,27 @@ function levelsNeeded(input: { state: StateFunction; basis: Eigenbasis; window: 
   return null;
 }
 
-function maxAbs(re: Float64Array, im: Float64Array): number {
+/**
+ * max_j hypot(re_j, im_j), exactly as that loop gives it, at the cost of one pass of squares: the
+ * squares find the largest modulus, and only the nodes within 1e-12 of it (the squares' rounding is a
+ * few eps where they neither overflow nor underflow) are measured with hypot. Any other case (a
+ * non-finite or a tiny square) takes the plain loop.
+ */
+export function maxAbs(re: Float64Array, im: Float64Array): number {
+  let m2 = 0;
+  for (let j = 0; j < re.length; j++) {
+    const s = re[j]! * re[j]! + im[j]! * im[j]!;
+    if (s > m2) m2 = s;
+    else if (!(s <= m2)) return maxAbsPlain(re, im);
+  }
+  if (!(m2 > 1e-280 && m2 < Infinity)) return maxAbsPlain(re, im);
+  const near = m2 * (1 - 1e-12);
+  let m = 0;
+  for (let j = 0; j < re.length; j++) if (re[j]! * re[j]! + im[j]! * im[j]! >= near) m = Math.max(m, Math.hypot(re[j]!, im[j]!));
+  return m;
+}
+
+function maxAbsPlain(re: Float64Array, im: Float64Array): number {
   let m = 0;
   for (let j = 0; j < re.length; j++) m = Math.max(m, Math.hypot(re[j]!, im[j]!));
   return m;

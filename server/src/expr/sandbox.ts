@@ -37,6 +37,27 @@ export const DEFAULT_PARSE_OPTIONS: Required<ParseOptions> = { maxLength: 10_000
  * the character mathjs reports), `forbidden` (every construct outside the whitelist, on its own range).
  */
 export function parseExpression(src: ExprText, options: ParseOptions = {}): Prepared<Expr> {
+  const literal = plainLiteral(src, options);
+  return literal ?? parseThroughMathjs(src, options);
+}
+
+/**
+ * A plain decimal number (digits, a decimal mark with digits, an exponent), the common case of a
+ * parameter, as the full path reads it: mathjs turns the one number token into Number(text), and a
+ * finite value becomes this node with the token's span (test/expr/sandbox.test.ts compares the two
+ * paths). Null for anything else, which then takes the full path.
+ */
+const PLAIN_NUMBER = /^(?:0|[1-9][0-9]{0,20})(?:\.[0-9]{1,25})?(?:[eE][+-]?[0-9]{1,3})?$/;
+function plainLiteral(src: ExprText, options: ParseOptions): Prepared<Expr> | null {
+  const text = src.text;
+  if (text.length > (options.maxLength ?? DEFAULT_PARSE_OPTIONS.maxLength) || !PLAIN_NUMBER.test(text)) return null;
+  const value = Number(text);
+  if (!Number.isFinite(value)) return null;
+  return { result: { type: 'number', value, start: src.start, end: src.start + text.length }, diagnostics: [] };
+}
+
+/** parseExpression without the plain-number shortcut (exported for the test that compares the two). */
+export function parseThroughMathjs(src: ExprText, options: ParseOptions = {}): Prepared<Expr> {
   const { maxLength, maxDepth, maxChain } = { ...DEFAULT_PARSE_OPTIONS, ...options };
   const text = src.text;
   const base = src.start;
