@@ -59,10 +59,10 @@ export function boxBasis(a: number, b: number, mass: number, count: number): Eig
             continue;
           }
           const s = single ? Math.sin((m * Math.PI * (x - a)) / L) : S[m];
-          const c = single ? Math.cos((m * Math.PI * (x - a)) / L) : C[m];
           const q = (m * Math.PI) / L;
           out[idx] = amp * s;
-          if (d1) d1[idx] = amp * q * c;
+          // The cosine only feeds the first derivative: a lone level asked without it skips it.
+          if (d1) d1[idx] = amp * q * (single ? Math.cos((m * Math.PI * (x - a)) / L) : C[m]);
           if (d2) d2[idx] = -q * q * amp * s;
         }
       }

@@ -2,15 +2,16 @@
  * The fast path for box coefficients: a discrete sine transform of equally spaced samples.
  */
 import { fftInPlace } from './fft';
+import { SizeTables } from './sizeTables';
 
-/** sin(pi j / N) for j <= N/2, cached for the most recent N. */
-let sineCache: { n: number; s: Float64Array } | null = null;
-function halfSines(N: number): Float64Array {
-  if (sineCache && sineCache.n === N) return sineCache.s;
+/** sin(pi j / N) for j <= N/2, kept for the recent N. */
+const sineTables = new SizeTables((N: number) => {
   const s = new Float64Array((N >> 1) + 1);
   for (let j = 0; j < s.length; j++) s[j] = Math.sin((Math.PI * j) / N);
-  sineCache = { n: N, s };
   return s;
+});
+function halfSines(N: number): Float64Array {
+  return sineTables.get(N);
 }
 
 /** Coefficients c_n = <phi_n|psi> of a box state, n = 1 ... count. */

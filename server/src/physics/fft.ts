@@ -1,13 +1,10 @@
 /**
  * A radix-2 fast Fourier transform on split real/imaginary Float64Arrays.
  */
+import { SizeTables } from './sizeTables';
 
-/** Twiddle tables of the most recent size; recomputing them is a large share of a transform's cost. */
-let cached: { n: number; cosT: Float64Array; sinT: Float64Array } | null = null;
-
-/** cos and sin of -2 pi k / n for k < n/2, each from the library (no recurrence drift). */
-function twiddles(n: number): { cosT: Float64Array; sinT: Float64Array } {
-  if (cached && cached.n === n) return cached;
+/** Twiddle tables of the recent sizes; recomputing them is a large share of a transform's cost. */
+const tables = new SizeTables((n: number) => {
   const half = n >> 1;
   const cosT = new Float64Array(half);
   const sinT = new Float64Array(half);
@@ -16,8 +13,12 @@ function twiddles(n: number): { cosT: Float64Array; sinT: Float64Array } {
     cosT[k] = Math.cos(ang);
     sinT[k] = Math.sin(ang);
   }
-  cached = { n, cosT, sinT };
-  return cached;
+  return { cosT, sinT };
+});
+
+/** cos and sin of -2 pi k / n for k < n/2, each from the library (no recurrence drift). */
+function twiddles(n: number): { cosT: Float64Array; sinT: Float64Array } {
+  return tables.get(n);
 }
 
 /**
