@@ -177,7 +177,9 @@ function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<Si
     }
     C[q] = s / N;
   }
-  for (const j of jumps) {
+  // An indexed loop: optimised code that meets a for-of body it never ran is thrown away.
+  for (let ji = 0; ji < jumps.length; ji++) {
+    const j = jumps[ji];
     if (!(j.index >= 1 && j.index <= n)) continue;
     const h = L / N;
     const lo = j.index * h - h / 2;

@@ -3,7 +3,8 @@
  * (dvr.ts) on a grid chosen automatically and confirmed by solving at two sizes.
  */
 import type { Eigenbasis } from './types';
-import { unlimitedBudget, type Budget, type StopReason } from './budget';
+import type { Budget, StopReason } from './budget';
+import { freeBudget } from './freeBudget';
 import { firstGridSize, scanPotential, evalV } from './potentialScan';
 import { JUMP_ORDER, levelScale, refine, roundingFloor } from './potentialRefine';
 import { emptyBasis, fixSigns, makeBasis } from './potentialView';
@@ -167,7 +168,7 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  */
 export function potentialBasis(V: PotentialFn, a: number, b: number, mass: number, levels: number, options: PotentialOptions = {}): PotentialBasisResult {
   const o = { ...DEFAULTS, ...options };
-  const budget = options.budget ?? unlimitedBudget();
+  const budget = options.budget ?? freeBudget();
   const fail = (note: PotentialNote): PotentialBasisResult => failedBasis(V, a, b, mass, levels, note);
   if (!(Number.isFinite(a) && Number.isFinite(b) && b > a) || !(mass > 0 && Number.isFinite(mass))) {
     return fail({ kind: 'input', message: 'The interval must have finite ends a < b and the mass must be positive.' });
@@ -237,7 +238,15 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   const out: PotentialBasisResult = { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
-  if (r.coarse) out.coarse = coarseView(r.coarse, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
+  if (r.coarse) {
+    // Built on first use: its sign fixing and view cost a solve's worth of small work that a caller
+    // without coefficient uncertainties never needs.
+    const c = r.coarse;
+    const at = { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) };
+    const massAt = mp && { profile: options.massProfile!, jumps: mp.jumps };
+    let view: Eigenbasis | undefined;
+    Object.defineProperty(out, 'coarse', { get: () => (view ??= coarseView(c, at, budget, massAt)), enumerable: true, configurable: true });
+  }
   return out;
 }
 

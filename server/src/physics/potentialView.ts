@@ -116,14 +116,6 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
   const C = new Float64Array(n + 1);
   const kf = Math.PI / (sol.b - sol.a);
   const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
-  const series = (j: number, top: number): number => {
-    const p = sol.parity[j];
-    const step = p === 0 ? 1 : 2;
-    const off = j * n - 1;
-    let f = 0;
-    for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
-    return norm * f;
-  };
   for (let i = 0; i < grid.length && left > 0; i++) {
     let kTop = 0;
     for (let r = 0; r < left; r++) kTop = Math.max(kTop, head[open[r]]);
@@ -132,12 +124,12 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
     let kept = 0;
     for (let r = 0; r < left; r++) {
       const j = open[r];
-      let y = series(j, head[j]);
+      let y = norm * seriesAt(sol, S, j, head[j]);
       ops += head[j];
       if (Math.abs(Math.abs(y) - threshold[j]) <= tail[j] + 1e-9 * threshold[j] && head[j] < sol.terms[j]) {
         // Too close to the threshold to decide from the head: the whole series at this point.
         sineLadder(kf * (grid[i] - sol.a), sol.terms[j], S, C);
-        y = series(j, sol.terms[j]);
+        y = norm * seriesAt(sol, S, j, sol.terms[j]);
         ops += 2 * sol.terms[j];
       }
       if (!(Math.abs(y) > threshold[j])) {
@@ -149,4 +141,18 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
     left = kept;
     budget?.count(ops);
   }
+}
+
+/**
+ * sum_k c_jk S[k] over the terms k <= top of level j's parity. A module function, not a closure made per
+ * call: the compiler's inlined call of a closure stops matching at the next solve.
+ */
+function seriesAt(sol: SineDvrSolution, S: Float64Array, j: number, top: number): number {
+  const c = sol.coefficients;
+  const p = sol.parity[j];
+  const step = p === 0 ? 1 : 2;
+  const off = j * (sol.intervals - 1) - 1;
+  let f = 0;
+  for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
+  return f;
 }
