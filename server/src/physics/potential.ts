@@ -238,16 +238,17 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   const out: PotentialBasisResult = { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
-  if (r.coarse) {
-    // Built on first use: its sign fixing and view cost a solve's worth of small work that a caller
-    // without coefficient uncertainties never needs.
-    const c = r.coarse;
-    const at = { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) };
-    const massAt = mp && { profile: options.massProfile!, jumps: mp.jumps };
-    let view: Eigenbasis | undefined;
-    Object.defineProperty(out, 'coarse', { get: () => (view ??= coarseView(c, at, budget, massAt)), enumerable: true, configurable: true });
-  }
+  if (r.coarse) lazyCoarse(out, r.coarse, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
   return out;
+}
+
+/**
+ * `out.coarse` as a view built on first use: its sign fixing and view cost a solve's worth of small
+ * work that a caller without coefficient uncertainties never needs.
+ */
+function lazyCoarse(out: PotentialBasisResult, c: SineDvrSolution, ...rest: [Parameters<typeof coarseView>[1], Budget, Parameters<typeof coarseView>[3]]): void {
+  let view: Eigenbasis | undefined;
+  Object.defineProperty(out, 'coarse', { get: () => (view ??= coarseView(c, ...rest)), enumerable: true, configurable: true });
 }
 
 /** The next-to-last grid's solution as a basis, with the sign convention and view of the fine one. */
