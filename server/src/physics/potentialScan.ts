@@ -163,11 +163,7 @@ function wallSlope(V: PotentialFn, x0: number, dir: 1 | -1, L: number): number |
  * Used only to size the first grid, so a rough value is enough.
  */
 function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: number, L: number, settled: (lo: number, hi: number) => boolean): number {
-  const count = (E: number): number => {
-    let s = 0;
-    for (let j = 0; j < vs.length; j++) if (E > vs[j]) s += Math.sqrt(2 * mass * (E - vs[j]));
-    return (s * h) / Math.PI;
-  };
+  const count = (E: number): number => (wkbSum(vs, mass, E) * h) / Math.PI;
   let lo = vmin;
   let hi = vmin + (Math.PI * Math.PI * K * K) / (2 * mass * L * L);
   for (let i = 0; i < 200 && count(hi) < K; i++) hi = vmin + 2 * (hi - vmin);
@@ -177,6 +173,18 @@ function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: n
     else hi = mid;
   }
   return hi;
+}
+
+/**
+ * sum_j sqrt(2 m (E - V_j)_+) over the samples (`wkbEnergy`'s n(E) without its factor h / pi). A module
+ * function ending with its loop: the optimised code entered in the middle of the loop (on-stack
+ * replacement) was thrown away at every call when arithmetic it had no feedback for followed the loop
+ * in a closure made per call (nine deoptimisations per first grid, node --trace-deopt).
+ */
+function wkbSum(vs: Float64Array, mass: number, E: number): number {
+  let s = 0;
+  for (let j = 0; j < vs.length; j++) if (E > vs[j]) s += Math.sqrt(2 * mass * (E - vs[j]));
+  return s;
 }
 
 /**
