@@ -160,9 +160,19 @@ export function sineDvrWork(intervals: number, symmetric: boolean): number {
 
 /** C(q), q = 0..2N-1, of the DVR quadrature (with the exact cell integral of each jump's cell). */
 function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<SineDvrOptions['jumps']>): Float64Array {
+  const C = pointMoments(v);
+  if (jumps.length > 0) jumpCells(C, v, a, L, jumps);
+  return C;
+}
+
+/**
+ * C(q) = (1/N) sum_i V_i cos(q pi i/N), q = 0..2N-1, from a cosine table indexed by (q i) mod 2N. Its
+ * own function ending with its loop: optimised code entered inside the loop (on-stack replacement) was
+ * thrown away at every solve when code it had no feedback for followed the loop (node --trace-deopt).
+ */
+function pointMoments(v: Float64Array): Float64Array {
   const n = v.length;
   const N = n + 1;
-  // C(q) for q = 0..2N-1 from a cosine table indexed by (q i) mod 2N.
   const twoN = 2 * N;
   const ct = new Float64Array(twoN);
   for (let j = 0; j < twoN; j++) ct[j] = Math.cos((Math.PI * j) / N);
@@ -177,9 +187,15 @@ function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<Si
     }
     C[q] = s / N;
   }
-  // An indexed loop: optimised code that meets a for-of body it never ran is thrown away.
-  for (let ji = 0; ji < jumps.length; ji++) {
-    const j = jumps[ji];
+  return C;
+}
+
+/** Replaces each jump cell's point term in C by the exact cell integral of its two-sided constant. */
+function jumpCells(C: Float64Array, v: Float64Array, a: number, L: number, jumps: NonNullable<SineDvrOptions['jumps']>): void {
+  const n = v.length;
+  const N = n + 1;
+  const twoN = 2 * N;
+  for (const j of jumps) {
     if (!(j.index >= 1 && j.index <= n)) continue;
     const h = L / N;
     const lo = j.index * h - h / 2;
@@ -189,10 +205,9 @@ function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<Si
       const w = (q * Math.PI) / L;
       // integral of cos(w u) du over [u0, u1], with the q = 0 limit.
       const seg = (u0: number, u1: number): number => (q === 0 ? u1 - u0 : (Math.sin(w * u1) - Math.sin(w * u0)) / w);
-      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * ct[(q * j.index) % twoN]) / N;
+      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * Math.cos((Math.PI * ((q * j.index) % twoN)) / N)) / N;
     }
   }
-  return C;
 }
 
 interface ParityBlock {
