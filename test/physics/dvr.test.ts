@@ -89,3 +89,32 @@ describe('sine DVR', () => {
     expect(Array.from(out).every((y) => y === 0)).toBe(true);
   });
 });
+
+describe('sine-series matrix elements', () => {
+  it('x and d/dx between oscillator levels follow the ladder operators', async () => {
+    // x = (a + a^+) / sqrt(2 m w) and d/dx = sqrt(m w / 2) (a - a^+) with hbar = 1 (ladder operators;
+    // Griffiths, Introduction to Quantum Mechanics, section 2.3, from memory): |<n|x|n+1>| = sqrt((n + 1) / (2 m w)),
+    // |<n|d/dx|n+1>| = sqrt(m w (n + 1) / 2), and both vanish between levels of the same parity.
+    const { sineSeriesMatrixElements } = await import('../../server/src/physics/dvr');
+    const m = 0.8;
+    const w = 1.3;
+    const N = 160;
+    const xs = sineDvrGrid(-9, 9, N);
+    const s = sineDvrSolve(xs.map((x) => 0.5 * m * w * w * x * x), -9, 9, m, 12, { symmetric: true });
+    const K = 10;
+    const { x, d } = sineSeriesMatrixElements(s, K);
+    for (let n = 0; n + 1 < K; n++) {
+      expect(Math.abs(Math.abs(x[n * K + n + 1]) - Math.sqrt((n + 1) / (2 * m * w)))).toBeLessThan(1e-10);
+      expect(Math.abs(Math.abs(d[n * K + n + 1]) - Math.sqrt((m * w * (n + 1)) / 2))).toBeLessThan(1e-10);
+      // Antisymmetry of d/dx between real levels (integration by parts with walls) and symmetry of x.
+      expect(Math.abs(d[n * K + n + 1] + d[(n + 1) * K + n])).toBeLessThan(1e-10);
+      expect(Math.abs(x[n * K + n + 1] - x[(n + 1) * K + n])).toBeLessThan(1e-12);
+      if (n + 2 < K) {
+        expect(Math.abs(x[n * K + n + 2])).toBeLessThan(1e-12);
+        expect(Math.abs(d[n * K + n + 2])).toBeLessThan(1e-12);
+      }
+    }
+    // <n|x|n> = 0 for the symmetric well (the centre of [-9, 9]).
+    for (let n = 0; n < K; n++) expect(Math.abs(x[n * K + n])).toBeLessThan(1e-12);
+  });
+});

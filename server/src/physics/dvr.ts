@@ -160,9 +160,19 @@ export function sineDvrWork(intervals: number, symmetric: boolean): number {
 
 /** C(q), q = 0..2N-1, of the DVR quadrature (with the exact cell integral of each jump's cell). */
 function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<SineDvrOptions['jumps']>): Float64Array {
+  const C = pointMoments(v);
+  if (jumps.length > 0) jumpCells(C, v, a, L, jumps);
+  return C;
+}
+
+/**
+ * C(q) = (1/N) sum_i V_i cos(q pi i/N), q = 0..2N-1, from a cosine table indexed by (q i) mod 2N. Its
+ * own function ending with its loop: optimised code entered inside the loop (on-stack replacement) was
+ * thrown away at every solve when code it had no feedback for followed the loop (node --trace-deopt).
+ */
+function pointMoments(v: Float64Array): Float64Array {
   const n = v.length;
   const N = n + 1;
-  // C(q) for q = 0..2N-1 from a cosine table indexed by (q i) mod 2N.
   const twoN = 2 * N;
   const ct = new Float64Array(twoN);
   for (let j = 0; j < twoN; j++) ct[j] = Math.cos((Math.PI * j) / N);
@@ -177,6 +187,14 @@ function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<Si
     }
     C[q] = s / N;
   }
+  return C;
+}
+
+/** Replaces each jump cell's point term in C by the exact cell integral of its two-sided constant. */
+function jumpCells(C: Float64Array, v: Float64Array, a: number, L: number, jumps: NonNullable<SineDvrOptions['jumps']>): void {
+  const n = v.length;
+  const N = n + 1;
+  const twoN = 2 * N;
   for (const j of jumps) {
     if (!(j.index >= 1 && j.index <= n)) continue;
     const h = L / N;
@@ -187,10 +205,9 @@ function dvrMoments(v: Float64Array, a: number, L: number, jumps: NonNullable<Si
       const w = (q * Math.PI) / L;
       // integral of cos(w u) du over [u0, u1], with the q = 0 limit.
       const seg = (u0: number, u1: number): number => (q === 0 ? u1 - u0 : (Math.sin(w * u1) - Math.sin(w * u0)) / w);
-      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * ct[(q * j.index) % twoN]) / N;
+      C[q] += (j.left * seg(lo, at) + j.right * seg(at, hi)) / L - (v[j.index - 1] * Math.cos((Math.PI * ((q * j.index) % twoN)) / N)) / N;
     }
   }
-  return C;
 }
 
 interface ParityBlock {
@@ -342,41 +359,55 @@ export function sineSeriesWeightedSums(
   const n = sol.intervals - 1;
   const L = sol.b - sol.a;
   const count = Math.min(levels, sol.energies.length);
-  const kf = Math.PI / L;
+  const terms = sol.terms;
+  const coefficients = sol.coefficients;
   const sRe = new Float64Array(n + 1);
   const sIm = new Float64Array(n + 1);
-  const ladS = new Float64Array(n + 1);
-  const ladC = new Float64Array(n + 1);
   // Only the terms some level uses (see `terms`).
   let kTop = 0;
-  for (let j = 0; j < count; j++) kTop = Math.max(kTop, sol.terms ? sol.terms[j] : n);
+  for (let j = 0; j < count; j++) kTop = Math.max(kTop, terms ? terms[j] : n);
+  boxSums(sol, xs, wRe, wIm, kTop, sRe, sIm, budget);
+  const norm = Math.sqrt(2 / L);
+  for (let j = 0; j < count; j++) {
+    const off = j * n - 1;
+    const top = terms ? terms[j] : n;
+    charge(budget, top);
+    let fr = 0;
+    let fi = 0;
+    for (let k = 1; k <= top; k++) {
+      const ck = coefficients[off + k];
+      fr += ck * sRe[k];
+      fi += ck * sIm[k];
+    }
+    outRe[j] += norm * fr;
+    if (wIm) outIm[j] += norm * fi;
+  }
+}
+
+/**
+ * The box sums S_k = sum_i w_i sin(k pi (x_i - a)/L), k <= kTop, of `sineSeriesWeightedSums`, added to
+ * sRe (and sIm). Its own function, so that the optimised code entered in the middle of its loop
+ * (on-stack replacement) ends with the loop: code after a loop that the compiler has no feedback for
+ * threw that code away at every call (node --trace-deopt).
+ */
+function boxSums(sol: SineDvrSolution, xs: Float64Array, wRe: Float64Array, wIm: Float64Array | null, kTop: number, sRe: Float64Array, sIm: Float64Array, budget?: Budget): void {
+  const a = sol.a;
+  const b = sol.b;
+  const kf = Math.PI / (b - a);
+  const ladS = new Float64Array(kTop + 1);
+  const ladC = new Float64Array(kTop + 1);
   for (let i = 0; i < xs.length; i++) {
     const x = xs[i];
-    if (!(x >= sol.a && x <= sol.b)) continue;
+    if (!(x >= a && x <= b)) continue;
     // The ladder's rotation and the two sums: about 8 flops a term.
     charge(budget, 8 * kTop);
-    sineLadder(kf * (x - sol.a), kTop, ladS, ladC);
+    sineLadder(kf * (x - a), kTop, ladS, ladC);
     const wr = wRe[i];
     const wi = wIm ? wIm[i] : 0;
     for (let k = 1; k <= kTop; k++) {
       sRe[k] += ladS[k] * wr;
       sIm[k] += ladS[k] * wi;
     }
-  }
-  const norm = Math.sqrt(2 / L);
-  for (let j = 0; j < count; j++) {
-    const off = j * n - 1;
-    const top = sol.terms ? sol.terms[j] : n;
-    charge(budget, top);
-    let fr = 0;
-    let fi = 0;
-    for (let k = 1; k <= top; k++) {
-      const ck = sol.coefficients[off + k];
-      fr += ck * sRe[k];
-      fi += ck * sIm[k];
-    }
-    outRe[j] += norm * fr;
-    if (wIm) outIm[j] += norm * fi;
   }
 }
 
@@ -393,36 +424,17 @@ export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number, b
   const n = sol.intervals - 1;
   const L = sol.b - sol.a;
   const K = Math.max(0, Math.min(levels, sol.energies.length));
+  const coefficients = sol.coefficients;
+  const terms = sol.terms;
   const X = new Float64Array(K * K);
   const D = new Float64Array(K * K);
   let top = 0;
-  for (let j = 0; j < K; j++) top = Math.max(top, sol.terms ? sol.terms[j] : n);
+  for (let j = 0; j < K; j++) top = Math.max(top, terms ? terms[j] : n);
   if (K === 0 || top === 0) return { x: X, d: D };
   // T = C M for both M = x and M = d: row j, column q (1-based q stored at q - 1).
   const tx = new Float64Array(K * top);
   const td = new Float64Array(K * top);
-  const diag = sol.a + L / 2;
-  const cx = (-8 * L) / (Math.PI * Math.PI);
-  const cd = 4 / L;
-  for (let j = 0; j < K; j++) {
-    charge(budget, 2 * top * top);
-    const off = j * n - 1;
-    for (let q = 1; q <= top; q++) {
-      let sx = diag * sol.coefficients[off + q];
-      let sd = 0;
-      // Only p of the other parity than q contribute off the diagonal.
-      for (let p = q % 2 === 0 ? 1 : 2; p <= top; p += 2) {
-        const c = sol.coefficients[off + p];
-        if (c === 0) continue;
-        const pq = p * q;
-        const diff = p * p - q * q;
-        sx += (c * cx * pq) / (diff * diff);
-        sd += (c * cd * pq) / diff;
-      }
-      tx[j * top + q - 1] = sx;
-      td[j * top + q - 1] = sd;
-    }
-  }
+  basisTimesSineMatrices(coefficients, n, K, top, sol.a, L, tx, td, budget);
   for (let j = 0; j < K; j++) {
     charge(budget, 4 * K * top);
     for (let k = 0; k < K; k++) {
@@ -430,7 +442,7 @@ export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number, b
       let sx = 0;
       let sd = 0;
       for (let q = 1; q <= top; q++) {
-        const c = sol.coefficients[off + q];
+        const c = coefficients[off + q];
         sx += tx[j * top + q - 1] * c;
         sd += td[j * top + q - 1] * c;
       }
@@ -439,4 +451,47 @@ export function sineSeriesMatrixElements(sol: SineDvrSolution, levels: number, b
     }
   }
   return { x: X, d: D };
+}
+
+/**
+ * Rows T_jq = sum_p c_jp M_pq of `sineSeriesMatrixElements` for M = x (into tx) and M = d (into td).
+ * The off-diagonal entries of M (p + q odd) do not depend on the level, so they are tabulated once
+ * (top^2 / 2 divisions instead of K top^2), and each level's row is then a product with the table.
+ * Its own function so that the optimised code entered in its loop (on-stack replacement) ends with it
+ * (see `boxSums`).
+ */
+function basisTimesSineMatrices(coefficients: Float64Array, n: number, K: number, top: number, a: number, L: number, tx: Float64Array, td: Float64Array, budget?: Budget): void {
+  const diag = a + L / 2;
+  const cx = (-8 * L) / (Math.PI * Math.PI);
+  const cd = 4 / L;
+  // Column q - 1 of the tables holds M_pq for the p of the other parity, p = first(q), first(q) + 2, ...
+  const half = Math.ceil(top / 2);
+  const mx = new Float64Array(top * half);
+  const md = new Float64Array(top * half);
+  charge(budget, 2 * top * half);
+  for (let q = 1; q <= top; q++) {
+    const col = (q - 1) * half;
+    for (let p = q % 2 === 0 ? 1 : 2, r = 0; p <= top; p += 2, r++) {
+      const pq = p * q;
+      const diff = p * p - q * q;
+      mx[col + r] = (cx * pq) / (diff * diff);
+      md[col + r] = (cd * pq) / diff;
+    }
+  }
+  for (let j = 0; j < K; j++) {
+    charge(budget, 2 * top * half);
+    const off = j * n - 1;
+    for (let q = 1; q <= top; q++) {
+      const col = (q - 1) * half;
+      let sx = 0;
+      let sd = 0;
+      for (let p = q % 2 === 0 ? 1 : 2, r = col; p <= top; p += 2, r++) {
+        const c = coefficients[off + p];
+        sx += c * mx[r];
+        sd += c * md[r];
+      }
+      tx[j * top + q - 1] = diag * coefficients[off + q] + sx;
+      td[j * top + q - 1] = sd;
+    }
+  }
 }

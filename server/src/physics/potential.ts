@@ -3,9 +3,10 @@
  * (dvr.ts) on a grid chosen automatically and confirmed by solving at two sizes.
  */
 import type { Eigenbasis } from './types';
-import { unlimitedBudget, type Budget, type StopReason } from './budget';
+import type { Budget, StopReason } from './budget';
+import { freeBudget } from './freeBudget';
 import { firstGridSize, scanPotential, evalV } from './potentialScan';
-import { JUMP_ORDER, levelScale, refine, roundingFloor } from './potentialRefine';
+import { coarseFunctions, JUMP_ORDER, levelScale, refine, roundingFloor, type RefineSetup } from './potentialRefine';
 import { emptyBasis, fixSigns, makeBasis } from './potentialView';
 import type { SineDvrSolution } from './dvr';
 import { fixMassSigns, massBasis, massSetup, type MassProfile, type MassSolution } from './massProfile';
@@ -111,6 +112,8 @@ export interface PotentialBasisResult {
   /**
    * The basis on the next-to-last grid of `sizes`, kept from the climb (absent with one size): the same
    * as a solve capped at that size, for the coefficients' uncertainties. Its `uncertainty` is not estimated (zeros).
+   * Built on first read (a grid the climb solved for its energies only is solved again with its
+   * functions then); undefined when the budget runs out inside that solve.
    */
   coarse?: Eigenbasis;
   /**
@@ -167,7 +170,7 @@ const BAD_GRID = 'The potential gave NaN or -Infinity on the solver grid, or val
  */
 export function potentialBasis(V: PotentialFn, a: number, b: number, mass: number, levels: number, options: PotentialOptions = {}): PotentialBasisResult {
   const o = { ...DEFAULTS, ...options };
-  const budget = options.budget ?? unlimitedBudget();
+  const budget = options.budget ?? freeBudget();
   const fail = (note: PotentialNote): PotentialBasisResult => failedBasis(V, a, b, mass, levels, note);
   if (!(Number.isFinite(a) && Number.isFinite(b) && b > a) || !(mass > 0 && Number.isFinite(mass))) {
     return fail({ kind: 'input', message: 'The interval must have finite ends a < b and the mass must be positive.' });
@@ -195,7 +198,8 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   }
   const N0 = mp ? mp.firstSize(K, o, cap) : firstGridSize(scan, L, mass, K, o, cap);
   const solve = mp ? { solve: (N: number, wall: number) => mp.solve(N, wall, K, V, budget) } : {};
-  const r = refine({ V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy, ...solve }, N0);
+  const setup: RefineSetup = { V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy, ...solve };
+  const r = refine(setup, N0);
   if (!r.sol && r.expired) {
     // The budget ran out inside the first solve: no levels, and why, as data.
     return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired };
@@ -237,8 +241,28 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   const out: PotentialBasisResult = { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
-  if (r.coarse) out.coarse = coarseView(r.coarse, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
+  if (r.coarse) lazyCoarse(out, r.coarse, setup, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
   return out;
+}
+
+/**
+ * `out.coarse` as a view built on first use: its sign fixing and view cost a solve's worth of small
+ * work that a caller without coefficient uncertainties never needs. A coarse grid solved for its
+ * energies only (the climb's downward check) is solved again with its functions then
+ * (`coarseFunctions`: one solve, where a solve capped at that size would climb to it); undefined when
+ * the budget runs out inside that solve.
+ */
+function lazyCoarse(out: PotentialBasisResult, c: SineDvrSolution, setup: RefineSetup, ...rest: [Parameters<typeof coarseView>[1], Budget, Parameters<typeof coarseView>[3]]): void {
+  let view: Eigenbasis | undefined;
+  let tried = false;
+  const build = (): Eigenbasis | undefined => {
+    if (tried) return view;
+    tried = true;
+    const sol = c.coefficients.length === 0 && c.energies.length > 0 ? coarseFunctions(setup, c.intervals) : c;
+    view = sol ? coarseView(sol, ...rest) : undefined;
+    return view;
+  };
+  Object.defineProperty(out, 'coarse', { get: build, enumerable: true, configurable: true });
 }
 
 /** The next-to-last grid's solution as a basis, with the sign convention and view of the fine one. */

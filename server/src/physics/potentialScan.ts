@@ -94,19 +94,24 @@ function mirrorSymmetric(sv: Float64Array, tol: number): boolean {
 /** Jumps: a sample difference far above both neighbours, located by bisection (at most 64). */
 function findJumps(V: PotentialFn, sx: Float64Array, sv: Float64Array, vscale: number): Jump[] {
   const jumps: Jump[] = [];
-  const diff = (j: number): number => {
-    if (j < 0 || j + 1 >= sv.length) return 0;
-    const d = Math.abs(sv[j + 1] - sv[j]);
-    return Number.isFinite(d) ? d : 0;
-  };
   for (let j = 0; j + 1 < sv.length && jumps.length < 64; j++) {
-    const dj = diff(j);
+    const dj = sampleStep(sv, j);
     if (!(dj > 1e-10 * vscale)) continue;
-    const nb = Math.max(diff(j - 1), diff(j + 1), diff(j - 2), diff(j + 2));
+    const nb = Math.max(sampleStep(sv, j - 1), sampleStep(sv, j + 1), sampleStep(sv, j - 2), sampleStep(sv, j + 2));
     if (dj <= 20 * nb) continue;
     jumps.push(bisectJump(V, sx[j], sx[j + 1], sv[j], sv[j + 1]));
   }
   return jumps;
+}
+
+/**
+ * |sv[j + 1] - sv[j]|, 0 outside the samples or where it is not finite. A module function, not a closure
+ * made per call: the compiler's inlined call of a closure stops matching at the next solve.
+ */
+function sampleStep(sv: Float64Array, j: number): number {
+  if (j < 0 || j + 1 >= sv.length) return 0;
+  const d = Math.abs(sv[j + 1] - sv[j]);
+  return Number.isFinite(d) ? d : 0;
 }
 
 /** Narrows [lo, hi] around the jump to rounding, keeping the one-sided values. */
@@ -157,21 +162,29 @@ function wallSlope(V: PotentialFn, x0: number, dir: 1 | -1, L: number): number |
  * n(E) = (1/pi) integral sqrt(2 m (E - V)_+) dx = K (Bohr-Sommerfeld; exact for the box), by bisection.
  * Used only to size the first grid, so a rough value is enough.
  */
-function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: number, L: number): number {
-  const count = (E: number): number => {
-    let s = 0;
-    for (let j = 0; j < vs.length; j++) if (E > vs[j]) s += Math.sqrt(2 * mass * (E - vs[j]));
-    return (s * h) / Math.PI;
-  };
+function wkbEnergy(vs: Float64Array, h: number, mass: number, K: number, vmin: number, L: number, settled: (lo: number, hi: number) => boolean): number {
+  const count = (E: number): number => (wkbSum(vs, mass, E) * h) / Math.PI;
   let lo = vmin;
   let hi = vmin + (Math.PI * Math.PI * K * K) / (2 * mass * L * L);
   for (let i = 0; i < 200 && count(hi) < K; i++) hi = vmin + 2 * (hi - vmin);
-  for (let i = 0; i < 60; i++) {
+  for (let i = 0; i < 60 && !settled(lo, hi); i++) {
     const mid = 0.5 * (lo + hi);
     if (count(mid) < K) lo = mid;
     else hi = mid;
   }
   return hi;
+}
+
+/**
+ * sum_j sqrt(2 m (E - V_j)_+) over the samples (`wkbEnergy`'s n(E) without its factor h / pi). A module
+ * function ending with its loop: the optimised code entered in the middle of the loop (on-stack
+ * replacement) was thrown away at every call when arithmetic it had no feedback for followed the loop
+ * in a closure made per call (nine deoptimisations per first grid, node --trace-deopt).
+ */
+function wkbSum(vs: Float64Array, mass: number, E: number): number {
+  let s = 0;
+  for (let j = 0; j < vs.length; j++) if (E > vs[j]) s += Math.sqrt(2 * mass * (E - vs[j]));
+  return s;
 }
 
 /**
@@ -188,9 +201,11 @@ export function firstGridSize(
   cap: number,
 ): number {
   const vs = scan.sv.map((y) => (y === Infinity ? scan.vmaxFinite + 1e300 : y));
-  const EK = wkbEnergy(vs, scan.hs, mass, K, scan.vmin, L);
-  const kmax = Math.sqrt(2 * mass * Math.max(EK - scan.vmin, 0));
-  let N = Math.ceil((o.pointsPerWavelength * L * kmax) / (2 * Math.PI)) + 16;
+  const gridFor = (E: number): number => Math.ceil((o.pointsPerWavelength * L * Math.sqrt(2 * mass * Math.max(E - scan.vmin, 0))) / (2 * Math.PI)) + 16;
+  // The bisection stops once both ends of its bracket give the same grid: the size is monotone in E,
+  // so it is the one the bracket's final upper end would give.
+  const EK = wkbEnergy(vs, scan.hs, mass, K, scan.vmin, L, (lo, hi) => gridFor(lo) === gridFor(hi));
+  let N = gridFor(EK);
   N = Math.max(N, Math.floor(o.minPoints), K + 8);
   if (N >= cap) N = Math.max(8, Math.floor(cap / o.growth));
   return N;

@@ -89,6 +89,10 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
   const count = sol.energies.length;
   const n = sol.intervals - 1;
   const c = sol.coefficients;
+  // Read once: optimised code entered inside the scan (on-stack replacement) that meets a property read
+  // its branch never ran before is thrown away (node --trace-deopt).
+  const terms = sol.terms;
+  const a = sol.a;
   const threshold = new Float64Array(count);
   const tail = new Float64Array(count);
   const head = new Int32Array(count);
@@ -100,7 +104,7 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
     // The shortest head whose tail sum (times the normalisation) stays within 1e-3 of the threshold.
     const allowed = 1e-3 * threshold[k];
     let acc = 0;
-    let h = sol.terms[k];
+    let h = terms[k];
     while (h > 1 && acc + norm * Math.abs(c[k * n + h - 1]) <= allowed) {
       acc += norm * Math.abs(c[k * n + h - 1]);
       h--;
@@ -114,31 +118,23 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
   let left = count;
   const S = new Float64Array(n + 1);
   const C = new Float64Array(n + 1);
-  const kf = Math.PI / (sol.b - sol.a);
-  const grid = sineDvrGrid(sol.a, sol.b, sol.intervals);
-  const series = (j: number, top: number): number => {
-    const p = sol.parity[j];
-    const step = p === 0 ? 1 : 2;
-    const off = j * n - 1;
-    let f = 0;
-    for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
-    return norm * f;
-  };
+  const kf = Math.PI / (sol.b - a);
+  const grid = sineDvrGrid(a, sol.b, sol.intervals);
   for (let i = 0; i < grid.length && left > 0; i++) {
     let kTop = 0;
     for (let r = 0; r < left; r++) kTop = Math.max(kTop, head[open[r]]);
-    sineLadder(kf * (grid[i] - sol.a), kTop, S, C);
+    sineLadder(kf * (grid[i] - a), kTop, S, C);
     let ops = kTop;
     let kept = 0;
     for (let r = 0; r < left; r++) {
       const j = open[r];
-      let y = series(j, head[j]);
+      let y = norm * seriesAt(sol, S, j, head[j]);
       ops += head[j];
-      if (Math.abs(Math.abs(y) - threshold[j]) <= tail[j] + 1e-9 * threshold[j] && head[j] < sol.terms[j]) {
+      if (Math.abs(Math.abs(y) - threshold[j]) <= tail[j] + 1e-9 * threshold[j] && head[j] < terms[j]) {
         // Too close to the threshold to decide from the head: the whole series at this point.
-        sineLadder(kf * (grid[i] - sol.a), sol.terms[j], S, C);
-        y = series(j, sol.terms[j]);
-        ops += 2 * sol.terms[j];
+        sineLadder(kf * (grid[i] - a), terms[j], S, C);
+        y = norm * seriesAt(sol, S, j, terms[j]);
+        ops += 2 * terms[j];
       }
       if (!(Math.abs(y) > threshold[j])) {
         open[kept++] = j;
@@ -149,4 +145,18 @@ export function fixSigns(sol: SineDvrSolution, budget?: Budget): void {
     left = kept;
     budget?.count(ops);
   }
+}
+
+/**
+ * sum_k c_jk S[k] over the terms k <= top of level j's parity. A module function, not a closure made per
+ * call: the compiler's inlined call of a closure stops matching at the next solve.
+ */
+function seriesAt(sol: SineDvrSolution, S: Float64Array, j: number, top: number): number {
+  const c = sol.coefficients;
+  const p = sol.parity[j];
+  const step = p === 0 ? 1 : 2;
+  const off = j * (sol.intervals - 1) - 1;
+  let f = 0;
+  for (let k = p === 2 ? 2 : 1; k <= top; k += step) f += c[off + k] * S[k];
+  return f;
 }
