@@ -5,6 +5,8 @@ norm; captured; energy mean and spread; continuum; <x>, <p> and survival over th
 
 The file is not parsed: each function below does the job of one example as written in it (the same
 system, state, basis and evolve line; constants CODATA 2018). Energies are in the file's energy unit.
+The newer files' jobs live in examples_more.py (mixed, sampled, two-mass states) and sweeps.py (the
+files with a sweep: the expansion, every point and the located places, as `expand --json` gives them).
 """
 import json
 import math
@@ -14,8 +16,10 @@ import sys
 import numpy as np
 
 import common as C
+import examples_more
+import sweeps
 
-HBAR = 1.054571817e-34      # J s (CODATA 2018, exact since 2019 with h)
+HBAR = 6.62607015e-34 / (2 * math.pi)   # J s, h / (2 pi) with h exact (SI 2019); 1.054571817e-34 is rounded
 M_E = 9.1093837015e-31      # kg (CODATA 2018)
 U = 1.66053906660e-27       # kg (CODATA 2018)
 EV = 1.602176634e-19        # J (exact)
@@ -226,6 +230,8 @@ JOBS = {
     'plucked-box': plucked_box,
     'trap-frequency-drop': trap_drop,
 }
+JOBS.update(examples_more.JOBS)
+JOBS.update(sweeps.JOBS)
 
 
 def main():
