@@ -5,12 +5,16 @@ import { createBudget } from '../../server/src/physics/budget';
 import { potentialBasis } from '../../server/src/physics/potential';
 
 // An asymmetric trap (no parity, so X and D are dense) with 24 levels, evolved over 21 times: 21 is not
-// a multiple of the block of 8, so the last block is partial and holds an odd number of times.
+// a multiple of the block of 8, so the last block is partial and holds an odd number of times. The times
+// are equally spaced, so the phases are rotated step by step (evolutionPhases.ts); `long` spans several
+// exact recomputations (every 64 steps) and `uneven` gets a cosine and sine at every time.
 const K = 24;
 const basis = potentialBasis((xs) => xs.map((x) => 0.5 * x * x + 0.4 * x + 0.02 * x * x * x * x), -9, 9, 1, K).basis;
 const cRe = Float64Array.from({ length: K }, (_, k) => Math.exp(-0.5 * ((k - 6) / 3) ** 2));
 const cIm = Float64Array.from({ length: K }, (_, k) => 0.3 * Math.sin(k + 0.5));
 const times = Float64Array.from({ length: 21 }, (_, j) => 0.37 * j);
+const long = Float64Array.from({ length: 200 }, (_, j) => 0.37 * j);
+const uneven = Float64Array.from({ length: 21 }, (_, j) => 0.37 * j + 0.01 * j * j);
 const xs = Float64Array.from({ length: 13 }, (_, j) => -4 + (8 * j) / 12);
 
 /**
@@ -73,6 +77,21 @@ describe('evolution in blocks of times', () => {
     });
     // Not trivially small: the packet moves.
     expect(Math.max(...r.meanX) - Math.min(...r.meanX)).toBeGreaterThan(0.1);
+  });
+
+  it('rotated phases over 200 steps and exact ones at uneven times match the plain sums to rounding', () => {
+    // Either way the phase E t is rounded to about eps E t (5e-13 at E = 33, t = 74 here), so the bound
+    // grows with t (derived in this comment); a wrong rotation step misses by orders of magnitude more.
+    const eMax = basis.energies[K - 1];
+    for (const ts of [long, uneven]) {
+      const r = evolve(basis, cRe, cIm, ts, { weightCutoff: 0 });
+      ts.forEach((t, j) => {
+        const ref = direct(t, me.x, me.d, table);
+        const bound = 1e-13 + 8 * Number.EPSILON * eMax * t;
+        expect(Math.abs(r.meanX[j] - ref.x)).toBeLessThan(bound);
+        expect(Math.abs(r.meanP[j] - ref.p)).toBeLessThan(bound);
+      });
+    }
   });
 
   it('a budget stops between blocks: whole blocks are kept, equal to the full run', () => {

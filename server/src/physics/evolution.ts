@@ -7,13 +7,7 @@ import type { Eigenbasis, Quadrature } from './types';
 import { compositeGaussLegendre } from './quadrature';
 import { Stopped, unlimitedBudget, type Budget, type StopReason } from './budget';
 import { blockDensity, blockQuadraticForms, blockSize, transposeTable, triangleForms } from './evolutionForms';
-
-/**
- * Counted operations for one cosine and sine pair with the products around it (measured about 25-40 ns
- * a level and time, against about 1 ns per counted operation of the eigen-solver), so the counted
- * work of the time loops tracks their time.
- */
-const TRIG_OPS = 32;
+import { phaseSteps, RESEED, ROTATE_OPS, TRIG_OPS } from './evolutionPhases';
 
 /** Complex coefficients c_k = re[k] + i im[k] by level index. */
 export interface Coefficients {
@@ -201,7 +195,8 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   let wK = 0;
   for (let k = 0; k < K; k++) wK += cRe[k] * cRe[k] + cIm[k] * cIm[k];
   const forms = triangleForms(me, K);
-  const perTime = 4 * forms.entries + TRIG_OPS * n + (xs ? 2 * K * xs.length : 0);
+  const perTime = 4 * forms.entries + (xs ? 2 * K * xs.length : 0);
+  const phases = phaseSteps(basis.energies, n, times);
   // Times in blocks (evolutionForms.ts): each row of X and D, and each point's levels, are read once a block.
   const B = blockSize(forms, xs !== undefined);
   const ar = new Float64Array(B * K);
@@ -209,8 +204,12 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   for (let it = 0; it < nt; it += B) {
     if (budget.expired()) return cut(it);
     const nb = Math.min(B, nt - it);
-    budget.count(nb * perTime);
-    for (let b = 0; b < nb; b++) survival[it + b] = phasesAt(basis.energies, cRe, cIm, n, times[it + b], K, ar, ai, b * K) / (total * total);
+    let ops = nb * perTime;
+    for (let b = 0; b < nb; b++) {
+      ops += phases.advance(it + b);
+      survival[it + b] = phasesAt(phases, cRe, cIm, n, K, ar, ai, b * K) / (total * total);
+    }
+    budget.count(ops);
     blockQuadraticForms(forms, ar, ai, nb, meanX, meanP, it);
     for (let b = 0; b < nb; b++) {
       meanX[it + b] /= wK;
@@ -222,17 +221,16 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
 }
 
 /**
- * Sets a_k = c_k e^{-i E_k t} for k < K into ar[o + k], ai[o + k] and returns |sum_k |c_k|^2 e^{-i E_k t}|^2
- * over the n levels (the survival's numerator).
+ * Sets a_k = c_k e^{-i E_k t} for k < K into ar[o + k], ai[o + k] from the phases of time t and returns
+ * |sum_k |c_k|^2 e^{-i E_k t}|^2 over the n levels (the survival's numerator).
  */
-function phasesAt(E: Float64Array, cRe: Float64Array, cIm: Float64Array, n: number, t: number, K: number, ar: Float64Array, ai: Float64Array, o: number): number {
+function phasesAt(z: { zr: Float64Array; zi: Float64Array }, cRe: Float64Array, cIm: Float64Array, n: number, K: number, ar: Float64Array, ai: Float64Array, o: number): number {
   let sr = 0;
   let si = 0;
   for (let k = 0; k < n; k++) {
     const p = cRe[k] * cRe[k] + cIm[k] * cIm[k];
-    const ph = -E[k] * t;
-    const c = Math.cos(ph);
-    const s = Math.sin(ph);
+    const c = z.zr[k];
+    const s = z.zi[k];
     sr += p * c;
     si += p * s;
     if (k < K) {
@@ -365,11 +363,10 @@ function survivalSlope(E: Float64Array, pop: Populated): (t: number) => number {
 
 /**
  * S(j dt) for j = 0, 1, 2, ... in turn: each level's phase e^{i E_k j dt} is rotated by e^{i E_k dt}
- * (four multiplications instead of a cosine and a sine) and recomputed exactly every `RESEED` steps, so
- * the rounding of the rotation never grows past RESEED steps (about 1e-14 relative; common practice).
+ * (four multiplications instead of a cosine and a sine) and recomputed exactly every `RESEED` steps
+ * (evolutionPhases.ts, which `evolve` uses the same way), so the rounding of the rotation never grows
+ * past RESEED steps (about 1e-14 relative; common practice).
  */
-const RESEED = 64;
-
 function steppedSurvival(E: Float64Array, pop: Populated, dt: number): () => number {
   const { idx, p, total } = pop;
   const m = idx.length;
@@ -415,7 +412,7 @@ function searchRevival(E: Float64Array, pop: Populated, dt: number, steps: numbe
   for (let j = 1; j < steps; j++) {
     if ((j & 255) === 0) {
       // Four multiplications and two sums a level a step, a cosine and sine every RESEED steps.
-      budget.count(256 * (8 + TRIG_OPS / RESEED) * pop.idx.length);
+      budget.count(256 * (ROTATE_OPS + TRIG_OPS / RESEED) * pop.idx.length);
       if (budget.expired()) return { time: null, stopped: budget.reason };
     }
     const s2 = next();
