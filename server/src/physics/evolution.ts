@@ -25,8 +25,9 @@ export interface EvolveOptions {
   maxLevels?: number;
   /**
    * The analysis's budget (default: unlimited), polled between rows of the matrix elements and between
-   * blocks of times (`blockSize` of evolutionForms.ts: single times when X and D are sparse or few, else 8); once it has expired the evolution stops, the result holds only the times finished
-   * (`complete` false) and `stopped` says why. Counts K^2 operations per time and the quadrature's work.
+   * blocks of times (`blockSize` of evolutionForms.ts: single times when X and D are sparse or few, else
+   * 8); once it has expired the evolution stops, the result holds only the times finished (`complete`
+   * false) and `stopped` says why. Counts K^2 operations per time, the phases and the quadrature's work.
    */
   budget?: Budget;
 }
