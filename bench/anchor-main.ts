@@ -13,7 +13,7 @@ import { cpus, loadavg } from 'node:os';
 import { join } from 'node:path';
 import { createInterface } from 'node:readline';
 import { anchorRows, type AnchorRefs } from './anchor';
-import { checkExpects, formatAnchorTable, type SideBySide } from './anchor-report';
+import { checkExpects, formatAnchorTable, locatedDifference, type SideBySide } from './anchor-report';
 import { summarise } from './stats';
 
 const argv = process.argv.slice(2);
@@ -120,11 +120,13 @@ function processRows(): SideBySide[] {
     const ec = checkExpects(text, ej);
     const pc = checkExpects(text, pj);
     const diff = weightDifference(ej, pj);
+    const loc = locatedDifference(ej, pj);
+    const sweepNote = loc ? `; sweep: ${loc.count} places located, worst relative distance between the sides ${loc.worst.toExponential(1)}, ${loc.unmatched} unmatched` : '';
     log(`${id}: done`);
     out.push({
       id,
       job: `whole process, ${name}`,
-      engine: { method: 'node dist/cli.js expand FILE --json', timing: summarise(engine), accuracy: diff, note: `expect lines met ${ec.met}/${ec.checked}` },
+      engine: { method: 'node dist/cli.js expand FILE --json', timing: summarise(engine), accuracy: diff, note: `expect lines met ${ec.met}/${ec.checked}${sweepNote}` },
       python: { method: 'python3 bench/python/examples.py FILE', timing: summarise(pyTimes), accuracy: diff, note: `expect lines met ${pc.met}/${pc.checked}` },
     });
   }

@@ -103,3 +103,34 @@ export function checkExpects(text: string, json: ResultJson): { checked: number;
   }
   return { checked, met };
 }
+
+interface Located {
+  kind: string;
+  axis: number;
+  at: number;
+  before: number;
+  after: number;
+  row: number | null;
+}
+
+/**
+ * How far apart the two sides' sweeps put the places they located (`sweep.located` of `expand --json`):
+ * each engine place is matched with the other side's of the same kind, axis, counts and row (rows equal
+ * to 1e-12 relative), and the worst relative distance of `at` is returned with the number of places
+ * that had no match on either side. Null when neither result has a sweep.
+ */
+export function locatedDifference(a: Record<string, unknown>, b: Record<string, unknown>): { worst: number; unmatched: number; count: number } | null {
+  const la = ((a.sweep as { located?: Located[] } | undefined)?.located ?? []) as Located[];
+  const lb = ((b.sweep as { located?: Located[] } | undefined)?.located ?? []) as Located[];
+  if (!a.sweep && !b.sweep) return null;
+  const same = (x: number | null, y: number | null) => (x === null || y === null ? x === y : Math.abs(x - y) <= 1e-12 * Math.abs(x));
+  let worst = 0;
+  let matched = 0;
+  for (const p of la) {
+    const q = lb.filter((l) => l.kind === p.kind && l.axis === p.axis && l.before === p.before && l.after === p.after && same(p.row, l.row));
+    if (q.length === 0) continue;
+    matched++;
+    worst = Math.max(worst, Math.min(...q.map((l) => Math.abs(l.at - p.at) / Math.abs(p.at))));
+  }
+  return { worst, unmatched: la.length - matched + Math.max(0, lb.length - matched), count: la.length };
+}

@@ -126,12 +126,13 @@ describe('evolution: expectation values', () => {
     const r = evolve(basis, c, new Float64Array(30), times(5, 100), { budget });
     expect(r.stopped).toBe('time');
     expect(r.survival.length).toBe(10);
-    // Kept levels K = 3: 4 (K + nnz) + 32 n operations per time (n = 30 levels in the survival, each a
-    // cosine and sine counted as 32 operations, TRIG_OPS in evolution.ts). Only the diagonal of X and the
-    // strict upper triangles are read (X symmetric, D antisymmetric); those of the oscillator centred at 0
+    // Kept levels K = 3: 4 (K + nnz) operations per time, plus the phases of the n = 30 levels in the
+    // survival: the times are equally spaced, so the first time's are a cosine and sine each (32
+    // operations, TRIG_OPS in evolutionPhases.ts) and the next nine's a rotation each (8, ROTATE_OPS).
+    // Only the diagonal of X and the strict upper triangles are read (X symmetric, D antisymmetric); those of the oscillator centred at 0
     // are nonzero only next to the diagonal (ladder operators), 2 of the 3 entries above it, which are
     // read as every other entry of each row (parity): 2 entries.
-    expect(budget.work.ops).toBe(10 * (4 * (3 + 2) + 32 * 30));
+    expect(budget.work.ops).toBe(10 * 4 * (3 + 2) + 32 * 30 + 9 * 8 * 30);
     // The quadrature of a basis without closed forms polls too, row by row.
     const rows = createBudget({ limitMs: 3, clock: manualClock(1) });
     const me = matrixElements({ ...basis, matrixElements: undefined }, 30, { budget: rows });

@@ -6,13 +6,8 @@
 import type { Eigenbasis, Quadrature } from './types';
 import { compositeGaussLegendre } from './quadrature';
 import { Stopped, unlimitedBudget, type Budget, type StopReason } from './budget';
-
-/**
- * Counted operations for one cosine and sine pair with the products around it (measured about 25-40 ns
- * a level and time, against about 1 ns per counted operation of the eigen-solver), so the counted
- * work of the time loops tracks their time.
- */
-const TRIG_OPS = 32;
+import { blockDensity, blockQuadraticForms, blockSize, transposeTable, triangleForms } from './evolutionForms';
+import { phaseSteps, RESEED, ROTATE_OPS, TRIG_OPS } from './evolutionPhases';
 
 /** Complex coefficients c_k = re[k] + i im[k] by level index. */
 export interface Coefficients {
@@ -30,8 +25,9 @@ export interface EvolveOptions {
   maxLevels?: number;
   /**
    * The analysis's budget (default: unlimited), polled between rows of the matrix elements and between
-   * times; once it has expired the evolution stops, the result holds only the times finished
-   * (`complete` false) and `stopped` says why. Counts K^2 operations per time and the quadrature's work.
+   * blocks of times (`blockSize` of evolutionForms.ts: single times when X and D are sparse or few, else
+   * 8); once it has expired the evolution stops, the result holds only the times finished (`complete`
+   * false) and `stopped` says why. Counts K^2 operations per time, the phases and the quadrature's work.
    */
   budget?: Budget;
 }
@@ -188,172 +184,62 @@ export function evolve(basis: Eigenbasis, cRe: Float64Array, cIm: Float64Array, 
   const me = matrixElements(basis, K, { budget });
   if (me.stopped !== null) return cut(0);
   const xs = options.density;
-  let table: Float64Array | null = null;
+  let tableT: Float64Array | null = null;
   if (xs) {
     budget.count(K * xs.length, xs.length);
     if (budget.expired()) return cut(0);
-    table = new Float64Array(K * xs.length);
+    const table = new Float64Array(K * xs.length);
     basis.table(xs, K, table);
+    tableT = transposeTable(table, K, xs.length);
     result.density = [];
   }
-  const a = { re: new Float64Array(K), im: new Float64Array(K) };
   let wK = 0;
   for (let k = 0; k < K; k++) wK += cRe[k] * cRe[k] + cIm[k] * cIm[k];
   const forms = triangleForms(me, K);
-  const formOps = 4 * forms.entries;
-  for (let it = 0; it < nt; it++) {
+  const perTime = 4 * forms.entries + (xs ? 2 * K * xs.length : 0);
+  const phases = phaseSteps(basis.energies, n, times);
+  // Times in blocks (evolutionForms.ts): each row of X and D, and each point's levels, are read once a block.
+  const B = blockSize(forms, xs !== undefined);
+  const ar = new Float64Array(B * K);
+  const ai = new Float64Array(B * K);
+  for (let it = 0; it < nt; it += B) {
     if (budget.expired()) return cut(it);
-    budget.count(formOps + TRIG_OPS * n + (xs ? 2 * K * xs.length : 0));
-    survival[it] = phasesAt(basis.energies, cRe, cIm, n, times[it], a) / (total * total);
-    const m = triangleQuadraticForms(forms, a.re, a.im);
-    meanX[it] = m.x / wK;
-    meanP[it] = m.p / wK;
-    if (xs && table && result.density) result.density.push(densityAt(table, a.re, a.im, xs.length, wK));
+    const nb = Math.min(B, nt - it);
+    let ops = nb * perTime;
+    for (let b = 0; b < nb; b++) {
+      ops += phases.advance(it + b);
+      survival[it + b] = phasesAt(phases, cRe, cIm, n, K, ar, ai, b * K) / (total * total);
+    }
+    budget.count(ops);
+    blockQuadraticForms(forms, ar, ai, nb, meanX, meanP, it);
+    for (let b = 0; b < nb; b++) {
+      meanX[it + b] /= wK;
+      meanP[it + b] /= wK;
+    }
+    if (xs && tableT && result.density) result.density.push(...blockDensity(tableT, ar, ai, K, nb, xs.length, wK));
   }
   return result;
 }
 
 /**
- * Sets a_k = c_k e^{-i E_k t} for k < a.re.length and returns |sum_k |c_k|^2 e^{-i E_k t}|^2 over the n
- * levels (the survival's numerator).
+ * Sets a_k = c_k e^{-i E_k t} for k < K into ar[o + k], ai[o + k] from the phases of time t and returns
+ * |sum_k |c_k|^2 e^{-i E_k t}|^2 over the n levels (the survival's numerator).
  */
-function phasesAt(E: Float64Array, cRe: Float64Array, cIm: Float64Array, n: number, t: number, a: { re: Float64Array; im: Float64Array }): number {
-  const K = a.re.length;
+function phasesAt(z: { zr: Float64Array; zi: Float64Array }, cRe: Float64Array, cIm: Float64Array, n: number, K: number, ar: Float64Array, ai: Float64Array, o: number): number {
   let sr = 0;
   let si = 0;
   for (let k = 0; k < n; k++) {
     const p = cRe[k] * cRe[k] + cIm[k] * cIm[k];
-    const ph = -E[k] * t;
-    const c = Math.cos(ph);
-    const s = Math.sin(ph);
+    const c = z.zr[k];
+    const s = z.zi[k];
     sr += p * c;
     si += p * s;
     if (k < K) {
-      a.re[k] = cRe[k] * c - cIm[k] * s;
-      a.im[k] = cRe[k] * s + cIm[k] * c;
+      ar[o + k] = cRe[k] * c - cIm[k] * s;
+      ai[o + k] = cRe[k] * s + cIm[k] * c;
     }
   }
   return sr * sr + si * si;
-}
-
-/**
- * X and D for the quadratic forms of every time, using their symmetry: X is symmetric and D
- * antisymmetric, so with a_k = ar_k + i ai_k,
- * <x> W = sum_j X_jj |a_j|^2 + 2 sum_{j<k} X_jk (ar_j ar_k + ai_j ai_k) and
- * <p> W = 2 sum_{j<k} D_jk (ar_j ai_k - ai_j ar_k): only the diagonal of X and the strict upper
- * triangles are read (half of the K^2 entries). Then the triangle's structure: in compressed rows (the
- * entries where X or D is nonzero) when at most a quarter of it is nonzero (the oscillator's X and D
- * are tridiagonal, ladder operators); every other entry of each row (k = j + 1, j + 3, ...) when the
- * rest vanish, as between levels of equal parity in a box or any symmetric system, which halves the
- * triangle again; else the whole triangle, row by row.
- */
-interface TriangleForms {
-  K: number;
-  diag: Float64Array;
-  /** 'rows': compressed rows; 'alternate': k - j odd only; 'dense': the whole strict upper triangle. */
-  kind: 'rows' | 'alternate' | 'dense';
-  start: Int32Array;
-  col: Int32Array;
-  x: Float64Array;
-  d: Float64Array;
-  /** Entries read per time (for the budget's count). */
-  entries: number;
-}
-
-function triangleForms(me: MatrixElements, K: number): TriangleForms {
-  const diag = new Float64Array(K);
-  for (let j = 0; j < K; j++) diag[j] = me.x[j * K + j];
-  let nnz = 0;
-  let evenOffsets = 0;
-  for (let j = 0; j < K; j++) {
-    for (let k = j + 1; k < K; k++) {
-      if (me.x[j * K + k] === 0 && me.d[j * K + k] === 0) continue;
-      nnz++;
-      if (((k - j) & 1) === 0) evenOffsets++;
-    }
-  }
-  const triangle = (K * (K - 1)) / 2;
-  const none = new Int32Array(0);
-  if (nnz > 0.25 * triangle) {
-    const kind = evenOffsets === 0 ? 'alternate' : 'dense';
-    return { K, diag, kind, start: none, col: none, x: me.x, d: me.d, entries: K + (kind === 'alternate' ? Math.floor((K * K) / 4) : triangle) };
-  }
-  const start = new Int32Array(K + 1);
-  const col = new Int32Array(nnz);
-  const x = new Float64Array(nnz);
-  const d = new Float64Array(nnz);
-  let at = 0;
-  for (let j = 0; j < K; j++) {
-    start[j] = at;
-    for (let k = j + 1; k < K; k++) {
-      const i = j * K + k;
-      if (me.x[i] === 0 && me.d[i] === 0) continue;
-      col[at] = k;
-      x[at] = me.x[i];
-      d[at] = me.d[i];
-      at++;
-    }
-  }
-  start[K] = at;
-  return { K, diag, kind: 'rows', start, col, x, d, entries: K + nnz };
-}
-
-/** <x> W and <p> W from the diagonal and strict upper triangles (see `TriangleForms`). */
-function triangleQuadraticForms(t: TriangleForms, ar: Float64Array, ai: Float64Array): { x: number; p: number } {
-  const K = t.K;
-  let diag = 0;
-  let mx = 0;
-  let mp = 0;
-  for (let j = 0; j < K; j++) {
-    const rj = ar[j];
-    const ij = ai[j];
-    diag += t.diag[j] * (rj * rj + ij * ij);
-    let xr = 0;
-    let xi = 0;
-    let dr = 0;
-    let di = 0;
-    if (t.kind === 'rows') {
-      for (let e = t.start[j]; e < t.start[j + 1]; e++) {
-        const k = t.col[e];
-        const X = t.x[e];
-        const D = t.d[e];
-        xr += X * ar[k];
-        xi += X * ai[k];
-        dr += D * ar[k];
-        di += D * ai[k];
-      }
-    } else {
-      const row = j * K;
-      const step = t.kind === 'alternate' ? 2 : 1;
-      for (let k = j + 1; k < K; k += step) {
-        const X = t.x[row + k];
-        const D = t.d[row + k];
-        xr += X * ar[k];
-        xi += X * ai[k];
-        dr += D * ar[k];
-        di += D * ai[k];
-      }
-    }
-    mx += rj * xr + ij * xi;
-    mp += rj * di - ij * dr;
-  }
-  return { x: diag + 2 * mx, p: 2 * mp };
-}
-
-/** |sum_k a_k phi_k(x)|^2 / W on the table's points. */
-function densityAt(table: Float64Array, ar: Float64Array, ai: Float64Array, nx: number, wK: number): Float64Array {
-  const pr = new Float64Array(nx);
-  const pi = new Float64Array(nx);
-  for (let k = 0; k < ar.length; k++) {
-    const row = k * nx;
-    for (let j = 0; j < nx; j++) {
-      pr[j] += ar[k] * table[row + j];
-      pi[j] += ai[k] * table[row + j];
-    }
-  }
-  const dens = new Float64Array(nx);
-  for (let j = 0; j < nx; j++) dens[j] = (pr[j] * pr[j] + pi[j] * pi[j]) / wK;
-  return dens;
 }
 
 /** Options of `revival` and `revivalTime`, with their defaults. */
@@ -496,11 +382,10 @@ function survivalSlope(E: Float64Array, pop: Populated): (t: number) => number {
 
 /**
  * S(j dt) for j = 0, 1, 2, ... in turn: each level's phase e^{i E_k j dt} is rotated by e^{i E_k dt}
- * (four multiplications instead of a cosine and a sine) and recomputed exactly every `RESEED` steps, so
- * the rounding of the rotation never grows past RESEED steps (about 1e-14 relative; common practice).
+ * (four multiplications instead of a cosine and a sine) and recomputed exactly every `RESEED` steps
+ * (evolutionPhases.ts, which `evolve` uses the same way), so the rounding of the rotation never grows
+ * past RESEED steps (about 1e-14 relative; common practice).
  */
-const RESEED = 64;
-
 function steppedSurvival(E: Float64Array, pop: Populated, dt: number): () => number {
   const { idx, p, total } = pop;
   const m = idx.length;
@@ -546,7 +431,7 @@ function searchRevival(E: Float64Array, pop: Populated, dt: number, steps: numbe
   for (let j = 1; j < steps; j++) {
     if ((j & 255) === 0) {
       // Four multiplications and two sums a level a step, a cosine and sine every RESEED steps.
-      budget.count(256 * (8 + TRIG_OPS / RESEED) * pop.idx.length);
+      budget.count(256 * (ROTATE_OPS + TRIG_OPS / RESEED) * pop.idx.length);
       if (budget.expired()) return { time: null, stopped: budget.reason };
     }
     const s2 = next();
