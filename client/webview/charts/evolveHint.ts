@@ -6,7 +6,7 @@
 import { formatNumber } from '../../../server/src/shared/numbers';
 import { HBAR_SI, energyUnitSI } from '../../../server/src/expr/constants';
 import type { PanelResult } from '../../src/messages';
-import { hbarInFileUnits, relevantLevels, resolved, totalWeight } from './facts';
+import { hbarInFileUnits, relevantLevels, resolved, weightFloor } from './facts';
 import { niceCeil } from './scale';
 
 /** Time units a hint may use, largest first, with their size in seconds (SI prefixes). */
@@ -23,9 +23,9 @@ const TIME_UNITS: [string, number][] = [
 function beatEnergies(result: PanelResult): number[] {
   const es = relevantLevels(result).map((l) => l.energy!);
   if (es.length >= 2) return es;
-  const total = totalWeight(result);
+  const floor = weightFloor(result);
   return result.levels
-    .filter((l) => resolved(l, total) && l.energy !== null)
+    .filter((l) => resolved(l, floor) && l.energy !== null)
     .sort((a, b) => b.weight! - a.weight!)
     .slice(0, 2)
     .map((l) => l.energy!);

@@ -28,9 +28,30 @@ export function totalWeight(result: PanelResult): number {
   return c !== null && c > 0 && Number.isFinite(c) ? c : 1;
 }
 
-/** Whether a level's weight is above the noise floor (and so is drawn and has a meaningful phase). */
-export function resolved(l: Level, total: number): boolean {
-  return l.weight !== null && l.weight > WEIGHT_FLOOR * total;
+/**
+ * The weight below which a level is not resolved: `WEIGHT_FLOOR` of the total (numerical zero), or for a
+ * thermal mixture the share its sum left out, when larger (a population that small can be wrong by its
+ * whole size: the left-out levels would have added to it).
+ */
+export function weightFloor(result: PanelResult): number {
+  return Math.max(WEIGHT_FLOOR * totalWeight(result), result.mixture?.omitted ?? 0);
+}
+
+/** Whether the floor comes from a thermal sum's left-out share rather than from rounding. */
+export function floorIsOmitted(result: PanelResult): boolean {
+  return (result.mixture?.omitted ?? 0) > WEIGHT_FLOOR * totalWeight(result);
+}
+
+/** The reason a level below `weightFloor` is not drawn, as the panel words it. */
+export function floorText(result: PanelResult): string {
+  return floorIsOmitted(result)
+    ? `below ${formatNumber(result.mixture!.omitted, 2)}, the share the thermal sum leaves out (not resolved)`
+    : `below ${formatNumber(WEIGHT_FLOOR)} of the total (numerical zero)`;
+}
+
+/** Whether a level's weight is above the floor (`weightFloor`), so it is drawn and has a meaningful phase. */
+export function resolved(l: Level, floor: number): boolean {
+  return l.weight !== null && l.weight > floor;
 }
 
 /** The phase of c_n in units of pi, as text: '0', '1', '-0.5' (followed by ' π' unless 0). */
@@ -129,14 +150,14 @@ export function missingEnergyText(result: PanelResult, which: 'mean' | 'spread')
  * captured weight.
  */
 export function relevantLevels(result: PanelResult): Level[] {
-  const total = totalWeight(result);
-  const sorted = result.levels.filter((l) => resolved(l, total) && l.energy !== null).sort((a, b) => b.weight! - a.weight!);
+  const floor = weightFloor(result);
+  const sorted = result.levels.filter((l) => resolved(l, floor) && l.energy !== null).sort((a, b) => b.weight! - a.weight!);
   const out: Level[] = [];
   let acc = 0;
   for (const l of sorted) {
     out.push(l);
     acc += l.weight!;
-    if (acc >= 0.99 * total) break;
+    if (acc >= 0.99 * totalWeight(result)) break;
   }
   return out;
 }

@@ -6,7 +6,7 @@ import { formatNumber } from '../../../server/src/shared/numbers';
 import { cumulativeWeights } from '../../src/format';
 import { energySymbol } from '../../../server/src/shared/energyUnit';
 import { axisStyle, baseOption, unitSuffix, type BuildContext, type Option } from './context';
-import { levelClasses, naturalScale, phaseText, resolved, totalWeight, WEIGHT_FLOOR } from './facts';
+import { floorText, levelClasses, naturalScale, phaseText, resolved, weightFloor } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop } from './layout';
 import { decadeAxis, decadeHeight, decadeLabel, niceAxis, valueAxis, type DecadeAxis } from './scale';
 
@@ -17,8 +17,8 @@ export function effectiveScale(ctx: BuildContext): 'linear' | 'log' {
 
 /** The weights above the noise floor (null below it), by level index. */
 function shownWeights(ctx: BuildContext): (number | null)[] {
-  const total = totalWeight(ctx.result);
-  return ctx.result.levels.map((l) => (resolved(l, total) ? l.weight : null));
+  const floor = weightFloor(ctx.result);
+  return ctx.result.levels.map((l) => (resolved(l, floor) ? l.weight : null));
 }
 
 function barSeries(ctx: BuildContext, shown: (number | null)[], decades: DecadeAxis | null): Option[] {
@@ -85,7 +85,7 @@ function spectrumTooltip(ctx: BuildContext, cum: Float64Array): Option {
   const { result, palette: p } = ctx;
   const levels = result.levels;
   const e = result.units.energy;
-  const total = totalWeight(result);
+  const floor = weightFloor(result);
   return {
     ...(baseOption(p).tooltip as Option),
     trigger: 'item',
@@ -98,7 +98,7 @@ function spectrumTooltip(ctx: BuildContext, cum: Float64Array): Option {
         ['n', String(l.n)],
         ['E_n', `${formatNumber(l.energy)}${e ? ` ${e}` : ''}`],
       ];
-      if (!resolved(l, total)) rows.push([l.re === null ? 'P_n' : '|c_n|²', `below ${formatNumber(WEIGHT_FLOOR)} of the total (numerical zero)`]);
+      if (!resolved(l, floor)) rows.push([l.re === null ? 'P_n' : '|c_n|²', floorText(result)]);
       // A mixed state has populations, no coefficients (re and im are null): no modulus or phase.
       else if (l.re === null || l.im === null) rows.push(['P_n', formatNumber(l.weight)]);
       else rows.push(['|c_n|', formatNumber(Math.hypot(re, im))], ['phase', phaseText(re, im)], ['|c_n|²', formatNumber(l.weight)]);
@@ -177,10 +177,10 @@ export function spectrumOption(ctx: BuildContext): Option {
 
 /** Notes beside the spectrum: what is not drawn and why. */
 export function spectrumNotes(ctx: BuildContext): string[] {
-  const total = totalWeight(ctx.result);
-  const hidden = ctx.result.levels.filter((l) => !resolved(l, total)).length;
+  const floor = weightFloor(ctx.result);
+  const hidden = ctx.result.levels.filter((l) => !resolved(l, floor)).length;
   const notes: string[] = [];
-  if (hidden > 0) notes.push(`${hidden} level${hidden === 1 ? '' : 's'} with weight below ${formatNumber(WEIGHT_FLOOR)} of the total (numerical zero) ${hidden === 1 ? 'is' : 'are'} not drawn.`);
+  if (hidden > 0) notes.push(`${hidden} level${hidden === 1 ? '' : 's'} with weight ${floorText(ctx.result)} ${hidden === 1 ? 'is' : 'are'} not drawn.`);
   if (ctx.settings.scale === 'auto') {
     notes.push(effectiveScale(ctx) === 'log' ? 'Log scale: the weights fall off slowly (as a power of n, or over more than 20 levels).' : 'Linear scale: the weight sits in a few levels.');
   }

@@ -8,7 +8,7 @@ import type { PanelResult } from '../../src/messages';
 import { partialSum, sampledState, trapezoid } from '../physics';
 import { energySymbol } from '../../../server/src/shared/energyUnit';
 import { axisStyle, baseOption, pairs, perLengthTitle, unitSuffix, type BuildContext, type Option } from './context';
-import { resolved, totalWeight } from './facts';
+import { resolved, weightFloor } from './facts';
 import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
 import { rangeNote, xRange, type XRange } from './xrange';
@@ -103,10 +103,10 @@ function levelSegments(ctx: BuildContext, ehi: number, win: XRange): Option[] {
   // Centred on the symmetry centre, or else where the state sits (the centroid of the sampled |psi|^2).
   const center = result.system?.center ?? centroid(x, sampledState(result.samples!).density) ?? (xmin + xmax) / 2;
   const span = xmax - xmin;
-  const total = totalWeight(result);
+  const floor = weightFloor(result);
   return result.levels
     .map((l, k) => ({ l, k }))
-    .filter(({ l }) => resolved(l, total) && (l.weight ?? 0) > 1e-5 && l.energy !== null && l.energy <= ehi)
+    .filter(({ l }) => resolved(l, floor) && (l.weight ?? 0) > 1e-5 && l.energy !== null && l.energy <= ehi)
     .slice(0, 60)
     .map(({ l, k }) => {
       const half = (Math.max(0.015, Math.min(1, l.weight ?? 0)) * span) / 2;
