@@ -9,7 +9,6 @@
  */
 import { describe, it, expect } from 'vitest';
 import { potentialBasis, type PotentialFn, type PotentialBasisResult } from '../../server/src/physics/potential';
-import { createBudget } from '../../server/src/physics/budget';
 import { CHECK_RATIO, DOWNWARD_FROM } from '../../server/src/physics/potentialRefine';
 import { analyse } from '../../server/src/analysis/index';
 import { manualClock } from '../../server/src/physics/budget';
@@ -155,6 +154,8 @@ function checkLevels(c: Exact, r: PotentialBasisResult, tolerance: number): numb
   for (let n = 0; n < Math.min(c.K, E.length); n++) {
     const err = Math.abs(E[n]! - c.E(n));
     expect(err, `${c.name}, tolerance ${tolerance}, level n = ${n + 1}`).toBeLessThanOrEqual(u[n]!);
+    // A finite, useful statement: no level is excused by an infinite or huge uncertainty.
+    expect(u[n]!).toBeLessThan(1e-4 * Math.max(1, Math.abs(c.E(n))));
     worst = Math.max(worst, err / u[n]!);
   }
   // A resolved result meets the tolerance on every level (its uncertainty does, and bounds the error).
@@ -261,4 +262,49 @@ describe('every level within its stated uncertainty', () => {
     expect(outcomes).toContain('downward after 2 grids');
     expect(outcomes.some((o) => o !== 'downward after 2 grids')).toBe(true);
   });
+});
+
+/**
+ * The coherent state: the oscillator's ground state displaced by x0 (m = w = hbar = 1) has
+ * c_n = exp(-alpha^2 / 2) alpha^n / sqrt(n!), alpha = x0 / sqrt(2), Poisson weights of mean alpha^2
+ * (Glauber, Phys. Rev. 131, 2766 (1963); common practice). In the solver's sign convention (each level
+ * positive at its first point from the left wall) level n is (-1)^n times the usual Hermite function,
+ * whose sign at the far left is (-1)^n, so c_n carries (-1)^n (derived in this comment).
+ */
+function coherent(x0: number, n: number): number {
+  const alpha = x0 / Math.SQRT2;
+  let logFactorial = 0;
+  for (let k = 2; k <= n; k++) logFactorial += Math.log(k);
+  return (n % 2 === 0 ? 1 : -1) * Math.exp(-0.5 * alpha * alpha + n * Math.log(alpha) - 0.5 * logFactorial);
+}
+
+describe('every coefficient within its stated uncertainty', () => {
+  const cases: { name: string; x0: number; wall: number; basis: number }[] = [
+    // 30 levels: a first grid below DOWNWARD_FROM. 500 levels: a first grid of about 1,270 intervals, checked downward.
+    { name: 'displaced by 2, 30 levels', x0: 2, wall: 12, basis: 30 },
+    { name: 'displaced by 20, 500 levels', x0: 20, wall: 50, basis: 500 },
+  ];
+  for (const c of cases) {
+    it(`the oscillator's coherent state, ${c.name}`, { timeout: 600_000 }, () => {
+      const text = `system V(x) = x^2 / 2 over [-${c.wall}, ${c.wall}]\nstate psi(x) = exp(-(x - ${c.x0})^2 / 2)\nbasis ${c.basis}\n`;
+      const r = analyse(text, timeless);
+      // The grid the coefficients stand on was confirmed the way the case says.
+      const solved = potentialBasis(pot((x) => (x * x) / 2), -c.wall, c.wall, 1, c.basis);
+      expect(pathOf(solved)).toBe(c.basis >= 500 ? 'downward' : 'climb');
+      expect(r.diagnostics.filter((d) => d.code === 'limits')).toEqual([]);
+      expect(r.levels).toHaveLength(c.basis);
+      let weights = 0;
+      for (let k = 0; k < c.basis; k++) {
+        const lv = r.levels[k]!;
+        const exact = coherent(c.x0, k);
+        const where = `${c.name}, level n = ${lv.n}`;
+        expect(lv.coefficientUncertainty!, where).toBeLessThan(1e-7);
+        expect(Math.hypot(lv.re! - exact, lv.im!), where).toBeLessThanOrEqual(lv.coefficientUncertainty!);
+        expect(Math.abs(lv.energy - (k + 0.5)), where).toBeLessThanOrEqual(lv.uncertainty!);
+        weights += lv.weight;
+      }
+      // The Poisson weights sum to 1 over the levels kept (their tail beyond is below 1e-15 here).
+      expect(Math.abs(weights - 1)).toBeLessThan(1e-9);
+    });
+  }
 });

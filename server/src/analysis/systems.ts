@@ -35,6 +35,8 @@ export interface BuiltBasis {
   unresolved?: number | null;
   /** Numerical systems: grid points used. */
   points?: number;
+  /** Numerical systems: the grid the levels would want and the solver's cap (the solver's `grid`), for the unresolved levels' finding. */
+  grid?: { wanted: number | null; cap: number; capWhy: string; note: string | null };
   /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
   stopped?: StopReason | null;
   /**
@@ -163,7 +165,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     unresolved: solved.unresolved,
     points: solved.points,
     stopped,
-    wallTrend: solved.wallTrend,
+    wallTrend: solved.wallTrend, grid: solved.grid,
     ...(findings.length > 0 ? { findings } : {}),
   };
   const coarse = options.coarse === false || options.budget.expired() ? null : (solved.coarse ?? coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { ...caps, maxPoints })));

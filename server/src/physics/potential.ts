@@ -120,6 +120,13 @@ export interface PotentialBasisResult {
    * in words (kind 'cap').
    */
   stopped: StopReason | null;
+  /**
+   * The grid sizes behind `unresolved`, for its wording: `wanted`, the first grid the levels asked for
+   * would get without the caps (`pointsPerWavelength` at the top level; null with a mass profile), and
+   * the cap with its words (`capWhy`, e.g. "the work cap of 4e+9 flops (2289 points)"), and the first
+   * note of kind 'cap' (null without one).
+   */
+  grid?: { wanted: number | null; cap: number; capWhy: string; note: string | null };
 }
 
 const DEFAULTS = {
@@ -237,6 +244,7 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   const out: PotentialBasisResult = { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
+  out.grid = { wanted: mp ? null : firstGridSize(scan, L, mass, K, o, Infinity), cap, capWhy, note: notes.find((nt) => nt.kind === 'cap')?.message ?? null };
   if (r.coarse) out.coarse = coarseView(r.coarse, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
   return out;
 }

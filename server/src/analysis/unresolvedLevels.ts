@@ -1,0 +1,62 @@
+/**
+ * The finding and the marks for levels a numerical solver left unresolved: which levels (from the first
+ * unresolved label to the last asked for), why (the time limit or a cap, with the grid reached and the
+ * grid the levels want), and what raises the limit. Wording only; the solver measured everything.
+ */
+import type { EngineDiagnostic } from '../language/catalogue';
+import type { BuiltBasis } from './systems';
+import type { CheckContext } from './checks';
+import type { LevelResult } from './types';
+import { fmt, warn } from './findings';
+import { raiseHint } from '../shared/limits';
+
+/** The solver's tolerance the analysis asks for (physics/potential.ts, its default). */
+const TOLERANCE_TEXT = '1e-9';
+
+/** `levels 287 to 3200`, or `level 7` when only one. */
+function levelRange(from: number, to: number): string {
+  return from >= to ? `Level ${fmt(from)} is` : `Levels ${fmt(from)} to ${fmt(to)} are`;
+}
+
+/** ` (these levels want a first grid of about W intervals)` when the solver's estimate exceeds the grid reached. */
+function wantedText(built: BuiltBasis): string {
+  const wanted = built.grid?.wanted;
+  if (wanted === null || wanted === undefined || built.points === undefined || !(wanted > built.points)) return '';
+  return `; the levels asked for want a first grid of about ${fmt(wanted)} intervals (2.5 points a wavelength at the top level)`;
+}
+
+/**
+ * The `limits` finding on the system for levels the solver left unresolved (`built.unresolved` to the
+ * last level asked for), or null when every level is resolved or the analysis was cancelled.
+ */
+export function unresolvedFinding(built: BuiltBasis, asked: number, ctx: CheckContext): EngineDiagnostic | null {
+  const from = built.unresolved;
+  if (from === undefined || from === null || built.stopped === 'cancelled') return null;
+  const span = ctx.systemStmt.span;
+  const what = `${levelRange(from, Math.max(from, asked))} not resolved to ${TOLERANCE_TEXT}`;
+  const at = built.points !== undefined ? ` at ${fmt(built.points)} grid intervals` : '';
+  if (built.stopped === 'time') {
+    // No level has an estimate when the time ran out before a second grid checked the first.
+    const unchecked = from === 1 && !(ctx.basis.uncertainty && Number.isFinite(ctx.basis.uncertainty[0]!));
+    const when = unchecked ? `${at}, before a second grid checked that one` : at;
+    return warn('limits', span, `${what}: the time limit of ${fmt(ctx.limits.maxMillis)} ms stopped the solver's refinement${when}${wantedText(built)}. Raise the limit or lower \`basis\`.${raiseHint('time')}`);
+  }
+  const g = built.grid;
+  if (g && built.points !== undefined && built.points >= g.cap) {
+    return warn(
+      'limits',
+      span,
+      `${what}: ${g.capWhy} stopped the solver's refinement${at}${wantedText(built)}. A time limit above 10 s raises the caps in proportion, as does a larger \`maxGridPoints\`.${raiseHint('time')}${raiseHint('maxGridPoints')}`,
+    );
+  }
+  // Below the cap: double precision or algebraic convergence ended it (the solver's note says which).
+  const why = g?.note ? ` ${g.note}` : '';
+  return warn('limits', span, `${what}: the solver's refinement stopped${at}.${why}`);
+}
+
+/** Marks the levels from the first unresolved label on (`unresolved: true` in the JSON). */
+export function markUnresolved(levels: LevelResult[], built: BuiltBasis): void {
+  const from = built.unresolved;
+  if (from === undefined || from === null) return;
+  for (const l of levels) if (l.n >= from) l.unresolved = true;
+}
