@@ -54,12 +54,19 @@ describe('unresolved levels of a numerical system', () => {
   it('time limits on a work clock: every stop names its range, and a stop before any check names them all', () => {
     const text = oscillator(20, 100);
     const seen: number[] = [];
-    // 1e-5 ms per counted operation: the limits below end the analysis before, during and after the solver's climb.
-    for (let ms = 16; ms <= 4096; ms *= 2) {
+    // 1e-5 ms per counted operation: the limits below end the analysis inside the first grid, during and after the solver's climb.
+    for (let ms = 8; ms <= 4096; ms *= 2) {
       const r = analyse(text, { clock: workClock(1e-5), limits: { maxMillis: ms } });
       const message = solverFinding(r);
       if (message === undefined) {
         expect(r.system?.unresolvedFrom).toBeUndefined();
+        continue;
+      }
+      if (!r.system) {
+        // Stopped inside the first grid: no levels at all, and the finding says all are unresolved.
+        expect(message).toMatch(new RegExp(`^Levels 1 to 100 are not resolved: the time limit of ${ms} ms stopped the solver inside its first grid of \\d+ intervals`));
+        expect(r.levels).toEqual([]);
+        seen.push(0);
         continue;
       }
       const from = checkMarks(r, text, 100);
@@ -70,5 +77,6 @@ describe('unresolved levels of a numerical system', () => {
       if (from === 1) expect(message).toContain('before a second grid checked that one');
     }
     expect(seen).toContain(1);
+    expect(seen).toContain(0);
   });
 });

@@ -4,6 +4,8 @@
  * grid the levels want), and what raises the limit. Wording only; the solver measured everything.
  */
 import type { EngineDiagnostic } from '../language/catalogue';
+import type { Span } from '../language/ast';
+import type { PotentialBasisResult } from '../physics/potential';
 import type { BuiltBasis } from './systems';
 import type { CheckContext } from './checks';
 import type { LevelResult } from './types';
@@ -52,6 +54,22 @@ export function unresolvedFinding(built: BuiltBasis, asked: number, ctx: CheckCo
   // Below the cap: double precision or algebraic convergence ended it (the solver's note says which).
   const why = g?.note ? ` ${g.note}` : '';
   return warn('limits', span, `${what}: the solver's refinement stopped${at}.${why}`);
+}
+
+/**
+ * True when the budget stopped the solver inside its first grid (no levels at all); on the time limit it
+ * adds the `limits` finding that every level asked for is unresolved, with the grid and what it wanted.
+ */
+export function stoppedInFirstGrid(solved: PotentialBasisResult, span: Span, asked: number, limitMs: number, out: EngineDiagnostic[]): boolean {
+  if (solved.basis.count !== 0 || (solved.stopped !== 'time' && solved.stopped !== 'cancelled')) return false;
+  if (solved.stopped === 'time') out.push(firstGridStopped(span, asked, solved.sizes, solved.grid, limitMs));
+  return true;
+}
+
+function firstGridStopped(span: Span, asked: number, sizes: readonly number[], grid: BuiltBasis['grid'], limitMs: number): EngineDiagnostic {
+  const size = sizes.length > 0 ? ` of ${fmt(sizes[0]!)} intervals` : '';
+  const wanted = grid?.wanted && sizes.length > 0 && grid.wanted > sizes[0]! ? ` (the levels asked for want about ${fmt(grid.wanted)}; ${grid.capWhy} allows ${fmt(grid.cap)})` : '';
+  return warn('limits', span, `${levelRange(1, Math.max(1, asked))} not resolved: the time limit of ${fmt(limitMs)} ms stopped the solver inside its first grid${size}${wanted}. Raise the limit or lower \`basis\`.${raiseHint('time')}`);
 }
 
 /** Marks the levels from the first unresolved label on (`unresolved: true` in the JSON). */

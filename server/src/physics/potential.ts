@@ -205,7 +205,8 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   const r = refine({ V, a, b, mass, K, scan, budget, tolerance: o.tolerance, growth: o.growth, algebraicPoints: o.algebraicPoints, cap, capWhy, ...solve }, N0);
   if (!r.sol && r.expired) {
     // The budget ran out inside the first solve: no levels, and why, as data.
-    return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired };
+    const grid = { wanted: mp ? null : firstGridSize(scan, L, mass, K, o, Infinity), cap, capWhy, note: null };
+    return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired, grid };
   }
   if (!r.sol) return fail({ kind: 'evaluation', message: BAD_GRID });
   const sol = r.sol;
