@@ -20,11 +20,12 @@ function levelRange(from: number, to: number): string {
   return from >= to ? `Level ${fmt(from)} is` : `Levels ${fmt(from)} to ${fmt(to)} are`;
 }
 
-/** ` (these levels want a first grid of about W intervals)` when the solver's estimate exceeds the grid reached. */
-function wantedText(built: BuiltBasis): string {
+/** `; the levels asked for want a first grid of about W intervals` when the solver's estimate exceeds the grid reached (with the cap it is over, when `withCap`). */
+function wantedText(built: BuiltBasis, withCap: boolean): string {
   const wanted = built.grid?.wanted;
   if (wanted === null || wanted === undefined || built.points === undefined || !(wanted > built.points)) return '';
-  return `; the levels asked for want a first grid of about ${fmt(wanted)} intervals (2.5 points a wavelength at the top level)`;
+  const over = withCap && built.grid && wanted > built.grid.cap ? `, over ${built.grid.capWhy}` : '';
+  return `; the levels asked for want a first grid of about ${fmt(wanted)} intervals (2.5 points a wavelength at the top level)${over}`;
 }
 
 /**
@@ -41,14 +42,14 @@ export function unresolvedFinding(built: BuiltBasis, asked: number, ctx: CheckCo
     // No level has an estimate when the time ran out before a second grid checked the first.
     const unchecked = from === 1 && !(ctx.basis.uncertainty && Number.isFinite(ctx.basis.uncertainty[0]!));
     const when = unchecked ? `${at}, before a second grid checked that one` : at;
-    return warn('limits', span, `${what}: the time limit of ${fmt(ctx.limits.maxMillis)} ms stopped the solver's refinement${when}${wantedText(built)}. Raise the limit or lower \`basis\`.${raiseHint('time')}`);
+    return warn('limits', span, `${what}: the time limit of ${fmt(ctx.limits.maxMillis)} ms stopped the solver's refinement${when}${wantedText(built, true)}. Raise the limit or lower \`basis\`.${raiseHint('time')}`);
   }
   const g = built.grid;
   if (g && built.points !== undefined && built.points >= g.cap) {
     return warn(
       'limits',
       span,
-      `${what}: ${g.capWhy} stopped the solver's refinement${at}${wantedText(built)}. A time limit above 10 s raises the caps in proportion, as does a larger \`maxGridPoints\`.${raiseHint('time')}${raiseHint('maxGridPoints')}`,
+      `${what}: ${g.capWhy} stopped the solver's refinement${at}${wantedText(built, false)}. A time limit above 10 s raises the caps in proportion, as does a larger \`maxGridPoints\`.${raiseHint('time')}${raiseHint('maxGridPoints')}`,
     );
   }
   // Below the cap: double precision or algebraic convergence ended it (the solver's note says which).
