@@ -53,6 +53,8 @@ export interface EngineLevel {
   uncertainty?: number;
   /** Numerical systems: the uncertainty of re and im (twice their change between the solver's last two grids). */
   coefficientUncertainty?: number;
+  /** Numerical systems: true on a level the solver did not resolve to 1e-9 (absent otherwise). */
+  unresolved?: boolean;
 }
 
 /** The result of `analyse`: the fields of `eigenspan expand --json`. */
@@ -70,6 +72,8 @@ export interface EngineResult {
     kind: 'box' | 'well' | 'oscillator' | 'potential';
     energies: number[];
     uncertainties?: number[];
+    /** Numerical systems: the label of the first level not resolved to 1e-9 (absent when all are). */
+    unresolvedFrom?: number;
     boundCount?: number;
     center: number | null;
     /** A mass that depends on x: the regions between its interfaces, with the smallest and largest mass in each (m_e in a physical file). */

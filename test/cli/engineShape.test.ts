@@ -151,6 +151,9 @@ describe('types/engine.d.ts against the built engine', () => {
       const result: unknown = JSON.parse(JSON.stringify(engine.analyse(text)));
       expect(check(result, shape, 'result', seen), text).toEqual([]);
     }
+    // A solver capped short (maxGridPoints 1/8 of its default): levels marked unresolved.
+    const capped = 'mass 0.5\nsystem V(x) = x^2 over [-25, 25]\nstate gaussian(center = 1, width = 1)\nbasis 200\n';
+    expect(check(JSON.parse(JSON.stringify(engine.analyse(capped, { limits: { maxGridPoints: 32768 } }))), shape, 'result', seen), capped).toEqual([]);
     expect(declaredPaths(shape, 'result').filter((p) => !seen.has(p))).toEqual([]);
   });
 

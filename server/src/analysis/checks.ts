@@ -15,6 +15,7 @@ import { captureText, fmt, formatFactor, growthText, notSquareIntegrable, pct, p
 import { raiseHint } from '../shared/limits';
 import { formatNumber } from '../shared/numbers';
 import { nearlySymmetric } from '../physics/parity';
+import { unresolvedFinding } from './unresolvedLevels';
 
 /** What the checks need besides the measurements. */
 export interface CheckContext {
@@ -72,13 +73,8 @@ export function checkBasisFacts(built: BuiltBasis, asked: number, ctx: CheckCont
     out.push(warn('basis', basisStmt.span, `The well holds ${plural(basis.count, 'bound state')}; basis ${asked} is capped at ${basis.count}.`, undefined, 'info'));
   }
   // Unresolved levels after a cancellation need no finding: a cancelled analysis is not shown.
-  if (built.unresolved !== undefined && built.unresolved !== null && built.stopped !== 'cancelled') {
-    out.push(
-      warn('limits', sysSpan, built.stopped === 'time'
-        ? `The time limit stopped the solver's refinement: level ${built.unresolved} and above are not resolved to 1e-9; lower \`basis\` or raise the limit.${raiseHint('time')}`
-        : `The grid cap stopped refinement: level ${built.unresolved} and above are not resolved to 1e-9.`),
-    );
-  }
+  const unresolved = unresolvedFinding(built, asked, ctx);
+  if (unresolved) out.push(unresolved);
   if (built.wallLevels && built.wallLevels.length > 0) {
     const first = built.wallLevels[0]! + basis.firstLabel;
     const [hardLeft, hardRight] = built.hardWalls ?? [false, false];

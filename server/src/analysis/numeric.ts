@@ -17,6 +17,7 @@ import { BadValue } from './expand';
 import { growthAt, type Singularity } from './singular';
 import { measureState, type StateMeasurements } from './measure';
 import { checkBasisFacts, STATE_CHECKS, stopFinding, type CheckContext } from './checks';
+import { markUnresolved } from './unresolvedLevels';
 import { checkExpects } from './expects';
 import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
@@ -74,6 +75,7 @@ function numericStageIn(input: NumericInput, result: AnalysisResult): void {
   const checks: CheckContext = { model, basis, stateSpan, systemStmt: sysStmt, limits: ctx.limits };
   out.push(...checkBasisFacts(built, asked, checks));
   result.system = systemFacts(basis);
+  if (built.unresolved) result.system.unresolvedFrom = built.unresolved;
   const massFacts = massRegions(basis, model.units);
   if (massFacts) result.system.mass = massFacts;
   if (!model.state || ctx.budget.expired()) return;
@@ -110,6 +112,7 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   }
   for (const check of STATE_CHECKS) out.push(...check(m, checks));
   fillResult(m, result);
+  markUnresolved(result.levels, s.built);
   if (m.basis.kind === 'oscillator') result.meanQuantumNumber = meanQuantumNumber(result.system, result.energy?.mean);
   // A pure state: Tr rho^2 = 1 exactly.
   result.purity = 1;

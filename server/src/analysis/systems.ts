@@ -14,6 +14,7 @@ import type { Budget, StopReason } from './context';
 import { fmt, plural } from './findings';
 import { continuumLevels, solverCaps, type WallEnd } from './walls';
 import { coarserBasis } from './coefficientErrors';
+import { stoppedInFirstGrid } from './unresolvedLevels';
 import { samplesState } from './samplesState';
 import { massFindings, massProfileOf } from './massSystems';
 import { charged, chargedPhi, formulaPointOps, GAUSSIAN_POINT_OPS, tableOps } from './charged';
@@ -35,6 +36,8 @@ export interface BuiltBasis {
   unresolved?: number | null;
   /** Numerical systems: grid points used. */
   points?: number;
+  /** Numerical systems: the grid the levels would want and the solver's cap (the solver's `grid`), for the unresolved levels' finding. */
+  grid?: { wanted: number | null; cap: number; capWhy: string; note: string | null };
   /** Numerical systems: why the solver's refinement stopped short (null when it finished). */
   stopped?: StopReason | null;
   /**
@@ -147,8 +150,8 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     out.push(diagnostic('evaluation', system.exprSpan.start, system.exprSpan.end, `The potential is ${b.value} at x = ${fmt(b.x)}.`));
     return null;
   }
-  // Stopped inside the first solve: the analysis reports the time limit (index.ts), not a bad potential.
-  if (solved.basis.count === 0 && (solved.stopped === 'time' || solved.stopped === 'cancelled')) return null;
+  // Stopped inside the first solve: the analysis reports the time limit (index.ts), not a bad potential, and which levels it left.
+  if (stoppedInFirstGrid(solved, system.exprSpan, count, options.budget.limitMs, out)) return null;
   if (solved.basis.count === 0) {
     if (solved.notes.some((n) => n.kind === 'mass')) return null;
     const note = solved.notes.find((n) => n.kind === 'evaluation' || n.kind === 'input')?.message ?? 'The potential could not be solved.';
@@ -163,7 +166,7 @@ function solvePotential(system: Extract<SystemModel, { kind: 'potential' }>, mas
     unresolved: solved.unresolved,
     points: solved.points,
     stopped,
-    wallTrend: solved.wallTrend,
+    wallTrend: solved.wallTrend, grid: solved.grid,
     ...(findings.length > 0 ? { findings } : {}),
   };
   const coarse = options.coarse === false || options.budget.expired() ? null : (solved.coarse ?? coarserBasis(solved.sizes, options, (maxPoints) => potentialBasis(evalV, system.a, system.b, mass, count, { ...caps, maxPoints })));

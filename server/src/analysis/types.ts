@@ -20,6 +20,8 @@ export interface LevelResult {
   weight: number;
   /** Estimated absolute error of c_n (numerical systems: twice its change between the solver's last two grids). */
   coefficientUncertainty?: number;
+  /** Numerical systems: true on a level the solver did not resolve to its tolerance (absent otherwise). */
+  unresolved?: true;
 }
 
 /** How the coefficients decay with n, fitted over the tail. */
@@ -102,6 +104,8 @@ export interface AnalysisResult {
     /** The first levels' energies (for hovers on the system line), at most 20. */
     energies: number[];
     uncertainties?: number[];
+    /** Numerical systems: the label of the first level not resolved to the solver's tolerance (absent when all are). */
+    unresolvedFrom?: number;
     boundCount?: number;
     center: number | null;
     /**

@@ -51,6 +51,7 @@ export function toJson(result: AnalysisResult, text: string): Record<string, unk
       const o: Record<string, number | null> = { n: l.n, energy: l.energy, re: l.re, im: l.im, weight: l.weight };
       if (l.uncertainty !== undefined) o.uncertainty = l.uncertainty;
       if (l.coefficientUncertainty !== undefined) o.coefficientUncertainty = l.coefficientUncertainty;
+      if (l.unresolved) (o as Record<string, unknown>).unresolved = true;
       return o;
     }),
     norm: result.norm,

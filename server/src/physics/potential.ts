@@ -123,6 +123,13 @@ export interface PotentialBasisResult {
    * in words (kind 'cap').
    */
   stopped: StopReason | null;
+  /**
+   * The grid sizes behind `unresolved`, for its wording: `wanted`, the first grid the levels asked for
+   * would get without the caps (`pointsPerWavelength` at the top level; null with a mass profile), and
+   * the cap with its words (`capWhy`, e.g. "the work cap of 4e+9 flops (2289 points)"), and the first
+   * note of kind 'cap' (null without one).
+   */
+  grid?: { wanted: number | null; cap: number; capWhy: string; note: string | null };
 }
 
 const DEFAULTS = {
@@ -202,7 +209,8 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
   const r = refine(setup, N0);
   if (!r.sol && r.expired) {
     // The budget ran out inside the first solve: no levels, and why, as data.
-    return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired };
+    const grid = { wanted: mp ? null : firstGridSize(scan, L, mass, K, o, Infinity), cap, capWhy, note: null };
+    return { ...fail({ kind: 'cap', message: 'The time limit stopped the solver before its first grid was solved.' }), sizes: r.sizes, stopped: r.expired, grid };
   }
   if (!r.sol) return fail({ kind: 'evaluation', message: BAD_GRID });
   const sol = r.sol;
@@ -241,6 +249,7 @@ export function potentialBasis(V: PotentialFn, a: number, b: number, mass: numbe
     ? massBasis(sol as MassSolution, options.massProfile!, mp.jumps, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x), energies: sol.energies, uncertainty })
     : makeBasis(sol, a, b, mass, V, center, scan.jumps.map((j) => j.x), sol.energies, uncertainty);
   const out: PotentialBasisResult = { basis, points: sol.intervals, unresolved, wallLevels: walls.wallLevels, wallEnds: walls.wallEnds, wallOnly: walls.wallOnly, wallTrend, notes, sizes: r.sizes, stopped };
+  out.grid = { wanted: mp ? null : firstGridSize(scan, L, mass, K, o, Infinity), cap, capWhy, note: notes.find((nt) => nt.kind === 'cap')?.message ?? null };
   if (r.coarse) lazyCoarse(out, r.coarse, setup, { a, b, mass, V, center, breakpoints: scan.jumps.map((j) => j.x) }, budget, mp && { profile: options.massProfile!, jumps: mp.jumps });
   return out;
 }
