@@ -70,6 +70,8 @@ export interface EngineResult {
   units: { length: string | null; energy: string | null; time: string | null; energyKind?: 'energy' | 'frequency' | 'wavenumber' };
   system: {
     kind: 'box' | 'well' | 'oscillator' | 'potential';
+    /** The label n of the first level: 0 for the oscillator, 1 otherwise. */
+    firstLabel: number;
     energies: number[];
     uncertainties?: number[];
     /** Numerical systems: the label of the first level not resolved to 1e-9 (absent when all are). */

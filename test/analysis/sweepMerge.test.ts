@@ -42,6 +42,14 @@ describe('mergeSweepFindings', () => {
     const lim = r.diagnostics.filter((d) => d.code === 'limits');
     expect(lim).toHaveLength(1);
     expect(lim[0]!.message).toMatch(/The sweep finished \d+ of 41 points/);
-    expect(lim[0]!.message).toContain('also hit a limit');
+    expect(lim[0]!.message).toMatch(/also hit (a|that) limit/);
+  });
+
+  it("names the file's own limit without repeating it when the sweep's message already states it", () => {
+    const same = diagnostic('limits', 40, 50, 'Levels 1 to 30 are not resolved.', { severity: 'warning' });
+    const atPoint = diagnostic('limits', 40, 50, 'The sweep finished 3 of 9 points. At k = 1: Levels 1 to 30 are not resolved.', { severity: 'warning' });
+    const m = mergeSweepFindings([same], [atPoint]);
+    expect(m).toHaveLength(1);
+    expect(m[0]!.message).toBe("The sweep finished 3 of 9 points. At k = 1: Levels 1 to 30 are not resolved. The analysis of the file's own values also hit that limit.");
   });
 });

@@ -16,8 +16,16 @@ export function mergeSweepFindings(analysis: readonly EngineDiagnostic[], sweep:
   if (own.length === 0 || own.length + theirs.length < 2) return sortDiagnostics([...analysis, ...sweep]);
   const head = own[0]!;
   const severity = [...own, ...theirs].map((d) => d.severity).reduce((a, b) => (RANK[b] > RANK[a] ? b : a));
-  const also = theirs.length === 0 ? '' : ` The analysis of the file's own values also hit a limit: ${theirs.map((d) => d.message).join(' ')}`;
-  const message = `${own.map((d) => d.message).join(' ')}${also}`;
+  const ownText = own.map((d) => d.message).join(' ');
+  // A limit the sweep's message already states word for word is named, not repeated.
+  const fresh = theirs.filter((d) => !ownText.includes(d.message));
+  const also =
+    theirs.length === 0
+      ? ''
+      : fresh.length === 0
+        ? " The analysis of the file's own values also hit that limit."
+        : ` The analysis of the file's own values also hit a limit: ${fresh.map((d) => d.message).join(' ')}`;
+  const message = `${ownText}${also}`;
   const fixes = [...own, ...theirs].flatMap((d) => d.fixes ?? []);
   const merged = diagnostic('limits', head.start, head.end, message, { severity, fixes: fixes.length > 0 ? fixes : undefined });
   return sortDiagnostics([...analysis.filter((d) => d.code !== 'limits'), ...sweep.filter((d) => d.code !== 'limits'), merged]);
