@@ -4,7 +4,8 @@
  * the quantity (sweepQuantity.ts; the overview draws the captured weight and the lowest populations on
  * the left axis, 0 to 1, and the energy mean on the right); the design window shaded; the places where
  * the bound-level count steps or an `expect` line flips, located by the engine between points, marked
- * as vertical lines whose labels move aside when they sit close. Every point carries its index into
+ * as vertical lines whose labels sit in a band above the plot (sweepLabels.ts), clear of the curves,
+ * moved aside or up a row when they sit close. Every point carries its index into
  * `sweep.points` (the third value of its datum), so hovering shows the point's full result and the
  * panel can pick it. Two swept parameters give a map (sweepMap.ts). Pure: no DOM, so the command line
  * draws it too.
@@ -19,6 +20,7 @@ import { plainRows, pointTooltip, quantityAxisName, quantityPlan, sweepNotes, va
 
 export type { SweepDescription, SweepViewOptions } from './sweepQuantity';
 import { sweepMap } from './sweepMap';
+import { LABEL_GAP, labelBandHeight, labelRowHeight, placeLabels, type LabelBand } from './sweepLabels';
 
 /** The sweep view of `sweep` (see the header). */
 export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize, energyUnit: string | null, options: SweepViewOptions = {}): SweepDescription {
@@ -46,22 +48,27 @@ export function sweepView(sweep: SweepResult, palette: Palette, size: ChartSize,
   }));
   const logX = axis.spacing === 'log' && axis.from > 0 && axis.to > 0;
   const [lo, hi] = [Math.min(axis.from, axis.to), Math.max(axis.from, axis.to)];
-  const grid = { left: 64, right: plan.axes.length > 1 ? 72 : 24, top: plotTop(series.map((q) => String(q.name)), size, p), bottom: Math.round(p.fontSize * 3.4) };
-  // The marks ride on the first series: the design window shaded, and the located places as vertical lines.
-  const frame: XFrame = { lo, hi, log: logX, left: grid.left, width: size.width - grid.left - grid.right };
-  if (series[0]) Object.assign(series[0], { markArea: windowArea(sweep, p, frame), markLine: locatedLines(sweep, p, frame) });
+  const [left, right] = [64, plan.axes.length > 1 ? 72 : 24];
+  // The marks ride on the first series: the design window shaded, and the located places as vertical
+  // lines, their labels in a band above the plot that moves the plot (and the axis names) down.
+  const frame: XFrame = { lo, hi, log: logX, left, width: size.width - left - right };
+  const located = locatedLines(sweep, p, frame);
+  const band = labelBandHeight(located.band.rows, p.fontSize);
+  const grid = { left, right, top: plotTop(series.map((q) => String(q.name)), size, p) + band, bottom: Math.round(p.fontSize * 3.4) };
+  if (series[0]) Object.assign(series[0], { markArea: windowArea(sweep, p, frame), markLine: located.option });
   const option: Option = {
     ...baseOption(p),
     tooltip: pointTooltip(sweep, energyUnit, tooltip, p),
     legend: legendFor(series, p, size),
     grid,
     xAxis: { type: logX ? 'log' : 'value', name: `${axis.name}${unitSuffix(axis.unit)}`, nameLocation: 'middle', nameGap: 28, min: lo, max: hi, ...axisStyle(p), ...(logX ? {} : rangeTicks(lo, hi, size, p)) },
-    yAxis: plan.axes.map((kind, k) => valueAxis(kind, plan.lines.filter((l) => l.axis === k), pts, energyUnit, p, k)),
+    // The axis names above the label band (ECharts' default gap is 15 px).
+    yAxis: plan.axes.map((kind, k) => ({ ...valueAxis(kind, plan.lines.filter((l) => l.axis === k), pts, energyUnit, p, k), nameGap: 15 + band })),
     // No colour scale: in the panel this removes a map's scale when the same chart draws lines next.
     visualMap: [],
     series,
   };
-  return { option, notes: sweepNotes(sweep), empty: null };
+  return { option, notes: [...sweepNotes(sweep), ...located.unlabelled], empty: null };
 }
 
 /**
@@ -123,28 +130,29 @@ interface XFrame {
   width: number;
 }
 
-/** Label places along a vertical line, in the order close neighbours take them: left and right of the line at its top, then lower down. */
-const LABEL_PLACES = ['insideEndTop', 'insideEndBottom', 'insideMiddleTop', 'insideMiddleBottom', 'insideStartTop', 'insideStartBottom'] as const;
-
 /**
- * Vertical lines where the bound count steps (solid) or an expect line flips (dashed). Their labels
- * run along the lines; lines closer on screen than two text heights form a group whose members take
- * the places of `LABEL_PLACES` in turn, so no two labels are drawn over each other.
+ * Vertical lines where the bound count steps (solid) or an expect line flips (dashed), and the band
+ * of rows their labels take above the plot (placeLabels: labels close on screen are moved aside or up
+ * a row, so none is drawn over another). A label with no room in the band is left off its line and
+ * named in `unlabelled`, a note, instead.
  */
-export function locatedLines(sweep: SweepResult, p: Palette, frame: XFrame): Option | undefined {
+export function locatedLines(sweep: SweepResult, p: Palette, frame: XFrame): { option: Option | undefined; band: LabelBand; unlabelled: string[] } {
   const marks = sweep.located.filter((l) => l.row === null).sort((a, b) => a.at - b.at);
-  const near = 2 * p.fontSize + 4;
-  let group = 0;
-  let last = -Infinity;
-  const data = marks.map((l) => {
-    const x = xPixel(frame, l.at);
-    group = x - last < near ? group + 1 : 0;
-    last = x;
+  const text = (l: (typeof marks)[number]) => (l.kind === 'bound' ? `bound ${l.before} → ${l.after}` : `line ${sweep.expects[l.expect ?? 0]?.line ?? '?'} ${l.after ? 'holds' : 'fails'}`);
+  const band = placeLabels(marks.map((l) => ({ x: xPixel(frame, l.at), text: text(l) })), frame.left, frame.left + frame.width, p.fontSize);
+  const data = marks.map((l, k) => {
+    const place = band.places[k];
     return {
       xAxis: l.at,
       lineStyle: { color: p.muted, width: 1, type: l.kind === 'bound' ? 'solid' : 'dashed' },
-      label: { show: true, position: LABEL_PLACES[group % LABEL_PLACES.length], color: p.muted, formatter: l.kind === 'bound' ? `bound ${l.before} → ${l.after}` : `line ${sweep.expects[l.expect ?? 0]?.line ?? '?'} ${l.after ? 'holds' : 'fails'}` },
+      label: place === null ? { show: false } : { show: true, position: 'end', distance: [0, LABEL_GAP + place.row * labelRowHeight(p.fontSize)], align: place.align, color: p.muted, formatter: text(l) },
     };
   });
-  return data.length === 0 ? undefined : { silent: true, symbol: 'none', animation: false, data };
+  const axis = sweep.axes[0];
+  const unlabelled = marks.filter((_, k) => band.places[k] === null).map((l) => `${text(l)} at ${axis?.name ?? 'x'} = ${formatNumber(l.at, 4)}${axis?.unit ? ` ${axis.unit}` : ''}`);
+  return {
+    option: data.length === 0 ? undefined : { silent: true, symbol: 'none', animation: false, data },
+    band,
+    unlabelled: unlabelled.length === 0 ? [] : [`No room above the plot to label the line(s) at: ${unlabelled.join('; ')}.`],
+  };
 }
