@@ -138,7 +138,7 @@ function summaryItems(r: PanelResult): [string, string][] {
   ];
   if (r.continuum !== undefined) items.push(['continuum', continuumText(r.continuum)]);
   if (typeof r.meanQuantumNumber === 'number') items.push(['⟨n⟩', formatNumber(r.meanQuantumNumber, 5)]);
-  const decay = decayText(r.decay, { mixture: Boolean(r.mixture), kind: r.system?.kind });
+  const decay = decayText(r.decay, { mixture: Boolean(r.mixture), kind: r.system?.kind, parity: r.parity });
   if (decay !== null) items.push(['decay', decay]);
   return items;
 }

@@ -20,12 +20,12 @@ import { decayText } from '../../server/src/shared/decayText';
 import type { AnalysisResult } from '../../server/src/analysis/types';
 
 function text(r: AnalysisResult, ascii = false): string | null {
-  return decayText(r.decay, { mixture: Boolean(r.mixture), kind: r.system?.kind, ascii });
+  return decayText(r.decay, { mixture: Boolean(r.mixture), kind: r.system?.kind, ascii, parity: r.parity });
 }
 
 /** The ratio printed in "a factor R a level". */
 function ratioIn(t: string | null): number {
-  const m = /a factor ([0-9.e+-]+) a level/.exec(t ?? '');
+  const m = /a factor ([0-9.e+-]+) (a level|from one weighted level to the next)/.exec(t ?? '');
   expect(m, t ?? 'no text').not.toBeNull();
   return Number(m![1]);
 }
@@ -59,12 +59,18 @@ describe('decay wording of a box state', () => {
   it('a narrow Gaussian falls faster than any power: a geometric fall with its ratio, no exponent', () => {
     const r = box('exp(-(x - 0.5)^2 / (4 * 0.04^2))', 44);
     expect(r.decay?.exponent).toBeNull();
+    // Symmetric about the centre: only odd n hold weight, so the factor is from one odd n to the next.
+    expect(r.parity).toBe('even');
     const t = text(r)!;
-    expect(t).toMatch(/^\|c_n\| falls geometrically, by about a factor [0-9.]+ a level over n\s=\s\d+\.\.\d+: faster than any power of n, so ψ is smooth$/);
+    expect(t).toMatch(/^\|c_n\| falls geometrically, by about a factor [0-9.]+ from one weighted level to the next \(every second n\) over n\s=\s\d+\.\.\d+: faster than any power of n, so ψ is smooth$/);
     expect(t).not.toMatch(/n\^-/);
+    // The per-level ratio 0.25..0.48 (see the header) over two levels.
     const q = ratioIn(t);
-    expect(q).toBeGreaterThan(0.25);
-    expect(q).toBeLessThan(0.48);
+    expect(q).toBeGreaterThan(0.25 ** 2);
+    expect(q).toBeLessThan(0.48 ** 2);
+    // Without the symmetry the same fit reads per level.
+    const perLevel = ratioIn(decayText(r.decay, { mixture: false, kind: 'box', parity: 'mixed' }));
+    expect(Math.abs(perLevel * perLevel - q) / q).toBeLessThan(1e-2);
   });
 });
 

@@ -129,7 +129,7 @@ export function renderTable(result: AnalysisResult, text: string, file: string):
   }
   if (typeof result.meanQuantumNumber === 'number') lines.push(`mean quantum number <n>: ${num(result.meanQuantumNumber, 8)}`);
   if (result.parity) lines.push(`parity: ${result.parity}`);
-  const decay = decayText(result.decay, { mixture: Boolean(result.mixture), kind: result.system?.kind, ascii: true });
+  const decay = decayText(result.decay, { mixture: Boolean(result.mixture), kind: result.system?.kind, ascii: true, parity: result.parity });
   if (decay !== null) lines.push(`decay: ${decay}`);
   if (result.evolution) {
     // Times carry the file's time unit; a file with units but no time unit counts time in hbar per its energy unit.

@@ -29,6 +29,11 @@ export interface DecayTextOptions {
   kind: string | null | undefined;
   /** Plain ASCII (the command line) instead of Unicode (the panel). */
   ascii?: boolean;
+  /**
+   * The result's parity ('even' or 'odd': the state has one symmetry, so only every second level holds
+   * weight and a geometric fall is worded per populated step of 2 in n).
+   */
+  parity?: string | null;
 }
 
 /** An exponent off a whole number by more than this is not read as a jump in one derivative. */
@@ -86,5 +91,8 @@ export function decayText(decay: DecayFacts | null | undefined, options: DecayTe
   }
   const ratio = Math.exp(-(options.mixture ? 2 : 1) * rate);
   const smooth = options.mixture ? '' : `, so ${ascii ? 'psi' : 'ψ'} is smooth`;
-  return `${what} falls geometrically, by about a factor ${formatNumber(ratio, 3)} a level${over}: faster than any power of n${smooth}`;
+  // A state of one parity holds weight on every second level: the factor from one of them to the next.
+  const alternate = options.parity === 'even' || options.parity === 'odd';
+  const step = alternate ? `${formatNumber(ratio * ratio, 3)} from one weighted level to the next (every second n)` : `${formatNumber(ratio, 3)} a level`;
+  return `${what} falls geometrically, by about a factor ${step}${over}: faster than any power of n${smooth}`;
 }
