@@ -40,14 +40,19 @@ function beatEnergies(result: PanelResult): number[] {
 export function writtenTime(t: number, units: PanelResult['units']): { text: string; value: number } | null {
   if (units.time || !units.energy) {
     const v = niceCeil(t);
-    return { text: `${formatNumber(v, 3)}${units.time ? ` ${units.time}` : ''}`, value: v };
+    return { text: `${written(v)}${units.time ? ` ${units.time}` : ''}`, value: v };
   }
   const e = energyUnitSI(units.energy);
   if (e === null) return null;
   const seconds = (t * HBAR_SI) / e;
   const [name, size] = TIME_UNITS.find(([, s]) => seconds >= s) ?? TIME_UNITS[TIME_UNITS.length - 1]!;
   const v = niceCeil(seconds / size);
-  return { text: `${formatNumber(v, 3)} ${name}`, value: (v * size * e) / HBAR_SI };
+  return { text: `${written(v)} ${name}`, value: (v * size * e) / HBAR_SI };
+}
+
+/** A round duration as a user writes it: a whole number plainly (2000, not 2e3), else three digits. */
+function written(v: number): string {
+  return Number.isInteger(v) && Math.abs(v) < 1e6 ? String(v) : formatNumber(v, 3);
 }
 
 /** The hint shown (and printed by the command line) for a file without an `evolve` line. */
