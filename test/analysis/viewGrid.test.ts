@@ -72,6 +72,14 @@ describe('the panel grid of a pure state', () => {
     expect(s.x[j + 1]! - s.x[j - 1]!).toBeLessThan(1e-6);
   });
 
+  it('gives a mixture the same grid: dense where it lives, a point at each edge of the well', () => {
+    // A thermal mixture of the 9 nm well's own levels at 300 K (a scenario of our own): k_B T = 25.85 meV
+    // (CODATA k_B), so the ground level holds nearly all of it and the grid is dense over the well.
+    const s = samplesOf('units nm, meV\nmass 0.067 m_e\nsystem well(depth = 230 meV, width = 9 nm, barrier_mass = 0.088 m_e)\nstate thermal(temperature = 300 K) of well(depth = 230 meV, width = 9 nm, barrier_mass = 0.088 m_e)\n');
+    for (const edge of [-4.5, 4.5]) expect(s.x.some((x) => Math.abs(x - edge) < 1e-12), `a sample at ${edge} nm`).toBe(true);
+    expect(s.x.filter((x) => Math.abs(x) <= 4.5).length).toBeGreaterThan(100);
+  });
+
   it('keeps an even grid over a box the state fills', () => {
     // A box's ground level fills the box: the whole extent is dense, 400 evenly spaced points (the panel's default).
     const s = samplesOf('system box(0, 1)\nstate eigen(1) of box(0, 1)\n');
