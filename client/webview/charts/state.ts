@@ -47,6 +47,9 @@ export function energyWindow(result: PanelResult, shown: { lo: number; hi: numbe
 /** Share of the height below zero beyond which a shared zero would squash the other axis. */
 const MAX_SHARED_ZERO = 0.7;
 
+/** The plot area's margin left and right (room for each vertical axis's labels), in pixels. */
+const GRID_SIDE = 64;
+
 /** Intervals on each vertical axis of the state view. */
 const STATE_TICKS = 8;
 
@@ -237,11 +240,11 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
   const size = ctx.size ?? DEFAULT_SIZE;
   const top = plotTop(series.map((q) => String(q.name)), size, p);
   const bottom = Math.round(p.fontSize * 3.6);
-  const massNote = mass.axis ? labelMasses(ctx, series, { x: xr, axes: [axes.psi, axes.energy, mass.axis as unknown as Span], frame: { width: size.width - 128, height: size.height - top - bottom } }) : null;
+  const massNote = mass.axis ? labelMasses(ctx, series, { x: xr, axes: [axes.psi, axes.energy, mass.axis as unknown as Span], frame: { width: size.width - 2 * GRID_SIDE, height: size.height - top - bottom } }) : null;
   const option = {
     ...baseOption(p),
     legend: legendFor(series, p, ctx.size ?? DEFAULT_SIZE),
-    grid: { left: 64, right: 64, top, bottom },
+    grid: { left: GRID_SIDE, right: GRID_SIDE, top, bottom },
     tooltip: {
       ...(baseOption(p).tooltip as Option),
       trigger: 'axis',
