@@ -84,3 +84,17 @@ export function itemLayouts(chart: echarts.ECharts, id: string): ({ x: number; y
 export function yPixel(chart: echarts.ECharts, index: number, value: number): number {
   return chart.convertToPixel({ yAxisIndex: index }, value) as number;
 }
+
+/** The pixel x at which `value` sits on the first x axis. */
+export function xPixel(chart: echarts.ECharts, value: number): number {
+  return chart.convertToPixel({ xAxisIndex: 0 }, value) as number;
+}
+
+/** The points of the line series `id` as drawn (its laid-out polyline), in chart pixels; empty when it has none. */
+export function linePoints(chart: echarts.ECharts, id: string): [number, number][] {
+  const model = (chart as unknown as { getModel(): { getSeries(): { id: string; getData(): { getLayout(k: string): ArrayLike<number> | undefined } }[] } }).getModel();
+  const flat = model.getSeries().find((q) => q.id === id)?.getData().getLayout('points');
+  const out: [number, number][] = [];
+  if (flat) for (let j = 0; j + 1 < flat.length; j += 2) out.push([flat[j]!, flat[j + 1]!]);
+  return out;
+}

@@ -15,7 +15,7 @@ import { decayText } from '../../server/src/shared/decayText';
 import { readPalette, themeKind, type Palette, type ThemeKind } from './theme';
 import { capturedText, continuumText, DEFAULT_SETTINGS, describeView, effectiveScale, invalidates, missingEnergyText, type TooltipRows, type ViewSettings } from './charts';
 import { l2Distance, partialSum, sampledState } from './physics';
-import { axisLabels, drawnTexts, itemLayouts, yPixel } from './inspect';
+import { axisLabels, drawnTexts, itemLayouts, linePoints, xPixel, yPixel } from './inspect';
 import { pickedText, SweepTab, sweepStatus, syncQuantities } from './sweepTab';
 import { SWEEP_QUANTITIES, type SweepQuantity } from './charts/sweepQuantity';
 
@@ -515,6 +515,8 @@ new ResizeObserver(() => {
   axisLabels: () => axisLabels(charts[settings.tab]),
   itemLayouts: (id: string) => itemLayouts(charts[settings.tab], id),
   yPixel: (index: number, value: number) => yPixel(charts[settings.tab], index, value),
+  xPixel: (value: number) => xPixel(charts[settings.tab], value),
+  linePoints: (id: string) => linePoints(charts[settings.tab], id),
   /** Where datum `dataIndex` of series `id` lies, in page pixels (its first two values as x and y). */
   pixelOf: (id: string, dataIndex: number) => {
     const chart = charts[settings.tab];

@@ -75,6 +75,8 @@ type PanelApi = {
   axisLabels(): { x: string[][]; y: string[][] };
   itemLayouts(id: string): ({ x: number; y: number; width: number; height: number } | null)[];
   yPixel(index: number, value: number): number;
+  xPixel(value: number): number;
+  linePoints(id: string): [number, number][];
 };
 
 /** Calls one of the page's read-only inspection functions. */

@@ -12,19 +12,26 @@ import { bundleWebview, servePanel, launchChromium, artifacts, type PanelServer 
 const text = 'units nm, meV\nmass 0.067 m_e\nsystem well(depth = 250 meV, width = 8 nm, barrier_mass = 0.092 m_e)\nstate gaussian(center = 1 nm, width = 1.5 nm)\n';
 const { file: _f, ...result } = analyse(text, { samples: true, limits: { maxMillis: 60_000 } });
 
-type Series = { id?: string; data?: unknown[]; markLine?: { data: { xAxis: number; label: { formatter: string } }[] }; yAxisIndex?: number };
+type LabelItem = [{ coord: [number, number]; label: { formatter: string } }, { coord: [number, number] }];
+type Series = { id?: string; data?: unknown[]; markLine?: { data: ({ xAxis: number } | LabelItem)[] }; yAxisIndex?: number };
 
 describe('mass profile in the state view (option)', () => {
-  it('draws m(x) on its own hidden axis and labels each interface with the masses on its sides', () => {
+  it('draws m(x) on its own hidden axis, a line at each interface, and labels each region with its mass inside it', () => {
     const option = stateOption({ result, settings: { ...DEFAULT_SETTINGS }, palette: readPalette(() => '', 'dark'), tooltip: () => '' } as never) as { series: Series[]; yAxis: { show?: boolean }[] };
     const mass = option.series.find((s) => s.id === 'mass')!;
     expect(mass).toBeDefined();
     expect(mass.yAxisIndex).toBe(2);
     expect(option.yAxis[2]!.show).toBe(false);
     // The interfaces of the well: its edges at -4 and 4 nm, 0.092 m_e outside and 0.067 m_e inside.
-    expect(mass.markLine!.data.map((d) => d.xAxis)).toEqual([-4, 4]);
-    expect(mass.markLine!.data[0]!.label.formatter).toBe('m 0.092 | 0.067 m_e');
-    expect(mass.markLine!.data[1]!.label.formatter).toBe('m 0.067 | 0.092 m_e');
+    const marks = mass.markLine!.data;
+    expect(marks.filter((d) => !Array.isArray(d)).map((d) => (d as { xAxis: number }).xAxis)).toEqual([-4, 4]);
+    // One horizontal label a region, its whole width on its region's side of the interfaces (the label sits in the segment's middle).
+    const labels = marks.filter((d): d is LabelItem => Array.isArray(d)).map(([a, b]) => ({ text: a.label.formatter, from: a.coord[0], to: b.coord[0] }));
+    expect(labels.map((l) => l.text)).toEqual(['0.092 m_e', '0.067 m_e', '0.092 m_e']);
+    expect(labels[0]!.to).toBeLessThan(-4);
+    expect(labels[1]!.from).toBeGreaterThan(-4);
+    expect(labels[1]!.to).toBeLessThan(4);
+    expect(labels[2]!.from).toBeGreaterThan(4);
     const pairs = mass.data as [number, number][];
     for (const [x, m] of pairs) expect(m).toBeCloseTo(Math.abs(x) < 4 ? 0.067 : 0.092, 12);
   });

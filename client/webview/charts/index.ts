@@ -39,7 +39,7 @@ export function describeView(ctx: BuildContext): ViewDescription {
     case 'state': {
       if (!r.samples) return { option: null, notes: [], empty: 'No samples of the state were sent with this result.' };
       const c = stateChart(ctx);
-      return { option: c.option, notes: [...stateNotes(c.sharedZero, c.shown, r.units.length), ...(c.above ? [c.above] : [])], empty: null };
+      return { option: c.option, notes: [...stateNotes(c.sharedZero, c.shown, r.units.length), ...(c.above ? [c.above] : []), ...(c.mass ? [c.mass] : [])], empty: null };
     }
     case 'time':
       if (!r.evolution || r.evolution.times.length === 0) return { option: null, notes: [], empty: evolveHint(r) };

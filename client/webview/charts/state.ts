@@ -13,6 +13,8 @@ import { DEFAULT_SIZE, legendFor, plotTop, xTicks } from './layout';
 import { clean, niceAxis, niceBound, roundStep, valueAxis, type AxisRange } from './scale';
 import { rangeNote, xRange, type XRange } from './xrange';
 import { potentialAboveNote } from './potentialNote';
+import { massLabels } from './massLabels';
+import type { Span } from './freeBand';
 
 function anyNonZero(a: ArrayLike<number>): boolean {
   for (let j = 0; j < a.length; j++) if (Math.abs(a[j]!) > 1e-12) return true;
@@ -44,6 +46,9 @@ export function energyWindow(result: PanelResult, shown: { lo: number; hi: numbe
 
 /** Share of the height below zero beyond which a shared zero would squash the other axis. */
 const MAX_SHARED_ZERO = 0.7;
+
+/** The plot area's margin left and right (room for each vertical axis's labels), in pixels. */
+const GRID_SIDE = 64;
 
 /** Intervals on each vertical axis of the state view. */
 const STATE_TICKS = 8;
@@ -179,8 +184,8 @@ function psiSeries(ctx: BuildContext): { series: Option[]; range: [number, numbe
 
 /**
  * A mass that depends on x: its profile on a third, hidden axis from 0 (so its shape and the tooltip's
- * values show without a scale of its own) and a dashed vertical line at each interface, labelled with
- * the masses on its two sides. Nothing for a constant mass.
+ * values show without a scale of its own) and a dashed vertical line at each interface; the mass of each
+ * region is labelled inside it once the axes are known (massLabels.ts). Nothing for a constant mass.
  */
 function massSeries(ctx: BuildContext): { series: Option[]; axis: Option | null } {
   const s = ctx.result.samples!;
@@ -190,17 +195,11 @@ function massSeries(ctx: BuildContext): { series: Option[]; axis: Option | null 
   const unit = s.massUnit ? ` ${s.massUnit}` : '';
   let top = 0;
   for (const v of mass) if (Number.isFinite(v)) top = Math.max(top, v);
-  const side = (x: number, dir: -1 | 1): number => {
-    // The sample nearest to x on the given side.
-    let best = NaN;
-    for (let j = 0; j < s.x.length; j++) if ((s.x[j]! - x) * dir > 0 && (Number.isNaN(best) || Math.abs(s.x[j]! - x) < Math.abs(s.x[best]! - x))) best = j;
-    return Number.isNaN(best) ? NaN : mass[best]!;
-  };
   const interfaces = (Array.isArray(s.interfaces) ? s.interfaces : []).filter((x) => Number.isFinite(x));
   const marks = interfaces.map((x) => ({
     xAxis: x,
     lineStyle: { color: p.muted, width: 1, type: 'dashed' },
-    label: { show: true, position: 'insideEndTop', color: p.muted, formatter: `m ${formatNumber(side(x, -1), 3)} | ${formatNumber(side(x, 1), 3)}${unit}` },
+    label: { show: false },
   }));
   const series = line(ctx, 'mass', `m(x)${unit ? ` (${unit.trim()})` : ''}`, p.muted, pairs(s.x, Float64Array.from(mass)), {
     yAxisIndex: 2,
@@ -226,8 +225,8 @@ function densitySeries(ctx: BuildContext, density: Float64Array): { series: Opti
   return { series, range: [lo < -1e-2 * Math.max(hi, -lo) ? lo : 0, hi] };
 }
 
-/** The state view's chart option, whether its two vertical axes share their zero, the x window shown, and a note on V above the plot. */
-export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean; shown: XRange; above: string | null } {
+/** The state view's chart option, whether its two vertical axes share their zero, the x window shown, a note on V above the plot and one on the masses (when a label did not fit). */
+export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boolean; shown: XRange; above: string | null; mass: string | null } {
   const { result, palette: p } = ctx;
   const lu = result.units.length;
   const win = xRange(result);
@@ -238,10 +237,14 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
   const axes = stateAxes(psi.range, [elo, ehi]);
   const xr = niceAxis(win.lo, win.hi, xTicks(ctx.size ?? DEFAULT_SIZE));
   const nameGap = Math.round(p.fontSize * 2.2);
+  const size = ctx.size ?? DEFAULT_SIZE;
+  const top = plotTop(series.map((q) => String(q.name)), size, p);
+  const bottom = Math.round(p.fontSize * 3.6);
+  const massNote = mass.axis ? labelMasses(ctx, series, { x: xr, axes: [axes.psi, axes.energy, mass.axis as unknown as Span], frame: { width: size.width - 2 * GRID_SIDE, height: size.height - top - bottom } }) : null;
   const option = {
     ...baseOption(p),
     legend: legendFor(series, p, ctx.size ?? DEFAULT_SIZE),
-    grid: { left: 64, right: 64, top: plotTop(series.map((q) => String(q.name)), ctx.size ?? DEFAULT_SIZE, p), bottom: Math.round(p.fontSize * 3.6) },
+    grid: { left: GRID_SIDE, right: GRID_SIDE, top, bottom },
     tooltip: {
       ...(baseOption(p).tooltip as Option),
       trigger: 'axis',
@@ -256,7 +259,18 @@ export function stateChart(ctx: BuildContext): { option: Option; sharedZero: boo
     ],
     series,
   };
-  return { option, sharedZero: axes.shared, shown: win, above: potentialAboveNote(result, win, axes.energy.max) };
+  return { option, sharedZero: axes.shared, shown: win, above: potentialAboveNote(result, win, axes.energy.max), mass: massNote };
+}
+
+/** Puts the mass labels on the mass series (massLabels.ts); the note naming the regions when some label did not fit. */
+function labelMasses(ctx: BuildContext, series: Option[], plot: { x: Span; axes: Span[]; frame: { width: number; height: number } }): string | null {
+  const p = ctx.palette;
+  const target = series.find((q) => q.id === 'mass');
+  if (!target) return null;
+  const labels = massLabels(ctx.result, { ...plot, series, fontSize: p.fontSize, massAxis: 2, color: p.foreground, background: p.background }, ctx.result.units.length);
+  const mark = target.markLine as { data: unknown[] };
+  mark.data = [...mark.data, ...labels.lines];
+  return labels.note;
 }
 
 /** The state view's chart option. */

@@ -21,7 +21,8 @@ import type { BuiltBasis } from './systems';
 import { measureState, TOL } from './measure';
 import { STATE_CHECKS, stopFinding, type CheckContext } from './checks';
 import { checkExpects } from './expects';
-import { fillResult, plotGrid, samples, type NumericInput } from './numeric';
+import { fillResult, plotGrid, samples, VIEW_POINTS, type NumericInput } from './numeric';
+import { viewGrid } from './viewGrid';
 import { combineParts, type MeasuredPart } from './mixed';
 import { mixedParts, type MixedParts } from './mixedParts';
 import type { MixtureModel, ThermalModel } from './mixedModel';
@@ -66,7 +67,8 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   result.mixture = { kind: mp.kind, weights: mp.parts.map((p) => p.weight), omitted: mp.omitted };
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out, { basis, levels: m.levels, budget: ctx.budget });
-  const plotX = plotGrid(basis, m.window, input.plot?.points ?? 400);
+  // As for a pure state (numeric.ts): dense where the first part and the populated levels live, unless the export asks a number of points.
+  const plotX = input.plot?.points !== undefined ? plotGrid(basis, m.window, input.plot.points) : viewGrid(basis, m.window, mp.parts[0]!.state, m.levels, VIEW_POINTS);
   if (model.evolve) result.evolution = mixedEvolution(model, basis, measured, input.samples ? plotX : undefined, ctx);
   if (input.samples) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100, ctx.budget);
 }

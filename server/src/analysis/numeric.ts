@@ -23,6 +23,7 @@ import { fmt, warn } from './findings';
 import type { ComputeContext } from './context';
 import { resolvedCount, samplePoints } from './samplesState';
 import { massRegions, massSamples } from './massView';
+import { viewGrid } from './viewGrid';
 import { isMixed, mixedStage } from './mixedStage';
 import { tableOps } from './charged';
 import { Stopped, type Budget } from '../physics/budget';
@@ -118,7 +119,8 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   result.purity = 1;
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out, { basis: m.basis, levels: m.levels, budget: ctx.budget });
-  const plotX = plotGrid(m.basis, m.window, input.plot?.points ?? 400);
+  // An asked number of points (the export's) is evenly spaced; the panel's grid is dense where the state lives.
+  const plotX = input.plot?.points !== undefined ? plotGrid(m.basis, m.window, input.plot.points) : viewGrid(m.basis, m.window, s.state, m.levels, VIEW_POINTS);
   if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
   if (input.samples) {
     result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100, ctx.budget), ...massSamples(m.basis, plotX, model.units) };
@@ -215,6 +217,9 @@ export function plotGrid(basis: Eigenbasis, window: [number, number], n: number)
   for (let j = 0; j < n; j++) xs[j] = a + ((b - a) * j) / (n - 1);
   return xs;
 }
+
+/** Points of the panel's grid over where the state lives (viewGrid.ts). */
+export const VIEW_POINTS = 400;
 
 /** Levels drawn for a result the budget cut short: its plot is not worth what the limit saved. */
 export const CUT_PLOT_LEVELS = 12;

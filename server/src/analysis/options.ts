@@ -30,9 +30,11 @@ export interface AnalyseOptions {
    */
   data?: ReadonlyMap<string, DataFile>;
   /**
-   * The grid of the plot samples (with `samples: true`): `points` equally spaced points over the walls
-   * or the integration window (default 400), and the eigenfunctions of the first `levels` levels on it
-   * (default 100; the command line's `--samples` export asks for all of them).
+   * The grid of the plot samples (with `samples: true`): given `points`, that many equally spaced points
+   * over the walls or the integration window (the command line's `--samples` export); without it, a
+   * pure state's panel grid (viewGrid.ts: 400 points over where the state lives, a coarse grid over the
+   * rest, exact points at jumps and kinks). With the eigenfunctions of the first `levels` levels on it
+   * (default 100; the export asks for all of them).
    */
   plot?: { points?: number; levels?: number };
 }
