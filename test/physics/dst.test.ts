@@ -104,4 +104,20 @@ describe('boxCoefficientsFromSamples', () => {
       expect(Math.abs(c.im[n - 1] - wantIm)).toBeLessThan(1e-13);
     }
   });
+
+  it('a call leaves nothing behind for the next of the same size (the work arrays are reused)', () => {
+    const N = 256;
+    const x = Float64Array.from({ length: N + 1 }, (_, j) => Math.sin((3 * Math.PI * j) / N) + 0.2 * Math.sin((7 * Math.PI * j) / N));
+    const y = Float64Array.from({ length: N + 1 }, (_, j) => ((j / N) * (1 - j / N)) ** 2);
+    const first = boxCoefficientsFromSamples(x, null, 0, 1, 20);
+    // A complex call in between writes both work arrays; the real call after it must not see them.
+    boxCoefficientsFromSamples(y, x, 0, 1, 20);
+    const again = boxCoefficientsFromSamples(x, null, 0, 1, 20);
+    expect(Array.from(again.re)).toEqual(Array.from(first.re));
+    expect(Array.from(again.im)).toEqual(Array.from(first.im));
+    // sin(3 pi x) + 0.2 sin(7 pi x) on [0, 1]: c_3 = 1/sqrt(2), c_7 = 0.2/sqrt(2), the rest 0 (orthogonality).
+    expect(Math.abs(again.re[2]! - Math.SQRT1_2)).toBeLessThan(1e-14);
+    expect(Math.abs(again.re[6]! - 0.2 * Math.SQRT1_2)).toBeLessThan(1e-14);
+    expect(Math.max(...Array.from(again.im, Math.abs))).toBe(0);
+  });
 });

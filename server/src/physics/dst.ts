@@ -14,6 +14,14 @@ function halfSines(N: number): Float64Array {
   return sineTables.get(N);
 }
 
+/**
+ * The transform's work arrays of the recent sizes, filled anew by every call (each entry is written
+ * before the FFT reads it): a fresh pair a call made large transforms mostly allocation and collection.
+ * The engine runs one call at a time on a thread (a worker has its own module), and nothing is called
+ * back while the arrays are in use.
+ */
+const workArrays = new SizeTables((N: number) => ({ zr: new Float64Array(N), zi: new Float64Array(N) }), 2);
+
 /** Coefficients c_n = <phi_n|psi> of a box state, n = 1 ... count. */
 export interface BoxCoefficients {
   re: Float64Array;
@@ -61,8 +69,10 @@ export function boxCoefficientsFromSamples(
   // u_j = x_j + x_{N-j}, v_j = x_j - x_{N-j}. Then sum_j y_j sin(2 pi j k/N) = S_{2k} and
   // sum_j y_j cos(2 pi j k/N) = S_{2k+1} - S_{2k-1} (Press et al., Numerical Recipes, sine transform
   // section (from memory); rederived here). Both real sequences share one complex FFT (z = y^re + i y^im).
-  const zr = new Float64Array(N);
-  const zi = new Float64Array(N);
+  const { zr, zi } = workArrays.get(N);
+  zr[0] = 0;
+  zi[0] = 0;
+  if (!samplesIm) zi.fill(0);
   const sines = halfSines(N);
   for (let j = 1; j < N; j++) {
     const s = sines[j < N - j ? j : N - j];
