@@ -68,9 +68,9 @@ export function mixedStage(s: { input: NumericInput; built: BuiltBasis; count: n
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out, { basis, levels: m.levels, budget: ctx.budget });
   // As for a pure state (numeric.ts): dense where the first part and the populated levels live, unless the export asks a number of points.
-  const plotX = input.plot?.points !== undefined ? plotGrid(basis, m.window, input.plot.points) : viewGrid(basis, m.window, mp.parts[0]!.state, m.levels, VIEW_POINTS);
-  if (model.evolve) result.evolution = mixedEvolution(model, basis, measured, input.samples ? plotX : undefined, ctx);
-  if (input.samples) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100, ctx.budget);
+  const plotX = !input.samples ? undefined : input.plot?.points !== undefined ? plotGrid(basis, m.window, input.plot.points) : viewGrid(basis, m.window, mp.parts[0]!.state, m.levels, VIEW_POINTS);
+  if (model.evolve) result.evolution = mixedEvolution(model, basis, measured, plotX, ctx);
+  if (input.samples && plotX) result.samples = mixedSamples(mp, measured, basis, plotX, input.plot?.levels ?? 100, ctx.budget);
 }
 
 /** Coefficients of one measured part. */

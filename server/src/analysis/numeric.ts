@@ -120,9 +120,10 @@ function stateStage(s: { input: NumericInput; built: BuiltBasis; count: number; 
   if (ctx.budget.expired()) return;
   checkExpects(model, result, out, { basis: m.basis, levels: m.levels, budget: ctx.budget });
   // An asked number of points (the export's) is evenly spaced; the panel's grid is dense where the state lives.
-  const plotX = input.plot?.points !== undefined ? plotGrid(m.basis, m.window, input.plot.points) : viewGrid(m.basis, m.window, s.state, m.levels, VIEW_POINTS);
-  if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, input.samples ? plotX : undefined, ctx);
-  if (input.samples) {
+  // Only a result with samples needs the grid (viewGrid evaluates the state on its probes: not free).
+  const plotX = !input.samples ? undefined : input.plot?.points !== undefined ? plotGrid(m.basis, m.window, input.plot.points) : viewGrid(m.basis, m.window, s.state, m.levels, VIEW_POINTS);
+  if (model.evolve) result.evolution = evolution(model, m.basis, m.levels, plotX, ctx);
+  if (input.samples && plotX) {
     result.samples = { ...samples(s.state, m.basis, plotX, m.norm, m.levels, input.plot?.levels ?? 100, ctx.budget), ...massSamples(m.basis, plotX, model.units) };
     if (model.state?.model.kind === 'samples') result.samples.data = samplePoints(model.state.model, m.norm);
   }
