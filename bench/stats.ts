@@ -26,6 +26,12 @@ export interface MeasureOptions {
    * does and reports the time per job (default 2), so timer resolution does not dominate.
    */
   minSampleMs?: number;
+  /**
+   * Keep warming up (untimed) until this many milliseconds have passed (default: the environment variable EIGENSPAN_BENCH_WARMUP_MS, else 0: only `warmup`
+   * runs). The comparison of two builds sets it, so sub-millisecond jobs are timed after V8's
+   * optimising compiler is done with them rather than while it works.
+   */
+  warmupMs?: number;
 }
 
 /** The q-quantile (0..1) of sorted values by linear interpolation between order statistics (common practice). */
@@ -51,16 +57,23 @@ export function measure<T>(job: () => T, options: MeasureOptions = {}): { timing
   const reps = Math.max(1, Math.floor(options.reps ?? 9));
   const warmup = Math.max(0, Math.floor(options.warmup ?? 1));
   const minSample = options.minSampleMs ?? 2;
+  const warmupMs = options.warmupMs ?? (Number(process.env.EIGENSPAN_BENCH_WARMUP_MS) || 0);
   let result = job();
+  // Untimed warm-up: at least `warmup` runs, and for a short job until `warmupMs` have passed (at most
+  // 2,000 runs), so the optimising compiler has finished with it before the first timed sample.
   const t0 = performance.now();
-  for (let w = 1; w < warmup; w++) result = job();
-  const first = warmup > 1 ? (performance.now() - t0) / (warmup - 1) : NaN;
-  // Batch size from one timed run when the warm-up did not give one.
-  let one = first;
-  if (!(one >= 0)) {
+  let runs = 1;
+  while (runs < warmup || (performance.now() - t0 < warmupMs && runs < 2000)) {
+    result = job();
+    runs++;
+  }
+  // Batch size from the fastest of three timed single runs (one slow run must not make the batch short).
+  let one = Infinity;
+  for (let k = 0; k < 3; k++) {
     const t = performance.now();
     result = job();
-    one = performance.now() - t;
+    one = Math.min(one, performance.now() - t);
+    if (one >= minSample) break;
   }
   const batch = one >= minSample ? 1 : Math.min(1000, Math.max(1, Math.ceil(minSample / Math.max(one, 1e-3))));
   const times: number[] = [];

@@ -1,7 +1,7 @@
 // Old against new: the benchmark rows of two checkouts interleaved in one run (old rep, new rep, ...),
 // each row's medians over the reps and the ratio new/old.
 //
-//   node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--rows 1,4,6,cli] [--build] [--json OUT] [--partial OUT]
+//   node scripts/bench-compare.mjs OLD_CHECKOUT NEW_CHECKOUT [--reps 9] [--inner-reps 3] [--warmup-ms 300] [--rows 1,4,6,cli] [--build] [--json OUT] [--partial OUT]
 //
 // Each checkout is driven only through its own files, so the two may have different module layouts:
 // - its own bench suite: CHECKOUT/bench/suite.ts (whatever it imports inside that checkout) is bundled
@@ -9,7 +9,9 @@
 //   `runSuite({ reps: 3, only: [item] })` once in a fresh process; one process is one rep of the rows of
 //   that item, old and new alternating item by item (a row's figure in a rep is the suite's own median of that pass after its own warm-up run: of 3
 //   samples, 9 for sub-ms jobs; --inner-reps N asks the suite for N: 1 is quicker but leaves sub-ms
-//   jobs barely past the JIT's warm-up);
+//   jobs barely past the JIT's warm-up); both sides are bundled with THIS tree's bench/stats.ts (one
+//   stopwatch), and every job is first run untimed for --warmup-ms (default 300) milliseconds, so a
+//   sub-millisecond job is timed after V8 has optimised it, not while (EIGENSPAN_BENCH_WARMUP_MS);
 // - its own dist/cli.js: `node dist/cli.js expand examples/NAME --json` per example (the fixed command
 //   line of FORMAT.md), timed from here around spawnSync: rows `cli ...`.
 // Rows are matched by item and job text; a row only one side has is listed apart.
@@ -27,16 +29,17 @@ import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { cpus, loadavg, tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { pathToFileURL } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const MARK = '@@bench-compare@@';
 
 function parseArgs(argv) {
-  const out = { dirs: [], reps: 9, innerReps: 3, rows: null, build: false, json: null, partial: null };
+  const out = { dirs: [], reps: 9, innerReps: 3, warmupMs: 300, rows: null, build: false, json: null, partial: null };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i];
     if (a === '--reps') out.reps = Math.max(1, Number(argv[++i]));
     else if (a === '--inner-reps') out.innerReps = Math.max(1, Number(argv[++i]));
+    else if (a === '--warmup-ms') out.warmupMs = Math.max(0, Number(argv[++i]));
     else if (a === '--rows') out.rows = argv[++i].split(',').filter((s) => s !== '');
     else if (a === '--build') out.build = true;
     else if (a === '--json') out.json = argv[++i];
@@ -88,6 +91,22 @@ const onlyPlugin = {
   },
 };
 
+/** This tree's timing helpers (bench/stats.ts), which both checkouts' suites are bundled with. */
+export const HARNESS = fileURLToPath(new URL('../bench/stats.ts', import.meta.url));
+
+/**
+ * One stopwatch for both sides: the suite's `./stats` import resolves to this tree's bench/stats.ts
+ * in both checkouts, so old and new are timed by the same warm-up, batching and summary (an older
+ * stats.ts timed sub-millisecond jobs after a single warm-up run, while V8 was still optimising them).
+ * The harness must export every name the older suite imports from it (it has only grown).
+ */
+const harnessPlugin = {
+  name: 'bench-compare-harness',
+  setup(b) {
+    b.onResolve({ filter: /^\.\/stats(\.ts)?$/ }, (args) => (/[\\/]bench$/.test(args.resolveDir) ? { path: HARNESS } : undefined));
+  },
+};
+
 /** Bundles the checkout's own bench/suite.ts into a script that runs one suite pass and prints it. */
 export async function bundleWorker(dir, tmp, name) {
   if (!existsSync(join(dir, 'bench', 'suite.ts'))) return null;
@@ -107,15 +126,16 @@ export async function bundleWorker(dir, tmp, name) {
     format: 'cjs',
     outfile,
     external: ['esbuild'],
-    plugins: [onlyPlugin],
+    plugins: [onlyPlugin, harnessPlugin],
     logLevel: 'error',
   });
   return outfile;
 }
 
 /** One suite pass in a fresh process (no heap or JIT state carried from pass to pass or side to side). */
-export function suitePass(file, cwd, req) {
-  const r = spawnSync(process.execPath, [file, JSON.stringify(req)], { cwd, encoding: 'utf8', maxBuffer: 1 << 28, stdio: ['ignore', 'pipe', 'inherit'] });
+export function suitePass(file, cwd, req, warmupMs = 0) {
+  const env = { ...process.env, EIGENSPAN_BENCH_WARMUP_MS: String(warmupMs) };
+  const r = spawnSync(process.execPath, [file, JSON.stringify(req)], { cwd, env, encoding: 'utf8', maxBuffer: 1 << 28, stdio: ['ignore', 'pipe', 'inherit'] });
   const line = (r.stdout ?? '').split('\n').find((l) => l.startsWith(MARK));
   if (!line) throw new Error(`the suite of ${cwd} printed no result (exit ${r.status ?? r.signal})`);
   const out = JSON.parse(line.slice(MARK.length));
@@ -256,7 +276,7 @@ async function main() {
           const pass = new Map();
           if (unit.item !== undefined) {
             if (!workers[i]) continue;
-            for (const [k, v] of figures(suitePass(workers[i], args.dirs[i], { root: views[i], reps: args.innerReps, only: [unit.item] }))) if (itemOf(k) === unit.item) pass.set(k, v);
+            for (const [k, v] of figures(suitePass(workers[i], args.dirs[i], { root: views[i], reps: args.innerReps, only: [unit.item] }, args.warmupMs))) if (itemOf(k) === unit.item) pass.set(k, v);
           } else for (const [k, v] of cliPass(args.dirs[i], [unit.name])) pass.set(k, v);
           if (rep >= 0) collect(samples[i], pass); // rep -1 warms the cli rows up and is not counted
           remember(pass);
@@ -279,7 +299,7 @@ function headerOf(args, items, wantCli, done, loads) {
     `Old against new, ${new Date().toISOString()}, node ${process.version}, ${cpus().length} x ${cpus()[0]?.model ?? 'unknown'}, load average now ${loadavg().map((v) => v.toFixed(1)).join(' ')}${range}`,
     `old: ${args.dirs[0]} (${gitHead(args.dirs[0])})`,
     `new: ${args.dirs[1]} (${gitHead(args.dirs[1])})`,
-    `interleaved per item and per example: old, new, old, new, ... ${done} of ${args.reps} reps each (a suite item in a fresh process, ${args.innerReps} run(s) a job inside it) after one warm-up of the cli rows; items ${items.join(', ') || 'none'}${wantCli ? ', cli' : ''}`,
+    `interleaved per item and per example: old, new, old, new, ... ${done} of ${args.reps} reps each (a suite item in a fresh process, ${args.innerReps} run(s) a job inside it after ${args.warmupMs} ms of untimed warm-up, both sides timed by this tree's bench/stats.ts) after one warm-up of the cli rows; items ${items.join(', ') || 'none'}${wantCli ? ', cli' : ''}`,
   ];
 }
 

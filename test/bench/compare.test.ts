@@ -1,9 +1,9 @@
 import { describe, it, expect } from 'vitest';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 // @ts-expect-error: a plain .mjs script without type declarations
-import { bundleWorker, figures, injectOnly, report, suitePass } from '../../scripts/bench-compare.mjs';
+import { HARNESS, bundleWorker, figures, injectOnly, report, suitePass } from '../../scripts/bench-compare.mjs';
 
 // scripts/bench-compare.mjs: the parts that decide what is compared. No timing is asserted.
 describe('bench-compare', () => {
@@ -42,6 +42,35 @@ describe('bench-compare', () => {
       const keys = [...figures(result).keys()];
       expect(keys.some((k: string) => k.startsWith('[1] box:'))).toBe(true);
       expect(keys.some((k: string) => k.startsWith('[1] scaling:'))).toBe(true);
+    } finally {
+      rmSync(tmp, { recursive: true, force: true });
+    }
+  });
+
+  it('times both checkouts with this tree\'s stopwatch, not the checkout\'s own bench/stats.ts', async () => {
+    const tmp = mkdtempSync(join(tmpdir(), 'eigenspan-compare-test-'));
+    try {
+      // A checkout whose own stats.ts would fail: the bundle must take this tree's instead.
+      const fake = join(tmp, 'checkout');
+      mkdirSync(join(fake, 'bench'), { recursive: true });
+      writeFileSync(join(fake, 'bench', 'stats.ts'), "export function measure(): never { throw new Error('the checkout\\'s own stats.ts'); }\n");
+      writeFileSync(
+        join(fake, 'bench', 'suite.ts'),
+        [
+          "import { measure } from './stats';",
+          'export function runSuite(options: { reps?: number }) {',
+          '  let calls = 0;',
+          '  const m = measure(() => ++calls, { reps: options.reps ?? 1, minSampleMs: 0 });',
+          "  return { rows: [{ item: 1, job: 'counted', timing: m.timing, accuracy: { value: calls } }], scaling: [] };",
+          '}',
+        ].join('\n'),
+      );
+      const file: string = await bundleWorker(fake, tmp, 'fake');
+      const result = suitePass(file, fake, { reps: 4 }, 0);
+      expect(HARNESS.endsWith(join('bench', 'stats.ts'))).toBe(true);
+      expect(result.rows[0].timing.runs).toBe(4);
+      // One run before the warm-up loop, none more at warmup 1, up to three for the batch size, four timed.
+      expect(result.rows[0].accuracy.value).toBeGreaterThanOrEqual(5);
     } finally {
       rmSync(tmp, { recursive: true, force: true });
     }
