@@ -8,6 +8,13 @@ import type { FineSurvival } from '../physics/survival';
 /** Adds `survivalTimes` (display units, by `toDisplay`) and `survivalFine`; nothing when the budget stopped it. */
 export function addFineSurvival(res: EvolutionResult, fine: FineSurvival, toDisplay: (t: number) => number): void {
   if (fine.stopped !== null || fine.times.length < 2) return;
-  res.survivalTimes = Array.from(fine.times, toDisplay);
-  res.survivalFine = Array.from(fine.survival);
+  const n = fine.times.length;
+  const times: number[] = new Array(n);
+  const survival: number[] = new Array(n);
+  for (let j = 0; j < n; j++) {
+    times[j] = toDisplay(fine.times[j]);
+    survival[j] = fine.survival[j];
+  }
+  res.survivalTimes = times;
+  res.survivalFine = survival;
 }

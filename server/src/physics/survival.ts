@@ -6,6 +6,9 @@
  */
 import { unlimitedBudget, type Budget, type StopReason } from './budget';
 
+/** Times between two direct evaluations of the phases (the rotation recurrence runs between them). */
+const RESYNC = 32;
+
 /** Options of `fineSurvival`, with their defaults. */
 export interface FineSurvivalOptions {
   /** Samples a period of the fastest relevant beat (default 16). */
@@ -77,6 +80,24 @@ export function fineSurvival(energies: Float64Array, cRe: Float64Array, cIm: Flo
   const times = new Float64Array(m + 1);
   const survival = new Float64Array(m + 1);
   const budget = options.budget ?? unlimitedBudget();
+  // e^{-i E_k t_j} by rotation from one time to the next (t_j equally spaced), recomputed from cos and
+  // sin every RESYNC times so the recurrence's rounding stays a few eps; only levels with weight.
+  const live: number[] = [];
+  for (let k = 0; k < n; k++) if (p[k] !== 0) live.push(k);
+  const q = live.length;
+  const w = new Float64Array(q);
+  const e = new Float64Array(q);
+  const cr = new Float64Array(q);
+  const ci = new Float64Array(q);
+  const dr = new Float64Array(q);
+  const di = new Float64Array(q);
+  for (let i = 0; i < q; i++) {
+    w[i] = p[live[i]];
+    e[i] = E[live[i]];
+    dr[i] = Math.cos((e[i] * tEnd) / m);
+    di[i] = Math.sin((e[i] * tEnd) / m);
+  }
+  const norm = total > 0 ? 1 / (total * total) : NaN;
   for (let j = 0; j <= m; j++) {
     if ((j & 255) === 0) {
       budget.count(256 * n);
@@ -86,12 +107,26 @@ export function fineSurvival(energies: Float64Array, cRe: Float64Array, cIm: Flo
     times[j] = t;
     let sr = 0;
     let si = 0;
-    for (let k = 0; k < n; k++) {
-      if (p[k] === 0) continue;
-      sr += p[k] * Math.cos(E[k] * t);
-      si += p[k] * Math.sin(E[k] * t);
+    if (j % RESYNC === 0) {
+      for (let i = 0; i < q; i++) {
+        const c = Math.cos(e[i] * t);
+        const sn = Math.sin(e[i] * t);
+        cr[i] = c;
+        ci[i] = sn;
+        sr += w[i] * c;
+        si += w[i] * sn;
+      }
+    } else {
+      for (let i = 0; i < q; i++) {
+        const c = cr[i] * dr[i] - ci[i] * di[i];
+        const sn = ci[i] * dr[i] + cr[i] * di[i];
+        cr[i] = c;
+        ci[i] = sn;
+        sr += w[i] * c;
+        si += w[i] * sn;
+      }
     }
-    survival[j] = total > 0 ? (sr * sr + si * si) / (total * total) : NaN;
+    survival[j] = (sr * sr + si * si) * norm;
   }
   return { times, survival, refine, beatPeriod, stopped: null };
 }
