@@ -2,45 +2,25 @@
  * What looking at every view of every example in the light and dark themes, at 480 px and 1400 px,
  * found, in headless Chromium with real engine results (one test per fix).
  */
-import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
+import { describe, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import type { Browser, Page } from 'playwright-core';
-import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import type { Page } from 'playwright-core';
+import { panelSuite } from './suite';
 import { runSweep } from '../../server/src/analysis/sweep/index';
 import type { SweepResult } from '../../server/src/analysis/sweep/types';
 import { messageFor, messageForFile, openPanel, openTab, overlaps, panel, post, resultOf } from './driver';
 
-let browser: Browser;
-let server: PanelServer;
 let page: Page;
 let narrow: Page;
 let version = 0;
 const errors: string[] = [];
-let setupError: unknown = null;
-
-beforeAll(async () => {
-  try {
-    server = await servePanel(await bundleWebview());
-    browser = await launchChromium();
+const it = panelSuite({
+  errors,
+  ready: async ({ browser, server }) => {
     page = await openPanel(browser, server.origin, 1100, 720, errors);
     narrow = await openPanel(browser, server.origin, 480, 900, errors);
-  } catch (e) {
-    setupError = e;
-  }
-}, 120_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
+  },
 });
-
-function it(name: string, body: () => Promise<void>, timeout?: number): void {
-  vitestIt(name, async () => {
-    if (setupError) throw setupError;
-    await body();
-    expect(errors).toEqual([]);
-  }, timeout);
-}
 
 const show = (path: string, p: Page = page) => post(p, messageForFile(path, ++version));
 const showText = (source: string, p: Page = page) => post(p, messageFor(source, ++version, 'file:///ws/scenario.qstate'));

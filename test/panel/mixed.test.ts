@@ -3,48 +3,28 @@
  * <x|rho|x> in the state view instead of Re/Im psi, the purity in the summary, and no NaN anywhere
  * although the levels' re and im are null.
  */
-import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
+import { describe, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
-import type { Browser, Page } from 'playwright-core';
-import { artifacts, bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import type { Page } from 'playwright-core';
+import { artifacts } from './harness';
+import { panelSuite } from './suite';
 import { messageFor, openPanel, openTab, panel, post, resultOf } from './driver';
 
 const source = readFileSync('examples/thermal-ion-shift.qstate', 'utf8');
 const { result } = resultOf(source);
 
-let browser: Browser;
-let server: PanelServer;
 let page: Page;
 const errors: string[] = [];
-let setupError: unknown = null;
-
-beforeAll(async () => {
-  try {
+const it = panelSuite({
+  ready: async ({ browser, server }) => {
     // Preconditions: a real mixed result with its density samples.
     expect(result.mixture?.kind).toBe('thermal');
     expect(result.levels.every((l) => l.re === null && l.im === null)).toBe(true);
     expect(result.samples?.density?.length).toBe(result.samples?.x.length);
-    server = await servePanel(await bundleWebview());
-    browser = await launchChromium();
     page = await openPanel(browser, server.origin, 1100, 680, errors);
     await post(page, messageFor(source, 1, 'file:///ws/thermal-ion-shift.qstate'));
-  } catch (e) {
-    setupError = e;
-  }
-}, 120_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
+  },
 });
-
-/** `it` whose body runs only after a successful setup (a missing Chromium fails every test). */
-function it(name: string, body: () => Promise<void>): void {
-  vitestIt(name, async () => {
-    if (setupError) throw setupError;
-    await body();
-  });
-}
 
 const seriesData = async (id: string): Promise<unknown[] | null> => (await panel(page, 'inspect')).series.find((s) => s.id === id)?.data ?? null;
 

@@ -3,10 +3,11 @@
  * findings beside the plots, the time view's honesty about what it shows, rounded and non-overlapping
  * labels, named symmetry classes and no numerical noise shown as data.
  */
-import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
+import { describe, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
-import { bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import { type PanelServer } from './harness';
+import { panelSuite } from './suite';
 import { messageFor, messageForFile, openPanel, openTab, overlaps, panel, post, resultOf } from './driver';
 
 const plateauFile = 'test/panel/fixtures/centre-plateau.qstate';
@@ -18,33 +19,12 @@ let server: PanelServer;
 let page: Page;
 let version = 0;
 const errors: string[] = [];
-let setupError: unknown = null;
-
-beforeAll(async () => {
-  try {
-    server = await servePanel(await bundleWebview());
-    browser = await launchChromium();
+const it = panelSuite({
+  ready: async (up) => {
+    ({ browser, server } = up);
     page = await openPanel(browser, server.origin, 1100, 720, errors);
-  } catch (e) {
-    setupError = e;
-  }
-}, 120_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
+  },
 });
-
-function it(name: string, body: () => Promise<void>, timeout?: number): void {
-  vitestIt(
-    name,
-    async () => {
-      if (setupError) throw setupError;
-      await body();
-    },
-    timeout,
-  );
-}
 
 const show = (path: string, p: Page = page) => post(p, messageForFile(path, ++version));
 const text = async (sel: string, p: Page = page) => (await p.textContent(sel)) ?? '';

@@ -6,7 +6,7 @@
  * the language server) opens the state view on that point with a way back. A two-parameter map; the
  * themes and the narrow and wide widths with no text drawn over other text.
  */
-import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
+import { describe, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { analyse } from '../../server/src/analysis/index';
@@ -16,7 +16,8 @@ import type { SweepResult } from '../../server/src/analysis/sweep/types';
 import { sweepFrame } from '../../client/src/sweepFrame';
 import { pointRows } from '../../client/webview/charts/sweepQuantity';
 import { formatNumber } from '../../server/src/shared/numbers';
-import { artifacts, bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import { artifacts, type PanelServer } from './harness';
+import { panelSuite } from './suite';
 import { messageFor, openPanel, overlaps, panel, post } from './driver';
 
 const GATE_TEXT = readFileSync('examples/gate-widened-well.qstate', 'utf8');
@@ -35,33 +36,18 @@ let browser: Browser;
 let server: PanelServer;
 let page: Page;
 const errors: string[] = [];
-let setupError: unknown = null;
-
-beforeAll(async () => {
-  try {
+const it = panelSuite({
+  setupTimeout: 180_000,
+  testTimeout: 60_000,
+  ready: async (up) => {
+    ({ browser, server } = up);
     // Preconditions: the engine's sweep finished, with its window and located places.
     expect(gate.finished).toBe(19);
     expect(gate.windows.length).toBeGreaterThan(0);
     expect(map.axes).toHaveLength(2);
-    server = await servePanel(await bundleWebview());
-    browser = await launchChromium();
     page = await openPanel(browser, server.origin, 1100, 720, errors);
-  } catch (e) {
-    setupError = e;
-  }
-}, 180_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
+  },
 });
-
-function it(name: string, body: () => Promise<void>): void {
-  vitestIt(name, async () => {
-    if (setupError) throw setupError;
-    await body();
-  }, 60_000);
-}
 
 type Series = { id: string; data: unknown[][] };
 const series = async (p: Page = page) => (await panel(p, 'inspect')).series as unknown as Series[];

@@ -5,12 +5,13 @@
  * the straight segments between them, read from the chart instance), no label meets another text
  * (tick labels, axis titles, legend), and each label still touches its line's x position.
  */
-import { describe, it as vitestIt, expect, beforeAll, afterAll } from 'vitest';
+import { describe, expect } from 'vitest';
 import { readFileSync } from 'node:fs';
 import type { Browser, Page } from 'playwright-core';
 import { runSweep } from '../../server/src/analysis/sweep/index';
 import type { SweepResult } from '../../server/src/analysis/sweep/types';
-import { artifacts, bundleWebview, servePanel, launchChromium, type PanelServer } from './harness';
+import { artifacts, type PanelServer } from './harness';
+import { panelSuite } from './suite';
 import { messageFor, openPanel, overlaps, panel, post, type DrawnText } from './driver';
 
 const GATE_TEXT = readFileSync('examples/gate-widened-well.qstate', 'utf8');
@@ -25,30 +26,15 @@ const labelOf = (l: SweepResult['located'][number]) => (l.kind === 'bound' ? `bo
 let browser: Browser;
 let server: PanelServer;
 const errors: string[] = [];
-let setupError: unknown = null;
-
-beforeAll(async () => {
-  try {
+const it = panelSuite({
+  setupTimeout: 180_000,
+  testTimeout: 120_000,
+  ready: async (up) => {
+    ({ browser, server } = up);
     // Precondition: the engine located the places the labels name (a bound step and the expect line's flips).
     expect(gate.located.filter((l) => l.row === null).length).toBeGreaterThanOrEqual(3);
-    server = await servePanel(await bundleWebview());
-    browser = await launchChromium();
-  } catch (e) {
-    setupError = e;
-  }
-}, 180_000);
-
-afterAll(async () => {
-  await browser?.close();
-  await server?.close();
+  },
 });
-
-function it(name: string, body: () => Promise<void>): void {
-  vitestIt(name, async () => {
-    if (setupError) throw setupError;
-    await body();
-  }, 120_000);
-}
 
 type Pixel = { x: number; y: number };
 
