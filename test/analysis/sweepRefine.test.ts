@@ -203,3 +203,28 @@ describe('the map of width and depth', () => {
     expect(result.probes).toBeLessThanOrEqual(3 * steps + 8 * flips);
   });
 });
+
+describe('the bound-level step of a numerical potential by its gauge', () => {
+  // A Poeschl-Teller well -D sech^2 x (hbar = m = 1) binds a second level once D passes l (l + 1) / 2 with
+  // l = 1, D = 1 (Poeschl & Teller, Z. Phys. 83, 143 (1933)); between walls at -8 and 8 the engine counts
+  // levels below V at the walls, so its step lies a little above that (the walls push the level up).
+  const text = 'let D = 1\nsystem V(x) = -D / cosh(x)^2 over [-8, 8]\nstate gaussian(center = 0, width = 1)\nbasis 10\nsweep D from 0.5 to 1.5 steps 2\n';
+
+  it('agrees with bisection on the count, with a fifth of its probes', () => {
+    const { job, outcomes } = setup(text);
+    expect(outcomes.map((o) => o!.point.bound)).toEqual([1, 1, 2]);
+    const lo = { t: 0.5, out: outcomes[1]! };
+    const hi = { t: 1, out: outcomes[2]! };
+    const gauge = { probes: 0 };
+    const bisect = { probes: 0 };
+    const [a] = boundSteps(lo, hi, refiner(job, gauge));
+    const [b] = bisectSteps(lo, hi, refiner(job, bisect), 0);
+    const [x, y] = [a!.lo.out.point.at[0]!, a!.hi.out.point.at[0]!];
+    const [u, w] = [b!.lo.out.point.at[0]!, b!.hi.out.point.at[0]!];
+    expect(y - x).toBeLessThanOrEqual(REFINE_RELATIVE * y);
+    expect(Math.max(x, u)).toBeLessThanOrEqual(Math.min(y, w));
+    // Above the free well's threshold D = 1 (derived in the comment above), below the next point.
+    expect(x).toBeGreaterThan(1);
+    expect(gauge.probes * 5).toBeLessThanOrEqual(bisect.probes);
+  });
+});
