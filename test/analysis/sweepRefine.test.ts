@@ -228,3 +228,22 @@ describe('the bound-level step of a numerical potential by its gauge', () => {
     expect(gauge.probes * 5).toBeLessThanOrEqual(bisect.probes);
   });
 });
+
+describe('a sweep downwards over several steps in one interval', () => {
+  it('finds each step on its own, in the sweep direction, at the closed form', () => {
+    // hbar = m = 1, width 2 (a = 1): z0 = sqrt(2 D), and level k + 1 binds at D = k^2 pi^2 / 8 (Griffiths,
+    // finite square well (from memory); derived: z0 = k pi / 2). From D = 40 down to 0.5 in two steps the
+    // counts are 6, 5 and 1: one step in the first interval, four in the second.
+    const { result } = runSweep('let D = 5\nsystem well(depth = D, width = 2)\nstate gaussian(center = 0, width = 0.5)\nsweep D from 40 to 0.5 steps 2\n')!;
+    expect(result.points.map((p) => p!.bound)).toEqual([6, 5, 1]);
+    const steps = result.located.filter((l) => l.kind === 'bound');
+    expect(steps.map((s) => [s.before, s.after])).toEqual([[6, 5], [5, 4], [4, 3], [3, 2], [2, 1]]);
+    steps.forEach((s, i) => {
+      const k = 5 - i;
+      const want = (k * k * Math.PI * Math.PI) / 8;
+      expect(Math.abs(s.at - want) / want).toBeLessThan(REFINE_RELATIVE);
+    });
+    // Two probes a step (the guess, then one least step past it) and a few more for a curved gauge.
+    expect(result.probes).toBeLessThanOrEqual(4 * steps.length);
+  });
+});
