@@ -5,7 +5,7 @@
  */
 import type { Budget } from '../../physics/budget';
 import { evaluatePoint, type PointOutcome } from './point';
-import { boundSteps, expectFlip, type Closed, type Probe, type Prober } from './refine';
+import { boundSteps, expectFlip, REFINE_RELATIVE, type Closed, type Probe, type Refiner } from './refine';
 import type { SweepLocated, SweepWindow } from './types';
 import type { SweepJob } from './index';
 import { displayOf } from './display';
@@ -48,7 +48,7 @@ export function locateAll(job: SweepJob, outcomes: (PointOutcome | null)[], budg
       return out.complete ? out : null;
     };
     const line = Array.from({ length: n0 }, (_, i) => outcomes[i + n0 * j] ?? null);
-    locateRow(job, line, row, probe, budget, found);
+    locateRow(job, line, row, { probe, budget, axis: 0, minStep: minStepOf(job, 0), logAxis: axes[0]!.spacing === 'log' }, found);
   }
   if (axes.length > 1) locateColumns(job, outcomes, budget, found);
   if (budget.reason !== null) found.cut = true;
@@ -74,19 +74,20 @@ function locateColumns(job: SweepJob, outcomes: (PointOutcome | null)[], budget:
       const out = evaluatePoint(job.setting, [t0, t], [], budget, systemOnly);
       return out.complete ? out : null;
     };
+    const r: Refiner = { probe, budget, axis: 1, minStep: minStepOf(job, 1), logAxis: a1.spacing === 'log' };
     for (let j = 0; j < a1.steps; j++) {
       const a = outcomes[i + n0 * j] ?? null;
       const b = outcomes[i + n0 * (j + 1)] ?? null;
       if (!usable(a) || !usable(b)) continue;
       const lo: Probe = { t: j / a1.steps, out: a };
       const hi: Probe = { t: (j + 1) / a1.steps, out: b };
-      for (const c of boundSteps(lo, hi, probe, budget, 1)) {
+      for (const c of boundSteps(lo, hi, r)) {
         const [x, y] = span(c, 1);
         found.located.push({ kind: 'bound', axis: 1, at: 0.5 * (x + y), bracket: [x, y], before: c.lo.out.point.bound!, after: c.hi.out.point.bound!, row: col });
       }
       a.point.expects.forEach((va, e) => {
         if (va === b.point.expects[e]) return;
-        const [x, y] = span(expectFlip(e, lo, hi, probe, budget, 1), 1);
+        const [x, y] = span(expectFlip(e, lo, hi, r), 1);
         found.located.push({ kind: 'expect', axis: 1, expect: e, at: 0.5 * (x + y), bracket: [x, y], before: va ? 1 : 0, after: va ? 0 : 1, row: col });
       });
     }
@@ -96,6 +97,18 @@ function locateColumns(job: SweepJob, outcomes: (PointOutcome | null)[], budget:
 function axisValue(job: SweepJob, k: number, t: number): number {
   const a = job.setting.axes[k]!;
   return a.spacing === 'log' ? a.from * Math.pow(a.to / a.from, t) : a.from + (a.to - a.from) * t;
+}
+
+/**
+ * The fraction step near t that moves axis k's value by 0.4 of the closing width (`REFINE_RELATIVE` of
+ * the value): d(ln v)/dt is ln(to / from) on a log axis and (to - from) / v on a linear one.
+ */
+function minStepOf(job: SweepJob, k: number): (t: number) => number {
+  const a = job.setting.axes[k]!;
+  return (t) => {
+    const rate = a.spacing === 'log' ? Math.abs(Math.log(a.to / a.from)) : Math.abs(a.to - a.from) / Math.abs(a.from + (a.to - a.from) * t);
+    return (0.4 * REFINE_RELATIVE) / rate;
+  };
 }
 
 function usable(p: PointOutcome | null): p is PointOutcome {
@@ -113,7 +126,7 @@ function span(c: Closed, axis = 0): [number, number] {
 }
 
 /** One row: the located changes of each interval, then the windows. */
-function locateRow(job: SweepJob, line: (PointOutcome | null)[], row: number | null, probe: Prober, budget: Budget, found: Located): void {
+function locateRow(job: SweepJob, line: (PointOutcome | null)[], row: number | null, r: Refiner, found: Located): void {
   const steps = job.setting.axes[0]!.steps;
   const flips: Flip[][] = [];
   for (let i = 0; i + 1 < line.length; i++) {
@@ -123,13 +136,13 @@ function locateRow(job: SweepJob, line: (PointOutcome | null)[], row: number | n
     if (!usable(a) || !usable(b)) continue;
     const lo: Probe = { t: i / steps, out: a };
     const hi: Probe = { t: (i + 1) / steps, out: b };
-    for (const c of boundSteps(lo, hi, probe, budget)) {
+    for (const c of boundSteps(lo, hi, r)) {
       const [x, y] = span(c);
       found.located.push({ kind: 'bound', axis: 0, at: 0.5 * (x + y), bracket: [x, y], before: c.lo.out.point.bound!, after: c.hi.out.point.bound!, row });
     }
     a.point.expects.forEach((va, e) => {
       if (va === b.point.expects[e]) return;
-      const c = expectFlip(e, lo, hi, probe, budget);
+      const c = expectFlip(e, lo, hi, r);
       const [x, y] = span(c);
       found.located.push({ kind: 'expect', axis: 0, expect: e, at: 0.5 * (x + y), bracket: [x, y], before: va ? 1 : 0, after: va ? 0 : 1, row });
       flips[i]!.push({ e, closed: c, up: !va });

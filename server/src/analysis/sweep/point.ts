@@ -17,6 +17,7 @@ import { evaluationFinding } from '../checks';
 import { letValues } from '../values';
 import type { PlannedAxis } from './plan';
 import type { SweepPoint } from './types';
+import { boundOf, type BoundGauge } from './bound';
 
 /** Levels reported per point. */
 export const POINT_LEVELS = 10;
@@ -39,6 +40,8 @@ export interface PointOutcome {
   complete: boolean;
   /** The first message of each finding code at this point (errors and warnings but `expect`), for the sweep line's findings. */
   notes: { code: string; message: string }[];
+  /** What the bound count steps on here (bound.ts), for the refinement; null without a count. */
+  gauge: BoundGauge | null;
 }
 
 /** The swept let's replacement formula at fraction `t` of the axis (0 at `from`, 1 at `to`). */
@@ -95,7 +98,8 @@ export function evaluatePoint(s: SweepSetting, ts: readonly number[], index: num
   const notes = new Map<string, string>();
   for (const d of result.diagnostics) if (d.code !== 'expect' && d.severity !== 'info' && !notes.has(d.code)) notes.set(d.code, d.message);
   point.findings = [...new Set(result.diagnostics.filter((d) => d.severity === 'warning' && d.code !== 'expect').map((d) => d.code))].sort();
-  if (point.valid) fillNumbers(point, result, model);
+  let gauge: BoundGauge | null = null;
+  if (point.valid) gauge = fillNumbers(point, result, model);
   const failed = new Set(result.diagnostics.filter((d) => d.code === 'expect').map((d) => d.start));
   const built = new Map(model.expects.map((x) => [x.stmt.span.start, x]));
   point.expects = s.expects.map((st) => point.valid && built.has(st.span.start) && !failed.has(st.span.start));
@@ -103,29 +107,19 @@ export function evaluatePoint(s: SweepSetting, ts: readonly number[], index: num
     const x = built.get(st.span.start);
     return point.valid && x ? margin(x, result) : null;
   });
-  return { point, margins, complete, notes: [...notes].map(([code, message]) => ({ code, message })) };
+  return { point, margins, complete, notes: [...notes].map(([code, message]) => ({ code, message })), gauge };
 }
 
-function fillNumbers(point: SweepPoint, result: AnalysisResult, model: Model): void {
+/** Fills the point's numbers; returns the bound count's gauge. */
+function fillNumbers(point: SweepPoint, result: AnalysisResult, model: Model): BoundGauge | null {
   point.levels = result.levels.slice(0, POINT_LEVELS).map((l) => ({ n: l.n, energy: l.energy, weight: l.weight }));
   point.captured = result.captured;
   point.continuum = result.continuum ?? null;
   point.mean = result.energy?.mean ?? null;
   point.spread = result.energy?.spread ?? null;
-  point.bound = boundCount(result, model);
-}
-
-/** The bound-level count of a finite well, or of a numerical potential when its first levels reach above the lower wall value. */
-function boundCount(result: AnalysisResult, model: Model): number | null {
-  const sys = result.system;
-  if (!sys) return null;
-  if (sys.boundCount !== undefined) return sys.boundCount;
-  const m = model.system?.model;
-  if (!m || m.kind !== 'potential') return null;
-  const v = m.V.evaluate(Float64Array.of(m.a, m.b), 0).re;
-  const top = Math.min(Number.isFinite(v[0]!) ? v[0]! : Infinity, Number.isFinite(v[1]!) ? v[1]! : Infinity);
-  const below = sys.energies.filter((e) => e < top).length;
-  return below < sys.energies.length ? below : null;
+  const b = boundOf(result, model);
+  point.bound = b.bound;
+  return b.gauge;
 }
 
 /** Signed distance of the measured value from failing (>= 0 holds), for the expects that compare a number. */

@@ -1,9 +1,11 @@
 /**
  * Refinement between neighbouring sweep points along one axis (`axis`, 0 the first; the other fixed): where the bound-level count
- * steps (bisection on the count, each step of a multiple jump found on its own) and where an `expect`
- * line starts or stops holding (regula falsi in the Illinois form on the expect's signed margin, with a
- * bisection every third step, so the bracket shrinks from both sides; plain bisection on the verdict
- * for an expect without a numeric margin such as parity). Each probe is a full point analysis.
+ * steps and where an `expect` line starts or stops holding. Both close a bracket by regula falsi with
+ * safeguards (bracket.ts) on a continuous margin: an expect's signed margin, and for the bound count
+ * its gauge (bound.ts: a finite well's 2 z0 / pi, a numerical potential's level against the wall
+ * value), each step of a multiple jump found on its own. Without a margin (an expect such as parity, a
+ * count with no gauge) the bracket is bisected on the verdict. A bound-count probe solves only the
+ * system; an expect probe is a full point analysis.
  *
  * Brackets close to `REFINE_RELATIVE` of the swept value (1e-13, well inside the 1e-8 and 1e-9 the
  * checks in the tests ask for), or after `MAX_ITERATIONS` probes, or when the fraction cannot be split
@@ -11,23 +13,15 @@
  */
 import type { Budget } from '../../physics/budget';
 import type { PointOutcome } from './point';
+import { closeBracket, type BracketSpec, type Closed, type Probe } from './bracket';
+import { stepMargin } from './bound';
+
+export type { Closed, Probe } from './bracket';
 
 /** Relative width of the swept value at which a bracket is closed. */
 export const REFINE_RELATIVE = 1e-13;
 /** Probes per bracket at most. */
 export const MAX_ITERATIONS = 80;
-
-/** A point analysed at fraction t of the axis refined (the other axis fixed). */
-export interface Probe {
-  t: number;
-  out: PointOutcome;
-}
-
-/** What a bracket closed on: the probes on either side of the change. */
-export interface Closed {
-  lo: Probe;
-  hi: Probe;
-}
 
 /**
  * Runs one point at fraction t of the axis refined; null when the budget or the probe allowance ran out.
@@ -36,8 +30,20 @@ export interface Closed {
  */
 export type Prober = (t: number, systemOnly?: boolean) => PointOutcome | null;
 
+/** What refining along one axis needs. */
+export interface Refiner {
+  probe: Prober;
+  budget: Budget;
+  /** The axis refined (0 the first). */
+  axis: number;
+  /** The fraction step near t that moves the swept value by well under `REFINE_RELATIVE` of it. */
+  minStep: (t: number) => number;
+  /** True when the axis is logarithmic (the gauge's margin is taken in the logarithm there). */
+  logAxis?: boolean;
+}
+
 /** True when the bracket is closed along `axis` (the axis being refined). */
-function narrow(lo: Probe, hi: Probe, axis: number): boolean {
+export function narrow(lo: Probe, hi: Probe, axis: number): boolean {
   const a = lo.out.point.at[axis]!;
   const b = hi.out.point.at[axis]!;
   const mid = 0.5 * (lo.t + hi.t);
@@ -49,51 +55,57 @@ function usable(p: PointOutcome | null): p is PointOutcome {
   return p !== null && p.complete && p.point.valid;
 }
 
+/** The bracket spec shared by both kinds of change. */
+function spec(r: Refiner, side: (p: Probe) => boolean, margin: (p: Probe) => number | null, probe: (t: number) => Probe | null): BracketSpec {
+  return { side, margin, probe, closed: (a, b) => narrow(a, b, r.axis), minStep: r.minStep, budget: r.budget, maxProbes: MAX_ITERATIONS };
+}
+
 /**
- * Every place between `lo` and `hi` where the bound count changes, each as its closed bracket.
- * A jump of several levels in one interval is split until each bracket holds one change.
+ * Every place between `lo` and `hi` where the bound count changes, each as its closed bracket, in
+ * order from `lo`. A jump of several levels in one interval is split until each bracket holds one change.
  */
-export function boundSteps(lo: Probe, hi: Probe, probe: Prober, budget: Budget, axis = 0, depth = 0): Closed[] {
+export function boundSteps(lo: Probe, hi: Probe, r: Refiner): Closed[] {
   const a = lo.out.point.bound;
   const b = hi.out.point.bound;
   if (a === null || b === null || a === b) return [];
-  if (narrow(lo, hi, axis) || depth >= MAX_ITERATIONS || budget.expired()) return [{ lo, hi }];
+  if (!lo.out.gauge || !hi.out.gauge) return bisectSteps(lo, hi, r, 0);
+  const probe = (t: number): Probe | null => {
+    const out = r.probe(t, true);
+    return usable(out) && out.point.bound !== null ? { t, out } : null;
+  };
+  const found: Closed[] = [];
+  let cur = lo;
+  for (;;) {
+    const c = cur.out.point.bound!;
+    if (b > a ? c >= b : c <= b) break;
+    // The step between n and n + 1 levels: the side is `bound > n`, the margin the gauge's for n.
+    const n = b > a ? c : c - 1;
+    const closed = closeBracket(cur, hi, spec(r, (p) => p.out.point.bound! > n, (p) => (p.out.gauge ? stepMargin(p.out.gauge, n, r.logAxis) : null), probe));
+    found.push(closed);
+    if (!narrow(closed.lo, closed.hi, r.axis)) break;
+    cur = closed.hi;
+  }
+  return found;
+}
+
+/** The bound steps by bisection on the count (for counts without a gauge). */
+export function bisectSteps(lo: Probe, hi: Probe, r: Refiner, depth: number): Closed[] {
+  const a = lo.out.point.bound;
+  const b = hi.out.point.bound;
+  if (a === null || b === null || a === b) return [];
+  if (narrow(lo, hi, r.axis) || depth >= MAX_ITERATIONS || r.budget.expired()) return [{ lo, hi }];
   const t = 0.5 * (lo.t + hi.t);
-  const out = probe(t, true);
+  const out = r.probe(t, true);
   if (!usable(out) || out.point.bound === null) return [{ lo, hi }];
   const mid: Probe = { t, out };
-  return [...boundSteps(lo, mid, probe, budget, axis, depth + 1), ...boundSteps(mid, hi, probe, budget, axis, depth + 1)];
+  return [...bisectSteps(lo, mid, r, depth + 1), ...bisectSteps(mid, hi, r, depth + 1)];
 }
 
 /** Where expect `e` flips between `lo` and `hi` (their verdicts differ). */
-export function expectFlip(e: number, lo: Probe, hi: Probe, probe: Prober, budget: Budget, axis = 0): Closed {
-  let [a, b] = [lo, hi];
-  let [ma, mb] = [a.out.margins[e] ?? null, b.out.margins[e] ?? null];
-  let side = 0;
-  for (let k = 0; k < MAX_ITERATIONS && !narrow(a, b, axis) && !budget.expired(); k++) {
-    let t = 0.5 * (a.t + b.t);
-    const numeric = ma !== null && mb !== null && Number.isFinite(ma) && Number.isFinite(mb) && ma !== mb && k % 3 !== 2;
-    if (numeric) {
-      const guess = a.t + ((b.t - a.t) * ma!) / (ma! - mb!);
-      // A guess at or beyond an end falls back to the middle.
-      if (guess > Math.min(a.t, b.t) && guess < Math.max(a.t, b.t)) t = guess;
-    }
-    const out = probe(t);
-    if (!usable(out)) break;
-    const mid: Probe = { t, out };
-    const m = out.margins[e] ?? null;
-    if (out.point.expects[e] === a.out.point.expects[e]) {
-      a = mid;
-      ma = m;
-      // Illinois: the end kept twice in a row has its margin halved.
-      if (side === -1 && mb !== null) mb /= 2;
-      side = -1;
-    } else {
-      b = mid;
-      mb = m;
-      if (side === 1 && ma !== null) ma /= 2;
-      side = 1;
-    }
-  }
-  return { lo: a, hi: b };
+export function expectFlip(e: number, lo: Probe, hi: Probe, r: Refiner): Closed {
+  const probe = (t: number): Probe | null => {
+    const out = r.probe(t);
+    return usable(out) ? { t, out } : null;
+  };
+  return closeBracket(lo, hi, spec(r, (p) => p.out.point.expects[e] === true, (p) => p.out.margins[e] ?? null, probe));
 }
