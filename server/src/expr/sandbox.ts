@@ -38,7 +38,38 @@ export const DEFAULT_PARSE_OPTIONS: Required<ParseOptions> = { maxLength: 10_000
  */
 export function parseExpression(src: ExprText, options: ParseOptions = {}): Prepared<Expr> {
   const literal = plainLiteral(src, options);
-  return literal ?? parseThroughMathjs(src, options);
+  if (literal) return literal;
+  const { maxLength, maxDepth, maxChain } = { ...DEFAULT_PARSE_OPTIONS, ...options };
+  if (src.text.length > MEMO_TEXT) return parseThroughMathjs(src, options);
+  const key = `${src.start}:${maxLength}:${maxDepth}:${maxChain}:${src.text}`;
+  let hit = parsed.get(key);
+  if (hit) {
+    parsed.delete(key);
+  } else {
+    hit = parseThroughMathjs(src, options);
+    deepFreeze(hit.result);
+    for (const d of hit.diagnostics) deepFreeze(d);
+  }
+  parsed.set(key, hit);
+  if (parsed.size > MEMO_ENTRIES) parsed.delete(parsed.keys().next().value as string);
+  // A fresh diagnostics array per call (callers may append to it); the tree and each diagnostic are frozen.
+  return { result: hit.result, diagnostics: [...hit.diagnostics] };
+}
+
+/**
+ * The last MEMO_ENTRIES parses of texts up to MEMO_TEXT characters, keyed by the text, its document
+ * offset (every span in the tree is a document offset) and the caps: a sweep re-reads the same file
+ * for every point, and the language server the unchanged lines of every edit. The parse is a pure
+ * function of that key; the trees are frozen so no caller can change a shared one.
+ */
+const MEMO_ENTRIES = 512;
+const MEMO_TEXT = 2000;
+const parsed = new Map<string, Prepared<Expr>>();
+
+function deepFreeze(value: unknown): void {
+  if (value === null || typeof value !== 'object' || Object.isFrozen(value)) return;
+  Object.freeze(value);
+  for (const v of Object.values(value as Record<string, unknown>)) deepFreeze(v);
 }
 
 /**
