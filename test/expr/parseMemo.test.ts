@@ -26,20 +26,20 @@ describe('parse memo', () => {
 
   it('keys on the caps: a tighter depth limit is its own parse with its own verdict', () => {
     const text = '((((((x))))))';
-    const loose = parseExpression({ text, start: 0 });
-    const tight = parseExpression({ text, start: 0 }, { maxDepth: 3 });
+    const loose = parseExpression(at(text, 0));
+    const tight = parseExpression(at(text, 0), { maxDepth: 3 });
     expect(loose.diagnostics).toEqual([]);
     expect(tight.result).toBeNull();
     expect(tight.diagnostics.map((d) => d.code)).toContain('limits');
-    expect(parseExpression({ text, start: 0 }).diagnostics).toEqual([]);
+    expect(parseExpression(at(text, 0)).diagnostics).toEqual([]);
   });
 
   it('a caller appending to the diagnostics does not change the next parse of the same text', () => {
     const text = 'sin(x) +';
-    const first = parseExpression({ text, start: 3 });
+    const first = parseExpression(at(text, 3));
     const n = first.diagnostics.length;
     expect(n).toBeGreaterThan(0);
     first.diagnostics.push(first.diagnostics[0]!);
-    expect(parseExpression({ text, start: 3 }).diagnostics).toHaveLength(n);
+    expect(parseExpression(at(text, 3)).diagnostics).toHaveLength(n);
   });
 });
