@@ -19,6 +19,7 @@ import { gridVariance } from './spread';
 import { withPeaks, type NarrowPeak } from './narrow';
 import { coefficientUncertainties } from './coefficientErrors';
 import { ENERGY_POINT_OPS } from './charged';
+import { parityFromLevels } from './parityFromLevels';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -138,7 +139,8 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) return { stop: 'notFinite', norm };
   // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
   const rms = Math.sqrt(norm / (window[1] - window[0]));
-  const peakPsi = singular ? NaN : maxAbs(ex.values.re, ex.values.im);
+  // The transform's samples (equally spaced, the walls' midpoint among them) add to the grid's nodes.
+  const peakPsi = singular ? NaN : Math.max(maxAbs(ex.values.re, ex.values.im), ex.samplePeak ?? 0);
   const scalePsi = singular ? rms : peakPsi || 1;
   const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
   const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: peakPsi }, hardWalls(input.model, input.built)) : null;
@@ -149,7 +151,8 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   const kinks = found.kinks.filter(apart);
   ctx.budget.spend(ENERGY_POINT_OPS * ex.q.x.length);
   const energy = energyOf({ basis, built, ex, weights, count, jumps, kinks, wallBreak: walls?.broken ?? false, singular });
-  const parity = basis.center !== null ? parityOf(state, ex, basis.center) : null;
+  // The coefficients settle a plainly mixed state without evaluating it at the mirrored nodes (parityFromLevels.ts).
+  const parity = basis.center !== null ? (parityFromLevels(ex.re, ex.im, ex.error, norm, basis.center) ?? parityOf(state, ex, basis.center)) : null;
   const m: StateMeasurements = {
     basis, built, window, stopped: ex.stopped, norm, levels, captured, levelsFor999: levelsFor(weights, 0.999),
     singular, closest, unresolvedNearSpike, walls, jumps, kinks, ...energy, parity, continuum: null, needed: null, projected,
