@@ -11,6 +11,7 @@ import { eigenState, gaussianState, type StateFunction } from '../../server/src/
 import { boxTransform } from '../../server/src/analysis/boxTransform';
 import { boxBasis } from '../../server/src/physics/box';
 import { createBudget } from '../../server/src/physics/budget';
+import { packetAliasBound } from '../../server/src/analysis/packetPremise';
 
 /**
  * Gauss-Legendre nodes and weights on [-1, 1] by Newton's method on the Legendre recurrence (common
@@ -141,13 +142,20 @@ describe('one transform of the level count\'s power of two, its error from the t
       const state = gaussianState(x0, s, kk);
       const basis = boxBasis(0, 1, 1, levels);
       const exact = packetExact(x0, s, kk, levels);
+      // Rounding of the closed form and of the state's own phase: a few eps of the prefactor, and the phases
+      // (k +- q) x, up to |k| + q on [0, 1], are rounded at eps of their size (Math.PI and the products), which
+      // moves c_n by that times |c_n| (derived in this comment).
+      const refRound = (k: number): number => 8 * Number.EPSILON + 4 * Number.EPSILON * (Math.abs(kk) + (k + 1) * Math.PI) * Math.hypot(exact.re[k]!, exact.im[k]!);
       const fast = boxTransform(state, basis, levels, [], 1 << 18, budget())!;
       expect(fast).not.toBeNull();
-      // The exact coefficients' rounding: a few eps of the prefactor (derived in this comment).
-      checkStated(fast, exact, levels, 1, () => 8 * Number.EPSILON);
+      checkStated(fast, exact, levels, 1, refRound);
+      // With the packet's closed form as the premise (no midpoint check) the contract holds the same.
+      const proven = boxTransform(state, basis, levels, [], 1 << 18, budget(), { center: x0, width: s, momentum: kk })!;
+      expect(packetAliasBound({ center: x0, width: s, momentum: kk }, [0, 1], levels, proven.samples - 1)).toBeLessThan(1e-14);
+      checkStated(proven, exact, levels, 1, refRound);
       const ex = expandState(state, basis, levels, [0, 1], { maxGridPoints: 1 << 18, budget: budget() });
       expect(ex.stopped).toBeNull();
-      checkStated(ex, exact, levels, ex.norm, () => 8 * Number.EPSILON);
+      checkStated(ex, exact, levels, ex.norm, refRound);
       // The norm 1 (the packet is normalised on the line and its tails are negligible).
       expect(Math.abs(ex.norm - 1)).toBeLessThan(1e-13);
     });
@@ -160,6 +168,20 @@ describe('one transform of the level count\'s power of two, its error from the t
     expect(fast.samples).toBe(257);
     // The transform (6 N log2 N) and the interpolant at six points (4 N each) for N = 256, counted once.
     expect(b.work.ops).toBeLessThanOrEqual(6 * 256 * 8 + 6 * 4 * 256);
+  });
+});
+
+describe('the packet premise (analysis/packetPremise.ts)', () => {
+  it('bounds the side-by-side packet\'s aliases far below the tolerance and refuses near a wall or past the band', () => {
+    // 0.5 / 0.04 = 12.5 widths from both walls: exp(-39.06) = 1.1e-17 times l = 150 + 156.25 + 50 over the
+    // first alias q = 312 pi, squared, is about 1e-20 (derived in this comment).
+    expect(packetAliasBound({ center: 0.5, width: 0.04, momentum: 150 }, [0, 1], 200, 256)).toBeLessThan(1e-18);
+    // 2.5 widths from a wall: exp(-1.56) (l + 2 s^2 l^2 / d) / q^2 with l = 150 + 31.25 + 50 is about 1e-4.
+    expect(packetAliasBound({ center: 0.1, width: 0.04, momentum: 150 }, [0, 1], 200, 256)).toBeGreaterThan(1e-6);
+    // Momentum 960 against the first alias 312 pi = 980.2: exp(-(20.2 * 0.04)^2) = 0.52 of the packet's spectrum.
+    expect(packetAliasBound({ center: 0.5, width: 0.04, momentum: 960 }, [0, 1], 200, 256)).toBeGreaterThan(0.1);
+    // At or above the first alias the bound does not apply.
+    expect(packetAliasBound({ center: 0.5, width: 0.04, momentum: 1000 }, [0, 1], 200, 256)).toBe(Infinity);
   });
 });
 

@@ -33,6 +33,7 @@ import type { Eigenbasis, Quadrature } from '../physics/types';
 import type { GridValues } from '../expr/types';
 import { boxCoefficientsFromSamples } from '../physics/dst';
 import { sineLadder } from '../physics/sines';
+import { packetAliasBound, type PacketSpec } from './packetPremise';
 import { charge } from '../physics/budget';
 import type { Budget } from './context';
 import type { StateFunction } from './systems';
@@ -189,7 +190,7 @@ function addKernels(re: Float64Array, im: Float64Array, error: Float64Array, L: 
  * does not apply (not a box, a mass that varies) or the estimate does not settle within `maxSamples`
  * (a spike, a breakpoint the state does not report): the caller then falls back to quadrature.
  */
-export function boxTransform(state: StateFunction, basis: Eigenbasis, levels: number, breakpoints: number[], maxSamples: number, budget: Budget): BoxTransformResult | null {
+export function boxTransform(state: StateFunction, basis: Eigenbasis, levels: number, breakpoints: number[], maxSamples: number, budget: Budget, packet?: PacketSpec): BoxTransformResult | null {
   if (basis.kind !== 'box' || !basis.walls || basis.masses || levels < 1) return null;
   const [a, b] = basis.walls;
   const L = b - a;
@@ -213,7 +214,7 @@ export function boxTransform(state: StateFunction, basis: Eigenbasis, levels: nu
     // The first samples of a state without breakpoints come with two derivatives: they may serve as the grid too.
     const r = remainderSamples(state, a, L, N, kernels, inner.length === 0 && lastWorst === Infinity ? 2 : 0);
     if (!r) return null;
-    charge(budget, 6 * N * Math.log2(N) + CHECK_POINTS * 4 * N, N + 1 + CHECK_POINTS);
+    charge(budget, 6 * N * Math.log2(N), N + 1);
     const all = boxCoefficientsFromSamples(r.re, r.im, a, b, N - 1);
     if (!all.ok || all.re.length < levels) return null;
     const [lo, hi] = tailWindow(N, levels);
@@ -223,13 +224,17 @@ export function boxTransform(state: StateFunction, basis: Eigenbasis, levels: nu
       tail = Math.max(tail, Math.hypot(all.re[m - 1]!, all.im[m - 1]!));
       if (m + 2 <= hi) step = Math.max(step, Math.hypot(all.re[m + 1]! - all.re[m - 1]!, all.im[m + 1]! - all.im[m - 1]!));
     }
-    const miss = interpolantMiss(state, a, L, N, all, kernels);
+    // A Gaussian packet whose closed form bounds its aliases below the tolerance's 1/100 needs no check
+    // between the samples: the bound itself enters the estimate (packetPremise.ts).
+    const bound = packet ? packetAliasBound(packet, [a, b], levels, N) : Infinity;
+    const proven = bound <= 1e-14 * Math.sqrt(Math.max(r.norm, 1e-300));
+    const miss = proven ? 0 : interpolantMiss(state, a, L, N, all, kernels, budget);
     if (miss === null) return null;
     // Rounding of the samples and sums: about eps (log2 N + sqrt n) times the sum of |psi_j| + |s_j|, times h sqrt(2/L).
     const roundBase = 4e-16 * r.absSum * (L / N) * Math.sqrt(2 / L);
     // The part of the miss a smooth tail explains is in the tail's term; only the rest can be a hidden alias.
     const explained = EXPLAINED * Math.sqrt(2 / L) * tail;
-    const hidden = MISS_FACTOR * Math.sqrt(L / 2) * Math.max(0, miss - explained);
+    const hidden = proven ? bound : MISS_FACTOR * Math.sqrt(L / 2) * Math.max(0, miss - explained);
     const error = new Float64Array(levels);
     let worst = 0;
     for (let k = 0; k < levels; k++) {
@@ -268,7 +273,7 @@ function tailWindow(N: number, levels: number): [number, number] {
  * The largest |r(u) - sum_m c_m phi_m(u)| over CHECK_POINTS midpoints of sample intervals (its rounding
  * stays in: it only adds to the estimate); null when the state is not finite there.
  */
-function interpolantMiss(state: StateFunction, a: number, L: number, N: number, c: { re: Float64Array; im: Float64Array }, k: Kernels): number | null {
+function interpolantMiss(state: StateFunction, a: number, L: number, N: number, c: { re: Float64Array; im: Float64Array }, k: Kernels, budget: Budget): number | null {
   const xs = new Float64Array(CHECK_POINTS);
   for (let p = 0; p < CHECK_POINTS; p++) {
     const frac = ((p + 1) * 0.6180339887498949) % 1;
@@ -276,6 +281,8 @@ function interpolantMiss(state: StateFunction, a: number, L: number, N: number, 
   }
   const v = state.evaluate(xs, 0);
   const m = c.re.length;
+  // The ladder and the sums: about 4 counted operations a level at each point.
+  budget.count(CHECK_POINTS * 4 * m, CHECK_POINTS);
   const S = new Float64Array(m + 1);
   const C = new Float64Array(m + 1);
   const amp = Math.sqrt(2 / L);

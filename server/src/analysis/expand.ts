@@ -9,6 +9,7 @@ import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
 import { Stopped } from '../physics/budget';
 import { boxTransform } from './boxTransform';
+import type { PacketSpec } from './packetPremise';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
@@ -22,6 +23,8 @@ export interface ExpandOptions {
   maxGridPoints: number;
   /** The analysis's budget: polled between grids and between chunks of the projection. */
   budget: Budget;
+  /** The state is this Gaussian packet (its closed form can prove the box transform's premise; packetPremise.ts). */
+  packet?: PacketSpec;
 }
 
 /** The state projected on one grid. */
@@ -265,7 +268,7 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   const breakpoints = allBreakpoints(state, basis, window);
   // The sine transform, when it settles, replaces the projection: a grid then serves the norm and the
   // energy integrals, and the transform's own samples check that grid's norm (boxTransform.ts).
-  const fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget);
+  const fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget, options.packet);
   // Samples that resolve the state's integrals too are the grid: no Gauss-Legendre grid is built.
   if (fast?.grid) return { q: fast.grid.q, values: fast.grid.values, re: fast.re, im: fast.im, norm: fast.norm, error: fast.error, stopped: null, samplePeak: fast.peak };
   const k = maxWaveNumber(basis, levels, window);

@@ -20,6 +20,7 @@ import { withPeaks, type NarrowPeak } from './narrow';
 import { coefficientUncertainties } from './coefficientErrors';
 import { ENERGY_POINT_OPS } from './charged';
 import { parityFromLevels } from './parityFromLevels';
+import type { PacketSpec } from './packetPremise';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -124,7 +125,8 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   // Narrow Gaussian factors the formula announces get panels of their own (narrow.ts).
   const sm = input.model.state?.model;
   const peaks = withPeaks(state, sm?.kind === 'psi' ? (sm.peaks ?? []) : [], window);
-  const expanded = expandWithSpike(peaks.state, basis, input.count, window, ctx);
+  const packet = sm?.kind === 'gaussian' ? { center: sm.center, width: sm.width, momentum: sm.momentum } : undefined;
+  const expanded = expandWithSpike(peaks.state, basis, input.count, window, ctx, packet);
   if ('stop' in expanded) return expanded;
   const { ex, singular, closest, unresolvedNearSpike, projected } = expanded;
   const norm = ex.norm;
@@ -174,8 +176,9 @@ function expandWithSpike(
   count: number,
   window: [number, number],
   ctx: ComputeContext,
+  packet?: PacketSpec,
 ): { ex: Expanded; singular: Singularity | null; closest: number; unresolvedNearSpike: number; projected: StateFunction } | Stop {
-  const options = { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget };
+  const options = { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget, packet };
   let ex: Expanded;
   try {
     ex = expandState(state, basis, count, window, options);
@@ -195,7 +198,7 @@ function expandWithSpike(
     const graded = gradedTowards(state, singular, window);
     closest = graded.closest;
     try {
-      const again = expandState(graded.state, basis, count, window, options);
+      const again = expandState(graded.state, basis, count, window, { ...options, packet: undefined });
       if (again.re.length === count) {
         ex = again;
         projected = graded.state;
