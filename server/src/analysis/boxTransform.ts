@@ -237,8 +237,11 @@ export function boxTransform(state: StateFunction, basis: Eigenbasis, levels: nu
     const hidden = proven ? bound : MISS_FACTOR * Math.sqrt(L / 2) * Math.max(0, miss - explained);
     const error = new Float64Array(levels);
     let worst = 0;
+    const tailBound = TAIL_FACTOR * tail;
+    const floor = hidden + roundBase * Math.log2(N);
     for (let k = 0; k < levels; k++) {
-      const e = Math.min(TAIL_FACTOR * tail, PAIR_FACTOR * (k + 1) * step) + hidden + roundBase * (Math.log2(N) + Math.sqrt(k + 1));
+      const pair = PAIR_FACTOR * (k + 1) * step;
+      const e = (pair < tailBound ? pair : tailBound) + floor + roundBase * Math.sqrt(k + 1);
       error[k] = e;
       if (e > worst) worst = e;
     }
