@@ -1,5 +1,5 @@
 /**
- * The expansion's own error estimate (Expanded.error: the box's nested sine transforms, the quadrature's
+ * The expansion's own error estimate (Expanded.error: the box's sine transform, its tail and its interpolant, the quadrature's
  * two grids elsewhere) bounds the true error of every coefficient, checked against closed forms on states
  * where the old second-grid check was needed (every state: the old path always solved a doubled grid).
  */
@@ -117,19 +117,21 @@ describe('the expansion error estimate bounds the true error (closed forms)', ()
   });
 });
 
-describe('the box transform and its spot check', () => {
+describe('the box transform and its checks', () => {
   it('a kinked state costs one transform, not a projection per node and level', () => {
     const tri = realState((x) => (x < 0.3 ? [x / 0.3, 1 / 0.3, 0] : [(1 - x) / 0.7, -1 / 0.7, 0]), [0.3]);
     const budget = createBudget();
     const r = boxTransform(tri, boxBasis(0, 1, 1, 2000), 2000, [0.3], 1 << 18, budget)!;
-    // 2 (2000 + 1) levels need N = 4096 samples, 6 N log2 N counted (derived in this comment).
+    // 2,000 levels and a tail window of 16 below 0.85 N need N = 4096 samples, counted as 6 N log2 N for the
+    // transform and 4 N at each of six midpoints for the interpolant (derived in this comment).
     expect(r.samples).toBe(4097);
-    expect(budget.work.ops).toBeLessThanOrEqual(6 * 4096 * 12);
+    expect(budget.work.ops).toBeLessThanOrEqual(6 * 4096 * 12 + 6 * 4 * 4096);
   });
 
-  it('a component that aliases alike onto both nested grids is caught by the quadrature on other nodes', () => {
-    // sin(127 pi x) lands on level 1 in the transforms of 128 and of 64 intervals alike (127 = 2 * 64 - 1),
-    // so their difference cannot see it; the true c_1 is 1/sqrt(1 + 1e-12) (orthogonality of the sines).
+  it('a component that aliases onto level 1 is caught by the interpolant between the samples', () => {
+    // sin(127 pi x) lands on level 1 in the transform of 64 intervals (127 = 2 * 64 - 1) and leaves the
+    // tail window empty; between the samples the interpolant misses it by about 2e-6 sqrt 2, so the
+    // samples double and 128 intervals resolve it. The true c_1 is 1/sqrt(1 + 1e-12) (orthogonality of the sines).
     const eps = 1e-6;
     const f = (x: number): [number, number, number] => {
       const a = Math.PI * x;
@@ -138,8 +140,9 @@ describe('the box transform and its spot check', () => {
     };
     const state = realState(f);
     const basis = boxBasis(0, 1, 1, 20);
-    const fooled = boxTransform(state, basis, 20, [], 1 << 18, createBudget())!;
-    expect(Math.abs(fooled.re[0]! - 1)).toBeGreaterThan(1e-7);
+    const fast = boxTransform(state, basis, 20, [], 1 << 18, createBudget())!;
+    expect(fast.samples).toBeGreaterThanOrEqual(129);
+    expect(Math.abs(fast.re[0]! - 1)).toBeLessThan(1e-12);
     const ex = expandState(state, basis, 20, [0, 1], { maxGridPoints: 1 << 18, budget: createBudget() });
     expect(Math.abs(ex.re[0]! / Math.sqrt(ex.norm) - 1 / Math.sqrt(1 + eps * eps))).toBeLessThan(1e-12);
   });

@@ -9,6 +9,7 @@ import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
 import { Stopped } from '../physics/budget';
 import { boxTransform } from './boxTransform';
+import type { PacketSpec } from './packetPremise';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
@@ -22,6 +23,8 @@ export interface ExpandOptions {
   maxGridPoints: number;
   /** The analysis's budget: polled between grids and between chunks of the projection. */
   budget: Budget;
+  /** The state is this Gaussian packet (its closed form can prove the box transform's premise; packetPremise.ts). */
+  packet?: PacketSpec;
 }
 
 /** The state projected on one grid. */
@@ -35,13 +38,15 @@ export interface Expanded {
   /** Integral of |psi|^2 on the grid. */
   norm: number;
   /**
-   * Estimated |c_k - c_k(exact)| of each coefficient as written (not normalised): the nested half grid
-   * of the box's sine transform (boxTransform.ts), else the difference from the previous quadrature grid
+   * Estimated |c_k - c_k(exact)| of each coefficient as written (not normalised): the tail and the
+   * interpolant's miss of the box's sine transform (boxTransform.ts), else the difference from the previous quadrature grid
    * (Infinity when there was none).
    */
   error: Float64Array;
   /** Why refinement stopped before two grids agreed: the grid cap, the time limit or a cancellation. */
   stopped: StopReason | null;
+  /** The largest |psi| on the sine transform's samples, when it gave the coefficients (boxTransform.ts). */
+  samplePeak?: number;
 }
 
 const ORDER = 20;
@@ -261,6 +266,11 @@ function allBreakpoints(state: StateFunction, basis: Eigenbasis, window: [number
  */
 export function expandState(state: StateFunction, basis: Eigenbasis, levels: number, window: [number, number], options: ExpandOptions): Expanded {
   const breakpoints = allBreakpoints(state, basis, window);
+  // The sine transform, when it settles, replaces the projection: a grid then serves the norm and the
+  // energy integrals, and the transform's own samples check that grid's norm (boxTransform.ts).
+  const fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget, options.packet);
+  // Samples that resolve the state's integrals too are the grid: no Gauss-Legendre grid is built.
+  if (fast?.grid) return { q: fast.grid.q, values: fast.grid.values, re: fast.re, im: fast.im, norm: fast.norm, error: fast.error, stopped: null, samplePeak: fast.peak };
   const k = maxWaveNumber(basis, levels, window);
   const width = window[1] - window[0];
   // k h = PANEL_PHASE for the highest level on each 20-point panel; the doubling below confirms it.
@@ -270,9 +280,6 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   const wanted = panels;
   panels = Math.min(panels, maxPanels);
   const first = panels;
-  // The sine transform, when it settles, replaces the projection: the grid then serves the norm, the
-  // energy integrals and a spot check of a few levels on its own nodes.
-  let fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget);
   const budget = options.budget;
   let prev: Expanded | null = null;
   const timed = Number.isFinite(budget.limitMs);
@@ -283,10 +290,11 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
     checkFinite(q.x, values);
     budget.count(q.x.length, q.x.length);
     const norm = integrateAbs2(q, values);
-    if (fast && prev === null && !spotCheck(basis, q, values, fast, levels, norm, budget)) fast = null;
     const c = fast ?? projectWithin(basis, q, values, levels, budget);
     if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, error: new Float64Array(0), stopped: budget.reason };
     const cur: Expanded = { q, values, re: c.re, im: c.im, norm, error: fast ? fast.error : differences(prev, c, levels, NEGLIGIBLE * Math.sqrt(norm)), stopped: null };
+    // The trapezoid norm of the transform's samples (other points, another rule) confirms the first grid as a second grid would.
+    if (fast && prev === null && normsAgree(fast.norm, norm)) return { ...cur, samplePeak: fast.peak };
     if (prev && agree(prev, cur, levels)) return cur;
     if (prev === null && !fast && wanted <= maxPanels) {
       const checked = coarseCheck(state, basis, levels, window, breakpoints, first, budget, cur);
@@ -349,31 +357,6 @@ function fewerOnEveryPiece(coarse: Float64Array, fine: Float64Array, breakpoints
 }
 
 /**
- * The sine transform's coefficients of a few levels (the first two, the last two, two between) against
- * the quadrature on the grid's own nodes, which share no samples with it: true when every difference is
- * within the tolerance of two grids plus the transform's own estimate. A state whose structure aliases
- * alike onto the transform's nested grids shows here.
- */
-function spotCheck(basis: Eigenbasis, q: Quadrature, values: GridValues, fast: { re: Float64Array; im: Float64Array; error: Float64Array }, levels: number, norm: number, budget: Budget): boolean {
-  const picks = [...new Set([0, 1, Math.floor(levels / 3), Math.floor((2 * levels) / 3), levels - 2, levels - 1])].filter((k) => k >= 0 && k < levels);
-  const n = q.x.length;
-  const row = new Float64Array(n);
-  const tol = Math.max(1e-12 * Math.sqrt(norm), 1e-13 * norm);
-  for (const k of picks) {
-    basis.table(q.x, k + 1, row, undefined, undefined, k);
-    budget.count(TABLE_ENTRY_OPS * n, 0);
-    let re = 0;
-    let im = 0;
-    for (let j = 0; j < n; j++) {
-      re += q.w[j]! * row[j]! * values.re[j]!;
-      im += q.w[j]! * row[j]! * values.im[j]!;
-    }
-    if (Math.hypot(re - fast.re[k]!, im - fast.im[k]!) > tol + fast.error[k]!) return false;
-  }
-  return true;
-}
-
-/**
  * |c_k(this grid) - c_k(previous grid)| + floor for each level (Infinity without a previous grid); the
  * floor covers the nodes left out (NEGLIGIBLE sqrt(norm)) and the rounding of the sums.
  */
@@ -389,6 +372,13 @@ function agree(prev: Expanded, cur: Expanded, levels: number): boolean {
   for (let j = 0; j < levels; j++) diff = Math.max(diff, Math.hypot(prev.re[j]! - cur.re[j]!, prev.im[j]! - cur.im[j]!));
   const norm = Math.max(cur.norm, 1e-300);
   return diff <= 1e-12 * norm ** 0.5 || diff <= 1e-13 * norm;
+}
+
+/** Two norms agree as two grids must (`agree`): within 1e-12 of sqrt(norm) or 1e-13 of the norm. */
+function normsAgree(a: number, b: number): boolean {
+  const d = Math.abs(a - b);
+  const norm = Math.max(b, 1e-300);
+  return d <= 1e-12 * norm ** 0.5 || d <= 1e-13 * norm;
 }
 
 /** Left and right values and slopes of the state at interior breakpoints: jumps and kinks. */

@@ -19,6 +19,8 @@ import { gridVariance } from './spread';
 import { withPeaks, type NarrowPeak } from './narrow';
 import { coefficientUncertainties } from './coefficientErrors';
 import { ENERGY_POINT_OPS } from './charged';
+import { parityFromLevels } from './parityFromLevels';
+import type { PacketSpec } from './packetPremise';
 
 /** Tolerance of the norm, capture and parity checks. */
 export const TOL = 1e-6;
@@ -123,7 +125,8 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   // Narrow Gaussian factors the formula announces get panels of their own (narrow.ts).
   const sm = input.model.state?.model;
   const peaks = withPeaks(state, sm?.kind === 'psi' ? (sm.peaks ?? []) : [], window);
-  const expanded = expandWithSpike(peaks.state, basis, input.count, window, ctx);
+  const packet = sm?.kind === 'gaussian' ? { center: sm.center, width: sm.width, momentum: sm.momentum } : undefined;
+  const expanded = expandWithSpike(peaks.state, basis, input.count, window, ctx, packet);
   if ('stop' in expanded) return expanded;
   const { ex, singular, closest, unresolvedNearSpike, projected } = expanded;
   const norm = ex.norm;
@@ -138,7 +141,8 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   if (!Number.isFinite(captured) || levels.some((l) => !Number.isFinite(l.energy))) return { stop: 'notFinite', norm };
   // Next to a spike the largest values on the grid say nothing about the state's size: use its rms instead.
   const rms = Math.sqrt(norm / (window[1] - window[0]));
-  const peakPsi = singular ? NaN : maxAbs(ex.values.re, ex.values.im);
+  // The transform's samples (equally spaced, the walls' midpoint among them) add to the grid's nodes.
+  const peakPsi = singular ? NaN : Math.max(maxAbs(ex.values.re, ex.values.im), ex.samplePeak ?? 0);
   const scalePsi = singular ? rms : peakPsi || 1;
   const scaleD = singular ? rms / (window[1] - window[0]) : maxAbs(ex.values.d1re!, ex.values.d1im!) || scalePsi / (window[1] - window[0]);
   const walls = basis.walls ? measureWalls(state, ex, basis, { psi: scalePsi, peak: peakPsi }, hardWalls(input.model, input.built)) : null;
@@ -149,7 +153,8 @@ export function measureState(input: MeasureInput): StateMeasurements | Stop {
   const kinks = found.kinks.filter(apart);
   ctx.budget.spend(ENERGY_POINT_OPS * ex.q.x.length);
   const energy = energyOf({ basis, built, ex, weights, count, jumps, kinks, wallBreak: walls?.broken ?? false, singular });
-  const parity = basis.center !== null ? parityOf(state, ex, basis.center) : null;
+  // The coefficients settle a plainly mixed state without evaluating it at the mirrored nodes (parityFromLevels.ts).
+  const parity = basis.center !== null ? (parityFromLevels(ex.re, ex.im, ex.error, norm, basis.center) ?? parityOf(state, ex, basis.center)) : null;
   const m: StateMeasurements = {
     basis, built, window, stopped: ex.stopped, norm, levels, captured, levelsFor999: levelsFor(weights, 0.999),
     singular, closest, unresolvedNearSpike, walls, jumps, kinks, ...energy, parity, continuum: null, needed: null, projected,
@@ -171,8 +176,9 @@ function expandWithSpike(
   count: number,
   window: [number, number],
   ctx: ComputeContext,
+  packet?: PacketSpec,
 ): { ex: Expanded; singular: Singularity | null; closest: number; unresolvedNearSpike: number; projected: StateFunction } | Stop {
-  const options = { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget };
+  const options = { maxGridPoints: ctx.limits.maxGridPoints, budget: ctx.budget, packet };
   let ex: Expanded;
   try {
     ex = expandState(state, basis, count, window, options);
@@ -192,7 +198,7 @@ function expandWithSpike(
     const graded = gradedTowards(state, singular, window);
     closest = graded.closest;
     try {
-      const again = expandState(graded.state, basis, count, window, options);
+      const again = expandState(graded.state, basis, count, window, { ...options, packet: undefined });
       if (again.re.length === count) {
         ex = again;
         projected = graded.state;
