@@ -9,6 +9,7 @@ import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
 import { Stopped } from '../physics/budget';
 import { boxTransform } from './boxTransform';
+import { lineCheck, lineTrapezoid } from './lineTrapezoid';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
@@ -273,6 +274,9 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   // The sine transform, when it settles, replaces the projection: the grid then serves the norm, the
   // energy integrals and a spot check of a few levels on its own nodes.
   let fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget);
+  // A smooth state on the whole line (the oscillator): the trapezoid rule with its nested half grid
+  // (lineTrapezoid.ts) replaces the projection and its check grid; the first grid checks it, then serves the rest.
+  let line = fast || breakpoints.length > 0 ? null : lineTrapezoid(state, basis, levels, window, k, { maxNodes: Math.min(options.maxGridPoints, 1 << 18), negligible: NEGLIGIBLE, budget: options.budget });
   const budget = options.budget;
   let prev: Expanded | null = null;
   const timed = Number.isFinite(budget.limitMs);
@@ -284,6 +288,8 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
     budget.count(q.x.length, q.x.length);
     const norm = integrateAbs2(q, values);
     if (fast && prev === null && !spotCheck(basis, q, values, fast, levels, norm, budget)) fast = null;
+    if (line && !lineCheck(basis, q, values, line, norm)) line = null;
+    if (line) return { q, values, re: line.re, im: line.im, norm, error: line.error, stopped: null };
     const c = fast ?? projectWithin(basis, q, values, levels, budget);
     if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, error: new Float64Array(0), stopped: budget.reason };
     const cur: Expanded = { q, values, re: c.re, im: c.im, norm, error: fast ? fast.error : differences(prev, c, levels, NEGLIGIBLE * Math.sqrt(norm)), stopped: null };
