@@ -9,7 +9,8 @@ import { compositeGaussLegendre } from '../physics/quadrature';
 import { project } from '../physics/project';
 import { Stopped } from '../physics/budget';
 import { boxTransform } from './boxTransform';
-import { lineCheck, lineTrapezoid } from './lineTrapezoid';
+import { lineCheck, lineGrid, lineTrapezoid } from './lineTrapezoid';
+import { transformGrids } from './transformGrids';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
@@ -274,6 +275,10 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   // The sine transform, when it settles, replaces the projection: the grid then serves the norm, the
   // energy integrals and a spot check of a few levels on its own nodes.
   let fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget);
+  // Its grids sized to what they still do: the spot check at the basis's resolution, the rest at the state's (transformGrids.ts).
+  const served = fast && transformGrids(state, basis, levels, window, breakpoints, first, fast, options.budget, { quadrature: quadratureFor, spotCheck, checkFinite, integrateAbs2 });
+  // When the spot check failed, the loop below fails it again on the same grid and projects by quadrature.
+  if (fast && served) return { ...served, re: fast.re, im: fast.im, error: fast.error, stopped: null };
   // A smooth state on the whole line (the oscillator): the trapezoid rule with its nested half grid
   // (lineTrapezoid.ts) replaces the projection and its check grid; the first grid checks it, then serves the rest.
   let line = fast || breakpoints.length > 0 ? null : lineTrapezoid(state, basis, levels, window, k, { maxNodes: Math.min(options.maxGridPoints, 1 << 18), negligible: NEGLIGIBLE, budget: options.budget });
@@ -282,14 +287,18 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   const timed = Number.isFinite(budget.limitMs);
   for (;;) {
     const t0 = timed ? budget.clock.now() : 0;
-    const q = quadratureFor(window, breakpoints, first, panels / first);
+    const q = line ? lineGrid(basis, line, window, { order: ORDER, panelPhase: PANEL_PHASE, waveNumber: (span) => maxWaveNumber(basis, levels, span) }) : quadratureFor(window, breakpoints, first, panels / first);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
     budget.count(q.x.length, q.x.length);
     const norm = integrateAbs2(q, values);
     if (fast && prev === null && !spotCheck(basis, q, values, fast, levels, norm, budget)) fast = null;
-    if (line && !lineCheck(basis, q, values, line, norm)) line = null;
-    if (line) return { q, values, re: line.re, im: line.im, norm, error: line.error, stopped: null };
+    if (line) {
+      if (lineCheck(basis, q, values, line, norm, NEGLIGIBLE)) return { q, values, re: line.re, im: line.im, norm, error: line.error, stopped: null };
+      // The check failed: project on the whole window's grid as before.
+      line = null;
+      continue;
+    }
     const c = fast ?? projectWithin(basis, q, values, levels, budget);
     if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, error: new Float64Array(0), stopped: budget.reason };
     const cur: Expanded = { q, values, re: c.re, im: c.im, norm, error: fast ? fast.error : differences(prev, c, levels, NEGLIGIBLE * Math.sqrt(norm)), stopped: null };

@@ -19,6 +19,8 @@
 import type { Eigenbasis, Quadrature } from '../physics/types';
 import type { GridValues } from '../expr/types';
 import { Stopped, charge } from '../physics/budget';
+import { project } from '../physics/project';
+import { compositeGaussLegendre } from '../physics/quadrature';
 import type { Budget } from './context';
 import type { StateFunction } from './systems';
 
@@ -31,6 +33,8 @@ export interface LineTrapezoidResult {
   norm: number;
   /** Intervals of the fine grid. */
   intervals: number;
+  /** The first and last node summed (the rest hold together at most negligible^2 of the norm). */
+  span: [number, number];
 }
 
 /** pi / h over the highest level's wave number at the centre (derived in the file comment). */
@@ -114,11 +118,17 @@ function onGrid(
   const ox = new Float64Array(N + 1 - half);
   const or = new Float64Array(ox.length);
   const oi = new Float64Array(ox.length);
+  let first = -1;
+  let last = -1;
   for (let j = 0; j <= N; j++) {
     const r = v.re[j]!;
     const i = v.im[j]!;
     const e = j === 0 || j === N ? 0.5 : 1;
     const keep = e * h * (r * r + i * i) >= below;
+    if (keep) {
+      if (first < 0) first = j;
+      last = j;
+    }
     if (j % 2 === 0) {
       ex[j >> 1] = xs[j]!;
       er[j >> 1] = keep ? e * r : 0;
@@ -154,31 +164,54 @@ function onGrid(
     if (e > worst) worst = e;
   }
   if (worst > tol) return 'unsettled';
-  return { re, im, error, norm, intervals: N };
+  return { re, im, error, norm, intervals: N, span: [xs[Math.max(0, first)]!, xs[Math.max(0, last)]!] };
 }
 
 /**
  * The trapezoid's lowest levels (up to four) and its norm against the Gauss-Legendre grid of the caller,
  * which shares no nodes with it: true when each coefficient differs by at most the tolerance of two grids
- * plus its own estimate, and the norms by the tolerance. The lowest levels cost a few recurrence steps a
- * node, and a component of the state that aliases alike on both nested grids shows in them.
+ * plus its own estimate and the nodes left out (negligible sqrt(norm), as in project.ts), and the norms by
+ * the tolerance. The lowest levels cost a few recurrence steps a node, and a component of the state that
+ * aliases alike on both nested grids shows in them.
  */
-export function lineCheck(basis: Eigenbasis, q: Quadrature, values: GridValues, fast: LineTrapezoidResult, norm: number): boolean {
+export function lineCheck(basis: Eigenbasis, q: Quadrature, values: GridValues, fast: LineTrapezoidResult, norm: number, negligible: number): boolean {
   const tol = Math.max(1e-12 * Math.sqrt(norm), 1e-13 * norm);
   if (!(Math.abs(fast.norm - norm) <= tol)) return false;
   const m = Math.min(4, fast.re.length);
-  const n = q.x.length;
-  const table = new Float64Array(m * n);
-  basis.table(q.x, m, table);
-  for (let k = 0; k < m; k++) {
-    let re = 0;
-    let im = 0;
-    for (let j = 0; j < n; j++) {
-      const p = q.w[j]! * table[k * n + j]!;
-      re += p * values.re[j]!;
-      im += p * values.im[j]!;
-    }
-    if (!(Math.hypot(re - fast.re[k]!, im - fast.im[k]!) <= tol + fast.error[k]!)) return false;
-  }
+  const c = project(basis, q, values.re, values.im, m, { negligible });
+  const left = negligible * Math.sqrt(norm);
+  for (let k = 0; k < m; k++) if (!(Math.hypot(c.re[k]! - fast.re[k]!, c.im[k]! - fast.im[k]!) <= tol + left + fast.error[k]!)) return false;
   return true;
+}
+
+/**
+ * The Gauss-Legendre grid that serves the norm, the energy integrals, the parity and the check above once
+ * the trapezoid has settled: only where the state lives (its span, two of the fine grid's steps wider, within
+ * the window) and the mirror image of that about the centre (the parity needs a region symmetric about
+ * it), with panels sized to the highest level's wave number there (`panelPhase` for the k h of a panel).
+ * A span that reaches the centre gives one interval symmetric about it.
+ */
+export function lineGrid(basis: Eigenbasis, fast: LineTrapezoidResult, window: [number, number], grid: { order: number; panelPhase: number; waveNumber: (span: [number, number]) => number }): Quadrature {
+  const c = basis.center ?? (window[0] + window[1]) / 2;
+  const h = (window[1] - window[0]) / fast.intervals;
+  const lo = Math.max(window[0], fast.span[0] - 2 * h);
+  const hi = Math.min(window[1], fast.span[1] + 2 * h);
+  const reach = Math.max(Math.abs(lo - c), Math.abs(hi - c));
+  // One interval [c - reach, c + reach] when the span holds the centre, else the span and its mirror.
+  const near = lo <= c && hi >= c ? 0 : Math.min(Math.abs(lo - c), Math.abs(hi - c));
+  const right: [number, number] = [c + near, c + reach];
+  const k = grid.waveNumber(near === 0 ? [c - reach, c + reach] : lo > c ? [lo, hi] : [2 * c - hi, 2 * c - lo]);
+  const panels = Math.max(near === 0 ? 2 : 1, Math.ceil((k * (right[1] - right[0])) / (2 * grid.panelPhase)));
+  const half = compositeGaussLegendre(right[0], right[1], { panels, order: grid.order });
+  const n = half.x.length;
+  // The left half is the right half mirrored (exactly negated about 0, so the parity finds its nodes).
+  const x = new Float64Array(2 * n);
+  const w = new Float64Array(2 * n);
+  for (let j = 0; j < n; j++) {
+    x[n - 1 - j] = 2 * c - half.x[j]!;
+    w[n - 1 - j] = half.w[j]!;
+    x[n + j] = half.x[j]!;
+    w[n + j] = half.w[j]!;
+  }
+  return { x, w };
 }
