@@ -246,10 +246,24 @@ function projectWithin(basis: Eigenbasis, q: Quadrature, values: GridValues, lev
   return { re, im };
 }
 
+/**
+ * state.breakpoints(a, b), kept for the last interval asked of each state: the expansion and the jump and
+ * kink search ask the same state for the same window (a formula's breakpoints are found by walking and
+ * solving its conditions, which is not free). A fresh copy each time: callers may add to it.
+ */
+function stateBreakpoints(state: StateFunction, a: number, b: number): number[] {
+  const hit = BREAKPOINTS.get(state);
+  if (hit && hit.a === a && hit.b === b) return [...hit.points];
+  const points = state.breakpoints(a, b);
+  BREAKPOINTS.set(state, { a, b, points: [...points] });
+  return points;
+}
+const BREAKPOINTS = new WeakMap<StateFunction, { a: number; b: number; points: number[] }>();
+
 /** The breakpoints of the state, the basis and the state's old walls inside the window, sorted. */
 function allBreakpoints(state: StateFunction, basis: Eigenbasis, window: [number, number]): number[] {
   const bps = new Set<number>();
-  for (const x of state.breakpoints(window[0], window[1])) bps.add(x);
+  for (const x of stateBreakpoints(state, window[0], window[1])) bps.add(x);
   for (const x of basis.breakpoints) if (x > window[0] && x < window[1]) bps.add(x);
   if (state.walls) for (const x of state.walls) if (x > window[0] && x < window[1]) bps.add(x);
   return [...bps].sort((a, b) => a - b);
@@ -276,8 +290,10 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   // energy integrals and a spot check of a few levels on its own nodes.
   let fast = boxTransform(state, basis, levels, breakpoints, Math.min(options.maxGridPoints, 1 << 18), options.budget);
   // Its grids sized to what they still do: the spot check at the basis's resolution, the rest at the state's (transformGrids.ts).
-  const served = fast && transformGrids(state, basis, levels, window, breakpoints, first, fast, options.budget, { quadrature: quadratureFor, spotCheck, checkFinite, integrateAbs2 });
-  // When the spot check failed, the loop below fails it again on the same grid and projects by quadrature.
+  // The spot check's grid at k h = COARSE_PHASE: its own error (about 6e-15) is far inside the check's tolerance.
+  const spotPanels = Math.max(1, Math.floor((first * PANEL_PHASE) / COARSE_PHASE));
+  const served = fast && transformGrids(state, basis, levels, window, breakpoints, { spot: spotPanels, first }, fast, options.budget, { quadrature: quadratureFor, spotCheck, checkFinite, integrateAbs2 });
+  // When the spot check failed, the loop below checks again on its finer grid, and projects by quadrature if that fails too.
   if (fast && served) return { ...served, re: fast.re, im: fast.im, error: fast.error, stopped: null };
   // A smooth state on the whole line (the oscillator): the trapezoid rule with its nested half grid
   // (lineTrapezoid.ts) replaces the projection and its check grid; the first grid checks it, then serves the rest.
@@ -414,7 +430,7 @@ export function classifyBreakpoints(
 ): { jumps: number[]; kinks: number[] } {
   const jumps: number[] = [];
   const kinks: number[] = [];
-  const pts = state.jumpCandidates ? state.jumpCandidates(window[0], window[1]) : state.breakpoints(window[0], window[1]);
+  const pts = state.jumpCandidates ? state.jumpCandidates(window[0], window[1]) : stateBreakpoints(state, window[0], window[1]);
   if (state.walls) for (const w of state.walls) if (w > window[0] && w < window[1]) pts.push(w);
   if (pts.length === 0) return { jumps, kinks };
   const h = 1e-7 * (window[1] - window[0]);

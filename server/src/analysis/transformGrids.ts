@@ -40,7 +40,7 @@ const STATE_PANELS = 16;
 
 /**
  * The expansion with the transform's coefficients on the state's grid, or null when the spot check on the
- * basis-sized grid (`basisPanels` panels) fails (the caller then projects by quadrature) or the budget ran
+ * basis-sized grid (`panels.spot` panels; `panels.first` is the quadrature's first grid) fails (the caller then projects by quadrature) or the budget ran
  * out between grids.
  */
 export function transformGrids(
@@ -49,22 +49,22 @@ export function transformGrids(
   levels: number,
   window: [number, number],
   breakpoints: number[],
-  basisPanels: number,
+  panels: { spot: number; first: number },
   fast: Fast,
   budget: Budget,
   h: GridHelpers,
 ): { q: Quadrature; values: GridValues; norm: number } | null {
-  const spot = h.quadrature(window, breakpoints, basisPanels, 1);
+  const spot = h.quadrature(window, breakpoints, panels.spot, 1);
   const sv = state.evaluate(spot.x, 0);
   h.checkFinite(spot.x, sv);
   budget.count(spot.x.length, spot.x.length);
   const spotNorm = h.integrateAbs2(spot, sv);
   if (!h.spotCheck(basis, spot, sv, fast, levels, spotNorm, budget)) return null;
   let prev: { q: Quadrature; values: GridValues; norm: number } | null = null;
-  const panels = Math.min(STATE_PANELS, basisPanels);
+  const start = Math.min(STATE_PANELS, panels.first);
   for (let refine = 1; ; refine *= 2) {
     if (budget.expired()) return null;
-    const q = h.quadrature(window, breakpoints, panels, refine);
+    const q = h.quadrature(window, breakpoints, start, refine);
     const values = state.evaluate(q.x, 2);
     h.checkFinite(q.x, values);
     budget.count(q.x.length, q.x.length);
@@ -74,7 +74,7 @@ export function transformGrids(
       if (d <= 1e-12 * Math.sqrt(cur.norm) || d <= 1e-13 * cur.norm) return cur;
     }
     // The basis-sized grid's first doubling is as far as the old path went.
-    if (panels * refine >= 2 * basisPanels) return cur;
+    if (start * refine >= 2 * panels.first) return cur;
     prev = cur;
   }
 }
