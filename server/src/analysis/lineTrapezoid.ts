@@ -109,8 +109,43 @@ function onGrid(
     absSum += e * h * (Math.abs(r) + Math.abs(i));
   }
   if (!(norm > 0) || !Number.isFinite(norm)) return null;
-  // Even and odd nodes apart, each with weights psi_j (the ends halved): fine = h (E + O), half = 2 h E.
-  const below = (options.negligible * options.negligible * norm) / (N + 1);
+  const nodes = splitNodes(xs, v, h, (options.negligible * options.negligible * norm) / (N + 1));
+  if (nodes === null) return null;
+  const { ex, er, ei, ox, or, oi, first, last } = nodes;
+  const evenRe = new Float64Array(levels);
+  const evenIm = new Float64Array(levels);
+  const oddRe = new Float64Array(levels);
+  const oddIm = new Float64Array(levels);
+  basis.weightedSums!(ex, er, ei, levels, evenRe, evenIm, options.budget);
+  basis.weightedSums!(ox, or, oi, levels, oddRe, oddIm, options.budget);
+  const re = new Float64Array(levels);
+  const im = new Float64Array(levels);
+  const error = new Float64Array(levels);
+  const tol = Math.max(1e-12 * Math.sqrt(norm), 1e-13 * norm);
+  // Rounding: about eps (log2 N + sqrt n) times the sum of the terms' sizes (the recurrence loses about
+  // sqrt n eps relative); the nodes left out move no coefficient by more than negligible sqrt(norm).
+  const floor = options.negligible * Math.sqrt(norm);
+  const roundBase = 4e-16 * absSum * phiMax;
+  let worst = 0;
+  for (let k = 0; k < levels; k++) {
+    re[k] = h * (evenRe[k]! + oddRe[k]!);
+    im[k] = h * (evenIm[k]! + oddIm[k]!);
+    const dr = re[k]! - 2 * h * evenRe[k]!;
+    const di = im[k]! - 2 * h * evenIm[k]!;
+    const e = 2 * Math.hypot(dr, di) + floor + roundBase * (Math.log2(N) + Math.sqrt(k + 1));
+    error[k] = e;
+    if (e > worst) worst = e;
+  }
+  if (worst > tol) return 'unsettled';
+  return { re, im, error, norm, intervals: N, span: [xs[first]!, xs[last]!] };
+}
+
+/**
+ * Even and odd nodes apart, each with weights psi_j (the ends halved), so fine = h (E + O) and half = 2 h E;
+ * nodes with h |psi_j|^2 below `below` get zero weights (left out of the sums). Null when none is kept.
+ */
+function splitNodes(xs: Float64Array, v: GridValues, h: number, below: number) {
+  const N = xs.length - 1;
   const half = Math.floor(N / 2) + 1;
   const ex = new Float64Array(half);
   const er = new Float64Array(half);
@@ -139,32 +174,7 @@ function onGrid(
       oi[j >> 1] = keep ? i : 0;
     }
   }
-  const evenRe = new Float64Array(levels);
-  const evenIm = new Float64Array(levels);
-  const oddRe = new Float64Array(levels);
-  const oddIm = new Float64Array(levels);
-  basis.weightedSums!(ex, er, ei, levels, evenRe, evenIm, options.budget);
-  basis.weightedSums!(ox, or, oi, levels, oddRe, oddIm, options.budget);
-  const re = new Float64Array(levels);
-  const im = new Float64Array(levels);
-  const error = new Float64Array(levels);
-  const tol = Math.max(1e-12 * Math.sqrt(norm), 1e-13 * norm);
-  // Rounding: about eps (log2 N + sqrt n) times the sum of the terms' sizes (the recurrence loses about
-  // sqrt n eps relative); the nodes left out move no coefficient by more than negligible sqrt(norm).
-  const floor = options.negligible * Math.sqrt(norm);
-  const roundBase = 4e-16 * absSum * phiMax;
-  let worst = 0;
-  for (let k = 0; k < levels; k++) {
-    re[k] = h * (evenRe[k]! + oddRe[k]!);
-    im[k] = h * (evenIm[k]! + oddIm[k]!);
-    const dr = re[k]! - 2 * h * evenRe[k]!;
-    const di = im[k]! - 2 * h * evenIm[k]!;
-    const e = 2 * Math.hypot(dr, di) + floor + roundBase * (Math.log2(N) + Math.sqrt(k + 1));
-    error[k] = e;
-    if (e > worst) worst = e;
-  }
-  if (worst > tol) return 'unsettled';
-  return { re, im, error, norm, intervals: N, span: [xs[Math.max(0, first)]!, xs[Math.max(0, last)]!] };
+  return first < 0 ? null : { ex, er, ei, ox, or, oi, first, last };
 }
 
 /**
