@@ -82,6 +82,28 @@ describe('the whole-line trapezoid with its nested half grid', () => {
     expect(worst).toBeLessThan(1e-14);
   });
 
+  it('a packet faster than the basis doubles the grid until the estimate settles, and stays bounded', () => {
+    // 200 levels (k = sqrt(399) = 20) of a packet with momentum 15: the spectrum of phi_n psi reaches about
+    // 20 + 15 + 8.6 (the Gaussian's to 1e-16) = 44, beyond 2 pi / (2h) = 1.3 k = 26 where the first half grid
+    // aliases, so the first grid does not settle, and the next (pi / h = 52) does (derived in this comment).
+    const basis = oscillatorBasis(1, 0, 1, 200);
+    const state = gaussianState(0, Math.SQRT1_2, 15);
+    const window = findWindow(state, basis)!;
+    const k = maxWaveNumber(basis, 200, window);
+    const r = lineTrapezoid(state, basis, 200, window, k, { maxNodes: 1 << 18, negligible: NEG, budget: createBudget() })!;
+    let first = 64;
+    while (first * Math.PI < 1.3 * k * (window[1] - window[0])) first *= 2;
+    expect(r.intervals).toBeGreaterThan(first);
+    const ex = expandState(state, basis, 200, window, { maxGridPoints: 1 << 18, budget: createBudget() });
+    const ref = coherent(200, 0, 15);
+    const s = 1 / Math.sqrt(ex.norm);
+    for (let n = 0; n < 200; n++) {
+      const err = Math.hypot(ex.re[n]! * s - ref.re[n]!, ex.im[n]! * s - ref.im[n]!);
+      expect(ex.error[n]! * s + 1e-16).toBeGreaterThanOrEqual(err);
+      expect(err).toBeLessThan(1e-13);
+    }
+  });
+
   it('a component that aliases alike onto both nested grids is caught by the quadrature on other nodes', () => {
     // The packet at d = 3 plus 1e-6 of it times cos(K (x - a)), K = 2 pi / h of the fine grid: at every
     // node of both nested grids the cosine is 1, so the trapezoid sees (1 + 1e-6) psi and both grids agree.
