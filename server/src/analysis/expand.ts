@@ -10,6 +10,8 @@ import { project } from '../physics/project';
 import { Stopped } from '../physics/budget';
 import { boxTransform } from './boxTransform';
 import type { PacketSpec } from './packetPremise';
+import { lineCheck, lineGrid, lineTrapezoid } from './lineTrapezoid';
+import { transformGrids } from './transformGrids';
 import { fitDecay } from '../physics/decay';
 import type { StateFunction } from './systems';
 import type { DecayResult } from './types';
@@ -249,10 +251,24 @@ function projectWithin(basis: Eigenbasis, q: Quadrature, values: GridValues, lev
   return { re, im };
 }
 
+/**
+ * state.breakpoints(a, b), kept for the last interval asked of each state: the expansion and the jump and
+ * kink search ask the same state for the same window (a formula's breakpoints are found by walking and
+ * solving its conditions, which is not free). A fresh copy each time: callers may add to it.
+ */
+function stateBreakpoints(state: StateFunction, a: number, b: number): number[] {
+  const hit = BREAKPOINTS.get(state);
+  if (hit && hit.a === a && hit.b === b) return [...hit.points];
+  const points = state.breakpoints(a, b);
+  BREAKPOINTS.set(state, { a, b, points: [...points] });
+  return points;
+}
+const BREAKPOINTS = new WeakMap<StateFunction, { a: number; b: number; points: number[] }>();
+
 /** The breakpoints of the state, the basis and the state's old walls inside the window, sorted. */
 function allBreakpoints(state: StateFunction, basis: Eigenbasis, window: [number, number]): number[] {
   const bps = new Set<number>();
-  for (const x of state.breakpoints(window[0], window[1])) bps.add(x);
+  for (const x of stateBreakpoints(state, window[0], window[1])) bps.add(x);
   for (const x of basis.breakpoints) if (x > window[0] && x < window[1]) bps.add(x);
   if (state.walls) for (const x of state.walls) if (x > window[0] && x < window[1]) bps.add(x);
   return [...bps].sort((a, b) => a - b);
@@ -280,16 +296,30 @@ export function expandState(state: StateFunction, basis: Eigenbasis, levels: num
   const wanted = panels;
   panels = Math.min(panels, maxPanels);
   const first = panels;
+  // After the transform (its coefficients checked against the state between its samples, boxTransform.ts)
+  // a grid serves only the norm, the energy integrals, the parity and the peaks: one sized to the state,
+  // not to the basis (transformGrids.ts).
+  const served = fast && transformGrids(state, window, breakpoints, first, options.budget, { quadrature: quadratureFor, checkFinite, integrateAbs2 });
+  if (fast && served) return { ...served, re: fast.re, im: fast.im, error: fast.error, stopped: null, samplePeak: fast.peak };
+  // A smooth state on the whole line (the oscillator): the trapezoid rule with its nested half grid
+  // (lineTrapezoid.ts) replaces the projection and its check grid; the first grid checks it, then serves the rest.
+  let line = fast || breakpoints.length > 0 ? null : lineTrapezoid(state, basis, levels, window, k, { maxNodes: Math.min(options.maxGridPoints, 1 << 18), negligible: NEGLIGIBLE, budget: options.budget });
   const budget = options.budget;
   let prev: Expanded | null = null;
   const timed = Number.isFinite(budget.limitMs);
   for (;;) {
     const t0 = timed ? budget.clock.now() : 0;
-    const q = quadratureFor(window, breakpoints, first, panels / first);
+    const q = line ? lineGrid(basis, line, window, { order: ORDER, panelPhase: PANEL_PHASE, waveNumber: (span) => maxWaveNumber(basis, levels, span) }) : quadratureFor(window, breakpoints, first, panels / first);
     const values = state.evaluate(q.x, 2);
     checkFinite(q.x, values);
     budget.count(q.x.length, q.x.length);
     const norm = integrateAbs2(q, values);
+    if (line) {
+      if (lineCheck(basis, q, values, line, norm, NEGLIGIBLE)) return { q, values, re: line.re, im: line.im, norm, error: line.error, stopped: null };
+      // The check failed: project on the whole window's grid as before.
+      line = null;
+      continue;
+    }
     const c = fast ?? projectWithin(basis, q, values, levels, budget);
     if (c === null) return prev ? { ...prev, stopped: budget.reason } : { q, values, re: new Float64Array(0), im: new Float64Array(0), norm, error: new Float64Array(0), stopped: budget.reason };
     const cur: Expanded = { q, values, re: c.re, im: c.im, norm, error: fast ? fast.error : differences(prev, c, levels, NEGLIGIBLE * Math.sqrt(norm)), stopped: null };
@@ -389,7 +419,7 @@ export function classifyBreakpoints(
 ): { jumps: number[]; kinks: number[] } {
   const jumps: number[] = [];
   const kinks: number[] = [];
-  const pts = state.jumpCandidates ? state.jumpCandidates(window[0], window[1]) : state.breakpoints(window[0], window[1]);
+  const pts = state.jumpCandidates ? state.jumpCandidates(window[0], window[1]) : stateBreakpoints(state, window[0], window[1]);
   if (state.walls) for (const w of state.walls) if (w > window[0] && w < window[1]) pts.push(w);
   if (pts.length === 0) return { jumps, kinks };
   const h = 1e-7 * (window[1] - window[0]);

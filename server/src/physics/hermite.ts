@@ -5,8 +5,8 @@
 /** Cody–Waite split of ln 2: the high part has few bits, so q * LN2_HI is exact for |q| < 2^20. */
 const LN2_HI = 0.693145751953125;
 const LN2_LO = 1.4286068203094173e-6;
-const PI_M14 = Math.pow(Math.PI, -0.25);
-const TWO64 = 18446744073709551616;
+export const PI_M14 = Math.pow(Math.PI, -0.25);
+export const TWO64 = 18446744073709551616;
 const TWOM64 = 1 / TWO64;
 
 /** m * 2^e without intermediate overflow or premature underflow (exact unless the result is subnormal). */
@@ -30,7 +30,7 @@ function ldexp(m: number, e: number): number {
  * Splits e^{-xi^2/2} as base * 2^q with base in about [0.7, 1.5], q an integer, with xi^2 formed
  * exactly (Dekker's two-product) so the Gaussian keeps full relative precision even at |xi| = 50.
  */
-function gaussianSplit(xi: number): { base: number; q: number } {
+export function gaussianSplit(xi: number): { base: number; q: number } {
   const sq = xi * xi;
   // Veltkamp split of xi for the exact error of xi * xi.
   const t = 134217729 * xi;
@@ -109,7 +109,7 @@ export function hermiteFunction(n: number, xi: number): number {
 /** 2^e for e = -1100 ... 1100 (0 and subnormals at the low end), index e + 1100. */
 let pow2: Float64Array | null = null;
 /** w 2^e: exact while in range, 0 or subnormal below (a weight that small adds nothing the sums keep). */
-function scaled(w: number, e: number): number {
+export function scaled(w: number, e: number): number {
   if (e < -1100 || e > 1100) return ldexp(w, e);
   if (!pow2) {
     pow2 = new Float64Array(2201);
@@ -120,7 +120,7 @@ function scaled(w: number, e: number): number {
 
 /** sqrt(2/k) and sqrt((k-1)/k) of the recurrence for k < length, cached for the largest length asked. */
 let recurrence: { a: Float64Array; b: Float64Array } | null = null;
-function recurrenceFactors(levels: number): { a: Float64Array; b: Float64Array } {
+export function recurrenceFactors(levels: number): { a: Float64Array; b: Float64Array } {
   if (recurrence && recurrence.a.length >= levels) return recurrence;
   const a = new Float64Array(levels);
   const b = new Float64Array(levels);
