@@ -16,6 +16,7 @@ import { relativeEigenvectors } from './twisted';
 import { reduceUnblocked } from './householder';
 import { reduceBlocked } from './tridiagBlocked';
 import { backTransformBlocked } from './backTransformBlocked';
+import { bisectLowest } from './bisect';
 
 /** A symmetric tridiagonal matrix: diagonal `d` (length n) and off-diagonal `e` (length n - 1, e[i] = T[i+1][i]). */
 export interface Tridiagonal {
@@ -106,39 +107,19 @@ export function gershgorin(t: Tridiagonal): [number, number] {
 
 /**
  * The lowest `k` eigenvalues of T, ascending, by bisection on the Sturm count (Golub & Van Loan 8.4.1),
- * each to about 2 eps max(|lo|, |hi|) + pivmin: the absolute accuracy eps ||T|| any backward-stable method has.
+ * each to about 2 eps max(|lo|, |hi|) + pivmin: the absolute accuracy eps ||T|| any backward-stable method has
+ * (four eigenvalues at a time: bisect.ts).
  */
 export function lowestEigenvalues(t: Tridiagonal, k: number, budget?: Budget): Float64Array {
   const n = t.d.length;
   const m = Math.max(0, Math.min(k, n));
-  const out = new Float64Array(m);
-  if (m === 0) return out;
+  if (m === 0) return new Float64Array(0);
   const [glo, ghi] = gershgorin(t);
   const scale = Math.max(Math.abs(glo), Math.abs(ghi), Number.MIN_VALUE);
   const pivmin = Number.MIN_VALUE * 1e10 + scale * 1e-300;
-  const eps = 2.220446049250313e-16;
-  // Brackets shared between eigenvalues: every Sturm count at x tightens the bounds of all of them.
-  const lower = new Float64Array(m).fill(glo - eps * scale * 4 - pivmin);
-  const upper = new Float64Array(m).fill(ghi + eps * scale * 4 + pivmin);
-  for (let j = 0; j < m; j++) {
-    let lo = lower[j];
-    let hi = upper[j];
-    for (let it = 0; it < 200; it++) {
-      const mid = 0.5 * (lo + hi);
-      if (hi - lo <= 2 * eps * Math.max(Math.abs(lo), Math.abs(hi)) + pivmin || mid === lo || mid === hi) break;
-      charge(budget, 5 * n);
-      const c = sturmCount(t, mid, pivmin);
-      if (c > j) hi = mid;
-      else lo = mid;
-      for (let i = j + 1; i < m; i++) {
-        if (i < c) {
-          if (mid < upper[i]) upper[i] = mid;
-        } else if (mid > lower[i]) lower[i] = mid;
-      }
-    }
-    out[j] = 0.5 * (lo + hi);
-  }
-  return out;
+  const e2 = new Float64Array(Math.max(0, n - 1));
+  for (let i = 0; i < n - 1; i++) e2[i] = t.e[i] * t.e[i];
+  return bisectLowest(t.d, e2, m, glo, ghi, pivmin, budget);
 }
 
 /**
