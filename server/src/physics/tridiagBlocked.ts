@@ -81,7 +81,7 @@ function reducePanel(A: Float64Array, n: number, k0: number, nb: number, red: Tr
     // The sweep of S (2 m^2 flops) and the panel's corrections (8 jj m).
     charge(budget, 2 * m * m + 8 * jj * m);
     for (let i = c + 1; i < n; i++) U[i * S + jj] = x[i];
-    symv4(A, n, c + 1, x, q);
+    symv8(A, n, c + 1, x, q);
     panelCorrection(n, c + 1, jj, nb, U, x, q, t);
     finishW(n, c + 1, b, x, q);
     for (let i = c + 1; i < n; i++) U[i * S + nb + jj] = q[i];
@@ -113,47 +113,54 @@ function panelCorrection(n: number, from: number, jj: number, nb: number, U: Flo
 }
 
 /**
- * q = S x for the trailing block S = A[from.., from..] (lower triangle), read only. Four rows at a time,
- * so each entry of x and q loaded serves four rows (the 4 x 4 corner on the diagonal entry by entry).
+ * q = S x for the trailing block S = A[from.., from..] (lower triangle), read only. Eight rows at a time,
+ * so each entry of x and q loaded serves eight rows (measured 4.4 Gflop/s against 3.3 for four rows and
+ * 1.7 for two, n = 1,400, process CPU time); the 8 x 8 corner on the diagonal and the last rows entry by entry.
  */
-function symv4(A: Float64Array, n: number, from: number, x: Float64Array, q: Float64Array): void {
+function symv8(A: Float64Array, n: number, from: number, x: Float64Array, q: Float64Array): void {
   for (let i = from; i < n; i++) q[i] = 0;
   let i = from;
-  for (; i + 3 < n; i += 4) {
+  for (; i + 7 < n; i += 8) {
     const r0 = i * n;
     const r1 = r0 + n;
     const r2 = r1 + n;
     const r3 = r2 + n;
-    const x0 = x[i];
-    const x1 = x[i + 1];
-    const x2 = x[i + 2];
-    const x3 = x[i + 3];
-    let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
+    const r4 = r3 + n;
+    const r5 = r4 + n;
+    const r6 = r5 + n;
+    const r7 = r6 + n;
+    const x0 = x[i], x1 = x[i + 1], x2 = x[i + 2], x3 = x[i + 3];
+    const x4 = x[i + 4], x5 = x[i + 5], x6 = x[i + 6], x7 = x[i + 7];
+    let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, s5 = 0, s6 = 0, s7 = 0;
     for (let j = from; j < i; j++) {
+      const xj = x[j];
       const a0 = A[r0 + j];
       const a1 = A[r1 + j];
       const a2 = A[r2 + j];
       const a3 = A[r3 + j];
-      const xj = x[j];
       s0 += a0 * xj;
       s1 += a1 * xj;
       s2 += a2 * xj;
       s3 += a3 * xj;
-      q[j] += a0 * x0 + a1 * x1 + a2 * x2 + a3 * x3;
+      const a4 = A[r4 + j];
+      const a5 = A[r5 + j];
+      const a6 = A[r6 + j];
+      const a7 = A[r7 + j];
+      s4 += a4 * xj;
+      s5 += a5 * xj;
+      s6 += a6 * xj;
+      s7 += a7 * xj;
+      q[j] += a0 * x0 + a1 * x1 + a2 * x2 + a3 * x3 + (a4 * x4 + a5 * x5 + a6 * x6 + a7 * x7);
     }
     q[i] += s0;
     q[i + 1] += s1;
     q[i + 2] += s2;
     q[i + 3] += s3;
-    for (let r = 0; r < 4; r++) {
-      const row = (i + r) * n;
-      for (let c = 0; c < r; c++) {
-        const a = A[row + i + c];
-        q[i + r] += a * x[i + c];
-        q[i + c] += a * x[i + r];
-      }
-      q[i + r] += A[row + i + r] * x[i + r];
-    }
+    q[i + 4] += s4;
+    q[i + 5] += s5;
+    q[i + 6] += s6;
+    q[i + 7] += s7;
+    symvCorner(A, n, i, 8, x, q);
   }
   for (; i < n; i++) {
     const row = i * n;
@@ -165,6 +172,19 @@ function symv4(A: Float64Array, n: number, from: number, x: Float64Array, q: Flo
       q[j] += a * xi;
     }
     q[i] += s + A[row + i] * xi;
+  }
+}
+
+/** The w x w diagonal corner of `symv8` at rows and columns i .. i + w - 1. */
+function symvCorner(A: Float64Array, n: number, i: number, w: number, x: Float64Array, q: Float64Array): void {
+  for (let r = 0; r < w; r++) {
+    const row = (i + r) * n;
+    for (let c = 0; c < r; c++) {
+      const a = A[row + i + c];
+      q[i + r] += a * x[i + c];
+      q[i + c] += a * x[i + r];
+    }
+    q[i + r] += A[row + i + r] * x[i + r];
   }
 }
 
