@@ -6,6 +6,8 @@
  * Why this route and not full QL with accumulated rotations: the solver needs only the lowest k of n
  * levels with k much smaller than n; bisection and inverse iteration cost O(n k) on the tridiagonal and
  * O(n^2 k) to map the vectors back, so the O(4/3 n^3) reduction dominates and nothing else grows as n^3.
+ * Large matrices (from `BLOCKED_FROM` rows, where the unblocked sweeps no longer fit in the cache) are
+ * reduced in panels (tridiagBlocked.ts) and mapped back with grouped reflectors (backTransformBlocked.ts).
  *
  * Every stage takes an optional budget and charges it its flops as it goes (`charge`: a poll of the
  * clock every `POLL_OPS`), so a solve of any size stops within a few milliseconds of the deadline by
