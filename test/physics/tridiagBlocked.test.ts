@@ -211,6 +211,26 @@ describe('closed forms through the blocked paths', () => {
     expect(orthonormalityError(vectors, n, null, lowerPairs(40))).toBeLessThan(1e-12);
   });
 
+  it('a matrix already tridiagonal, (-1, 2, -1) with n = 1,050 (every reflector the identity): lambda_k = 2 - 2 cos(k pi/(n+1))', () => {
+    // Closed form of the second-difference matrix (Golub & Van Loan, Matrix Computations, 4th ed., 4.8.3
+    // (from memory)), eigenvectors sqrt(2/(n+1)) sin(i k pi/(n+1)).
+    const n = 1050;
+    expect(n).toBeGreaterThanOrEqual(BLOCKED_FROM);
+    const A = new Float64Array(n * n);
+    for (let i = 0; i < n; i++) {
+      A[i * n + i] = 2;
+      if (i > 0) A[i * n + i - 1] = A[(i - 1) * n + i] = -1;
+    }
+    const { values, vectors } = symmetricLowest(A, n, 10);
+    for (let k = 1; k <= 10; k++) {
+      expect(Math.abs(values[k - 1]! - (2 - 2 * Math.cos((k * Math.PI) / (n + 1))))).toBeLessThan(1e-14);
+      const sign = Math.sign(vectors[(k - 1) * n]!);
+      let worst = 0;
+      for (let i = 0; i < n; i++) worst = Math.max(worst, Math.abs(sign * vectors[(k - 1) * n + i]! - Math.sqrt(2 / (n + 1)) * Math.sin(((i + 1) * k * Math.PI) / (n + 1))));
+      expect(worst).toBeLessThan(1e-9);
+    }
+  });
+
   it('p^2 + x^2, sine DVR of 2,101 intervals (both blocks from BLOCKED_FROM rows): the lowest 120 levels are 2 n + 1', () => {
     // E_n = 2 n + 1 for H = p^2 + x^2 (hbar = 1, m = 1/2; closed form). On [-20, 20] with h = 0.019 the
     // DVR resolves these levels far below 1e-9 (level 119's turning point is 15.5; the wall shifts it by
