@@ -6,6 +6,8 @@
  * Why this route and not full QL with accumulated rotations: the solver needs only the lowest k of n
  * levels with k much smaller than n; bisection and inverse iteration cost O(n k) on the tridiagonal and
  * O(n^2 k) to map the vectors back, so the O(4/3 n^3) reduction dominates and nothing else grows as n^3.
+ * Large matrices (from `BLOCKED_FROM` rows, where the unblocked sweeps no longer fit in the cache) are
+ * reduced in panels (tridiagBlocked.ts) and mapped back with grouped reflectors (backTransformBlocked.ts).
  *
  * Every stage takes an optional budget and charges it its flops as it goes (`charge`: a poll of the
  * clock every `POLL_OPS`), so a solve of any size stops within a few milliseconds of the deadline by
@@ -13,6 +15,10 @@
  */
 import { charge, type Budget } from './budget';
 import { relativeEigenvectors } from './twisted';
+import { reduceUnblocked } from './householder';
+import { reduceBlocked } from './tridiagBlocked';
+import { backTransformBlocked } from './backTransformBlocked';
+import { bisectLowest } from './bisect';
 
 /** A symmetric tridiagonal matrix: diagonal `d` (length n) and off-diagonal `e` (length n - 1, e[i] = T[i+1][i]). */
 export interface Tridiagonal {
@@ -28,181 +34,47 @@ export interface TridiagonalReduction extends Tridiagonal {
   beta: Float64Array;
 }
 
+/** Panel width of the blocked reduction (tridiagBlocked.ts). */
+export const PANEL_WIDTH = 32;
+
+/**
+ * Order from which the blocked reduction is used, and the trailing rows it leaves to the unblocked one.
+ * Measured (process CPU time, scripts/bench-tridiag.mjs and single runs, 2026-12-02): below about 900
+ * rows the matrix stays in the cache and the unblocked sweep, eight flops per entry visited, is the
+ * faster (n = 400-800: 3.1-3.8 Gflop/s against 2.3-3.3 blocked); at 1,100 rows it falls to 2.5 Gflop/s
+ * against 2.9-3.5 blocked, at 1,600 to 2.3 against 3.1.
+ */
+export const BLOCKED_FROM = 1000;
+
+/** Trailing rows the blocked reduction leaves to the unblocked one (where the latter is faster again). */
+export const UNBLOCKED_TAIL = 800;
+
+/** Options of `householderTridiagonalize` (for tests and benchmarks; the defaults are the measured choice). */
+export interface ReductionOptions {
+  /** Panel width; 0 reduces unblocked throughout. Default `PANEL_WIDTH` from order `BLOCKED_FROM`, else 0. */
+  panel?: number;
+  /** Trailing rows left to the unblocked reduction (at least 3). Default `UNBLOCKED_TAIL`. */
+  tail?: number;
+}
+
 /**
  * Reduces a real symmetric matrix A (row-major, n x n, only the lower triangle read; destroyed) to
  * tridiagonal T = Q^T A Q with Q = H_0 H_1 ... H_{n-3}, H_k = I - beta_k v_k v_k^T
- * (Golub & Van Loan, Matrix Computations, Algorithm 8.3.1). Cost 4/3 n^3 flops: the trailing block is
- * updated as S <- S - v w^T - w v^T with w = p - (beta p.v / 2) v, p = beta S v, on its lower triangle only.
- *
- * The two halves of each step are fused into one sweep of the trailing block: the rank-2 update of step
- * k is applied to column k + 1 first (which gives reflector k + 1), then one pass over the rest both
- * finishes the update and accumulates p = S v of step k + 1 from the updated entries. So the matrix is
- * read and written once per step instead of read twice and written once: the same flops in the same
- * order per entry, with a third less memory traffic (the reduction is memory-bound once A outgrows the cache).
+ * (Golub & Van Loan, Matrix Computations, Algorithm 8.3.1), in 4/3 n^3 flops: in panels
+ * (tridiagBlocked.ts) while more than the tail is left, then unblocked (householder.ts).
  */
-export function householderTridiagonalize(A: Float64Array, n: number, budget?: Budget): TridiagonalReduction {
-  const d = new Float64Array(n);
-  const e = new Float64Array(Math.max(0, n - 1));
-  const v = new Float64Array(n * n);
-  const beta = new Float64Array(Math.max(0, n));
-  // x, w: reflector and update vector of the step being applied; y, q: the next step's reflector and S y.
-  let x = new Float64Array(n);
-  let w = new Float64Array(n);
-  let y = new Float64Array(n);
-  let q = new Float64Array(n);
-  if (n >= 3) {
-    reflector(A, n, 0, v, beta, d, e, x);
-    if (beta[0] !== 0) {
-      charge(budget, 2 * (n - 1) * (n - 1));
-      symv(A, n, 1, x, w);
-      finishW(n, 1, beta[0], x, w);
-    }
-  }
-  for (let k = 0; k < n - 2; k++) {
-    // The rank-2 update of step k (2 m^2 flops) fused with p = S v of step k + 1 (2 m^2 flops).
-    charge(budget, 4 * (n - k - 1) * (n - k - 1));
-    const c = k + 1;
-    const active = beta[k] !== 0;
-    if (active) for (let i = c; i < n; i++) A[i * n + c] -= x[i] * w[c] + w[i] * x[c];
-    const next = c < n - 2;
-    if (next) reflector(A, n, c, v, beta, d, e, y);
-    const withP = next && beta[c] !== 0;
-    if (withP) fusedSweep(A, n, c + 1, active, x, w, y, q);
-    else if (active) {
-      for (let i = c + 1; i < n; i++) {
-        const row = i * n;
-        const xi = x[i];
-        const wi = w[i];
-        for (let j = c + 1; j <= i; j++) A[row + j] -= xi * w[j] + wi * x[j];
-      }
-    }
-    if (withP) finishW(n, c + 1, beta[c], y, q);
-    // The next step's reflector and update vector become the current ones.
-    [x, y] = [y, x];
-    [w, q] = [q, w];
-  }
-  if (n >= 2) {
-    d[n - 2] = A[(n - 2) * n + n - 2];
-    e[n - 2] = A[(n - 1) * n + n - 2];
-  }
-  if (n >= 1) d[n - 1] = A[(n - 1) * n + n - 1];
-  return { n, d, e, v, beta };
-}
-
-/**
- * One sweep of the trailing block A[from.., from..] (lower triangle): A -= x w^T + w x^T (when `active`)
- * and q = A y with the updated entries. Two rows at a time, so each entry of x, w, y and q loaded serves
- * both rows.
- */
-function fusedSweep(A: Float64Array, n: number, from: number, active: boolean, x: Float64Array, w: Float64Array, y: Float64Array, q: Float64Array): void {
-  for (let i = from; i < n; i++) q[i] = 0;
-  let i = from;
-  for (; i + 1 < n; i += 2) {
-    const r0 = i * n;
-    const r1 = r0 + n;
-    const x0 = active ? x[i] : 0;
-    const w0 = active ? w[i] : 0;
-    const x1 = active ? x[i + 1] : 0;
-    const w1 = active ? w[i + 1] : 0;
-    const y0 = y[i];
-    const y1 = y[i + 1];
-    let s0 = 0;
-    let s1 = 0;
-    for (let j = from; j < i; j++) {
-      const wj = w[j];
-      const xj = x[j];
-      const yj = y[j];
-      const a0 = A[r0 + j] - (x0 * wj + w0 * xj);
-      const a1 = A[r1 + j] - (x1 * wj + w1 * xj);
-      A[r0 + j] = a0;
-      A[r1 + j] = a1;
-      s0 += a0 * yj;
-      s1 += a1 * yj;
-      q[j] += a0 * y0 + a1 * y1;
-    }
-    // The 2 x 2 corner: A[i][i], A[i+1][i], A[i+1][i+1].
-    const aii = A[r0 + i] - 2 * x0 * w0;
-    const ai1 = A[r1 + i] - (x1 * w0 + w1 * x0);
-    const a11 = A[r1 + i + 1] - 2 * x1 * w1;
-    A[r0 + i] = aii;
-    A[r1 + i] = ai1;
-    A[r1 + i + 1] = a11;
-    q[i] += s0 + aii * y0 + ai1 * y1;
-    q[i + 1] += s1 + ai1 * y0 + a11 * y1;
-  }
-  if (i < n) {
-    const row = i * n;
-    const xi = active ? x[i] : 0;
-    const wi = active ? w[i] : 0;
-    const yi = y[i];
-    let s = 0;
-    for (let j = from; j < i; j++) {
-      const a = A[row + j] - (xi * w[j] + wi * x[j]);
-      A[row + j] = a;
-      s += a * y[j];
-      q[j] += a * yi;
-    }
-    const aii = A[row + i] - 2 * xi * wi;
-    A[row + i] = aii;
-    q[i] += s + aii * yi;
-  }
-}
-
-/**
- * Reflector k from column k of the (updated) trailing block: d[k], e[k], beta[k], v_k (into `v` and
- * `x`, x[i] for i > k). beta[k] = 0 when the column is already tridiagonal (then x is zero).
- */
-function reflector(A: Float64Array, n: number, k: number, v: Float64Array, beta: Float64Array, d: Float64Array, e: Float64Array, x: Float64Array): void {
-  let norm2 = 0;
-  for (let i = k + 1; i < n; i++) {
-    const a = A[i * n + k];
-    x[i] = a;
-    norm2 += a * a;
-  }
-  d[k] = A[k * n + k];
-  const norm = Math.sqrt(norm2);
-  const x0 = x[k + 1];
-  if (norm === 0 || norm2 - x0 * x0 === 0) {
-    e[k] = x0;
-    beta[k] = 0;
-    for (let i = k + 1; i < n; i++) x[i] = 0;
-    return;
-  }
-  const alpha = x0 >= 0 ? -norm : norm;
-  x[k + 1] = x0 - alpha;
-  let vv = 0;
-  for (let i = k + 1; i < n; i++) vv += x[i] * x[i];
-  beta[k] = 2 / vv;
-  e[k] = alpha;
-  const vo = k * n;
-  for (let i = k + 1; i < n; i++) v[vo + i] = x[i];
-}
-
-/** p = S x for the trailing block S = A[from.., from..] (lower triangle), into p. */
-function symv(A: Float64Array, n: number, from: number, x: Float64Array, p: Float64Array): void {
-  for (let i = from; i < n; i++) p[i] = 0;
-  for (let i = from; i < n; i++) {
-    const row = i * n;
-    const xi = x[i];
-    let s = 0;
-    for (let j = from; j < i; j++) {
-      const a = A[row + j];
-      s += a * x[j];
-      p[j] += a * xi;
-    }
-    p[i] += s + A[row + i] * xi;
-  }
-}
-
-/** Turns p = S x into w = beta p - (beta^2 p.x / 2) x in place (entries from `from` on). */
-function finishW(n: number, from: number, b: number, x: Float64Array, p: Float64Array): void {
-  let pv = 0;
-  for (let i = from; i < n; i++) {
-    p[i] *= b;
-    pv += p[i] * x[i];
-  }
-  const half = 0.5 * b * pv;
-  for (let i = from; i < n; i++) p[i] -= half * x[i];
+export function householderTridiagonalize(A: Float64Array, n: number, budget?: Budget, options: ReductionOptions = {}): TridiagonalReduction {
+  const red: TridiagonalReduction = {
+    n,
+    d: new Float64Array(n),
+    e: new Float64Array(Math.max(0, n - 1)),
+    v: new Float64Array(n * n),
+    beta: new Float64Array(Math.max(0, n)),
+  };
+  const panel = options.panel ?? (n >= BLOCKED_FROM ? PANEL_WIDTH : 0);
+  const k0 = panel > 0 ? reduceBlocked(A, n, panel, options.tail ?? UNBLOCKED_TAIL, red, budget) : 0;
+  reduceUnblocked(A, n, k0, red, budget);
+  return red;
 }
 
 /** Number of eigenvalues of T strictly below `x` (Sturm sequence count of the LDL^T pivots; Golub & Van Loan 8.4.1). */
@@ -237,39 +109,19 @@ export function gershgorin(t: Tridiagonal): [number, number] {
 
 /**
  * The lowest `k` eigenvalues of T, ascending, by bisection on the Sturm count (Golub & Van Loan 8.4.1),
- * each to about 2 eps max(|lo|, |hi|) + pivmin: the absolute accuracy eps ||T|| any backward-stable method has.
+ * each to about 2 eps max(|lo|, |hi|) + pivmin: the absolute accuracy eps ||T|| any backward-stable method has
+ * (four eigenvalues at a time: bisect.ts).
  */
 export function lowestEigenvalues(t: Tridiagonal, k: number, budget?: Budget): Float64Array {
   const n = t.d.length;
   const m = Math.max(0, Math.min(k, n));
-  const out = new Float64Array(m);
-  if (m === 0) return out;
+  if (m === 0) return new Float64Array(0);
   const [glo, ghi] = gershgorin(t);
   const scale = Math.max(Math.abs(glo), Math.abs(ghi), Number.MIN_VALUE);
   const pivmin = Number.MIN_VALUE * 1e10 + scale * 1e-300;
-  const eps = 2.220446049250313e-16;
-  // Brackets shared between eigenvalues: every Sturm count at x tightens the bounds of all of them.
-  const lower = new Float64Array(m).fill(glo - eps * scale * 4 - pivmin);
-  const upper = new Float64Array(m).fill(ghi + eps * scale * 4 + pivmin);
-  for (let j = 0; j < m; j++) {
-    let lo = lower[j];
-    let hi = upper[j];
-    for (let it = 0; it < 200; it++) {
-      const mid = 0.5 * (lo + hi);
-      if (hi - lo <= 2 * eps * Math.max(Math.abs(lo), Math.abs(hi)) + pivmin || mid === lo || mid === hi) break;
-      charge(budget, 5 * n);
-      const c = sturmCount(t, mid, pivmin);
-      if (c > j) hi = mid;
-      else lo = mid;
-      for (let i = j + 1; i < m; i++) {
-        if (i < c) {
-          if (mid < upper[i]) upper[i] = mid;
-        } else if (mid > lower[i]) lower[i] = mid;
-      }
-    }
-    out[j] = 0.5 * (lo + hi);
-  }
-  return out;
+  const e2 = new Float64Array(Math.max(0, n - 1));
+  for (let i = 0; i < n - 1; i++) e2[i] = t.e[i] * t.e[i];
+  return bisectLowest(t.d, e2, m, glo, ghi, pivmin, budget);
 }
 
 /**
@@ -417,8 +269,25 @@ export function backTransform(r: TridiagonalReduction, y: Float64Array): void {
   }
 }
 
+/**
+ * Order from which `backTransformAll` applies the reflectors in groups (backTransformBlocked.ts).
+ * Measured as `BLOCKED_FROM` (process CPU time, n/2 vectors): even at n = 800 (2.9-3.0 Gflop/s both),
+ * 1.36x faster at n = 1,600 (2.9 against 2.1 Gflop/s), slower below 400.
+ */
+export const WY_FROM = 1000;
+
 /** Vectors mapped back together by `backTransformAll` (each reflector read once per group). */
 const BACK_GROUP = 8;
+
+/**
+ * Maps the m eigenvectors of T in `vectors` (row by row) back to A, in place: from order `WY_FROM` with
+ * at least `BACK_GROUP` vectors in groups of reflectors (compact WY, backTransformBlocked.ts), else with
+ * `backTransformInterleaved`. Charged 2 n^2 per vector either way.
+ */
+export function backTransformAll(r: TridiagonalReduction, vectors: Float64Array, m: number, budget?: Budget): void {
+  if (r.n >= WY_FROM && m >= BACK_GROUP) backTransformBlocked(r, vectors, m, budget);
+  else backTransformInterleaved(r, vectors, m, budget);
+}
 
 /**
  * Maps the m eigenvectors of T in `vectors` (row by row) back to A, in place: groups of `BACK_GROUP`
@@ -426,7 +295,7 @@ const BACK_GROUP = 8;
  * whole group in one pass, so the reflectors are streamed from memory m / 8 times instead of m times.
  * The same operations in the same order per vector as `backTransform`. Charged 2 n^2 per vector.
  */
-export function backTransformAll(r: TridiagonalReduction, vectors: Float64Array, m: number, budget?: Budget): void {
+export function backTransformInterleaved(r: TridiagonalReduction, vectors: Float64Array, m: number, budget?: Budget): void {
   const { n, v, beta } = r;
   const G = BACK_GROUP;
   const Y = new Float64Array(n * G);
