@@ -5,7 +5,7 @@
 //   node scripts/bench-ab.mjs OLD_CHECKOUT NEW_CHECKOUT [--blocks 15] [--block-ms 20] [--warmup-ms 500] [--jobs a,b] [--json OUT]
 //
 // Jobs (by name; default all): box-200 and box-1000 (the sine transform of the packet of bench/suite.ts
-// item 1, 2^12 and 2^14 samples), quartic-10 and quartic-50 (potentialBasis of p^2 + x^4 on [-7, 7] at
+// item 1, 2^12 and 2^14 samples), transform-N (its scaling table, N = 1,024 ... 262,144 samples), quartic-K, K = 10, 20, 50, 100 (potentialBasis of p^2 + x^4 on [-7, 7] at
 // 1e-9, item 4), and for every example both checkouts have, `analyse` cold (memo of solved bases
 // emptied before each call) and warm (item 6). Each job is warmed up untimed for --warmup-ms on each
 // side, then each block runs it a whole number of times for about --block-ms and records the time
@@ -72,8 +72,14 @@ function jobsFor(dirs) {
   const large = packetSamples(14);
   jobs.set('box-200', (e) => () => e.boxCoefficientsFromSamples(small.re, small.im, 0, 1, 200));
   jobs.set('box-1000', (e) => () => e.boxCoefficientsFromSamples(large.re, large.im, 0, 1, 1000));
+  // The suite's scaling table of item 1: min(1000, N - 1) coefficients from N + 1 samples.
+  for (const log2N of [10, 12, 14, 16, 18]) {
+    const s = log2N === 12 ? small : log2N === 14 ? large : packetSamples(log2N);
+    const count = Math.min(1000, (1 << log2N) - 1);
+    jobs.set(`transform-${1 << log2N}`, (e) => () => e.boxCoefficientsFromSamples(s.re, s.im, 0, 1, count));
+  }
   const quartic = (xs) => xs.map((x) => x ** 4);
-  for (const k of [10, 50]) jobs.set(`quartic-${k}`, (e) => () => e.potentialBasis(quartic, -7, 7, 0.5, k, { tolerance: 1e-9 }));
+  for (const k of [10, 20, 50, 100]) jobs.set(`quartic-${k}`, (e) => () => e.potentialBasis(quartic, -7, 7, 0.5, k, { tolerance: 1e-9 }));
   const lists = dirs.map((d) => readdirSync(join(d, 'examples')).filter((f) => f.endsWith('.qstate')));
   for (const name of lists[0].filter((f) => lists[1].includes(f)).sort()) {
     const text = readFileSync(join(dirs[1], 'examples', name), 'utf8');
@@ -83,7 +89,9 @@ function jobsFor(dirs) {
       e.clearBasisMemo();
       return e.analyse(text);
     });
-    jobs.set(`${base} warm`, (e) => () => e.analyse(text));
+    // Warm as the suite's item 6 times it: the file after an edit that leaves the system alone.
+    let edit = 0;
+    jobs.set(`${base} warm`, (e) => () => e.analyse(`${text}\n# edit ${edit++}\n`));
   }
   return jobs;
 }
