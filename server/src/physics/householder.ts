@@ -177,7 +177,15 @@ export function reflector(A: Float64Array, n: number, k: number, v: Float64Array
 /** p = S x for the trailing block S = A[from.., from..] (lower triangle), into p. */
 function symv(A: Float64Array, n: number, from: number, x: Float64Array, p: Float64Array): void {
   for (let i = from; i < n; i++) p[i] = 0;
-  for (let i = from; i < n; i++) {
+  symvRows(A, n, from, from, x, p);
+}
+
+/**
+ * Adds rows `first` .. n-1 of S x to p, S = A[from.., from..] (lower triangle): each row's entries left
+ * of the diagonal serve both p[i] (the row) and p[j] (the mirrored column).
+ */
+export function symvRows(A: Float64Array, n: number, from: number, first: number, x: Float64Array, p: Float64Array): void {
+  for (let i = first; i < n; i++) {
     const row = i * n;
     const xi = x[i];
     let s = 0;

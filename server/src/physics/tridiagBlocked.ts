@@ -20,7 +20,7 @@
  * ([W(i, :), V(i, :)]), so an entry of the update is one dot product of a row of U with a row of Z.
  */
 import { charge, type Budget } from './budget';
-import { finishW, reflector } from './householder';
+import { finishW, reflector, symvRows } from './householder';
 import type { TridiagonalReduction } from './tridiag';
 
 /** Columns of the trailing block updated together (a column block of Z: 48 rows x 64 = 24 KiB, within L1). */
@@ -163,17 +163,7 @@ function symv8(A: Float64Array, n: number, from: number, x: Float64Array, q: Flo
     q[i + 7] += s7;
     symvCorner(A, n, i, 8, x, q);
   }
-  for (; i < n; i++) {
-    const row = i * n;
-    const xi = x[i];
-    let s = 0;
-    for (let j = from; j < i; j++) {
-      const a = A[row + j];
-      s += a * x[j];
-      q[j] += a * xi;
-    }
-    q[i] += s + A[row + i] * xi;
-  }
+  symvRows(A, n, from, i, x, q);
 }
 
 /** The w x w diagonal corner of `symv8` at rows and columns i .. i + w - 1. */
